@@ -1,0 +1,24 @@
+// `npm run bench`: prints throughput, latency and memory figures. Targets live in the issues,
+// not in timed tests. Run one part with `npm run bench -- <name>`.
+interface BenchPart {
+  readonly name: string;
+  run(): Promise<void>;
+}
+
+const parts: BenchPart[] = [
+  // Each part registers itself here with one line.
+];
+
+async function main(): Promise<void> {
+  const only = process.argv.slice(2);
+  for (const part of parts) {
+    if (only.length > 0 && !only.includes(part.name)) continue;
+    console.log(`\n== ${part.name} ==`);
+    await part.run();
+  }
+}
+
+main().catch((e: unknown) => {
+  console.error(e);
+  process.exit(1);
+});

@@ -1,0 +1,175 @@
+/**
+ * The shapes every procedure in `stats/` returns, and that `spec/` and `report/` consume.
+ * Types only: no behaviour lives here. Every field is plain data so a result can be
+ * serialised to JSON, sent to the webview, and recorded in a saved test unchanged.
+ */
+
+export type Alternative = 'two-sided' | 'greater' | 'less';
+
+/**
+ * A probability that may be far below the double range.
+ * `value` is the probability as a double (it underflows to 0 below about 1e-308);
+ * `log10` is its base-10 logarithm, always finite for a probability > 0 in exact arithmetic
+ * (for example -437.2 for the upper tail at x = 2000, df = 1).
+ */
+export interface Probability {
+  readonly value: number;
+  readonly log10: number;
+}
+
+/** A confidence interval or a one-sided bound (one side infinite). */
+export interface Interval {
+  readonly lower: number;
+  readonly upper: number;
+  /** Confidence level, e.g. 0.95. */
+  readonly level: number;
+  /** What the interval is for, e.g. "σ²", "σ", "odds ratio". */
+  readonly parameter: string;
+  /** The method, e.g. "equal-tail chi-square", "Bonett (2006)", "Woolf (log)". */
+  readonly method: string;
+}
+
+/** A named estimate: an effect size, an odds ratio, a sample variance, … */
+export interface Estimate {
+  /** Stable identifier for machine output, e.g. "cramersV", "oddsRatio". */
+  readonly id: string;
+  /** Label for people, e.g. "Cramér's V". */
+  readonly name: string;
+  readonly value: number;
+  readonly interval?: Interval;
+  readonly note?: string;
+}
+
+export type NoticeSeverity = 'info' | 'warning';
+
+/** Something the reader must know: a rescaling done, a small expected count, a dropped row. */
+export interface Notice {
+  /** Stable identifier, e.g. "small-expected", "rescaled-expected", "dropped-empty-row". */
+  readonly code: string;
+  readonly severity: NoticeSeverity;
+  readonly message: string;
+}
+
+export type AssumptionStatus = 'met' | 'failed' | 'unchecked';
+
+export interface Assumption {
+  /** Stable identifier, e.g. "independence", "expected-counts", "normality", "sampling-design". */
+  readonly id: string;
+  readonly title: string;
+  readonly status: AssumptionStatus;
+  /** Two or three sentences a practitioner can read. */
+  readonly explanation: string;
+  /** What to use instead when it fails, e.g. "Fisher's exact test", "Bonett's interval". */
+  readonly alternative?: string;
+}
+
+/** An additional statistic computed on the same data (G², Yates-corrected X², Fisher's exact, Monte Carlo…). */
+export interface StatisticLine {
+  readonly id: string;
+  readonly name: string;
+  /** Symbol shown in reports, e.g. "X²", "G²", "χ²", "z". */
+  readonly symbol: string;
+  /** NaN where the method has no statistic (Fisher's exact test). */
+  readonly statistic: number;
+  readonly df: number | null;
+  readonly pValue: Probability;
+  readonly note?: string;
+  /** Monte Carlo standard error of the p-value, where it applies. */
+  readonly standardError?: number;
+}
+
+/** One category of a goodness-of-fit test. */
+export interface CategoryRow {
+  readonly label: string;
+  readonly observed: number;
+  readonly expected: number;
+  readonly pearsonResidual: number;
+  readonly standardizedResidual: number;
+  readonly contribution: number;
+}
+
+/** An r×c table with everything computed per cell. */
+export interface CellGrid {
+  readonly rowLabels: readonly string[];
+  readonly columnLabels: readonly string[];
+  readonly observed: readonly (readonly number[])[];
+  readonly expected: readonly (readonly number[])[];
+  readonly pearsonResiduals: readonly (readonly number[])[];
+  readonly adjustedResiduals: readonly (readonly number[])[];
+  readonly contributions: readonly (readonly number[])[];
+  readonly rowTotals: readonly number[];
+  readonly columnTotals: readonly number[];
+  readonly total: number;
+}
+
+/** The reference distribution of the main statistic, for plots and critical values. */
+export type ReferenceDistribution =
+  | { readonly kind: 'chi-square'; readonly df: number }
+  | { readonly kind: 'normal' }
+  | { readonly kind: 'none' };
+
+/** Result of a hypothesis test. */
+export interface TestResult {
+  readonly kind: 'test';
+  /** The spec's test name: "variance", "goodness-of-fit", "independence", "paired", "stratified", "trend", … */
+  readonly test: string;
+  /** Human title, e.g. "Pearson chi-square test of independence". */
+  readonly procedure: string;
+  readonly statisticSymbol: string;
+  readonly statistic: number;
+  readonly df: number | null;
+  /** Sample size (total count, or number of values). */
+  readonly n: number | null;
+  readonly pValue: Probability;
+  readonly alternative: Alternative | null;
+  readonly reference: ReferenceDistribution;
+  readonly alpha: number;
+  /** pValue < alpha. */
+  readonly significant: boolean;
+  /** One sentence in plain words. */
+  readonly conclusion: string;
+  readonly otherStatistics: readonly StatisticLine[];
+  readonly effectSizes: readonly Estimate[];
+  readonly estimates: readonly Estimate[];
+  /** The main interval (for the variance test: σ² at the chosen confidence). */
+  readonly confidenceInterval?: Interval;
+  readonly categories?: readonly CategoryRow[];
+  readonly grid?: CellGrid;
+  readonly notices: readonly Notice[];
+  readonly assumptions: readonly Assumption[];
+  /** Procedure-specific extras for machine output (named fields, plain JSON). */
+  readonly details?: Readonly<Record<string, unknown>>;
+}
+
+/** Result of a distribution query. */
+export interface DistributionResult {
+  readonly kind: 'distribution';
+  readonly test: 'distribution';
+  readonly df: number;
+  readonly noncentrality: number;
+  /** For each x asked: lower and upper tail probabilities and density. */
+  readonly points: readonly { readonly x: number; readonly lower: Probability; readonly upper: Probability; readonly density: number }[];
+  /** For each p asked: critical values. `lower` has P(X ≤ c) = p, `upper` has P(X > c) = p, two-sided splits p in halves. */
+  readonly critical: readonly { readonly p: number; readonly lower: number; readonly upper: number; readonly twoSided: { readonly lower: number; readonly upper: number } }[];
+  readonly notices: readonly Notice[];
+}
+
+/** Result of a power or sample-size question. */
+export interface PowerResult {
+  readonly kind: 'power';
+  readonly test: 'power';
+  /** Which test the power is for: "goodness-of-fit", "independence", "variance". */
+  readonly target: string;
+  readonly effectSize: { readonly id: string; readonly name: string; readonly value: number };
+  readonly df: number;
+  readonly alpha: number;
+  readonly n: number;
+  readonly power: number;
+  /** Whether n was solved for (given power) or power computed (given n). */
+  readonly solvedFor: 'n' | 'power';
+  readonly curve: readonly { readonly n: number; readonly power: number }[];
+  readonly notices: readonly Notice[];
+  readonly details?: Readonly<Record<string, unknown>>;
+}
+
+export type Result = TestResult | DistributionResult | PowerResult;
