@@ -1,0 +1,146 @@
+/**
+ * Messages between the extension host and the results panel's webview. Both sides import this file,
+ * so a message that one side sends and the other does not understand is a compile error.
+ * Everything here is plain JSON: it crosses `postMessage` and is stored by the panel serializer.
+ */
+import type { Result } from './stats/result';
+
+/** One point of a plot, in data units (the webview maps them to pixels). */
+export interface PlotPoint {
+  readonly x: number;
+  readonly y: number;
+}
+
+/** Density of the reference distribution with the observed statistic and the tested tail shaded. */
+export interface DensityPlot {
+  readonly kind: 'density';
+  readonly title: string;
+  readonly xLabel: string;
+  readonly xMin: number;
+  readonly xMax: number;
+  readonly yMax: number;
+  /** The density curve, left to right. */
+  readonly curve: readonly PlotPoint[];
+  /** Closed polygons (each starts and ends on y = 0) covering the tail(s) the p-value counts. */
+  readonly shaded: readonly (readonly PlotPoint[])[];
+  /** The observed statistic, clamped into [xMin, xMax]; `clipped` when the real value lies beyond xMax. */
+  readonly observed: { readonly x: number; readonly label: string; readonly clipped: boolean };
+  /** Critical value(s) at α, for a dashed marker. */
+  readonly critical: readonly number[];
+  readonly ticks: readonly number[];
+}
+
+/** Observed against expected counts per category (goodness of fit). */
+export interface BarsPlot {
+  readonly kind: 'bars';
+  readonly title: string;
+  readonly yMax: number;
+  readonly ticks: readonly number[];
+  readonly bars: readonly { readonly label: string; readonly observed: number; readonly expected: number; readonly residual: number }[];
+}
+
+/** Shading level of one cell: the sign of the adjusted residual and a magnitude band 0–3. */
+export interface ResidualShade {
+  readonly sign: 'above' | 'below' | 'none';
+  /** 0: |r| < 1.96, 1: < 2.58, 2: < 3.29, 3: beyond (two-sided 5 %, 1 %, 0.1 % normal points). */
+  readonly level: 0 | 1 | 2 | 3;
+  /** Opacity 0–1 to mix the theme colour with, growing with |r| and capped. */
+  readonly strength: number;
+}
+
+/** r×c grid of adjusted residuals. */
+export interface ResidualGridPlot {
+  readonly kind: 'residual-grid';
+  readonly title: string;
+  readonly rowLabels: readonly string[];
+  readonly columnLabels: readonly string[];
+  readonly residuals: readonly (readonly number[])[];
+  readonly shades: readonly (readonly ResidualShade[])[];
+}
+
+/** Confidence interval for σ (or σ²) against the hypothesised value. */
+export interface IntervalPlot {
+  readonly kind: 'interval';
+  readonly title: string;
+  readonly parameter: string;
+  readonly xMin: number;
+  readonly xMax: number;
+  readonly lower: number;
+  readonly upper: number;
+  /** Point estimate (sample s or s²). */
+  readonly estimate: number;
+  /** Hypothesised value (σ0 or σ0²). */
+  readonly reference: number;
+  readonly referenceInside: boolean;
+  readonly level: number;
+  readonly ticks: readonly number[];
+}
+
+export type Plot = DensityPlot | BarsPlot | ResidualGridPlot | IntervalPlot;
+
+/** The table of the panel, with every number already formatted by the host. */
+export interface ResultTableRow {
+  readonly label: string;
+  readonly cells: readonly { readonly text: string; readonly residual?: number; readonly shade?: ResidualShade; readonly signText?: string }[];
+}
+
+export interface ResultTable {
+  readonly caption: string;
+  readonly header: readonly string[];
+  readonly rows: readonly ResultTableRow[];
+}
+
+export interface PanelStrings {
+  readonly [key: string]: string;
+}
+
+/** Everything the panel shows. Computed in the host; the webview only renders it. */
+export interface PanelPayload {
+  readonly id: string;
+  readonly title: string;
+  readonly sourceDescription: string;
+  readonly headline: string;
+  readonly apaLine: string;
+  readonly significant: boolean | null;
+  readonly keyFigures: readonly { readonly label: string; readonly value: string }[];
+  readonly tables: readonly ResultTable[];
+  readonly plots: readonly Plot[];
+  readonly assumptions: readonly { readonly id: string; readonly title: string; readonly status: 'met' | 'failed' | 'unchecked'; readonly explanation: string; readonly alternative?: string }[];
+  readonly notices: readonly { readonly severity: 'info' | 'warning'; readonly message: string }[];
+  readonly otherStatistics: readonly { readonly name: string; readonly value: string }[];
+  readonly caution: string;
+  /** Plain text and markdown, produced by src/report (not by the webview). */
+  readonly text: string;
+  readonly markdown: string;
+  /** The raw result, for "save as spec" and for tests. */
+  readonly result: Result;
+  /** Whether the spec behind this result can be saved and re-run. */
+  readonly canSave: boolean;
+  readonly canRerun: boolean;
+  readonly strings: PanelStrings;
+  /** ISO time the result was computed. */
+  readonly computedAt: string;
+}
+
+export type HostToWebview =
+  | { readonly type: 'show'; readonly payload: PanelPayload }
+  | { readonly type: 'status'; readonly text: string; readonly level: 'info' | 'error' }
+  | { readonly type: 'busy'; readonly busy: boolean };
+
+export type PanelAction = 'copy-text' | 'copy-markdown' | 'insert' | 'save-spec' | 'rerun';
+
+export type WebviewToHost =
+  | { readonly type: 'ready' }
+  | { readonly type: 'action'; readonly action: PanelAction };
+
+/** What the serializer stores for a panel (vscode.setState in the webview). */
+export interface PanelState {
+  readonly payload: PanelPayload;
+}
+
+export function isWebviewToHost(value: unknown): value is WebviewToHost {
+  if (typeof value !== 'object' || value === null) return false;
+  const m = value as { type?: unknown; action?: unknown };
+  if (m.type === 'ready') return true;
+  return m.type === 'action' && ['copy-text', 'copy-markdown', 'insert', 'save-spec', 'rerun'].includes(m.action as string);
+}
