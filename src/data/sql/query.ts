@@ -1,0 +1,403 @@
+/**
+ * SQL generation for sources that count on the server. Pure: a spec's SQL source and an
+ * AggregateRequest in, statement text and parameter values out; aggregate rows in, Aggregate out.
+ *
+ * What reaches the server:
+ *  - identifiers (schema, table, columns) are always double-quoted, exactly as written (no case
+ *    folding), so a column name can never become SQL;
+ *  - values are never interpolated: `parameters` from the spec travel as bind parameters;
+ *  - the user's own SQL (a `where` condition, a saved SELECT) is checked with a lexer before
+ *    anything is sent (no `;`, balanced parentheses, a SELECT and nothing else) and then wrapped,
+ *    so it cannot end the statement we build around it; the client also sends every statement
+ *    through the extended protocol, which the server accepts only as one single statement, inside
+ *    a READ ONLY transaction with a statement timeout.
+ *  - the aggregation is ours: GROUP BY with count(*) or sum(weight) for counts; count, avg and
+ *    var_samp (plus two-pass third and fourth central moments) for a numeric column. Never Σx, Σx².
+ */
+import { InputError, type InputLocation } from '../../errors';
+import type { Aggregate, AggregateRequest, Provenance } from '../types';
+import { describePosition, tokenizeSql, type SqlToken } from './lexer';
+
+/** The `"sql"` member of a spec's source. */
+export interface SqlSourceSpec {
+  /** Name of a configured connection (settings `countercheck.connections` or an environment variable). */
+  readonly connection: string;
+  /** `schema.table` or `table`; exact names (no case folding); double-quote a part that contains a dot. */
+  readonly table?: string;
+  /** A SELECT of the user's own, run as a subquery. */
+  readonly query?: string;
+}
+
+/** A spec's SQL source with the members that shape the aggregation. */
+export interface SqlSource {
+  readonly sql: SqlSourceSpec;
+  /** Extra filter, user SQL: an expression over the source's columns. */
+  readonly where?: string;
+  /** Bind parameters referenced as $1, $2, … in `where` or `query`. */
+  readonly parameters?: readonly (string | number | boolean | null)[];
+  /** Free note recorded with the result ("nightly snapshot of 2026-11-30"). */
+  readonly asOf?: string;
+}
+
+export type MissingPolicy = 'drop' | 'category';
+
+export interface SqlAggregateOptions {
+  /** Missing values: drop the record (default) or count it as its own category. */
+  readonly missing?: MissingPolicy;
+  /** Text values treated as missing in category columns (besides NULL), compared after trimming. */
+  readonly missingValues?: readonly string[];
+  /** Label of the missing category when `missing` is "category". */
+  readonly missingLabel?: string;
+  /** Fold category labels to lower case. */
+  readonly caseFold?: boolean;
+  /** Also compute the third and fourth central moments (a second pass over the data). Default true. */
+  readonly higherMoments?: boolean;
+}
+
+/** Defaults shared with the file readers (issue of data intake: empty, NA, NaN, null, -). */
+export const defaultMissingValues: readonly string[] = ['', 'NA', 'NaN', 'null', '-'];
+export const defaultMissingLabel = '(missing)';
+
+const sqlLocation: InputLocation = { jsonPath: '$.source.sql' };
+
+/** `"name"` with embedded quotes doubled. */
+export function quoteIdentifier(name: string, location: InputLocation = sqlLocation): string {
+  if (name.length === 0) throw new InputError('an empty name cannot be a SQL identifier', location, 'sql-identifier');
+  if (name.includes('\u0000')) throw new InputError(`the name ${JSON.stringify(name)} contains a NUL character`, location, 'sql-identifier');
+  return `"${name.replace(/"/g, '""')}"`;
+}
+
+/**
+ * Splits `schema.table` into its parts. Parts are exact names; a part written in double quotes
+ * may contain dots ("sales"."q3.orders"). One or two parts.
+ */
+export function parseTableName(table: string): readonly string[] {
+  const location: InputLocation = { jsonPath: '$.source.sql.table' };
+  const parts: string[] = [];
+  let i = 0;
+  const bad = (why: string): never => {
+    throw new InputError(`table ${JSON.stringify(table)}: ${why}; expected "schema.table" or "table"`, location, 'sql-table-name');
+  };
+  while (i <= table.length) {
+    let part = '';
+    if (table[i] === '"') {
+      i++;
+      for (;;) {
+        if (i >= table.length) bad('a double quote is never closed');
+        if (table[i] === '"') {
+          if (table[i + 1] === '"') {
+            part += '"';
+            i += 2;
+          } else break;
+        } else part += table[i++];
+      }
+      i++;
+      if (i < table.length && table[i] !== '.') bad(`unexpected text after a quoted name at character ${i + 1}`);
+    } else {
+      const dot = table.indexOf('.', i);
+      const end = dot < 0 ? table.length : dot;
+      part = table.slice(i, end).trim();
+      if (part.includes('"')) bad('a double quote inside a name must enclose the whole part');
+      i = end;
+    }
+    if (part.length === 0) bad('a part of the name is empty');
+    parts.push(part);
+    if (i >= table.length) break;
+    i++; // the dot
+    if (i === table.length) bad('the name ends with a dot');
+  }
+  if (parts.length > 2) bad(`${parts.length} dot-separated parts`);
+  return parts;
+}
+
+/** Checks a `where` condition: one expression, nothing that could close the statement around it. */
+export function checkWhereCondition(where: string): readonly SqlToken[] {
+  const location: InputLocation = { jsonPath: '$.source.where' };
+  const what = 'the `where` condition';
+  const tokens = tokenizeSql(where, what, location);
+  if (tokens.length === 0) throw new InputError(`${what} is empty; leave it out to use every row`, location, 'sql-where-empty');
+  checkStructure(where, tokens, what, location, false);
+  return tokens;
+}
+
+/** Words that make a statement write or create something; refused anywhere in a saved query. */
+const writingWords = new Set(['insert', 'update', 'delete', 'merge', 'into', 'truncate', 'copy', 'create', 'drop', 'alter', 'grant', 'revoke', 'call']);
+const selectStarts = new Set(['select', 'with', 'values', 'table']);
+
+/**
+ * Checks a user's query: a single SELECT (or WITH … SELECT, VALUES, TABLE). Returns the text to
+ * wrap as a subquery, without a final semicolon. Refuses before anything is sent.
+ */
+export function checkSelectQuery(query: string): string {
+  const location: InputLocation = { jsonPath: '$.source.sql.query' };
+  const what = 'the query';
+  let tokens = tokenizeSql(query, what, location);
+  let text = query;
+  const last = tokens[tokens.length - 1];
+  if (last && last.text === ';') {
+    text = query.slice(0, last.offset);
+    tokens = tokens.slice(0, -1);
+  }
+  const first = tokens.find((t) => t.text !== '(');
+  if (!first) throw new InputError(`${what} is empty`, location, 'sql-query-empty');
+  if (first.kind !== 'word' || !selectStarts.has(first.text.toLowerCase())) {
+    throw new InputError(
+      `${what} must be a single SELECT; it starts with \`${first.text}\` (${describePosition(query, first.offset)}) and was not sent`,
+      location,
+      'sql-not-select',
+    );
+  }
+  checkStructure(query, tokens, what, location, true);
+  return text;
+}
+
+function checkStructure(text: string, tokens: readonly SqlToken[], what: string, location: InputLocation, refuseWriting: boolean): void {
+  let depth = 0;
+  for (const t of tokens) {
+    if (t.text === ';') {
+      throw new InputError(`${what} holds a \`;\` at ${describePosition(text, t.offset)}: only one statement is allowed, and nothing was sent`, location, 'sql-multiple-statements');
+    }
+    if (t.text === '(') depth++;
+    if (t.text === ')') {
+      depth--;
+      if (depth < 0) {
+        throw new InputError(`${what} closes a parenthesis it never opened at ${describePosition(text, t.offset)}`, location, 'sql-parentheses');
+      }
+    }
+    if (refuseWriting && t.kind === 'word' && writingWords.has(t.text.toLowerCase())) {
+      throw new InputError(
+        `${what} must only read: \`${t.text}\` at ${describePosition(text, t.offset)} would write or lock, so the query was not sent (write a column of that name in double quotes)`,
+        location,
+        'sql-not-select',
+      );
+    }
+  }
+  if (depth > 0) throw new InputError(`${what} leaves ${depth} parenthes${depth === 1 ? 'is' : 'es'} open`, location, 'sql-parentheses');
+}
+
+/** Checks every member of a SQL source that does not need the server. */
+export function checkSqlSource(source: SqlSource): void {
+  const { sql } = source;
+  if (typeof sql.connection !== 'string' || sql.connection.trim() === '') {
+    throw new InputError('a SQL source needs "connection": the name of a configured connection', { jsonPath: '$.source.sql.connection' }, 'sql-connection-missing');
+  }
+  const hasTable = typeof sql.table === 'string';
+  const hasQuery = typeof sql.query === 'string';
+  if (hasTable === hasQuery) {
+    throw new InputError('a SQL source needs exactly one of "table" (schema.table) or "query" (a SELECT)', sqlLocation, 'sql-source-shape');
+  }
+  if (hasTable) parseTableName(sql.table as string);
+  if (hasQuery) checkSelectQuery(sql.query as string);
+  if (source.where !== undefined) checkWhereCondition(source.where);
+  const used = new Set<number>();
+  for (const fragment of [sql.query, source.where]) {
+    if (fragment === undefined) continue;
+    for (const t of tokenizeSql(fragment, 'the SQL')) if (t.kind === 'parameter') used.add(Number(t.text.slice(1)));
+  }
+  const given = source.parameters?.length ?? 0;
+  for (const k of used) {
+    if (k < 1 || k > given) {
+      throw new InputError(`$${k} is used but "parameters" holds ${given} value${given === 1 ? '' : 's'}`, { jsonPath: '$.source.parameters' }, 'sql-parameters');
+    }
+  }
+}
+
+/** The FROM item for the source: a quoted table name or the user's SELECT as a subquery. */
+export function relationOf(source: SqlSource): string {
+  if (source.sql.table !== undefined) return parseTableName(source.sql.table).map((p) => quoteIdentifier(p)).join('.');
+  return `(\n${checkSelectQuery(source.sql.query as string)}\n) AS "countercheck_source"`;
+}
+
+function whereOf(source: SqlSource): string {
+  if (source.where === undefined) return '';
+  checkWhereCondition(source.where);
+  return `\nWHERE (\n${source.where}\n)`;
+}
+
+/** A human name for the source: "public.orders" or "query". */
+export function sourceName(source: SqlSource): string {
+  return source.sql.table !== undefined ? parseTableName(source.sql.table).join('.') : 'query';
+}
+
+/** Statement reading no row: the server describes the source's columns and their types. */
+export function describeStatement(source: SqlSource): string {
+  return `SELECT * FROM ${relationOf(source)} LIMIT 0`;
+}
+
+export interface PlannedQuery {
+  readonly text: string;
+  readonly values: readonly (string | number | boolean | null)[];
+  /** Columns of the source this statement reads, in request order. */
+  readonly columns: readonly string[];
+  /** Which columns must be numeric on the server. */
+  readonly numericColumns: readonly string[];
+}
+
+/** Builds the aggregation statement for a request. */
+export function planAggregate(source: SqlSource, request: AggregateRequest, options: SqlAggregateOptions = {}): PlannedQuery {
+  checkSqlSource(source);
+  const from = `FROM ${relationOf(source)}${whereOf(source)}`;
+  const values = source.parameters ?? [];
+  if (request.kind === 'counted-table') {
+    throw new InputError(
+      'a SQL source counts raw records on the server; for counts already stored in a table give two category columns and "weight"',
+      { jsonPath: '$.source' },
+      'sql-counted-table',
+    );
+  }
+  if (request.kind === 'numeric') {
+    const x = quoteIdentifier(request.column, { column: request.column });
+    // NaN is a missing value, as in the file readers; casting to double precision makes integer,
+    // numeric and real columns behave alike (PostgreSQL's float8 var_samp uses Youngs–Cramer updates).
+    const inner = `SELECT NULLIF((${x})::double precision, 'NaN'::double precision) AS x ${from}`;
+    const first = `SELECT count(*) AS records, count(x) AS n, avg(x) AS mean, var_samp(x) AS variance, min(x) AS min, max(x) AS max FROM (\n${inner}\n) AS v`;
+    const text =
+      options.higherMoments === false
+        ? first
+        : // Second pass: central moments around the mean of the first, summed as deviations (never raw powers of x).
+          `SELECT m.records, m.n, m.mean, m.variance, m.min, m.max,\n` +
+          `  (SELECT sum(d * d * d) FROM (SELECT v.x - m.mean AS d FROM (\n${inner}\n) AS v) AS c) AS m3,\n` +
+          `  (SELECT sum(d * d * d * d) FROM (SELECT v.x - m.mean AS d FROM (\n${inner}\n) AS v) AS c) AS m4\n` +
+          `FROM (${first}) AS m`;
+    return { text, values, columns: [request.column], numericColumns: [request.column] };
+  }
+  const keys = request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
+  const keySql = keys.map((k, i) => `(${quoteIdentifier(k, { column: k })})::text AS k${i}`);
+  const aggregates = ['count(*) AS records'];
+  const numericColumns: string[] = [];
+  if (request.weight !== undefined) {
+    const w = `(${quoteIdentifier(request.weight, { column: request.weight })})::numeric`;
+    aggregates.push(
+      `count(${w}) AS weighted`,
+      `sum(${w}) AS weight`,
+      // Frequency weights must be non-negative integers; counted here so the message can say how many are not.
+      `sum(CASE WHEN ${w} IS NOT NULL AND NOT (${w} >= 0 AND ${w} = trunc(${w})) THEN 1 ELSE 0 END) AS invalid_weights`,
+    );
+    numericColumns.push(request.weight);
+  }
+  const groupBy = keys.map((_, i) => String(i + 1)).join(', ');
+  const text = `SELECT ${[...keySql, ...aggregates].join(', ')}\n${from}\nGROUP BY ${groupBy}`;
+  return { text, values, columns: request.weight !== undefined ? [...keys, request.weight] : keys, numericColumns };
+}
+
+/** A row as the pg client returns it: bigint and numeric arrive as strings, double precision as numbers. */
+export type AggregateRow = Readonly<Record<string, unknown>>;
+
+function toCount(value: unknown, what: string): number {
+  if (value === null || value === undefined) return 0;
+  const n = typeof value === 'number' ? value : Number(value);
+  if (!Number.isSafeInteger(n) || n < 0) {
+    throw new InputError(`the server returned ${String(value)} for ${what}; expected a non-negative integer below 2^53`, sqlLocation, 'sql-bad-count');
+  }
+  return n;
+}
+
+function toReal(value: unknown): number {
+  if (value === null || value === undefined) return NaN;
+  return typeof value === 'number' ? value : Number(value);
+}
+
+type Described = Omit<Provenance, 'sha256' | 'description'>;
+
+export type DecodedAggregate =
+  | { readonly kind: 'table'; readonly table: Extract<Aggregate, { kind: 'table' }>['table']; readonly provenance: Described }
+  | { readonly kind: 'categories'; readonly counts: Extract<Aggregate, { kind: 'categories' }>['counts']; readonly provenance: Described }
+  | { readonly kind: 'moments'; readonly moments: Extract<Aggregate, { kind: 'moments' }>['moments']; readonly provenance: Described };
+
+const byCodeUnits = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 0);
+
+/** Turns the aggregate rows of `planAggregate` into the reader's Aggregate (labels sorted). */
+export function decodeAggregate(request: AggregateRequest, rows: readonly AggregateRow[], options: SqlAggregateOptions = {}): DecodedAggregate {
+  if (request.kind === 'counted-table') throw new InputError('a SQL source cannot read an already counted table', sqlLocation, 'sql-counted-table');
+  if (request.kind === 'numeric') {
+    const r = rows[0] ?? {};
+    const records = toCount(r.records, 'the record count');
+    const n = toCount(r.n, 'the count of values');
+    const mean = n > 0 ? toReal(r.mean) : NaN;
+    const variance = toReal(r.variance);
+    return {
+      kind: 'moments',
+      moments: {
+        n,
+        mean,
+        m2: n >= 2 ? variance * (n - 1) : 0,
+        m3: n > 0 ? toReal(r.m3) : 0,
+        m4: n > 0 ? toReal(r.m4) : 0,
+        min: n > 0 ? toReal(r.min) : Infinity,
+        max: n > 0 ? toReal(r.max) : -Infinity,
+      },
+      provenance: { rows: records, dropped: records - n, columns: [request.column] },
+    };
+  }
+  const keyCount = request.kind === 'crosstab' ? 2 : 1;
+  const missingValues = new Set((options.missingValues ?? defaultMissingValues).map((m) => m.trim()));
+  const missingLabel = options.missingLabel ?? defaultMissingLabel;
+  const dropMissing = (options.missing ?? 'drop') === 'drop';
+  const weighted = request.weight !== undefined;
+  const normalise = (raw: unknown): string | undefined => {
+    if (raw === null || raw === undefined) return dropMissing ? undefined : missingLabel;
+    const trimmed = String(raw).trim();
+    if (missingValues.has(trimmed)) return dropMissing ? undefined : missingLabel;
+    return options.caseFold ? trimmed.toLowerCase() : trimmed;
+  };
+  let records = 0;
+  let dropped = 0;
+  let invalidWeights = 0;
+  const cells = new Map<string, number>();
+  const levels: Set<string>[] = [new Set(), new Set()];
+  for (const row of rows) {
+    const n = toCount(row.records, 'a group count');
+    records += n;
+    const labels = [normalise(row.k0), keyCount === 2 ? normalise(row.k1) : ''];
+    if (labels.some((l) => l === undefined)) {
+      dropped += n;
+      continue;
+    }
+    let count = n;
+    if (weighted) {
+      const withWeight = toCount(row.weighted, 'a count of weights');
+      invalidWeights += toCount(row.invalid_weights, 'a count of invalid weights');
+      dropped += n - withWeight;
+      if (withWeight === 0) continue;
+      count = toReal(row.weight);
+      if (!Number.isFinite(count)) {
+        throw new InputError(`column \`${request.weight}\`: the weights sum to ${String(row.weight)}; expected finite frequency weights`, { column: request.weight }, 'non-integer-weight');
+      }
+    }
+    const key = JSON.stringify(labels);
+    cells.set(key, (cells.get(key) ?? 0) + count);
+    levels[0].add(labels[0] as string);
+    levels[1].add(labels[1] as string);
+  }
+  if (invalidWeights > 0) {
+    throw new InputError(
+      `column \`${request.weight}\`: ${invalidWeights} record${invalidWeights === 1 ? ' has a weight that is' : 's have weights that are'} not a non-negative integer; count tests need frequency weights`,
+      { column: request.weight },
+      'non-integer-weight',
+    );
+  }
+  const columns = weighted ? [...(request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column]), request.weight as string] : request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
+  const provenance: Described = { rows: records, dropped, columns };
+  const rowLabels = [...levels[0]].sort(byCodeUnits);
+  if (request.kind === 'categories') {
+    return { kind: 'categories', counts: { labels: rowLabels, counts: rowLabels.map((l) => cells.get(JSON.stringify([l, ''])) ?? 0) }, provenance };
+  }
+  const columnLabels = [...levels[1]].sort(byCodeUnits);
+  const counts = rowLabels.map((r) => columnLabels.map((c) => cells.get(JSON.stringify([r, c])) ?? 0));
+  return { kind: 'table', table: { rowLabels, columnLabels, counts }, provenance };
+}
+
+/**
+ * Canonical text of an aggregate, hashed as the SQL source's fingerprint: labels, counts, row and
+ * dropped counts exactly; moments to 12 significant digits, because a parallel plan may combine
+ * partial sums in a different order from one run to the next.
+ */
+export function canonicalAggregate(decoded: DecodedAggregate): string {
+  const p = decoded.provenance;
+  const head = { rows: p.rows, dropped: p.dropped, columns: p.columns };
+  if (decoded.kind === 'table') return JSON.stringify({ kind: 'table', ...head, ...decoded.table });
+  if (decoded.kind === 'categories') return JSON.stringify({ kind: 'categories', ...head, ...decoded.counts });
+  const m = decoded.moments;
+  const r = (x: number): string => (Number.isFinite(x) ? x.toPrecision(12) : String(x));
+  return JSON.stringify({ kind: 'moments', ...head, n: m.n, mean: r(m.mean), m2: r(m.m2), min: r(m.min), max: r(m.max) });
+}
