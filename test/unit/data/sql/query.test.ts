@@ -1,0 +1,253 @@
+// Query generation for the SQL source: what is sent, what is refused before sending, and how the
+// aggregate rows the server returns become the reader's Aggregate. No server here (see test/pg/).
+import { strict as assert } from 'node:assert';
+import { InputError } from '../../../../src/errors';
+import {
+  canonicalAggregate,
+  checkSelectQuery,
+  checkSqlSource,
+  checkWhereCondition,
+  decodeAggregate,
+  describeStatement,
+  parseTableName,
+  planAggregate,
+  quoteIdentifier,
+  type SqlSource,
+} from '../../../../src/data/sql/query';
+import { tokenizeSql } from '../../../../src/data/sql/lexer';
+
+function refuses(f: () => unknown, code: string, pattern: RegExp): void {
+  assert.throws(f, (e: unknown) => {
+    assert.ok(e instanceof InputError, `expected InputError, got ${String(e)}`);
+    assert.equal(e.code, code, e.message);
+    assert.match(e.message, pattern);
+    return true;
+  });
+}
+
+const table: SqlSource = { sql: { connection: 'bakery', table: 'public.defects' } };
+
+describe('SQL identifiers', () => {
+  it('quotes names exactly and doubles embedded quotes', () => {
+    assert.equal(quoteIdentifier('shift'), '"shift"');
+    assert.equal(quoteIdentifier('Oven "B"'), '"Oven ""B"""');
+    assert.equal(quoteIdentifier('x"; DROP TABLE t; --'), '"x""; DROP TABLE t; --"');
+  });
+
+  it('refuses an empty name and a NUL character', () => {
+    refuses(() => quoteIdentifier(''), 'sql-identifier', /empty/);
+    refuses(() => quoteIdentifier('a\u0000b'), 'sql-identifier', /NUL/);
+  });
+
+  it('splits schema.table, keeping quoted parts with dots whole', () => {
+    assert.deepEqual(parseTableName('public.defects'), ['public', 'defects']);
+    assert.deepEqual(parseTableName('defects'), ['defects']);
+    assert.deepEqual(parseTableName('"sales"."q3.orders"'), ['sales', 'q3.orders']);
+    assert.deepEqual(parseTableName('Sales."Orders ""2026"""'), ['Sales', 'Orders "2026"']);
+  });
+
+  it('refuses malformed table names with the reason', () => {
+    refuses(() => parseTableName('a.b.c'), 'sql-table-name', /3 dot-separated parts/);
+    refuses(() => parseTableName('a.'), 'sql-table-name', /ends with a dot/);
+    refuses(() => parseTableName('.b'), 'sql-table-name', /empty/);
+    refuses(() => parseTableName('"open.b'), 'sql-table-name', /never closed/);
+    refuses(() => parseTableName('a"b'), 'sql-table-name', /whole part/);
+  });
+});
+
+describe('the where condition', () => {
+  it('accepts expressions, subqueries, strings and comments holding ; and parentheses', () => {
+    for (const ok of [
+      "shift = 'night'",
+      "note <> ';' AND note <> ')'",
+      "label = E'it\\'s; fine'",
+      'label = $$a;b)$$ OR label = $tag$x;$tag$',
+      'oven IN (SELECT oven FROM ovens WHERE active)',
+      'weight > 0 -- trailing comment; with a semicolon',
+      'weight > 0 /* a ; comment /* nested ) */ */',
+      '"odd;name" > 1',
+    ]) {
+      assert.doesNotThrow(() => checkWhereCondition(ok), ok);
+    }
+  });
+
+  it('refuses a second statement', () => {
+    refuses(() => checkWhereCondition("shift = 'a'; DELETE FROM defects"), 'sql-multiple-statements', /`;` at line 1, column 12.*nothing was sent/);
+  });
+
+  it('refuses a parenthesis that would close the wrapper', () => {
+    refuses(() => checkWhereCondition('1 = 1) OR (true'), 'sql-parentheses', /closes a parenthesis it never opened at line 1, column 6/);
+    refuses(() => checkWhereCondition('(1 = 1'), 'sql-parentheses', /leaves 1 parenthesis open/);
+  });
+
+  it('refuses unterminated literals and comments', () => {
+    refuses(() => checkWhereCondition("shift = 'a"), 'sql-unterminated', /string literal starting at line 1, column 9 is never closed/);
+    refuses(() => checkWhereCondition('x > 1 /* open'), 'sql-unterminated', /comment/);
+    refuses(() => checkWhereCondition('x = $q$abc'), 'sql-unterminated', /dollar-quoted/);
+    refuses(() => checkWhereCondition('"x = 1'), 'sql-unterminated', /quoted identifier/);
+  });
+
+  it('refuses an empty condition', () => {
+    refuses(() => checkWhereCondition('  -- nothing'), 'sql-where-empty', /empty/);
+  });
+});
+
+describe('the user query', () => {
+  it('accepts SELECT, WITH … SELECT, VALUES and a final semicolon', () => {
+    assert.equal(checkSelectQuery('SELECT * FROM defects;'), 'SELECT * FROM defects');
+    assert.doesNotThrow(() => checkSelectQuery('with d as (select * from defects) select * from d'));
+    assert.doesNotThrow(() => checkSelectQuery('(SELECT 1 AS a) UNION ALL (SELECT 2)'));
+    assert.doesNotThrow(() => checkSelectQuery("VALUES ('a', 1), ('b', 2)"));
+    assert.doesNotThrow(() => checkSelectQuery('SELECT "update", "into" FROM defects'));
+  });
+
+  it('refuses statements that are not a SELECT before sending', () => {
+    refuses(() => checkSelectQuery('DELETE FROM defects'), 'sql-not-select', /starts with `DELETE`.*not sent/);
+    refuses(() => checkSelectQuery('  /* hi */ update defects set x = 1'), 'sql-not-select', /starts with `update` \(line 1, column 12\)/);
+    refuses(() => checkSelectQuery('SET statement_timeout = 0'), 'sql-not-select', /SET/);
+  });
+
+  it('refuses writing inside a SELECT: data-modifying WITH, SELECT INTO, FOR UPDATE', () => {
+    refuses(() => checkSelectQuery('WITH gone AS (DELETE FROM defects RETURNING *) SELECT * FROM gone'), 'sql-not-select', /`DELETE` at line 1, column 15/);
+    refuses(() => checkSelectQuery('SELECT * INTO copy FROM defects'), 'sql-not-select', /`INTO`/);
+    refuses(() => checkSelectQuery('SELECT * FROM defects FOR UPDATE'), 'sql-not-select', /`UPDATE`/);
+  });
+
+  it('refuses two statements', () => {
+    refuses(() => checkSelectQuery('SELECT 1; SELECT 2'), 'sql-multiple-statements', /only one statement/);
+  });
+
+  it('refuses an empty query', () => {
+    refuses(() => checkSelectQuery(' ; '), 'sql-query-empty', /empty/);
+  });
+});
+
+describe('the SQL source', () => {
+  it('needs a connection and exactly one of table or query', () => {
+    refuses(() => checkSqlSource({ sql: { connection: '', table: 't' } }), 'sql-connection-missing', /connection/);
+    refuses(() => checkSqlSource({ sql: { connection: 'c' } }), 'sql-source-shape', /exactly one/);
+    refuses(() => checkSqlSource({ sql: { connection: 'c', table: 't', query: 'SELECT 1' } }), 'sql-source-shape', /exactly one/);
+  });
+
+  it('checks that every $n has a parameter', () => {
+    refuses(() => checkSqlSource({ ...table, where: 'shift = $2', parameters: ['night'] }), 'sql-parameters', /\$2 is used but "parameters" holds 1 value/);
+    assert.doesNotThrow(() => checkSqlSource({ ...table, where: 'shift = $1', parameters: ['night'] }));
+  });
+
+  it('describes a source without reading a row', () => {
+    assert.equal(describeStatement(table), 'SELECT * FROM "public"."defects" LIMIT 0');
+    assert.equal(describeStatement({ sql: { connection: 'c', query: 'SELECT 1 AS a;' } }), 'SELECT * FROM (\nSELECT 1 AS a\n) AS "countercheck_source" LIMIT 0');
+  });
+});
+
+describe('generated aggregation', () => {
+  it('cross-tabulates with GROUP BY and count(*), quoting columns', () => {
+    const plan = planAggregate(table, { kind: 'crosstab', rowColumn: 'shift', columnColumn: 'Defect "type"' });
+    assert.equal(
+      plan.text,
+      'SELECT ("shift")::text AS k0, ("Defect ""type""")::text AS k1, count(*) AS records\nFROM "public"."defects"\nGROUP BY 1, 2',
+    );
+    assert.deepEqual(plan.values, []);
+  });
+
+  it('weights with sum(weight) and counts weights that are not frequencies', () => {
+    const plan = planAggregate({ ...table, where: 'oven = $1', parameters: ['B'] }, { kind: 'categories', column: 'shift', weight: 'n' });
+    assert.match(plan.text, /sum\(\("n"\)::numeric\) AS weight/);
+    assert.match(plan.text, /AS invalid_weights/);
+    assert.match(plan.text, /WHERE \(\noven = \$1\n\)\nGROUP BY 1$/);
+    assert.deepEqual(plan.values, ['B']);
+    assert.deepEqual(plan.numericColumns, ['n']);
+  });
+
+  it('computes n, mean and var_samp on the server, never sums of squares', () => {
+    const plan = planAggregate(table, { kind: 'numeric', column: 'weight_g' });
+    assert.match(plan.text, /count\(x\) AS n, avg\(x\) AS mean, var_samp\(x\) AS variance/);
+    assert.match(plan.text, /NULLIF\(\("weight_g"\)::double precision, 'NaN'::double precision\)/);
+    assert.doesNotMatch(plan.text, /x \* x|power\(x|\^ ?2/);
+    assert.match(plan.text, /sum\(d \* d \* d\)/, 'third central moment from deviations');
+    const short = planAggregate(table, { kind: 'numeric', column: 'weight_g' }, { higherMoments: false });
+    assert.doesNotMatch(short.text, /d \* d/);
+  });
+
+  it('wraps a user query as a subquery and the where condition in parentheses', () => {
+    const plan = planAggregate(
+      { sql: { connection: 'c', query: 'SELECT * FROM defects -- all' }, where: "shift = 'night' -- only nights" },
+      { kind: 'categories', column: 'shift' },
+    );
+    assert.equal(
+      plan.text,
+      'SELECT ("shift")::text AS k0, count(*) AS records\nFROM (\nSELECT * FROM defects -- all\n) AS "countercheck_source"\nWHERE (\nshift = \'night\' -- only nights\n)\nGROUP BY 1',
+    );
+  });
+
+  it('refuses an already counted table', () => {
+    refuses(() => planAggregate(table, { kind: 'counted-table' }), 'sql-counted-table', /weight/);
+  });
+});
+
+describe('decoding aggregate rows', () => {
+  const crosstab = { kind: 'crosstab', rowColumn: 'shift', columnColumn: 'defect' } as const;
+
+  it('fills absent cells with zeros, sorts labels and drops missing values with their count', () => {
+    const rows = [
+      { k0: 'night', k1: 'crack', records: '3' },
+      { k0: 'early', k1: 'burn', records: '5' },
+      { k0: 'early', k1: null, records: '2' },
+      { k0: ' early ', k1: 'crack', records: '1' },
+      { k0: 'NA', k1: 'burn', records: '4' },
+    ];
+    const d = decodeAggregate(crosstab, rows);
+    assert.equal(d.kind, 'table');
+    if (d.kind !== 'table') return;
+    assert.deepEqual(d.table, { rowLabels: ['early', 'night'], columnLabels: ['burn', 'crack'], counts: [[5, 1], [0, 3]] });
+    assert.deepEqual(d.provenance, { rows: 15, dropped: 6, columns: ['shift', 'defect'] });
+  });
+
+  it('counts missing values as their own category when asked', () => {
+    const d = decodeAggregate({ kind: 'categories', column: 'defect' }, [
+      { k0: 'burn', records: 2 },
+      { k0: null, records: '3' },
+      { k0: '', records: '1' },
+    ], { missing: 'category', missingLabel: '(none)' });
+    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['(none)', 'burn'], counts: [4, 2] });
+    assert.equal(d.provenance.dropped, 0);
+  });
+
+  it('uses weight sums, drops records without a weight and refuses weights that are not frequencies', () => {
+    const request = { kind: 'categories', column: 'shift', weight: 'n' } as const;
+    const d = decodeAggregate(request, [
+      { k0: 'a', records: '3', weighted: '2', weight: '40', invalid_weights: '0' },
+      { k0: 'b', records: '1', weighted: '0', weight: null, invalid_weights: '0' },
+    ]);
+    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['a'], counts: [40] });
+    assert.deepEqual(d.provenance, { rows: 4, dropped: 2, columns: ['shift', 'n'] });
+    refuses(() => decodeAggregate(request, [{ k0: 'a', records: '3', weighted: '3', weight: '2.5', invalid_weights: '2' }]), 'non-integer-weight', /2 records have weights that are not a non-negative integer/);
+    refuses(() => decodeAggregate(request, [{ k0: 'a', records: '1', weighted: '1', weight: 'NaN', invalid_weights: '0' }]), 'non-integer-weight', /sum to NaN/);
+  });
+
+  it('turns count, avg and var_samp into moments with m2 = s²(n − 1)', () => {
+    const d = decodeAggregate({ kind: 'numeric', column: 'x' }, [{ records: '6', n: '5', mean: 3, variance: 2.5, min: 1, max: 5, m3: 0, m4: 34 }]);
+    assert.deepEqual(d.kind === 'moments' && d.moments, { n: 5, mean: 3, m2: 10, m3: 0, m4: 34, min: 1, max: 5 });
+    assert.deepEqual(d.provenance, { rows: 6, dropped: 1, columns: ['x'] });
+  });
+
+  it('refuses a count the client cannot hold exactly', () => {
+    refuses(() => decodeAggregate({ kind: 'categories', column: 's' }, [{ k0: 'a', records: '9007199254740993' }]), 'sql-bad-count', /below 2\^53/);
+  });
+
+  it('fingerprints counts exactly and moments to 12 digits', () => {
+    const a = decodeAggregate({ kind: 'numeric', column: 'x' }, [{ records: 3, n: 3, mean: 0.1 + 0.2, variance: 1, min: 0, max: 1 }]);
+    const b = decodeAggregate({ kind: 'numeric', column: 'x' }, [{ records: 3, n: 3, mean: 0.3, variance: 1, min: 0, max: 1 }]);
+    assert.equal(canonicalAggregate(a), canonicalAggregate(b));
+    const c = decodeAggregate({ kind: 'categories', column: 's' }, [{ k0: 'a', records: 3 }]);
+    const e = decodeAggregate({ kind: 'categories', column: 's' }, [{ k0: 'a', records: 4 }]);
+    assert.notEqual(canonicalAggregate(c), canonicalAggregate(e));
+  });
+});
+
+describe('the SQL lexer', () => {
+  it('keeps prefixed strings and parameters whole', () => {
+    const kinds = tokenizeSql("U&'d\\0061t' = X'1F' AND a = $12 AND b::text = e'\\''", 'x').map((t) => `${t.kind}:${t.text}`);
+    assert.deepEqual(kinds.filter((k) => k.startsWith('string') || k.startsWith('parameter')), ["string:'d\\0061t'", "string:X'1F'", 'parameter:$12', "string:e'\\''"]);
+  });
+});
