@@ -1,0 +1,132 @@
+/**
+ * Number formatting shared by every report (text, markdown, panel): a `decimals` setting for statistics,
+ * APA-style p-values (no leading zero, "p < .001"), and powers of ten for probabilities far below the
+ * double range, computed from their base-10 logarithm. Pure.
+ */
+import type { Probability } from '../stats/result';
+
+export interface FormatOptions {
+  /** Decimals for statistics, counts that are not whole, and intervals. Default 2. */
+  readonly decimals: number;
+}
+
+export const DEFAULT_FORMAT: FormatOptions = { decimals: 2 };
+
+/** Plain ASCII minus keeps copied text searchable; the times sign and superscript-free exponent stay readable. */
+const TIMES = ' × 10^';
+
+function groupThousands(integerDigits: string): string {
+  return integerDigits.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+}
+
+/**
+ * A number with a fixed number of decimals, thousands separated; values too small to show in that many
+ * decimals switch to scientific notation ("3.2 × 10^-5") rather than printing 0.00.
+ */
+export function formatNumber(x: number, decimals = DEFAULT_FORMAT.decimals): string {
+  if (Number.isNaN(x)) return 'NaN';
+  if (x === Infinity) return '∞';
+  if (x === -Infinity) return '-∞';
+  if (x === 0) return (0).toFixed(decimals);
+  const magnitude = Math.abs(x);
+  if (magnitude < 0.5 * 10 ** -decimals || magnitude >= 1e15) return formatScientific(x, Math.max(2, decimals));
+  const fixed = magnitude.toFixed(decimals);
+  const [whole, fraction] = fixed.split('.');
+  return `${x < 0 ? '-' : ''}${groupThousands(whole)}${fraction !== undefined ? '.' + fraction : ''}`;
+}
+
+/** A count: whole numbers with thousands separators, anything else with decimals. */
+export function formatCount(x: number, decimals = DEFAULT_FORMAT.decimals): string {
+  return Number.isInteger(x) ? `${x < 0 ? '-' : ''}${groupThousands(String(Math.abs(x)))}` : formatNumber(x, decimals);
+}
+
+/** Degrees of freedom: whole numbers as they are, fractional ones with up to the given decimals. */
+export function formatDf(df: number, decimals = DEFAULT_FORMAT.decimals): string {
+  return Number.isInteger(df) ? String(df) : String(Number(df.toFixed(decimals)));
+}
+
+/** "3.2 × 10^-5" with `significant` significant digits. */
+export function formatScientific(x: number, significant = 2): string {
+  if (x === 0 || !Number.isFinite(x)) return formatNumber(x);
+  return `${x < 0 ? '-' : ''}${scientificFromLog10(Math.log10(Math.abs(x)), significant)}`;
+}
+
+/**
+ * The positive number whose base-10 logarithm is `log10`, as "m × 10^e" with `significant` digits in m.
+ * Works for any finite logarithm (10^-3274.3 prints as "5.0 × 10^-3275").
+ */
+export function scientificFromLog10(log10: number, significant = 2): string {
+  if (!Number.isFinite(log10)) return log10 > 0 ? '∞' : '0';
+  let exponent = Math.floor(log10);
+  let mantissa = 10 ** (log10 - exponent);
+  let digits = mantissa.toFixed(Math.max(0, significant - 1));
+  if (Number(digits) >= 10) {
+    exponent += 1;
+    mantissa /= 10;
+    digits = mantissa.toFixed(Math.max(0, significant - 1));
+  }
+  return `${digits}${TIMES}${exponent}`;
+}
+
+/** A probability in decimal form for p ≥ 0.001, otherwise as a power of ten ("0.925", "3.2 × 10^-437"). */
+export function formatProbability(p: Probability, significant = 2): string {
+  if (p.value >= 0.001) return p.value >= 0.9995 && p.value < 1 ? p.value.toFixed(4) : p.value.toFixed(3);
+  if (p.value === 0 && p.log10 === -Infinity) return '0';
+  return scientificFromLog10(Number.isFinite(p.log10) ? p.log10 : Math.log10(p.value), significant);
+}
+
+/** APA style: "p = .925", "p = .049", "p < .001" (three decimals, no leading zero). */
+export function formatPApa(p: Probability): string {
+  if (p.value < 0.001) return 'p < .001';
+  if (p.value > 0.999) return 'p > .999';
+  return `p = ${withoutLeadingZero(p.value.toFixed(3))}`;
+}
+
+/** ".925" for statistics that cannot exceed 1 (APA style). */
+export function withoutLeadingZero(text: string): string {
+  return text.replace(/^(-?)0\./, '$1.');
+}
+
+/** The exact statement for a small p-value: "p ≈ 3.2 × 10^-437"; undefined when APA style says it all. */
+export function formatPExact(p: Probability, significant = 2): string | undefined {
+  if (p.value >= 0.001) return undefined;
+  return `p ≈ ${formatProbability(p, significant)}`;
+}
+
+/** The symbol shown in an APA line: Pearson's X² is written χ² as usual; others stay as given. */
+export function apaSymbol(symbol: string): string {
+  return symbol === 'X²' ? 'χ²' : symbol;
+}
+
+/**
+ * "χ²(3, N = 556) = 0.47, p = .925" — the statistic with df and N, and the APA p-value.
+ * `df` null (a statistic without degrees of freedom, such as z) leaves the parentheses out or keeps N only.
+ */
+export function formatApaLine(symbol: string, statistic: number, df: number | null, n: number | null, p: Probability, format: FormatOptions = DEFAULT_FORMAT): string {
+  const inside = [df !== null ? formatDf(df, format.decimals) : undefined, n !== null ? `N = ${formatCount(n, format.decimals)}` : undefined].filter(Boolean);
+  const head = inside.length > 0 ? `${apaSymbol(symbol)}(${inside.join(', ')})` : apaSymbol(symbol);
+  const stat = Number.isNaN(statistic) ? '' : ` = ${formatNumber(statistic, format.decimals)}`;
+  return `${head}${stat}, ${formatPApa(p)}`;
+}
+
+/** "95%" from 0.95; "99.9%" from 0.999. */
+export function formatPercent(level: number): string {
+  return `${Number((level * 100).toFixed(4))}%`;
+}
+
+/**
+ * An estimate, effect size or interval end: `decimals` places from 1 upward, and `decimals + 1`
+ * significant digits below 1 (so σ² = 0.0153 is not shown as 0.02).
+ */
+export function formatEstimate(x: number, format: FormatOptions = DEFAULT_FORMAT): string {
+  if (!Number.isFinite(x) || x === 0 || Math.abs(x) >= 1) return formatNumber(x, format.decimals);
+  if (Math.abs(x) < 1e-4) return formatScientific(x, format.decimals + 1);
+  return x.toPrecision(format.decimals + 1);
+}
+
+/** An interval with its ends formatted as estimates: "[0.00885, 0.0326]", "[0, 0.0287]", "[1.44, ∞)". */
+export function formatEstimateInterval(lower: number, upper: number, format: FormatOptions = DEFAULT_FORMAT): string {
+  const close = upper === Infinity ? ')' : ']';
+  const open = lower === -Infinity ? '(' : '[';
+  return `${open}${formatEstimate(lower, format)}, ${formatEstimate(upper, format)}${close}`;
+}

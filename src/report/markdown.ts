@@ -1,0 +1,125 @@
+/**
+ * A result as a markdown block: for pasting into a report and for living report blocks. Tables of
+ * observed and expected counts with residuals, the APA line, effect sizes, notes and the caution.
+ * Deterministic (no dates, no versions) so that a refreshed report only changes when the result does. Pure.
+ */
+import type { CellGrid, CategoryRow, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
+import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateInterval, formatNumber, formatPExact, formatProbability } from './format';
+import { CAUTION, apaLine, estimateText, intervalText, statisticLineText, type ReportOptions } from './text';
+
+/** Escapes text for a markdown table cell or inline text. */
+export function escapeMarkdown(text: string): string {
+  return text.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/([*_`[\]<>])/g, '\\$1').replace(/\r?\n/g, ' ');
+}
+
+/** A pipe table; numeric columns are right-aligned. */
+export function markdownTable(header: readonly string[], rows: readonly (readonly string[])[], numericFrom = 1): string {
+  const align = header.map((_, j) => (j >= numericFrom ? '---:' : '---'));
+  const line = (cells: readonly string[]): string => `| ${cells.join(' | ')} |`;
+  return [line(header.map(escapeMarkdown)), line(align), ...rows.map((r) => line(r.map((c, j) => (j < numericFrom ? escapeMarkdown(c) : c))))].join('\n');
+}
+
+function categoryTable(rows: readonly CategoryRow[], options: ReportOptions): string {
+  return markdownTable(
+    ['Category', 'Observed', 'Expected', 'Residual', 'Std. residual', 'Contribution'],
+    rows.map((r) => [
+      r.label,
+      formatCount(r.observed, options.decimals),
+      formatNumber(r.expected, options.decimals),
+      formatNumber(r.pearsonResidual, options.decimals),
+      formatNumber(r.standardizedResidual, options.decimals),
+      formatNumber(r.contribution, options.decimals),
+    ]),
+  );
+}
+
+function gridTables(grid: CellGrid, options: ReportOptions): string {
+  const observedExpected = markdownTable(
+    ['', ...grid.columnLabels, 'Total'],
+    [
+      ...grid.rowLabels.map((label, i) => [
+        label,
+        ...grid.observed[i].map((o, j) => `${formatCount(o, options.decimals)} (${formatNumber(grid.expected[i][j], options.decimals)})`),
+        formatCount(grid.rowTotals[i], options.decimals),
+      ]),
+      ['Total', ...grid.columnTotals.map((t) => formatCount(t, options.decimals)), formatCount(grid.total, options.decimals)],
+    ],
+  );
+  const residuals = markdownTable(
+    ['Adjusted residual', ...grid.columnLabels],
+    grid.rowLabels.map((label, i) => [label, ...grid.adjustedResiduals[i].map((r) => formatNumber(r, options.decimals))]),
+  );
+  return `Observed (expected) counts:\n\n${observedExpected}\n\n${residuals}`;
+}
+
+function noticeBullets(result: { readonly notices: TestResult['notices'] }): string[] {
+  return result.notices.map((n) => `- ${n.severity === 'warning' ? '**Warning:** ' : ''}${escapeMarkdown(n.message)}`);
+}
+
+export function testMarkdown(result: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const parts: string[] = [];
+  parts.push(`**${escapeMarkdown(options.title ?? result.procedure)}**${options.title ? ` (${escapeMarkdown(result.procedure)})` : ''}`);
+  parts.push(escapeMarkdown(result.conclusion));
+  const exact = formatPExact(result.pValue);
+  const details = [apaLine(result, options) + (exact ? ` (${exact})` : ''), ...result.effectSizes.map((e) => estimateText(e, options))];
+  if (result.confidenceInterval) details.push(intervalText(result.confidenceInterval, options));
+  parts.push(details.map(escapeMarkdown).join('; '));
+  if (result.categories) parts.push(categoryTable(result.categories, options));
+  if (result.grid) parts.push(gridTables(result.grid, options));
+  const extra = [
+    ...result.estimates.map((e) => `- ${escapeMarkdown(estimateText(e, options))}`),
+    ...result.otherStatistics.map((s) => `- ${escapeMarkdown(statisticLineText(s, result.n, options))}${s.note ? ` (${escapeMarkdown(s.note)})` : ''}`),
+  ];
+  if (extra.length) parts.push(extra.join('\n'));
+  const notes = [
+    ...noticeBullets(result),
+    ...result.assumptions.filter((a) => a.status === 'failed').map((a) => `- **Assumption not met:** ${escapeMarkdown(a.title)}. ${escapeMarkdown(a.explanation)}`),
+  ];
+  if (notes.length) parts.push(notes.join('\n'));
+  parts.push(`*${escapeMarkdown(CAUTION)}*`);
+  return parts.join('\n\n') + '\n';
+}
+
+export function distributionMarkdown(result: DistributionResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const parts: string[] = [`**${escapeMarkdown(options.title ?? `Chi-square distribution, df = ${formatDf(result.df)}`)}**`];
+  if (result.points.length) {
+    parts.push(
+      markdownTable(
+        ['x', 'P(X > x)', 'P(X ≤ x)', 'Density'],
+        result.points.map((p) => [formatNumber(p.x, options.decimals), formatProbability(p.upper, 3), formatProbability(p.lower, 3), formatEstimate(p.density, options)]),
+        0,
+      ),
+    );
+  }
+  if (result.critical.length) {
+    const d = { decimals: options.decimals + 1 };
+    parts.push(
+      markdownTable(
+        ['p', 'Upper critical value', 'Lower critical value', 'Two-sided'],
+        result.critical.map((c) => [formatEstimate(c.p, options), formatNumber(c.upper, d.decimals), formatNumber(c.lower, d.decimals), formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, d)]),
+        0,
+      ),
+    );
+  }
+  const notes = noticeBullets(result);
+  if (notes.length) parts.push(notes.join('\n'));
+  return parts.join('\n\n') + '\n';
+}
+
+export function powerMarkdown(result: PowerResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const head = `**${escapeMarkdown(options.title ?? `Power of the chi-square ${result.target} test`)}**`;
+  const body = `${escapeMarkdown(result.effectSize.name)} = ${formatEstimate(result.effectSize.value, options)}, df = ${formatDf(result.df)}, α = ${formatEstimate(result.alpha, options)}: n = ${formatCount(result.n)}, power = ${formatEstimate(result.power, options)}${result.solvedFor === 'n' ? ' (smallest n reaching the power asked)' : ''}`;
+  const notes = noticeBullets(result);
+  return [head, body, ...(notes.length ? [notes.join('\n')] : []), `*${escapeMarkdown(CAUTION)}*`].join('\n\n') + '\n';
+}
+
+export function resultMarkdown(result: Result, options: ReportOptions = DEFAULT_FORMAT): string {
+  switch (result.kind) {
+    case 'test':
+      return testMarkdown(result, options);
+    case 'distribution':
+      return distributionMarkdown(result, options);
+    case 'power':
+      return powerMarkdown(result, options);
+  }
+}

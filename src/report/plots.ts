@@ -1,0 +1,227 @@
+/**
+ * Plot geometry for the results panel, in data units. Pure: the webview only maps these numbers to
+ * pixels and draws SVG, so every choice about what a plot shows (which tail is shaded, where the axis
+ * ends, how strongly a cell is tinted) is made and unit-tested here.
+ */
+import type { BarsPlot, DensityPlot, IntervalPlot, Plot, PlotPoint, ResidualGridPlot, ResidualShade } from '../protocol';
+import { chiSquareDensity, chiSquareQuantile, chiSquareUpperQuantile } from '../stats/chisquare';
+import { normalDensity, normalQuantile, normalUpperQuantile } from '../stats/normal';
+import type { Alternative, CategoryRow, CellGrid, TestResult } from '../stats/result';
+
+/** Two-sided 5 %, 1 % and 0.1 % points of the standard normal (|z| bands for residual shading). */
+export const RESIDUAL_BANDS: readonly number[] = [normalUpperQuantile(0.025), normalUpperQuantile(0.005), normalUpperQuantile(0.0005)];
+
+/** Round, human tick positions covering [min, max] (about `count` of them): steps of 1, 2 or 5 × 10^k. */
+export function niceTicks(min: number, max: number, count = 5): number[] {
+  if (!Number.isFinite(min) || !Number.isFinite(max) || max <= min) return Number.isFinite(min) ? [min] : [];
+  const raw = (max - min) / Math.max(1, count);
+  const power = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 5, 10].map((m) => m * power).find((s) => s >= raw) ?? 10 * power;
+  const ticks: number[] = [];
+  for (let t = Math.ceil(min / step) * step; t <= max + step * 1e-9; t += step) ticks.push(Number(t.toPrecision(12)));
+  return ticks;
+}
+
+/** Upper end of a count axis: the next "nice" value at or above the largest value. */
+function niceCeiling(value: number): number {
+  if (!(value > 0)) return 1;
+  const power = 10 ** Math.floor(Math.log10(value));
+  return ([1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 8, 10].map((m) => m * power).find((c) => c >= value) ?? 10 * power);
+}
+
+/** Shade of one adjusted residual: sign, band (normal points at 5 %, 1 %, 0.1 % two-sided) and a tint strength. */
+export function residualShade(residual: number): ResidualShade {
+  if (!Number.isFinite(residual) || Math.abs(residual) < 1e-12) return { sign: 'none', level: 0, strength: 0 };
+  const size = Math.abs(residual);
+  const level = (RESIDUAL_BANDS.filter((b) => size >= b).length) as 0 | 1 | 2 | 3;
+  // A faint tint below the 5 % point keeps the direction visible; the tint then grows by band.
+  const strength = [0.08, 0.3, 0.5, 0.7][level];
+  return { sign: residual > 0 ? 'above' : 'below', level, strength };
+}
+
+interface Reference {
+  density(x: number): number;
+  lowerQuantile(p: number): number;
+  upperQuantile(q: number): number;
+  support: 'positive' | 'real';
+}
+
+function chiSquareReference(df: number): Reference {
+  return {
+    density: (x) => chiSquareDensity(x, df),
+    lowerQuantile: (p) => chiSquareQuantile(p, df),
+    upperQuantile: (q) => chiSquareUpperQuantile(q, df),
+    support: 'positive',
+  };
+}
+
+const normalReference: Reference = { density: normalDensity, lowerQuantile: normalQuantile, upperQuantile: normalUpperQuantile, support: 'real' };
+
+/** Which tails the p-value counts, as x-intervals. Two-sided: the observed tail and the mirror tail of equal probability. */
+export function testedTails(ref: Reference, statistic: number, alternative: Alternative, lowerTail: number, upperTail: number, xMin: number, xMax: number): [number, number][] {
+  const clamp = (x: number) => Math.min(xMax, Math.max(xMin, x));
+  if (alternative === 'greater') return [[clamp(statistic), xMax]];
+  if (alternative === 'less') return [[xMin, clamp(statistic)]];
+  if (ref.support === 'real') {
+    const z = Math.abs(statistic);
+    return [[xMin, clamp(-z)], [clamp(z), xMax]];
+  }
+  if (lowerTail < upperTail) return [[xMin, clamp(statistic)], [clamp(ref.upperQuantile(Math.max(lowerTail, 1e-300))), xMax]];
+  return [[xMin, clamp(ref.lowerQuantile(Math.max(upperTail, 1e-300)))], [clamp(statistic), xMax]];
+}
+
+function criticalValues(ref: Reference, alternative: Alternative, alpha: number): number[] {
+  if (alternative === 'greater') return [ref.upperQuantile(alpha)];
+  if (alternative === 'less') return [ref.lowerQuantile(alpha)];
+  return [ref.lowerQuantile(alpha / 2), ref.upperQuantile(alpha / 2)];
+}
+
+/**
+ * The reference density with the observed statistic and the shaded tail(s) the p-value counts.
+ * The axis reaches the 99.9 % point (or a little past the statistic), but never more than 1.6 times that
+ * point: a statistic farther out is drawn at the edge and flagged `clipped`.
+ */
+export function densityPlot(result: TestResult, samples = 161): DensityPlot | null {
+  const { reference, statistic } = result;
+  if (reference.kind === 'none' || !Number.isFinite(statistic)) return null;
+  if (reference.kind === 'chi-square' && !(reference.df > 0)) return null;
+  const ref = reference.kind === 'chi-square' ? chiSquareReference(reference.df) : normalReference;
+  // The chi-square statistic is one-tailed (upper) unless the procedure says otherwise (the variance test).
+  const alternative: Alternative = result.alternative ?? (reference.kind === 'chi-square' ? 'greater' : 'two-sided');
+
+  let xMin: number;
+  let xMax: number;
+  if (ref.support === 'positive') {
+    const far = ref.upperQuantile(0.001);
+    xMin = 0;
+    xMax = Math.min(Math.max(far, statistic * 1.08), far * 1.6);
+  } else {
+    const far = Math.max(4, Math.abs(statistic) * 1.08);
+    const limit = Math.min(far, 6.5);
+    xMin = -limit;
+    xMax = limit;
+  }
+  const clipped = statistic > xMax || statistic < xMin;
+
+  // Densities with a pole at 0 (df < 2) start a little right of 0, and the y axis is capped so the curve stays readable.
+  const start = ref.support === 'positive' && reference.kind === 'chi-square' && reference.df < 2 ? xMax * 0.004 : xMin;
+  const curve: PlotPoint[] = [];
+  for (let i = 0; i < samples; i++) {
+    const x = start + ((xMax - start) * i) / (samples - 1);
+    curve.push({ x, y: ref.density(x) });
+  }
+  let yMax = Math.max(...curve.map((p) => p.y));
+  if (start > xMin) yMax = Math.min(yMax, ref.density(xMax * 0.04) * 1.25);
+  const capped = curve.map((p) => ({ x: p.x, y: Math.min(p.y, yMax) }));
+
+  const details = result.details ?? {};
+  const tailValue = (key: string) => {
+    const t = details[key] as { value?: number } | undefined;
+    return typeof t?.value === 'number' ? t.value : NaN;
+  };
+  const shaded = testedTails(ref, statistic, alternative, tailValue('lowerTail'), tailValue('upperTail'), start, xMax)
+    .filter(([a, b]) => b > a)
+    .map(([a, b]) => tailPolygon(ref, a, b, yMax));
+
+  return {
+    kind: 'density',
+    title: reference.kind === 'chi-square' ? `χ² distribution, df = ${reference.df}` : 'Standard normal distribution',
+    xLabel: result.statisticSymbol,
+    xMin,
+    xMax,
+    yMax,
+    curve: capped,
+    shaded,
+    observed: { x: Math.min(xMax, Math.max(xMin, statistic)), label: `${result.statisticSymbol} = ${formatAxis(statistic)}`, clipped },
+    critical: criticalValues(ref, alternative, result.alpha).filter((c) => c >= xMin && c <= xMax),
+    ticks: niceTicks(xMin, xMax, 6),
+  };
+}
+
+function tailPolygon(ref: Reference, a: number, b: number, yMax: number): PlotPoint[] {
+  const steps = 40;
+  const points: PlotPoint[] = [{ x: a, y: 0 }];
+  for (let i = 0; i <= steps; i++) {
+    const x = a + ((b - a) * i) / steps;
+    points.push({ x, y: Math.min(ref.density(x), yMax) });
+  }
+  points.push({ x: b, y: 0 });
+  return points;
+}
+
+function formatAxis(x: number): string {
+  const size = Math.abs(x);
+  if (size !== 0 && (size >= 1e6 || size < 1e-3)) return x.toExponential(2);
+  return Number(x.toPrecision(4)).toString();
+}
+
+/** Observed and expected counts side by side, one pair per category. */
+export function barsPlot(categories: readonly CategoryRow[]): BarsPlot {
+  const yMax = niceCeiling(Math.max(0, ...categories.flatMap((c) => [c.observed, c.expected])));
+  return {
+    kind: 'bars',
+    title: 'Observed and expected counts',
+    yMax,
+    ticks: niceTicks(0, yMax, 4),
+    bars: categories.map((c) => ({ label: c.label, observed: c.observed, expected: c.expected, residual: c.standardizedResidual })),
+  };
+}
+
+export function residualGridPlot(grid: CellGrid): ResidualGridPlot {
+  return {
+    kind: 'residual-grid',
+    title: 'Adjusted residuals',
+    rowLabels: grid.rowLabels,
+    columnLabels: grid.columnLabels,
+    residuals: grid.adjustedResiduals,
+    shades: grid.adjustedResiduals.map((row) => row.map(residualShade)),
+  };
+}
+
+/**
+ * The confidence interval for σ against σ0 (the scale people read; σ² in the result is converted by square root).
+ * A one-sided bound keeps its open side at the axis edge.
+ */
+export function intervalPlot(result: TestResult): IntervalPlot | null {
+  const ci = result.confidenceInterval;
+  const variance0 = Number(result.details?.variance0);
+  const sampleVariance = Number(result.details?.sampleVariance);
+  if (!ci || !(variance0 > 0) || !(sampleVariance >= 0)) return null;
+  const onSd = ci.parameter === 'σ²';
+  const lower = onSd ? Math.sqrt(ci.lower) : ci.lower;
+  const upper = onSd ? Math.sqrt(ci.upper) : ci.upper;
+  const reference = Math.sqrt(variance0);
+  const estimate = Math.sqrt(sampleVariance);
+  const finite = [lower, upper, reference, estimate].filter(Number.isFinite);
+  const lo = Math.min(...finite);
+  const hi = Math.max(...finite);
+  const pad = (hi - lo) * 0.15 || hi * 0.15 || 1;
+  const xMin = Math.max(0, lo - pad);
+  const xMax = hi + pad;
+  return {
+    kind: 'interval',
+    title: `${Math.round(ci.level * 100)} % confidence interval for σ`,
+    parameter: 'σ',
+    xMin,
+    xMax,
+    lower: Number.isFinite(lower) ? lower : xMin,
+    upper: Number.isFinite(upper) ? upper : xMax,
+    estimate,
+    reference,
+    referenceInside: reference >= lower && reference <= upper,
+    level: ci.level,
+    ticks: niceTicks(xMin, xMax, 5),
+  };
+}
+
+/** Every plot that fits the result, in reading order. */
+export function plotsFor(result: TestResult): Plot[] {
+  const plots: Plot[] = [];
+  const density = densityPlot(result);
+  if (density) plots.push(density);
+  if (result.categories && result.categories.length > 0) plots.push(barsPlot(result.categories));
+  if (result.grid) plots.push(residualGridPlot(result.grid));
+  const interval = intervalPlot(result);
+  if (interval) plots.push(interval);
+  return plots;
+}

@@ -1,0 +1,131 @@
+/**
+ * The plain-text summary of a result: what the command line prints and what "copy as text" copies.
+ * Layout of our own: the conclusion first, then the APA line, the effect size and intervals, what the
+ * reader must know (warnings, notes, failed assumptions), and the caution that closes every report. Pure.
+ */
+import type { DistributionResult, Estimate, Interval, Notice, PowerResult, Result, StatisticLine, TestResult } from '../stats/result';
+import {
+  DEFAULT_FORMAT,
+  formatApaLine,
+  formatCount,
+  formatDf,
+  formatEstimate,
+  formatEstimateInterval,
+  formatNumber,
+  formatPExact,
+  formatPercent,
+  formatProbability,
+  type FormatOptions,
+} from './format';
+
+/** Closes every report. */
+export const CAUTION =
+  'Statistical significance is not practical importance: weigh the size of the effect, not only the p-value. ' +
+  'Check the assumptions before relying on the result, and where decisions affect safety or health, ' +
+  'defer to the applicable standards and to qualified review.';
+
+export interface ReportOptions extends FormatOptions {
+  /** Shown above the result (the spec's title). */
+  readonly title?: string;
+}
+
+/** The APA line of a test: "χ²(3, N = 556) = 0.47, p = .925". */
+export function apaLine(result: TestResult, format: FormatOptions = DEFAULT_FORMAT): string {
+  return formatApaLine(result.statisticSymbol, result.statistic, result.df, result.n, result.pValue, format);
+}
+
+/** The same for a secondary statistic (G², the Yates-corrected X², Fisher's exact test…). */
+export function statisticLineText(line: StatisticLine, n: number | null, format: FormatOptions = DEFAULT_FORMAT): string {
+  if (Number.isNaN(line.statistic)) return `${line.name}: p = ${formatProbability(line.pValue)}`;
+  return `${line.name}: ${formatApaLine(line.symbol, line.statistic, line.df, n, line.pValue, format)}`;
+}
+
+/** "Cramér's V = 0.123, 95% CI [0.05, 0.19]" */
+export function estimateText(e: Estimate, format: FormatOptions = DEFAULT_FORMAT): string {
+  const interval = e.interval ? `, ${intervalText(e.interval, format, false)}` : '';
+  return `${e.name} = ${formatEstimate(e.value, format)}${interval}`;
+}
+
+/** "95% CI for σ² [0.00885, 0.0326] (equal-tail chi-square)"; one-sided bounds say so. */
+export function intervalText(interval: Interval, format: FormatOptions = DEFAULT_FORMAT, withParameter = true): string {
+  const oneSided = interval.lower === -Infinity || interval.upper === Infinity || (interval.lower === 0 && /bound/i.test(interval.method));
+  const label = `${formatPercent(interval.level)} ${oneSided ? 'bound' : 'CI'}${withParameter ? ` for ${interval.parameter}` : ''}`;
+  return `${label} ${formatEstimateInterval(interval.lower, interval.upper, format)}${interval.method ? ` (${interval.method})` : ''}`;
+}
+
+function noticeLines(notices: readonly Notice[]): string[] {
+  const warnings = notices.filter((n) => n.severity === 'warning');
+  const notes = notices.filter((n) => n.severity !== 'warning');
+  return [
+    ...(warnings.length ? ['Warnings:', ...warnings.map((w) => `  ! ${w.message}`)] : []),
+    ...(notes.length ? ['Notes:', ...notes.map((n) => `  - ${n.message}`)] : []),
+  ];
+}
+
+export function testText(result: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const lines: string[] = [];
+  if (options.title) lines.push(options.title);
+  lines.push(result.procedure);
+  lines.push(`Conclusion: ${result.conclusion}`);
+  lines.push(`Result: ${apaLine(result, options)}`);
+  const exact = formatPExact(result.pValue);
+  if (exact) lines.push(`        ${exact}`);
+  if (result.alternative && result.alternative !== 'two-sided') lines.push(`Alternative: ${result.alternative} (one-sided)`);
+  for (const e of result.effectSizes) lines.push(`Effect size: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
+  if (result.confidenceInterval) lines.push(`Interval: ${intervalText(result.confidenceInterval, options)}`);
+  for (const e of result.estimates) lines.push(`Estimate: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
+  for (const s of result.otherStatistics) lines.push(`Also: ${statisticLineText(s, result.n, options)}${s.note ? ` (${s.note})` : ''}`);
+  lines.push(...noticeLines(result.notices));
+  const failed = result.assumptions.filter((a) => a.status === 'failed');
+  if (failed.length) {
+    lines.push('Assumptions not met:');
+    for (const a of failed) lines.push(`  ! ${a.title}: ${a.explanation}${a.alternative ? ` Consider: ${a.alternative}.` : ''}`);
+  }
+  lines.push(`Caution: ${CAUTION}`);
+  return lines.join('\n') + '\n';
+}
+
+export function distributionText(result: DistributionResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const lines: string[] = [];
+  if (options.title) lines.push(options.title);
+  lines.push(`Chi-square distribution with ${formatDf(result.df, options.decimals)} degrees of freedom${result.noncentrality ? `, noncentrality ${formatNumber(result.noncentrality, options.decimals)}` : ''}`);
+  for (const pt of result.points) {
+    lines.push(
+      `x = ${formatNumber(pt.x, options.decimals)}: P(X > x) = ${formatProbability(pt.upper, 3)}, P(X ≤ x) = ${formatProbability(pt.lower, 3)}, density ${formatEstimate(pt.density, options)}`,
+    );
+  }
+  for (const c of result.critical) {
+    const p = formatEstimate(c.p, options);
+    lines.push(
+      `p = ${p}: upper critical value ${formatNumber(c.upper, options.decimals + 1)} (P(X > c) = ${p}), lower ${formatNumber(c.lower, options.decimals + 1)} (P(X ≤ c) = ${p}), two-sided ${formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, { decimals: options.decimals + 1 })}`,
+    );
+  }
+  lines.push(...noticeLines(result.notices));
+  return lines.join('\n') + '\n';
+}
+
+export function powerText(result: PowerResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const lines: string[] = [];
+  if (options.title) lines.push(options.title);
+  lines.push(`Power of the chi-square ${result.target} test (${result.effectSize.name} = ${formatEstimate(result.effectSize.value, options)}, df = ${formatDf(result.df)}, α = ${formatEstimate(result.alpha, options)})`);
+  lines.push(
+    result.solvedFor === 'n'
+      ? `Sample size: n = ${formatCount(result.n)} gives power ${formatEstimate(result.power, options)}`
+      : `Power: ${formatEstimate(result.power, options)} with n = ${formatCount(result.n)}`,
+  );
+  lines.push(...noticeLines(result.notices));
+  lines.push(`Caution: ${CAUTION}`);
+  return lines.join('\n') + '\n';
+}
+
+/** The plain-text summary of any result. */
+export function resultText(result: Result, options: ReportOptions = DEFAULT_FORMAT): string {
+  switch (result.kind) {
+    case 'test':
+      return testText(result, options);
+    case 'distribution':
+      return distributionText(result, options);
+    case 'power':
+      return powerText(result, options);
+  }
+}

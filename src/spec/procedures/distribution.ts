@@ -1,0 +1,53 @@
+/**
+ * `"test": "distribution"`: questions about the chi-square distribution itself — the tail probabilities
+ * of an observed statistic, and the critical values for a given probability.
+ */
+import { chiSquareDensity, chiSquareLowerProbability, chiSquareQuantile, chiSquareUpperProbability, chiSquareUpperQuantile } from '../../stats/chisquare';
+import type { DistributionResult } from '../../stats/result';
+import { arr, field, num, oneOf, type SpecProblem } from '../fields';
+import type { SpecV1 } from '../types';
+import type { ProcedureHandler } from './index';
+
+const asList = (v: number | readonly number[] | undefined): readonly number[] => (v === undefined ? [] : typeof v === 'number' ? [v] : v);
+
+export const distributionProcedure: ProcedureHandler = {
+  test: 'distribution',
+  summary: 'Tail probabilities of observed values and critical values of the chi-square distribution with "df" degrees of freedom.',
+  fields: {
+    df: field(num({ exclusiveMin: 0 }), 'Degrees of freedom (any real number > 0).', true),
+    x: field(oneOf(num({ min: 0 }), arr(num({ min: 0 }), { minItems: 1 })), 'Observed value(s) of the statistic: gives the lower and upper tail probabilities.', true),
+    p: field(
+      oneOf(num({ exclusiveMin: 0, exclusiveMax: 1 }), arr(num({ exclusiveMin: 0, exclusiveMax: 1 }), { minItems: 1 })),
+      'Probability (or probabilities): gives the lower, upper and two-sided critical values.',
+      true,
+    ),
+  },
+  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+    const problems: SpecProblem[] = [];
+    if (spec.df === undefined) problems.push({ path, message: 'missing required field "df"' });
+    if (spec.x === undefined && spec.p === undefined) problems.push({ path, message: 'give "x" (values of the statistic), "p" (probabilities), or both' });
+    return problems;
+  },
+  async run(spec: SpecV1): Promise<DistributionResult> {
+    const df = spec.df!;
+    return {
+      kind: 'distribution',
+      test: 'distribution',
+      df,
+      noncentrality: 0,
+      points: asList(spec.x).map((x) => ({
+        x,
+        lower: chiSquareLowerProbability(x, df),
+        upper: chiSquareUpperProbability(x, df),
+        density: chiSquareDensity(x, df),
+      })),
+      critical: asList(spec.p).map((p) => ({
+        p,
+        lower: chiSquareQuantile(p, df),
+        upper: chiSquareUpperQuantile(p, df),
+        twoSided: { lower: chiSquareQuantile(p / 2, df), upper: chiSquareUpperQuantile(p / 2, df) },
+      })),
+      notices: [],
+    };
+  },
+};

@@ -1,0 +1,139 @@
+/**
+ * `"test": "independence"`: independence or homogeneity on an r×c table of counts, given inline, as an
+ * already-counted table in a file, or cross-tabulated from two categorical columns of a file.
+ */
+import { InputError } from '../../errors';
+import { independenceTest } from '../../stats/table';
+import type { TestResult } from '../../stats/result';
+import { arr, bool, field, type SpecProblem } from '../fields';
+import { childPath } from '../json-text';
+import type { SpecV1 } from '../types';
+import type { ProcedureHandler } from './index';
+import { alignToLevels } from './goodness-of-fit';
+import {
+  CONFIDENCE,
+  COUNT_ARRAY,
+  LABELS,
+  LAMBDA,
+  METHOD,
+  RESAMPLES,
+  SEED,
+  STATISTIC,
+  aggregateOf,
+  checkSourceColumns,
+  requireAsymptotic,
+  requireLength,
+  requireOneOf,
+  sourceField,
+} from './shared';
+
+export const independenceProcedure: ProcedureHandler = {
+  test: 'independence',
+  summary: 'Chi-square test of independence (or homogeneity) on an r×c table of counts.',
+  fields: {
+    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
+    rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
+    columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),
+    source: sourceField(
+      'Two categorical columns to cross-tabulate (rows, then columns); leave out for a file that already holds the table (first column row labels, header column labels).',
+      0,
+      2,
+    ),
+    correction: field(bool, "Apply Yates' continuity correction (2×2 tables only). Effect sizes always use the uncorrected statistic. Default false."),
+    statistic: STATISTIC,
+    lambda: LAMBDA,
+    confidence: CONFIDENCE,
+    method: METHOD,
+    resamples: RESAMPLES,
+    seed: SEED,
+  },
+  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+    const problems: SpecProblem[] = [];
+    requireOneOf(spec, path, ['table', 'source'], problems);
+    checkSourceColumns(spec, path, [0, 2], 'two columns (rows, columns), or none for an already-counted table', problems);
+    if (spec.table) {
+      const width = spec.table[0]?.length ?? 0;
+      if (width < 2) problems.push({ path: childPath(childPath(path, 'table'), 0), message: `expected at least 2 columns, found ${width}` });
+      spec.table.forEach((row, i) => {
+        if (row.length !== width) {
+          problems.push({ path: childPath(childPath(path, 'table'), i), message: `row ${i + 1} has ${row.length} counts but row 1 has ${width}; every row needs the same number` });
+        }
+      });
+      requireLength(spec, path, 'rowLabels', spec.table.length, 'one per row of "table"', problems);
+      requireLength(spec, path, 'columnLabels', width, 'one per column of "table"', problems);
+    }
+    if (spec.source && (spec.source.columns?.length ?? 0) === 0) {
+      for (const key of ['rowLabels', 'columnLabels']) {
+        if (spec[key] !== undefined) problems.push({ path: childPath(path, key), message: `a counted table in a file carries its own labels; remove "${key}"` });
+      }
+    }
+    if (spec.lambda !== undefined && spec.statistic !== 'cressie-read') {
+      problems.push({ path: childPath(path, 'lambda'), message: '"lambda" applies only with "statistic": "cressie-read"' });
+    }
+    return problems;
+  },
+  async run(spec, ctx): Promise<TestResult> {
+    requireAsymptotic(spec);
+    let counts: readonly (readonly number[])[];
+    let rowLabels = spec.rowLabels;
+    let columnLabels = spec.columnLabels;
+    if (spec.source) {
+      const columns = spec.source.columns ?? [];
+      const request =
+        columns.length === 2
+          ? ({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight: spec.source.weight } as const)
+          : ({ kind: 'counted-table' } as const);
+      const { table } = await aggregateOf(ctx, request, 'table', { rowLevels: rowLabels, columnLevels: columnLabels });
+      counts = table.counts;
+      if (columns.length === 2) {
+        ({ counts, rowLabels, columnLabels } = alignTable(table.rowLabels, table.columnLabels, table.counts, rowLabels, columnLabels, columns));
+      } else {
+        rowLabels = table.rowLabels;
+        columnLabels = table.columnLabels;
+      }
+    } else {
+      counts = spec.table!;
+    }
+    if (spec.correction && (counts.length !== 2 || counts[0].length !== 2)) {
+      throw new InputError(
+        `$.correction: Yates' continuity correction applies to 2×2 tables only; this table is ${counts.length}×${counts[0]?.length ?? 0}`,
+        { jsonPath: '$.correction' },
+        'correction-not-2x2',
+      );
+    }
+    return independenceTest(counts, {
+      rowLabels,
+      columnLabels,
+      correction: spec.correction,
+      statistic: spec.statistic,
+      lambda: spec.lambda,
+      alpha: spec.alpha,
+      confidence: spec.confidence,
+    });
+  },
+};
+
+/** Orders a cross-tabulation by the levels the spec lists (rows and columns separately). */
+function alignTable(
+  rows: readonly string[],
+  columns: readonly string[],
+  counts: readonly (readonly number[])[],
+  rowLevels: readonly string[] | undefined,
+  columnLevels: readonly string[] | undefined,
+  names: readonly string[],
+): { counts: number[][]; rowLabels: string[]; columnLabels: string[] } {
+  const rowTotals = counts.map((r) => r.reduce((a, b) => a + b, 0));
+  const columnTotals = columns.map((_, j) => counts.reduce((a, r) => a + r[j], 0));
+  const rowOrder = alignToLevels(rows, rowTotals, rowLevels, names[0]).labels;
+  const columnOrder = alignToLevels(columns, columnTotals, columnLevels, names[1]).labels;
+  const cell = (r: string, c: string): number => {
+    const i = rows.indexOf(r);
+    const j = columns.indexOf(c);
+    return i < 0 || j < 0 ? 0 : counts[i][j];
+  };
+  return {
+    counts: rowOrder.map((r) => columnOrder.map((c) => cell(r, c))),
+    rowLabels: rowOrder,
+    columnLabels: columnOrder,
+  };
+}

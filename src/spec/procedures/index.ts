@@ -1,0 +1,67 @@
+/**
+ * The registry of procedures a saved spec can name in its `"test"` field.
+ *
+ * ## Adding a procedure (the handler contract)
+ *
+ * Write one file in this folder that exports a `ProcedureHandler`, and add it to `PROCEDURES` below.
+ *
+ * - `test`: the value of `"test"` in the spec, e.g. "paired". Stable: users' pipelines rely on it.
+ * - `summary`: one sentence; it becomes the description of this test in the JSON Schema.
+ * - `fields`: every field this test accepts besides the common ones (`COMMON_FIELDS`: version, test,
+ *   title, description, alpha, recorded). Each is a `Field` (src/spec/fields.ts): a type, a description for
+ *   hovers, and `data: true` when the field holds data (the canonical JSON of the data fields is the
+ *   fingerprint that tells a reviewer whether inline data changed). Reuse the shared fields in ./shared.ts
+ *   (ALPHA, CONFIDENCE, STATISTIC, METHOD, `sourceField(...)`…) so an option means the same in every test.
+ *   Type checking, unknown-field errors and the JSON Schema all come from this table; the unit test
+ *   test/unit/spec/schema.test.ts fails until `npm run schema` has rewritten schemas/countercheck.schema.json.
+ * - `validate(spec, path)`: checks that need more than one field (exactly one data form, matching lengths,
+ *   options that only make sense together). Called only after every field has the right type. Returns every
+ *   problem found, each with its JSON path built from `path` (usually "$"). Must not throw or do I/O.
+ * - `run(spec, ctx)`: computes the result. Read inline data from the spec, or call
+ *   `ctx.aggregate(request, levels)` for the spec's `source` (paths are resolved and checked for you, and the
+ *   data fingerprint is kept for the recorded result). Throw `InputError` with a `jsonPath` for bad data.
+ *   Pass `ctx.signal` on to anything long. Return a `TestResult`, `DistributionResult` or `PowerResult`.
+ *
+ * Nothing else needs to change: validation, the schema, the command line (`run`, `check`, `--record`),
+ * living report blocks and the reports all work from the handler.
+ */
+import type { Result } from '../../stats/result';
+import { any, field, num, str, type Field, type SpecProblem } from '../fields';
+import type { RunContext, SpecV1 } from '../types';
+import { ALPHA } from './shared';
+import { distributionProcedure } from './distribution';
+import { goodnessOfFitProcedure } from './goodness-of-fit';
+import { independenceProcedure } from './independence';
+import { varianceProcedure } from './variance';
+
+export interface ProcedureHandler {
+  readonly test: string;
+  readonly summary: string;
+  readonly fields: Readonly<Record<string, Field>>;
+  validate(spec: SpecV1, path: string): readonly SpecProblem[];
+  run(spec: SpecV1, ctx: RunContext): Promise<Result>;
+}
+
+/** Fields every spec may have, whatever its test. */
+export const COMMON_FIELDS: Readonly<Record<string, Field>> = {
+  $schema: field(str(), 'The JSON Schema of this file, for editors that do not know the *.countercheck.json association.'),
+  version: field(num({ integer: true, min: 1, max: 1 }), 'Spec format version. This build reads version 1.'),
+  test: field(str(), 'Which procedure to run.'),
+  title: field(str(), 'A short name for people, shown above the result.'),
+  description: field(str(), 'What this test is for; kept with the spec.'),
+  alpha: ALPHA,
+  recorded: field(any, 'The result seen when this spec was saved (written by `countercheck run --record` or the editor). Compared on every re-run.'),
+};
+
+export const PROCEDURES: readonly ProcedureHandler[] = [
+  varianceProcedure,
+  goodnessOfFitProcedure,
+  independenceProcedure,
+  distributionProcedure,
+];
+
+export function procedureFor(test: string): ProcedureHandler | undefined {
+  return PROCEDURES.find((p) => p.test === test);
+}
+
+export const TEST_NAMES: readonly string[] = PROCEDURES.map((p) => p.test);

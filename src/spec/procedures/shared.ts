@@ -1,0 +1,149 @@
+/**
+ * Field descriptions and checks that several procedure handlers share, so that an option means the
+ * same thing (and is described the same way in the schema) in every test.
+ */
+import { InputError } from '../../errors';
+import type { Aggregate } from '../../data/types';
+import { arr, bool, field, nul, num, obj, oneOf, str, type Field, type SpecProblem } from '../fields';
+import { childPath } from '../json-text';
+import type { RunContext, SpecV1 } from '../types';
+
+export const ALPHA = field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Significance level for the conclusion. Default 0.05.');
+export const CONFIDENCE = field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Confidence level of the intervals, e.g. 0.95 (the default).');
+export const ALTERNATIVE = field(str({ enum: ['two-sided', 'greater', 'less'] }), 'Alternative hypothesis. Default "two-sided".');
+export const STATISTIC = field(
+  str({ enum: ['pearson', 'likelihood-ratio', 'cressie-read'] }),
+  'Main statistic: Pearson X² (default), likelihood-ratio G², or the Cressie–Read power divergence with "lambda".',
+);
+export const LAMBDA = field(num(), 'λ of the Cressie–Read power divergence (with "statistic": "cressie-read"). Default 2/3.');
+export const METHOD = field(
+  str({ enum: ['asymptotic', 'exact', 'monte-carlo'] }),
+  'How the p-value is computed: "asymptotic" (the chi-square approximation, default), "exact", or "monte-carlo" (with "resamples" and "seed").',
+);
+export const RESAMPLES = field(num({ integer: true, min: 1 }), 'Number of Monte Carlo resamples (with "method": "monte-carlo").');
+export const SEED = field(num({ integer: true, min: 0 }), 'Seed of the Monte Carlo random stream, so that the p-value is reproducible.');
+export const LABELS = (what: string): Field => field(arr(str()), `Labels of the ${what}, in order.`, true);
+export const COUNT_ARRAY = arr(num({ min: 0 }));
+
+/** `source`: a delimited file (relative path) or a SQL source, with the reader's dialect options. */
+export function sourceField(columnsHelp: string, minColumns: number, maxColumns: number): Field {
+  return field(
+    obj({
+      path: field(str({ nonEmpty: true }), 'Data file, relative to this spec file (absolute paths and paths leading out of the workspace are refused unless allowed).'),
+      columns: field(arr(str({ nonEmpty: true }), { minItems: minColumns, maxItems: maxColumns }), columnsHelp),
+      weight: field(str({ nonEmpty: true }), 'Frequency-weight column: each record counts as many times as this whole number says.'),
+      delimiter: field(str({ enum: [',', ';', '\t', '|', 'auto'] }), 'Field delimiter. Default: detected from the first lines.'),
+      decimal: field(str({ enum: ['.', ','] }), 'Decimal mark of numbers. Default ".".'),
+      encoding: field(str({ enum: ['utf-8', 'utf-16', 'latin1'] }), 'Text encoding. Default UTF-8 (a byte-order mark always wins).'),
+      header: field(bool, 'Whether the first line holds column names. Default: detected.'),
+      comment: field(oneOf(str(), nul), 'Lines starting with this text are skipped. Default "#"; null turns it off.'),
+      missing: field(
+        oneOf(
+          arr(str()),
+          obj({
+            tokens: field(arr(str()), 'Cell texts that mean "missing".'),
+            policy: field(str({ enum: ['drop', 'category'] }), '"drop" (default) leaves the record out and counts it; "category" makes missing a level of its own.'),
+            label: field(str(), 'Label of the missing level under the "category" policy. Default "(missing)".'),
+          }),
+        ),
+        'Cell texts that mean "missing" (default: empty, NA, NaN, null, -), or {"tokens", "policy", "label"}.',
+      ),
+      categories: field(str({ enum: ['first-seen', 'sorted'] }), 'Order of the levels read from the file when the spec does not list them. Default "first-seen".'),
+      caseFold: field(bool, 'Treat levels that differ only in letter case as one level. Default false.'),
+      sql: field(
+        obj(
+          {
+            connection: field(str({ nonEmpty: true }), 'Name of a connection configured in the settings.'),
+            table: field(str({ nonEmpty: true }), 'Table or view, e.g. "public.orders".'),
+            query: field(str({ nonEmpty: true }), 'A SELECT of your own, used as a subquery.'),
+          },
+          { required: ['connection'] },
+        ),
+        'A database source: the engine does the counting and only the aggregate rows are transferred.',
+      ),
+      where: field(str(), 'A filter for a SQL source (values are passed as parameters, never interpolated).'),
+    }),
+    'Where the data lives when it is not given inline.',
+  );
+}
+
+/** Reports a problem unless exactly one (or, with `optional`, at most one) of `keys` is present. */
+export function requireOneOf(
+  spec: SpecV1,
+  path: string,
+  keys: readonly string[],
+  problems: SpecProblem[],
+  optional = false,
+  missing = `missing data: give one of ${list(keys)}`,
+): void {
+  const present = keys.filter((k) => spec[k] !== undefined);
+  if (present.length > 1) {
+    problems.push({ path: childPath(path, present[1]), message: `give only one of ${list(keys)}; found both "${present[0]}" and "${present[1]}"` });
+  } else if (present.length === 0 && !optional) {
+    problems.push({ path, message: missing });
+  }
+}
+
+/** Reports a problem when `key` is present without `needs`. */
+export function requireWith(spec: SpecV1, path: string, key: string, needs: string, problems: SpecProblem[], why: string): void {
+  if (spec[key] !== undefined && spec[needs] === undefined) {
+    problems.push({ path: childPath(path, key), message: `"${key}" needs "${needs}" (${why})` });
+  }
+}
+
+/** Checks that an array field has the length another one implies. */
+export function requireLength(spec: SpecV1, path: string, key: string, length: number, ofWhat: string, problems: SpecProblem[]): void {
+  const v = spec[key];
+  if (Array.isArray(v) && v.length !== length) {
+    problems.push({ path: childPath(path, key), message: `expected ${length} item${length === 1 ? '' : 's'} (${ofWhat}), found ${v.length}` });
+  }
+}
+
+/** Checks the number of columns a source names for this test. */
+export function checkSourceColumns(spec: SpecV1, path: string, allowed: readonly number[], what: string, problems: SpecProblem[]): void {
+  const source = spec.source;
+  if (!source) return;
+  const n = source.columns?.length ?? 0;
+  if (!allowed.includes(n)) {
+    problems.push({ path: childPath(childPath(path, 'source'), 'columns'), message: `expected ${what}, found ${n} column${n === 1 ? '' : 's'}` });
+  }
+  if (source.path === undefined && source.sql === undefined) {
+    problems.push({ path: childPath(path, 'source'), message: 'missing "path" (a data file) or "sql" (a database source)' });
+  }
+  if (source.path !== undefined && source.sql !== undefined) {
+    problems.push({ path: childPath(childPath(path, 'source'), 'sql'), message: 'give either "path" or "sql", not both' });
+  }
+  if (source.sql && (source.sql.table === undefined) === (source.sql.query === undefined)) {
+    problems.push({ path: childPath(childPath(path, 'source'), 'sql'), message: 'give exactly one of "table" or "query"' });
+  }
+}
+
+/** Refuses a method this build of the procedure does not implement (no silent fallback). */
+export function requireAsymptotic(spec: SpecV1): void {
+  if (spec.method !== undefined && spec.method !== 'asymptotic') {
+    throw new InputError(
+      `$.method: "${spec.method}" is not available for the ${spec.test} test in this version; use "asymptotic" or remove "method"`,
+      { jsonPath: '$.method' },
+      'method-unavailable',
+    );
+  }
+}
+
+/** Reads the aggregate a test expects, with a clear error when the reader returns another shape. */
+export async function aggregateOf<K extends Aggregate['kind']>(
+  ctx: RunContext,
+  request: Parameters<RunContext['aggregate']>[0],
+  kind: K,
+  levels?: Parameters<RunContext['aggregate']>[1],
+): Promise<Extract<Aggregate, { kind: K }>> {
+  const aggregate = await ctx.aggregate(request, levels);
+  if (aggregate.kind !== kind) {
+    throw new InputError(`$.source: expected the reader to produce ${kind}, got ${aggregate.kind}`, { jsonPath: '$.source' }, 'unexpected-aggregate');
+  }
+  return aggregate as Extract<Aggregate, { kind: K }>;
+}
+
+function list(keys: readonly string[]): string {
+  return keys.map((k) => `"${k}"`).join(', ');
+}
+

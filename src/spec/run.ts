@@ -1,0 +1,126 @@
+/**
+ * `runSpec`: the one code path from a saved spec to a result, shared by the command line, the editor's
+ * commands, the Testing view and living report blocks. File access is injected (`SpecReaders`), so this
+ * module reads nothing itself; it resolves and checks source paths, validates the whole spec before
+ * anything runs, and returns the data fingerprint beside the result for recording and review.
+ */
+import { createHash } from 'node:crypto';
+import * as path from 'node:path';
+import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/options';
+import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
+import { InputError } from '../errors';
+import { resolveSourcePath } from './paths';
+import { procedureFor } from './procedures/index';
+import type { DataFingerprint, RunContext, RunOptions, SourceSpec, SpecRun, SpecV1 } from './types';
+import { assertValidSpec } from './validate';
+
+export async function runSpec(value: unknown, options: RunOptions): Promise<SpecRun> {
+  const spec = assertValidSpec(value, options.specPath);
+  const handler = procedureFor(spec.test)!;
+  throwIfAborted(options.signal);
+  let provenance: Provenance | undefined;
+  const ctx: RunContext = {
+    signal: options.signal,
+    hasSource: spec.source !== undefined,
+    async aggregate(request, levels) {
+      if (!spec.source) throw new InputError('$.source: this spec has no source to read', { jsonPath: '$.source' }, 'no-source');
+      const aggregate = await readSource(spec.source, request, levels, options);
+      provenance = aggregate.provenance;
+      return aggregate;
+    },
+  };
+  const result = await handler.run(spec, ctx);
+  throwIfAborted(options.signal);
+  const data: DataFingerprint = provenance
+    ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }
+    : inlineFingerprint(spec);
+  return provenance ? { result, data, provenance } : { result, data };
+}
+
+function throwIfAborted(signal: AbortSignal | undefined): void {
+  if (signal?.aborted) throw new InputError('cancelled', {}, 'cancelled');
+}
+
+/** The reader options a spec's `source` stands for. */
+export function intakeOptionsOf(source: SourceSpec, levels?: Pick<CategoryOptions, 'levels' | 'rowLevels' | 'columnLevels'>): IntakeOptions {
+  const missing: MissingOptions | undefined =
+    source.missing === undefined ? undefined : Array.isArray(source.missing) ? { tokens: source.missing } : (source.missing as MissingOptions);
+  const categories: CategoryOptions = {
+    ...(source.categories ? { order: source.categories } : {}),
+    ...(source.caseFold !== undefined ? { caseFold: source.caseFold } : {}),
+    ...(levels?.levels ? { levels: levels.levels } : {}),
+    ...(levels?.rowLevels ? { rowLevels: levels.rowLevels } : {}),
+    ...(levels?.columnLevels ? { columnLevels: levels.columnLevels } : {}),
+  };
+  const dialect = {
+    ...(source.delimiter !== undefined ? { delimiter: source.delimiter } : {}),
+    ...(source.decimal !== undefined ? { decimal: source.decimal } : {}),
+    ...(source.encoding !== undefined ? { encoding: source.encoding } : {}),
+    ...(source.header !== undefined ? { header: source.header } : {}),
+    ...(source.comment !== undefined ? { comment: source.comment } : {}),
+  };
+  return {
+    dialect,
+    ...(missing ? { missing } : {}),
+    categories,
+    ...(source.path !== undefined ? { file: source.path, description: source.path } : {}),
+  };
+}
+
+async function readSource(
+  source: SourceSpec,
+  request: AggregateRequest,
+  levels: Pick<CategoryOptions, 'levels' | 'rowLevels' | 'columnLevels'> | undefined,
+  options: RunOptions,
+): Promise<Aggregate> {
+  const intake = intakeOptionsOf(source, levels);
+  const control = { signal: options.signal, onProgress: options.onProgress };
+  if (source.sql) {
+    if (!options.readers.aggregateSql) {
+      throw new InputError('$.source.sql: database sources are not available here', { jsonPath: '$.source.sql' }, 'sql-unavailable');
+    }
+    return options.readers.aggregateSql(source, request, intake, control);
+  }
+  const specFolder = options.specPath ? path.dirname(path.resolve(options.specPath)) : options.allowedRoot;
+  if (!specFolder) {
+    throw new InputError(
+      '$.source.path: a spec read without a file location needs a folder to resolve its source path against',
+      { jsonPath: '$.source.path' },
+      'no-base-folder',
+    );
+  }
+  const file = resolveSourcePath(specFolder, source.path!, { allowedRoot: options.allowedRoot ?? specFolder, allowOutsideRoot: options.allowOutsideRoot });
+  return options.readers.aggregateFile(file, request, intake, control);
+}
+
+/** JSON with object keys sorted at every level: the same data always gives the same bytes. */
+export function canonicalJson(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(',')}]`;
+  if (value !== null && typeof value === 'object') {
+    const entries = Object.keys(value)
+      .sort()
+      .map((k) => `${JSON.stringify(k)}:${canonicalJson((value as Record<string, unknown>)[k])}`);
+    return `{${entries.join(',')}}`;
+  }
+  return JSON.stringify(value);
+}
+
+export function sha256Hex(text: string): string {
+  return createHash('sha256').update(text, 'utf8').digest('hex');
+}
+
+/** Fingerprint of inline data: the canonical JSON of the fields the handler marks as data. */
+export function inlineFingerprint(spec: SpecV1): DataFingerprint {
+  const handler = procedureFor(spec.test)!;
+  const data: Record<string, unknown> = {};
+  let rows = 0;
+  for (const [name, f] of Object.entries(handler.fields)) {
+    const v = spec[name];
+    if (!f.data || v === undefined) continue;
+    data[name] = v;
+    if (Array.isArray(v)) rows = Math.max(rows, v.length);
+    else if (v !== null && typeof v === 'object' && typeof (v as { n?: unknown }).n === 'number') rows = Math.max(rows, (v as { n: number }).n);
+    else rows = Math.max(rows, 1);
+  }
+  return { sha256: sha256Hex(canonicalJson(data)), rows, columns: [], description: 'inline' };
+}

@@ -1,0 +1,55 @@
+/**
+ * The JSON Schema of `*.countercheck.json`, generated from the procedure registry so that the editor's
+ * completions, hovers and squiggles say exactly what `validateSpec` says. `npm run schema` writes it to
+ * schemas/countercheck.schema.json; a unit test fails when the committed file is stale.
+ */
+import { toJsonSchema, type Field } from './fields';
+import { COMMON_FIELDS, PROCEDURES } from './procedures/index';
+
+export const SCHEMA_ID = 'https://countercheck.dev/schemas/countercheck.schema.json';
+
+export function buildSpecSchema(): Record<string, unknown> {
+  // Every field of every test, for completions and hovers; each test then restricts the names it allows.
+  const properties: Record<string, unknown> = {};
+  const add = (name: string, f: Field, tests: string[]): void => {
+    if (name in properties) return;
+    const s = toJsonSchema(f.type, f.description + (tests.length ? ` (${tests.join(', ')})` : ''));
+    properties[name] = s;
+  };
+  for (const [name, f] of Object.entries(COMMON_FIELDS)) add(name, f, []);
+  properties.version = { ...toJsonSchema(COMMON_FIELDS.version.type, COMMON_FIELDS.version.description), const: 1 };
+  properties.test = {
+    description: COMMON_FIELDS.test.description,
+    enum: PROCEDURES.map((p) => p.test),
+    markdownEnumDescriptions: PROCEDURES.map((p) => p.summary),
+  };
+  const allNames = new Set<string>();
+  for (const p of PROCEDURES) for (const name of Object.keys(p.fields)) allNames.add(name);
+  for (const name of allNames) {
+    const owners = PROCEDURES.filter((p) => name in p.fields);
+    add(name, owners[0].fields[name], owners.map((o) => o.test));
+  }
+  return {
+    $schema: 'http://json-schema.org/draft-07/schema#',
+    $id: SCHEMA_ID,
+    title: 'Countercheck saved test (version 1)',
+    description: 'One chi-square procedure described completely: the data (inline or a source file), the options, and the result recorded when it was saved.',
+    type: 'object',
+    required: ['test'],
+    properties,
+    additionalProperties: false,
+    allOf: PROCEDURES.map((p) => ({
+      if: { properties: { test: { const: p.test } }, required: ['test'] },
+      then: {
+        // The test's own field types (a field shared by several tests may differ in detail, e.g. source columns).
+        properties: Object.fromEntries(Object.entries(p.fields).map(([name, f]) => [name, toJsonSchema(f.type)])),
+        propertyNames: { enum: [...Object.keys(COMMON_FIELDS), ...Object.keys(p.fields)] },
+      },
+    })),
+  };
+}
+
+/** The schema as it is written to disk (stable key order, two-space indent, final newline). */
+export function specSchemaText(): string {
+  return JSON.stringify(buildSpecSchema(), null, 2) + '\n';
+}
