@@ -24,7 +24,7 @@ export type { WireTraffic } from './client';
 export { connectionEnvName, resolveConnection, describeConnection } from './connection';
 export type { ConnectionSettings, Environment, ResolvedConnection, TlsMode } from './connection';
 export { checkSqlSource, planAggregate } from './query';
-export type { SqlAggregateOptions, SqlSource, SqlSourceSpec, MissingPolicy } from './query';
+export type { SqlAggregateOptions, SqlSource, SqlSourceSpec } from './query';
 
 export interface SqlReaderContext {
   /** The `countercheck.connections` setting (the CLI may pass it from a settings file). */

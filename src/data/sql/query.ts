@@ -16,6 +16,8 @@
  */
 import { InputError, type InputLocation } from '../../errors';
 import type { Aggregate, AggregateRequest, Provenance } from '../types';
+import { CategoryCoder, MISSING, missingTokens } from '../categories';
+import type { CategoryOptions, MissingOptions } from '../options';
 import { describePosition, tokenizeSql, type SqlToken } from './lexer';
 
 /** The `"sql"` member of a spec's source. */
@@ -39,24 +41,17 @@ export interface SqlSource {
   readonly asOf?: string;
 }
 
-export type MissingPolicy = 'drop' | 'category';
-
+/**
+ * Missing values and category levels follow the file readers' options exactly (IntakeOptions), so
+ * the same spec gives the same table from a CSV file and from a table. SQL NULL is always missing.
+ * Level order: "given" as given; otherwise sorted (a server has no "first seen" order).
+ */
 export interface SqlAggregateOptions {
-  /** Missing values: drop the record (default) or count it as its own category. */
-  readonly missing?: MissingPolicy;
-  /** Text values treated as missing in category columns (besides NULL), compared after trimming. */
-  readonly missingValues?: readonly string[];
-  /** Label of the missing category when `missing` is "category". */
-  readonly missingLabel?: string;
-  /** Fold category labels to lower case. */
-  readonly caseFold?: boolean;
+  readonly missing?: MissingOptions;
+  readonly categories?: CategoryOptions;
   /** Also compute the third and fourth central moments (a second pass over the data). Default true. */
   readonly higherMoments?: boolean;
 }
-
-/** Defaults shared with the file readers (issue of data intake: empty, NA, NaN, null, -). */
-export const defaultMissingValues: readonly string[] = ['', 'NA', 'NaN', 'null', '-'];
-export const defaultMissingLabel = '(missing)';
 
 const sqlLocation: InputLocation = { jsonPath: '$.source.sql' };
 
@@ -263,21 +258,18 @@ export function planAggregate(source: SqlSource, request: AggregateRequest, opti
   }
   const keys = request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
   const keySql = keys.map((k, i) => `(${quoteIdentifier(k, { column: k })})::text AS k${i}`);
-  const aggregates = ['count(*) AS records'];
-  const numericColumns: string[] = [];
-  if (request.weight !== undefined) {
-    const w = `(${quoteIdentifier(request.weight, { column: request.weight })})::numeric`;
-    aggregates.push(
-      `count(${w}) AS weighted`,
-      `sum(${w}) AS weight`,
-      // Frequency weights must be non-negative integers; counted here so the message can say how many are not.
-      `sum(CASE WHEN ${w} IS NOT NULL AND NOT (${w} >= 0 AND ${w} = trunc(${w})) THEN 1 ELSE 0 END) AS invalid_weights`,
-    );
-    numericColumns.push(request.weight);
+  const groupBy = `GROUP BY ${keys.map((_, i) => String(i + 1)).join(', ')}`;
+  if (request.weight === undefined) {
+    return { text: `SELECT ${keySql.join(', ')}, count(*) AS records\n${from}\n${groupBy}`, values, columns: keys, numericColumns: [] };
   }
-  const groupBy = keys.map((_, i) => String(i + 1)).join(', ');
-  const text = `SELECT ${[...keySql, ...aggregates].join(', ')}\n${from}\nGROUP BY ${groupBy}`;
-  return { text, values, columns: request.weight !== undefined ? [...keys, request.weight] : keys, numericColumns };
+  // NaN is a missing weight, as in the file readers. Frequency weights must be non-negative whole
+  // numbers; those that are not are counted, so the message can say how many.
+  const w = `NULLIF((${quoteIdentifier(request.weight, { column: request.weight })})::numeric, 'NaN'::numeric) AS w`;
+  const text =
+    `SELECT ${keys.map((_, i) => `k${i}`).join(', ')}, count(*) AS records, count(w) AS weighted, sum(w) AS weight,\n` +
+    `  sum(CASE WHEN w >= 0 AND w = trunc(w) THEN 0 WHEN w IS NULL THEN 0 ELSE 1 END) AS invalid_weights\n` +
+    `FROM (SELECT ${keySql.join(', ')}, ${w}\n${from}\n) AS g\n${groupBy}`;
+  return { text, values, columns: [...keys, request.weight], numericColumns: [request.weight] };
 }
 
 /** A row as the pg client returns it: bigint and numeric arrive as strings, double precision as numbers. */
@@ -304,9 +296,16 @@ export type DecodedAggregate =
   | { readonly kind: 'categories'; readonly counts: Extract<Aggregate, { kind: 'categories' }>['counts']; readonly provenance: Described }
   | { readonly kind: 'moments'; readonly moments: Extract<Aggregate, { kind: 'moments' }>['moments']; readonly provenance: Described };
 
+// PostgreSQL text never holds U+0000, so this stands for SQL NULL among the missing-value tokens.
+const NULL_TOKEN = '\u0000';
 const byCodeUnits = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 0);
 
-/** Turns the aggregate rows of `planAggregate` into the reader's Aggregate (labels sorted). */
+/**
+ * Turns the aggregate rows of `planAggregate` into the reader's Aggregate with the file readers'
+ * category coding (trimming, case folding, missing tokens, given levels, order), applied to each
+ * group as the file reader applies it to each record: both labels are coded even when the record
+ * is then dropped, so the levels are the same as from the same data in a file.
+ */
 export function decodeAggregate(request: AggregateRequest, rows: readonly AggregateRow[], options: SqlAggregateOptions = {}): DecodedAggregate {
   if (request.kind === 'counted-table') throw new InputError('a SQL source cannot read an already counted table', sqlLocation, 'sql-counted-table');
   if (request.kind === 'numeric') {
@@ -329,62 +328,70 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
       provenance: { rows: records, dropped: records - n, columns: [request.column] },
     };
   }
-  const keyCount = request.kind === 'crosstab' ? 2 : 1;
-  const missingValues = new Set((options.missingValues ?? defaultMissingValues).map((m) => m.trim()));
-  const missingLabel = options.missingLabel ?? defaultMissingLabel;
-  const dropMissing = (options.missing ?? 'drop') === 'drop';
-  const weighted = request.weight !== undefined;
-  const normalise = (raw: unknown): string | undefined => {
-    if (raw === null || raw === undefined) return dropMissing ? undefined : missingLabel;
-    const trimmed = String(raw).trim();
-    if (missingValues.has(trimmed)) return dropMissing ? undefined : missingLabel;
-    return options.caseFold ? trimmed.toLowerCase() : trimmed;
+  const keys = request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
+  const cats = options.categories;
+  const settings = {
+    missing: { ...options.missing, tokens: [...missingTokens(options.missing), NULL_TOKEN] },
+    categories: { ...cats, order: cats?.order === 'given' ? ('given' as const) : ('sorted' as const) },
   };
+  const given = request.kind === 'crosstab' ? [cats?.rowLevels, cats?.columnLevels] : [cats?.levels];
+  const coders = keys.map((k, i) => new CategoryCoder(k, given[i], settings));
+  const weighted = request.weight !== undefined;
+  const label = (raw: unknown): string => (raw === null || raw === undefined ? NULL_TOKEN : String(raw));
+  // Groups in a fixed order, so that labels equal after trimming or case folding show the same way each run.
+  const groups = rows
+    .map((row) => ({ row, labels: keys.map((_, i) => label(row[`k${i}`])) }))
+    .sort((a, b) => byCodeUnits(a.labels[0], b.labels[0]) || byCodeUnits(a.labels[1] ?? '', b.labels[1] ?? ''));
   let records = 0;
   let dropped = 0;
   let invalidWeights = 0;
-  const cells = new Map<string, number>();
-  const levels: Set<string>[] = [new Set(), new Set()];
-  for (const row of rows) {
+  const cells: number[][] = [];
+  for (const { row, labels } of groups) {
     const n = toCount(row.records, 'a group count');
     records += n;
-    const labels = [normalise(row.k0), keyCount === 2 ? normalise(row.k1) : ''];
-    if (labels.some((l) => l === undefined)) {
-      dropped += n;
-      continue;
-    }
+    // A group has no position in a file; the coder's messages then name only the column.
+    const ids = labels.map((l, i) => coders[i].code(l, undefined as unknown as number));
     let count = n;
+    let withWeight = n;
     if (weighted) {
-      const withWeight = toCount(row.weighted, 'a count of weights');
+      withWeight = toCount(row.weighted, 'a count of weights');
       invalidWeights += toCount(row.invalid_weights, 'a count of invalid weights');
-      dropped += n - withWeight;
-      if (withWeight === 0) continue;
-      count = toReal(row.weight);
+      count = withWeight === 0 ? 0 : toReal(row.weight);
       if (!Number.isFinite(count)) {
         throw new InputError(`column \`${request.weight}\`: the weights sum to ${String(row.weight)}; expected finite frequency weights`, { column: request.weight }, 'non-integer-weight');
       }
     }
-    const key = JSON.stringify(labels);
-    cells.set(key, (cells.get(key) ?? 0) + count);
-    levels[0].add(labels[0] as string);
-    levels[1].add(labels[1] as string);
+    if (ids.some((id) => id === MISSING)) {
+      dropped += n;
+      continue;
+    }
+    dropped += n - withWeight;
+    if (withWeight === 0) continue;
+    const r = ids[0];
+    const c = ids[1] ?? 0;
+    const cellRow = (cells[r] ??= []);
+    cellRow[c] = (cellRow[c] ?? 0) + count;
   }
   if (invalidWeights > 0) {
     throw new InputError(
-      `column \`${request.weight}\`: ${invalidWeights} record${invalidWeights === 1 ? ' has a weight that is' : 's have weights that are'} not a non-negative integer; count tests need frequency weights`,
+      `column \`${request.weight}\`: ${invalidWeights} record${invalidWeights === 1 ? ' has a weight that is' : 's have weights that are'} not a non-negative whole number; count tests need frequency weights (how many times each record occurred)`,
       { column: request.weight },
       'non-integer-weight',
     );
   }
-  const columns = weighted ? [...(request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column]), request.weight as string] : request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
-  const provenance: Described = { rows: records, dropped, columns };
-  const rowLabels = [...levels[0]].sort(byCodeUnits);
+  const provenance: Described = { rows: records, dropped, columns: weighted ? [...keys, request.weight as string] : keys };
+  const rowOrder = coders[0].order();
+  const rowLabels = rowOrder.map((i) => coders[0].labels[i]);
   if (request.kind === 'categories') {
-    return { kind: 'categories', counts: { labels: rowLabels, counts: rowLabels.map((l) => cells.get(JSON.stringify([l, ''])) ?? 0) }, provenance };
+    return { kind: 'categories', counts: { labels: rowLabels, counts: rowOrder.map((i) => cells[i]?.[0] ?? 0) }, provenance };
   }
-  const columnLabels = [...levels[1]].sort(byCodeUnits);
-  const counts = rowLabels.map((r) => columnLabels.map((c) => cells.get(JSON.stringify([r, c])) ?? 0));
-  return { kind: 'table', table: { rowLabels, columnLabels, counts }, provenance };
+  const columnOrder = coders[1].order();
+  const table = {
+    rowLabels,
+    columnLabels: columnOrder.map((j) => coders[1].labels[j]),
+    counts: rowOrder.map((i) => columnOrder.map((j) => cells[i]?.[j] ?? 0)),
+  };
+  return { kind: 'table', table, provenance };
 }
 
 /**

@@ -152,9 +152,12 @@ describe('generated aggregation', () => {
 
   it('weights with sum(weight) and counts weights that are not frequencies', () => {
     const plan = planAggregate({ ...table, where: 'oven = $1', parameters: ['B'] }, { kind: 'categories', column: 'shift', weight: 'n' });
-    assert.match(plan.text, /sum\(\("n"\)::numeric\) AS weight/);
-    assert.match(plan.text, /AS invalid_weights/);
-    assert.match(plan.text, /WHERE \(\noven = \$1\n\)\nGROUP BY 1$/);
+    assert.equal(
+      plan.text,
+      'SELECT k0, count(*) AS records, count(w) AS weighted, sum(w) AS weight,\n' +
+        '  sum(CASE WHEN w >= 0 AND w = trunc(w) THEN 0 WHEN w IS NULL THEN 0 ELSE 1 END) AS invalid_weights\n' +
+        'FROM (SELECT ("shift")::text AS k0, NULLIF(("n")::numeric, \'NaN\'::numeric) AS w\nFROM "public"."defects"\nWHERE (\noven = $1\n)\n) AS g\nGROUP BY 1',
+    );
     assert.deepEqual(plan.values, ['B']);
     assert.deepEqual(plan.numericColumns, ['n']);
   });
@@ -208,8 +211,8 @@ describe('decoding aggregate rows', () => {
       { k0: 'burn', records: 2 },
       { k0: null, records: '3' },
       { k0: '', records: '1' },
-    ], { missing: 'category', missingLabel: '(none)' });
-    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['(none)', 'burn'], counts: [4, 2] });
+    ], { missing: { policy: 'category', label: '(none)' } });
+    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['burn', '(none)'], counts: [2, 4] }, 'the missing level comes last, as from a file');
     assert.equal(d.provenance.dropped, 0);
   });
 
@@ -219,9 +222,9 @@ describe('decoding aggregate rows', () => {
       { k0: 'a', records: '3', weighted: '2', weight: '40', invalid_weights: '0' },
       { k0: 'b', records: '1', weighted: '0', weight: null, invalid_weights: '0' },
     ]);
-    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['a'], counts: [40] });
+    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['a', 'b'], counts: [40, 0] }, 'b is seen, as in a file, though its records are dropped');
     assert.deepEqual(d.provenance, { rows: 4, dropped: 2, columns: ['shift', 'n'] });
-    refuses(() => decodeAggregate(request, [{ k0: 'a', records: '3', weighted: '3', weight: '2.5', invalid_weights: '2' }]), 'non-integer-weight', /2 records have weights that are not a non-negative integer/);
+    refuses(() => decodeAggregate(request, [{ k0: 'a', records: '3', weighted: '3', weight: '2.5', invalid_weights: '2' }]), 'non-integer-weight', /2 records have weights that are not a non-negative whole number/);
     refuses(() => decodeAggregate(request, [{ k0: 'a', records: '1', weighted: '1', weight: 'NaN', invalid_weights: '0' }]), 'non-integer-weight', /sum to NaN/);
   });
 
@@ -229,6 +232,26 @@ describe('decoding aggregate rows', () => {
     const d = decodeAggregate({ kind: 'numeric', column: 'x' }, [{ records: '6', n: '5', mean: 3, variance: 2.5, min: 1, max: 5, m3: 0, m4: 34 }]);
     assert.deepEqual(d.kind === 'moments' && d.moments, { n: 5, mean: 3, m2: 10, m3: 0, m4: 34, min: 1, max: 5 });
     assert.deepEqual(d.provenance, { rows: 6, dropped: 1, columns: ['x'] });
+  });
+
+  it('codes labels as the file readers do: trimmed, case-folded on request, numeric labels sorted as numbers, given levels kept', () => {
+    const rows = [
+      { k0: 'Oven A', records: 1 },
+      { k0: 'oven a ', records: 2 },
+      { k0: 'Oven B', records: 4 },
+    ];
+    const folded = decodeAggregate({ kind: 'categories', column: 'oven' }, rows, { categories: { caseFold: true } });
+    assert.deepEqual(folded.kind === 'categories' && folded.counts, { labels: ['Oven A', 'Oven B'], counts: [3, 4] });
+    const numeric = decodeAggregate({ kind: 'categories', column: 'size' }, [{ k0: '10', records: 1 }, { k0: '9', records: 2 }]);
+    assert.deepEqual(numeric.kind === 'categories' && numeric.counts.labels, ['9', '10']);
+    const given = decodeAggregate({ kind: 'categories', column: 'size' }, [{ k0: 'M', records: 1 }], { categories: { order: 'given', levels: ['S', 'M', 'L'] } });
+    assert.deepEqual(given.kind === 'categories' && given.counts, { labels: ['S', 'M', 'L'], counts: [0, 1, 0] });
+    refuses(() => decodeAggregate({ kind: 'categories', column: 'size' }, [{ k0: 'XL', records: 1 }], { categories: { levels: ['S'] } }), 'unknown-category', /column `size`: found `XL`/);
+  });
+
+  it('keeps the levels of a record dropped for a missing value in the other column, as a file does', () => {
+    const d = decodeAggregate(crosstab, [{ k0: 'night', k1: null, records: 2 }, { k0: 'early', k1: 'burn', records: 1 }]);
+    assert.deepEqual(d.kind === 'table' && d.table, { rowLabels: ['early', 'night'], columnLabels: ['burn'], counts: [[1], [0]] });
   });
 
   it('refuses a count the client cannot hold exactly', () => {
