@@ -1,0 +1,158 @@
+/**
+ * The central chi-square distribution with real degrees of freedom df, as a gamma distribution with
+ * shape df/2 and scale 2: F(x; df) = P(df/2, x/2), upper tail Q(df/2, x/2), each computed directly.
+ *
+ * Domain, for every function here:
+ * - df > 0 real. df = 0 is the point mass at 0 (lower tail 1 and upper tail 0 for x ≥ 0; quantile 0).
+ * - df < 0, df = ∞ or NaN → NaN (the functions never throw; procedures validate their own inputs).
+ * - x < 0 → lower tail 0, upper tail 1, density 0. x = ∞ → lower 1, upper 0. x NaN → NaN.
+ * - Probabilities outside [0, 1] (or log probabilities > 0) given to a quantile → NaN.
+ */
+import {
+  gammaPrefactor,
+  logGamma1p,
+  logGammaPrefactor,
+  logRegularizedGammaLower,
+  logRegularizedGammaUpper,
+  regularizedGammaLower,
+  regularizedGammaUpper,
+} from './gamma';
+import { normalQuantileFromLog, normalUpperQuantileFromLog } from './normal';
+import { log1mExp, probabilityFromBoth } from './probability';
+import type { Probability } from './result';
+
+function badDf(df: number): boolean {
+  return !(df >= 0 && df < Infinity);
+}
+
+/** Density of χ²(df) at x. At x = 0: ∞ for df < 2, ½ for df = 2, 0 for df > 2; df = 0: ∞ at 0, else 0. */
+export function chiSquareDensity(x: number, df: number): number {
+  if (badDf(df) || Number.isNaN(x)) return NaN;
+  if (x < 0 || x === Infinity) return 0;
+  if (df === 0) return x === 0 ? Infinity : 0;
+  const a = df / 2;
+  if (x === 0) return a < 1 ? Infinity : a === 1 ? 0.5 : 0;
+  // f(x) = (a/x) · (x/2)^a e^(−x/2) / Γ(a + 1).
+  const d = gammaPrefactor(a, x / 2);
+  if (d > 0 && x > 1e-300) return (d * a) / x;
+  return Math.exp(logGammaPrefactor(a, x / 2) + Math.log(a) - Math.log(x));
+}
+
+/** P(X ≤ x) for X ~ χ²(df). */
+export function chiSquareLowerTail(x: number, df: number): number {
+  if (badDf(df)) return NaN;
+  return regularizedGammaLower(df / 2, x / 2);
+}
+
+/** P(X > x) for X ~ χ²(df), computed directly (the upper tail at 161.13, df 4 is 8.35e-34, not 0). */
+export function chiSquareUpperTail(x: number, df: number): number {
+  if (badDf(df)) return NaN;
+  return regularizedGammaUpper(df / 2, x / 2);
+}
+
+/** ln P(X ≤ x). */
+export function chiSquareLogLowerTail(x: number, df: number): number {
+  if (badDf(df)) return NaN;
+  return logRegularizedGammaLower(df / 2, x / 2);
+}
+
+/** ln P(X > x); finite far below the double range (x = 2000, df = 1 gives about −1006.8, i.e. 10^−437.2). */
+export function chiSquareLogUpperTail(x: number, df: number): number {
+  if (badDf(df)) return NaN;
+  return logRegularizedGammaUpper(df / 2, x / 2);
+}
+
+/** P(X ≤ x) as a value and a power of ten. */
+export function chiSquareLowerProbability(x: number, df: number): Probability {
+  return probabilityFromBoth(chiSquareLowerTail(x, df), chiSquareLogLowerTail(x, df));
+}
+
+/** P(X > x) as a value and a power of ten (the p-value of an observed statistic x). */
+export function chiSquareUpperProbability(x: number, df: number): Probability {
+  return probabilityFromBoth(chiSquareUpperTail(x, df), chiSquareLogUpperTail(x, df));
+}
+
+const LN_HALF = -Math.LN2;
+
+/**
+ * The gamma(a, 1) quantile y with ln(tail) = lnTarget, where tail is the lower tail (upper = false)
+ * or the upper tail (upper = true); the caller passes the smaller tail (lnTarget ≤ ln ½).
+ * Start: Wilson & Hilferty (1931) cube-root normal approximation, or for a small lower tail the
+ * leading term P ≈ y^a/Γ(a+1) (as in Best & Roberts 1975, AS 91). Refinement: Newton's method on
+ * ln(tail), in ln y for the lower tail and in y for the upper tail, kept inside a shrinking bracket.
+ */
+function gammaQuantile(a: number, lnTarget: number, upper: boolean): number {
+  const df = 2 * a;
+  const z = upper ? normalUpperQuantileFromLog(lnTarget) : normalQuantileFromLog(lnTarget);
+  const c = 2 / (9 * df);
+  const wh = (df * Math.pow(1 - c + z * Math.sqrt(c), 3)) / 2;
+  let y = wh;
+  if (!upper) {
+    const small = (lnTarget + logGamma1p(a)) / a;
+    if (!(wh > 0) || df < -1.24 * lnTarget) {
+      if (small < -700) return Math.exp(small);
+      y = Math.exp(small);
+    }
+  } else if (!(wh > 0)) {
+    y = a;
+  }
+  let lo = 0;
+  let hi = Infinity;
+  for (let iter = 0; iter < 200; iter++) {
+    const lnTail = upper ? logRegularizedGammaUpper(a, y) : logRegularizedGammaLower(a, y);
+    const g = lnTail - lnTarget;
+    if (g === 0 || Number.isNaN(g)) return y;
+    // The tail is decreasing in y for the upper tail, increasing for the lower tail.
+    if ((g > 0) === upper) lo = y;
+    else hi = y;
+    // d ln(tail)/dy = ± y^(a−1) e^(−y) / (Γ(a) · tail) = ± a · prefactor / (y · tail).
+    const slope = Math.exp(Math.log(a) + logGammaPrefactor(a, y) - lnTail);
+    let next: number;
+    if (upper) next = y + (g * y) / slope;
+    else next = y * Math.exp(-g / slope);
+    if (!(next > lo && next < hi)) next = hi === Infinity ? 2 * lo + 1 : lo === 0 ? hi / 16 : 0.5 * (lo + hi);
+    if (Math.abs(next - y) <= 4e-16 * y) return next;
+    y = next;
+  }
+  return y;
+}
+
+function validProbability(p: number): boolean {
+  return p >= 0 && p <= 1;
+}
+
+/** x with P(X ≤ x) = p. p = 0 → 0, p = 1 → ∞; for p > ½ the upper tail 1 − p (exact there) is solved. */
+export function chiSquareQuantile(p: number, df: number): number {
+  if (badDf(df) || !validProbability(p)) return NaN;
+  if (df === 0 || p === 0) return 0;
+  if (p === 1) return Infinity;
+  const a = df / 2;
+  return 2 * (p <= 0.5 ? gammaQuantile(a, Math.log(p), false) : gammaQuantile(a, Math.log1p(-p), true));
+}
+
+/** x with P(X > x) = q, solved on the upper tail itself for q ≤ ½ (so q = 1e-300 works). q = 1 → 0, q = 0 → ∞. */
+export function chiSquareUpperQuantile(q: number, df: number): number {
+  if (badDf(df) || !validProbability(q)) return NaN;
+  if (df === 0 || q === 1) return 0;
+  if (q === 0) return Infinity;
+  const a = df / 2;
+  return 2 * (q <= 0.5 ? gammaQuantile(a, Math.log(q), true) : gammaQuantile(a, Math.log1p(-q), false));
+}
+
+/** x with ln P(X > x) = lnQ, for upper tails below the double range (e.g. lnQ = −7539 for 10^−3274). */
+export function chiSquareUpperQuantileFromLog(lnQ: number, df: number): number {
+  if (badDf(df) || !(lnQ <= 0)) return NaN;
+  if (df === 0 || lnQ === 0) return 0;
+  if (lnQ === -Infinity) return Infinity;
+  const a = df / 2;
+  return 2 * (lnQ <= LN_HALF ? gammaQuantile(a, lnQ, true) : gammaQuantile(a, log1mExp(lnQ), false));
+}
+
+/** x with ln P(X ≤ x) = lnP. */
+export function chiSquareQuantileFromLog(lnP: number, df: number): number {
+  if (badDf(df) || !(lnP <= 0)) return NaN;
+  if (df === 0 || lnP === -Infinity) return 0;
+  if (lnP === 0) return Infinity;
+  const a = df / 2;
+  return 2 * (lnP <= LN_HALF ? gammaQuantile(a, lnP, false) : gammaQuantile(a, log1mExp(lnP), true));
+}

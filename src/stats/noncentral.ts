@@ -1,0 +1,270 @@
+/**
+ * The noncentral chi-square distribution χ²(df, ncp), for power and sample-size calculations:
+ * a Poisson(ncp/2) mixture of central χ²(df + 2j). Each tail is summed directly (never as 1 − the other).
+ *
+ * Method (after Ding 1992 and Benton & Krishnamoorthy 2003, rearranged so every recurrence adds
+ * positive terms): with a = df/2, h = x/2, m = ncp/2, w_j the Poisson weights and
+ * D(b, h) = h^b e^(−h)/Γ(b+1),
+ *   lower tail  L = Σ w_j P(a+j, h), P(b−1, h) = P(b, h) + D(b−1, h), summed downward from beyond the
+ *               Poisson bulk, where P is evaluated once directly;
+ *   upper tail  U = Σ w_j Q(a+j, h), Q(b+1, h) = Q(b, h) + D(b, h), summed upward from below the bulk.
+ * The products t_j = w_j·P(a+j) (or w_j·Q(a+j)) are carried with their own recurrences and a power-of-two
+ * scale, so tails far below the double range keep their logarithm. Terms are summed until they fall
+ * below 1e-18 of the total past the mode of the terms.
+ *
+ * Domain: df ≥ 0 (df = 0 has an atom e^(−ncp/2) at 0), ncp ≥ 0 (0 gives the central distribution);
+ * negative, infinite or NaN parameters → NaN. x < 0 → lower 0, upper 1; x = ∞ → lower 1, upper 0.
+ */
+import {
+  gammaPrefactor,
+  logGammaPrefactor,
+  logRegularizedGammaLower,
+  logRegularizedGammaUpper,
+  regularizedGammaLower,
+  regularizedGammaUpper,
+} from './gamma';
+import {
+  chiSquareLogLowerTail,
+  chiSquareLogUpperTail,
+  chiSquareLowerTail,
+  chiSquareQuantile,
+  chiSquareUpperQuantile,
+  chiSquareUpperTail,
+} from './chisquare';
+
+const RELATIVE_NEGLIGIBLE = 1e-18;
+const RESCALE_ABOVE = 2 ** 600;
+const RESCALE_FACTOR = 2 ** -600;
+const MAX_TERMS = 10_000_000;
+
+/** A sum kept as sum · 2^k. */
+interface ScaledSum {
+  readonly sum: number;
+  readonly k: number;
+}
+
+function scaledValue(s: ScaledSum): number {
+  if (s.k === 0) return s.sum;
+  const half = Math.trunc(s.k / 2);
+  return s.sum * 2 ** half * 2 ** (s.k - half);
+}
+
+function scaledLog(s: ScaledSum): number {
+  return Math.log(s.sum) + s.k * Math.LN2;
+}
+
+/** Starting products (w·tail, w·D) at a common power-of-two scale chosen from their logarithms. */
+function startingTerms(
+  lnW: number,
+  lnTail: number,
+  lnD: number,
+  direct: () => [number, number],
+): { t: number; e: number; k: number } {
+  const largest = Math.max(lnW + lnTail, lnW + lnD);
+  const smallest = Math.min(lnW + lnTail, lnW + lnD);
+  if (largest < 600 && smallest > -600) {
+    const [t, e] = direct();
+    return { t, e, k: 0 };
+  }
+  const k = Math.floor(largest / Math.LN2);
+  return { t: Math.exp(lnW + lnTail - k * Math.LN2), e: Math.exp(lnW + lnD - k * Math.LN2), k };
+}
+
+function lowerMixture(a: number, h: number, m: number): ScaledSum {
+  const jHi = Math.ceil(m + 10 * Math.sqrt(m) + 40);
+  const b = a + jHi;
+  const lnW = logGammaPrefactor(jHi, m);
+  const start = startingTerms(lnW, logRegularizedGammaLower(b, h), logGammaPrefactor(b - 1, h), () => {
+    const w = gammaPrefactor(jHi, m);
+    return [w * regularizedGammaLower(b, h), w * gammaPrefactor(b - 1, h)];
+  });
+  let { t, e: f, k } = start;
+  let sum = t;
+  let previous = t;
+  // t_{j−1} = (j/m)(t_j + f_j), f_j = w_j D(a+j−1, h), f_{j−1} = f_j · j (a+j−1) / (m h).
+  for (let j = jHi; j >= 1; j--) {
+    const r = j / m;
+    const next = r * (t + f);
+    f = (f * r * (a + j - 1)) / h;
+    t = next;
+    sum += t;
+    if (sum > RESCALE_ABOVE || f > RESCALE_ABOVE) {
+      t *= RESCALE_FACTOR;
+      f *= RESCALE_FACTOR;
+      sum *= RESCALE_FACTOR;
+      previous *= RESCALE_FACTOR;
+      k += 600;
+    }
+    if (j - 1 <= m && t < previous && t <= sum * RELATIVE_NEGLIGIBLE) break;
+    previous = t;
+  }
+  return { sum, k };
+}
+
+function upperMixture(a: number, h: number, m: number): ScaledSum {
+  const jLo = Math.max(0, Math.floor(m - 10 * Math.sqrt(m) - 40));
+  const b = a + jLo;
+  const lnW = logGammaPrefactor(jLo, m);
+  const start = startingTerms(lnW, logRegularizedGammaUpper(b, h), logGammaPrefactor(b, h), () => {
+    const w = gammaPrefactor(jLo, m);
+    return [w * regularizedGammaUpper(b, h), w * gammaPrefactor(b, h)];
+  });
+  let { t, e, k } = start;
+  let sum = t;
+  let previous = t;
+  // t_{j+1} = (m/(j+1))(t_j + e_j), e_j = w_j D(a+j, h), e_{j+1} = e_j · m h / ((j+1)(a+j+1)).
+  for (let j = jLo; j < jLo + MAX_TERMS; j++) {
+    const r = m / (j + 1);
+    const next = r * (t + e);
+    e = (e * r * h) / (a + j + 1);
+    t = next;
+    sum += t;
+    if (sum > RESCALE_ABOVE || e > RESCALE_ABOVE) {
+      t *= RESCALE_FACTOR;
+      e *= RESCALE_FACTOR;
+      sum *= RESCALE_FACTOR;
+      previous *= RESCALE_FACTOR;
+      k += 600;
+    }
+    if (j + 1 >= m && t < previous && t <= sum * RELATIVE_NEGLIGIBLE) break;
+    previous = t;
+  }
+  return { sum, k };
+}
+
+function badParameters(x: number, df: number, ncp: number): boolean {
+  return Number.isNaN(x) || !(df >= 0 && df < Infinity) || !(ncp >= 0 && ncp < Infinity);
+}
+
+type Edge = { lower: number } | null;
+
+/** Lower-tail value at the edges of the support (x ≤ 0, x = ∞), or null inside. */
+function edge(x: number, df: number, ncp: number): Edge {
+  if (x < 0) return { lower: 0 };
+  if (x === Infinity) return { lower: 1 };
+  if (x === 0) return { lower: df === 0 ? Math.exp(-ncp / 2) : 0 };
+  return null;
+}
+
+/** P(X ≤ x) for X ~ χ²(df, ncp). */
+export function noncentralChiSquareLowerTail(x: number, df: number, ncp: number): number {
+  if (badParameters(x, df, ncp)) return NaN;
+  if (ncp === 0) return chiSquareLowerTail(x, df);
+  const at = edge(x, df, ncp);
+  if (at) return at.lower;
+  return scaledValue(lowerMixture(df / 2, x / 2, ncp / 2));
+}
+
+/** P(X > x) for X ~ χ²(df, ncp), summed directly. */
+export function noncentralChiSquareUpperTail(x: number, df: number, ncp: number): number {
+  if (badParameters(x, df, ncp)) return NaN;
+  if (ncp === 0) return chiSquareUpperTail(x, df);
+  const at = edge(x, df, ncp);
+  if (at) return 1 - at.lower;
+  return scaledValue(upperMixture(df / 2, x / 2, ncp / 2));
+}
+
+/** ln P(X ≤ x). */
+export function noncentralChiSquareLogLowerTail(x: number, df: number, ncp: number): number {
+  if (badParameters(x, df, ncp)) return NaN;
+  if (ncp === 0) return chiSquareLogLowerTail(x, df);
+  const at = edge(x, df, ncp);
+  if (at) return Math.log(at.lower);
+  return scaledLog(lowerMixture(df / 2, x / 2, ncp / 2));
+}
+
+/** ln P(X > x). */
+export function noncentralChiSquareLogUpperTail(x: number, df: number, ncp: number): number {
+  if (badParameters(x, df, ncp)) return NaN;
+  if (ncp === 0) return chiSquareLogUpperTail(x, df);
+  const at = edge(x, df, ncp);
+  if (at) return Math.log1p(-at.lower);
+  return scaledLog(upperMixture(df / 2, x / 2, ncp / 2));
+}
+
+/**
+ * Root of the increasing function g on (0, ∞), by bracketing from a start and then the Illinois
+ * variant of false position (Dowell & Jarratt 1971) in ln x, with bisection when it stalls.
+ */
+function solveIncreasing(g: (x: number) => number, start: number): number {
+  let lo = start;
+  let hi = start;
+  let gLo = g(lo);
+  let gHi = gLo;
+  if (gLo === 0) return lo;
+  for (let i = 0; i < 2000 && gLo > 0; i++) {
+    hi = lo;
+    gHi = gLo;
+    lo = lo / 2;
+    if (lo < 1e-300) return lo;
+    gLo = g(lo);
+  }
+  for (let i = 0; i < 2000 && gHi < 0; i++) {
+    lo = hi;
+    gLo = gHi;
+    hi = hi * 2;
+    gHi = g(hi);
+  }
+  if (gLo === 0) return lo;
+  if (gHi === 0) return hi;
+  let u0 = Math.log(lo);
+  let u1 = Math.log(hi);
+  let g0 = gLo;
+  let g1 = gHi;
+  let side = 0;
+  for (let i = 0; i < 300; i++) {
+    let u = (u0 * g1 - u1 * g0) / (g1 - g0);
+    if (!(u > u0 && u < u1)) u = 0.5 * (u0 + u1);
+    const gu = g(Math.exp(u));
+    if (gu === 0 || Number.isNaN(gu)) return Math.exp(u);
+    if (gu < 0) {
+      u0 = u;
+      g0 = gu;
+      if (side === -1) g1 /= 2;
+      side = -1;
+    } else {
+      u1 = u;
+      g1 = gu;
+      if (side === 1) g0 /= 2;
+      side = 1;
+    }
+    if (u1 - u0 <= 2e-16 * Math.max(1, Math.abs(u0))) break;
+  }
+  return Math.exp(0.5 * (u0 + u1));
+}
+
+/** Patnaik (1949) two-moment approximation: χ²(df, ncp) ≈ c · χ²(ν). Used only as a starting point. */
+function patnaikStart(p: number, upper: boolean, df: number, ncp: number): number {
+  const c = (df + 2 * ncp) / (df + ncp);
+  const nu = ((df + ncp) * (df + ncp)) / (df + 2 * ncp);
+  const x = c * (upper ? chiSquareUpperQuantile(p, nu) : chiSquareQuantile(p, nu));
+  return x > 0 && Number.isFinite(x) ? x : df + ncp;
+}
+
+function noncentralQuantile(p: number, df: number, ncp: number, upper: boolean): number {
+  if (!(p >= 0 && p <= 1) || !(df >= 0 && df < Infinity) || !(ncp >= 0 && ncp < Infinity)) return NaN;
+  if (ncp === 0) return upper ? chiSquareUpperQuantile(p, df) : chiSquareQuantile(p, df);
+  const lowerP = upper ? 1 - p : p;
+  if (df === 0 && lowerP <= Math.exp(-ncp / 2)) return 0;
+  if (upper ? p === 1 : p === 0) return 0;
+  if (upper ? p === 0 : p === 1) return Infinity;
+  // Solve on the smaller tail, in logs, so that small probabilities keep their precision.
+  const useUpper = upper ? p <= 0.5 : p > 0.5;
+  const target = upper ? (useUpper ? p : 1 - p) : useUpper ? 1 - p : p;
+  const lnTarget = Math.log(target);
+  const start = patnaikStart(target, useUpper, df, ncp);
+  const g = useUpper
+    ? (x: number) => lnTarget - noncentralChiSquareLogUpperTail(x, df, ncp)
+    : (x: number) => noncentralChiSquareLogLowerTail(x, df, ncp) - lnTarget;
+  return solveIncreasing(g, start);
+}
+
+/** x with P(X ≤ x) = p for X ~ χ²(df, ncp). */
+export function noncentralChiSquareQuantile(p: number, df: number, ncp: number): number {
+  return noncentralQuantile(p, df, ncp, false);
+}
+
+/** x with P(X > x) = q for X ~ χ²(df, ncp). */
+export function noncentralChiSquareUpperQuantile(q: number, df: number, ncp: number): number {
+  return noncentralQuantile(q, df, ncp, true);
+}
