@@ -4,6 +4,7 @@
  */
 import { createHash } from 'node:crypto';
 import { InputError } from '../../errors';
+import type { IntakeOptions } from '../options';
 import type { Aggregate, AggregateRequest } from '../types';
 import { withReadOnlySession, type SqlSession, type WireTraffic } from './client';
 import { resolveConnection, type ConnectionSettings, type Environment } from './connection';
@@ -117,6 +118,41 @@ export async function aggregateSql(source: SqlSource, request: AggregateRequest,
     case 'moments':
       return { kind: 'moments', moments: decoded.moments, provenance };
   }
+}
+
+/** The members of a spec's `source` the SQL reader uses (structurally the spec's SourceSpec). */
+export interface SqlSpecSource {
+  readonly sql?: SqlSource['sql'];
+  readonly where?: string;
+  readonly parameters?: SqlSource['parameters'];
+  readonly asOf?: string;
+}
+
+/**
+ * The reader runSpec takes as `readers.aggregateSql`: the spec's source and the reader options it
+ * derived (missing values, categories) in, the Aggregate out. `password` asks the host's secret
+ * storage for a connection's password (absent on the command line: PGPASSWORD or ~/.pgpass).
+ */
+export function sqlSpecReader(context: Omit<SqlReaderContext, 'signal' | 'options' | 'password'> & { password?: (connection: string) => Promise<string | undefined> }) {
+  return async (
+    source: SqlSpecSource,
+    request: AggregateRequest,
+    intake: Pick<IntakeOptions, 'missing' | 'categories'>,
+    control: { readonly signal?: AbortSignal; readonly onProgress?: (fraction: number) => void },
+  ): Promise<Aggregate> => {
+    if (!source.sql) throw new InputError('$.source.sql: expected a SQL source', { jsonPath: '$.source.sql' }, 'sql-source-shape');
+    const sqlSource: SqlSource = { sql: source.sql, where: source.where, parameters: source.parameters, asOf: source.asOf };
+    const password = await context.password?.(source.sql.connection);
+    control.onProgress?.(0);
+    const aggregate = await aggregateSql(sqlSource, request, {
+      ...context,
+      password,
+      signal: control.signal,
+      options: { missing: intake.missing, categories: intake.categories },
+    });
+    control.onProgress?.(1);
+    return aggregate;
+  };
 }
 
 /** Tables and views the connection's user can read, for the editor's picker (information_schema). */

@@ -246,14 +246,16 @@ export function planAggregate(source: SqlSource, request: AggregateRequest, opti
     // numeric and real columns behave alike (PostgreSQL's float8 var_samp uses Youngs–Cramer updates).
     const inner = `SELECT NULLIF((${x})::double precision, 'NaN'::double precision) AS x ${from}`;
     const first = `SELECT count(*) AS records, count(x) AS n, avg(x) AS mean, var_samp(x) AS variance, min(x) AS min, max(x) AS max FROM (\n${inner}\n) AS v`;
+    // Second pass (default): deviations from the first pass's mean, summed on the server — the
+    // corrected two-pass m2 = Σd² − (Σd)²/n (Chan, Golub & LeVeque 1983) stays accurate when the
+    // values sit far from zero, where the one-pass var_samp loses digits; m3 and m4 come with it.
     const text =
       options.higherMoments === false
         ? first
-        : // Second pass: central moments around the mean of the first, summed as deviations (never raw powers of x).
-          `SELECT m.records, m.n, m.mean, m.variance, m.min, m.max,\n` +
-          `  (SELECT sum(d * d * d) FROM (SELECT v.x - m.mean AS d FROM (\n${inner}\n) AS v) AS c) AS m3,\n` +
-          `  (SELECT sum(d * d * d * d) FROM (SELECT v.x - m.mean AS d FROM (\n${inner}\n) AS v) AS c) AS m4\n` +
-          `FROM (${first}) AS m`;
+        : `SELECT m.records, m.n, m.mean, m.variance, m.min, m.max, c.d1, c.d2, c.d3 AS m3, c.d4 AS m4\n` +
+          `FROM (${first}) AS m\n` +
+          `CROSS JOIN LATERAL (SELECT sum(d) AS d1, sum(d * d) AS d2, sum(d * d * d) AS d3, sum(d * d * d * d) AS d4\n` +
+          `  FROM (SELECT v.x - m.mean AS d FROM (\n${inner}\n) AS v) AS dv) AS c`;
     return { text, values, columns: [request.column], numericColumns: [request.column] };
   }
   const keys = request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
@@ -319,7 +321,7 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
       moments: {
         n,
         mean,
-        m2: n >= 2 ? variance * (n - 1) : 0,
+        m2: n < 2 ? 0 : r.d2 !== undefined && r.d2 !== null ? toReal(r.d2) - (toReal(r.d1) * toReal(r.d1)) / n : variance * (n - 1),
         m3: n > 0 ? toReal(r.m3) : 0,
         m4: n > 0 ? toReal(r.m4) : 0,
         min: n > 0 ? toReal(r.min) : Infinity,

@@ -167,7 +167,8 @@ describe('generated aggregation', () => {
     assert.match(plan.text, /count\(x\) AS n, avg\(x\) AS mean, var_samp\(x\) AS variance/);
     assert.match(plan.text, /NULLIF\(\("weight_g"\)::double precision, 'NaN'::double precision\)/);
     assert.doesNotMatch(plan.text, /x \* x|power\(x|\^ ?2/);
-    assert.match(plan.text, /sum\(d \* d \* d\)/, 'third central moment from deviations');
+    assert.match(plan.text, /sum\(d\) AS d1, sum\(d \* d\) AS d2, sum\(d \* d \* d\) AS d3/, 'second pass sums deviations from the mean');
+    assert.equal(plan.text.split('FROM "public"."defects"').length - 1, 2, 'two scans, not more');
     const short = planAggregate(table, { kind: 'numeric', column: 'weight_g' }, { higherMoments: false });
     assert.doesNotMatch(short.text, /d \* d/);
   });
@@ -252,6 +253,11 @@ describe('decoding aggregate rows', () => {
   it('keeps the levels of a record dropped for a missing value in the other column, as a file does', () => {
     const d = decodeAggregate(crosstab, [{ k0: 'night', k1: null, records: 2 }, { k0: 'early', k1: 'burn', records: 1 }]);
     assert.deepEqual(d.kind === 'table' && d.table, { rowLabels: ['early', 'night'], columnLabels: ['burn'], counts: [[1], [0]] });
+  });
+
+  it('takes m2 from the corrected two-pass sums when the second pass ran', () => {
+    const d = decodeAggregate({ kind: 'numeric', column: 'x' }, [{ records: 4, n: 4, mean: 2.5, variance: 99, min: 1, max: 4, d1: 0.5, d2: 5.5, m3: 0, m4: 0 }]);
+    assert.equal(d.kind === 'moments' && d.moments.m2, 5.5 - 0.25 / 4);
   });
 
   it('refuses a count the client cannot hold exactly', () => {
