@@ -96,7 +96,7 @@ export function distributionMarkdown(result: DistributionResult, options: Report
     parts.push(
       markdownTable(
         ['p', 'Upper critical value', 'Lower critical value', 'Two-sided'],
-        result.critical.map((c) => [formatEstimate(c.p, options), formatNumber(c.upper, d.decimals), formatNumber(c.lower, d.decimals), formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, d)]),
+        result.critical.map((c) => [String(c.p), formatEstimate(c.upper, d), formatEstimate(c.lower, d), formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, d)]),
         0,
       ),
     );

@@ -88,16 +88,17 @@ export function testText(result: TestResult, options: ReportOptions = DEFAULT_FO
 export function distributionText(result: DistributionResult, options: ReportOptions = DEFAULT_FORMAT): string {
   const lines: string[] = [];
   if (options.title) lines.push(options.title);
-  lines.push(`Chi-square distribution with ${formatDf(result.df, options.decimals)} degrees of freedom${result.noncentrality ? `, noncentrality ${formatNumber(result.noncentrality, options.decimals)}` : ''}`);
+  lines.push(`Chi-square distribution with ${formatDf(result.df, options.decimals)} degree${result.df === 1 ? '' : 's'} of freedom${result.noncentrality ? `, noncentrality ${formatNumber(result.noncentrality, options.decimals)}` : ''}`);
   for (const pt of result.points) {
     lines.push(
       `x = ${formatNumber(pt.x, options.decimals)}: P(X > x) = ${formatProbability(pt.upper, 3)}, P(X ≤ x) = ${formatProbability(pt.lower, 3)}, density ${formatEstimate(pt.density, options)}`,
     );
   }
+  const critical = { decimals: options.decimals + 1 };
   for (const c of result.critical) {
-    const p = formatEstimate(c.p, options);
+    const p = String(c.p);
     lines.push(
-      `p = ${p}: upper critical value ${formatNumber(c.upper, options.decimals + 1)} (P(X > c) = ${p}), lower ${formatNumber(c.lower, options.decimals + 1)} (P(X ≤ c) = ${p}), two-sided ${formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, { decimals: options.decimals + 1 })}`,
+      `p = ${p}: upper critical value ${formatEstimate(c.upper, critical)} (P(X > c) = ${p}), lower ${formatEstimate(c.lower, critical)} (P(X ≤ c) = ${p}), two-sided ${formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, critical)}`,
     );
   }
   lines.push(...noticeLines(result.notices));

@@ -26,6 +26,10 @@ export interface SourceSpec {
   /** A SQL source (named connection and a table or a query of the user's own). */
   readonly sql?: { readonly connection: string; readonly table?: string; readonly query?: string };
   readonly where?: string;
+  /** Bind parameters referenced as $1, $2, … in `where` or `query`. */
+  readonly parameters?: readonly (string | number | boolean | null)[];
+  /** A note recorded with the result ("nightly snapshot of 2026-11-30"). */
+  readonly asOf?: string;
 }
 
 /** Proportions or ratios either in the order of the categories or keyed by level. */

@@ -61,7 +61,9 @@ export function sourceField(columnsHelp: string, minColumns: number, maxColumns:
         ),
         'A database source: the engine does the counting and only the aggregate rows are transferred.',
       ),
-      where: field(str(), 'A filter for a SQL source (values are passed as parameters, never interpolated).'),
+      where: field(str(), 'A filter for a SQL source: an expression over its columns; put values in "parameters" as $1, $2, ….'),
+      parameters: field(arr(oneOf(str(), num(), bool, nul)), 'Bind parameters referenced as $1, $2, … in "where" or "query" (never interpolated).'),
+      asOf: field(str(), 'A note recorded with the result, e.g. "nightly snapshot of 2026-11-30".'),
     }),
     'Where the data lives when it is not given inline.',
   );

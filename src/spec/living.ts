@@ -1,0 +1,91 @@
+/**
+ * Runs one living report block: the block's JSON is either an inline spec (its source paths relative to
+ * the report) or {"spec": "path/to/test.countercheck.json"} (relative to the report). Shared by
+ * `countercheck report` and the editor's CodeLens, with file access injected.
+ */
+import * as path from 'node:path';
+import { InputError, isInputError } from '../errors';
+import type { ReportBlock } from '../report/blocks';
+import type { FormatOptions } from '../report/format';
+import { resultMarkdown } from '../report/markdown';
+import { childPath, locatePath, parseJsonWithLocations, type LocatedJson } from './json-text';
+import { resolveSourcePath } from './paths';
+import { runSpec } from './run';
+import type { RunOptions, SpecRun, SpecV1 } from './types';
+import { SpecError, loadSpecText, locateProblems, validateSpec } from './validate';
+
+export interface BlockRunOptions extends Omit<RunOptions, 'specPath'> {
+  /** Path of the markdown report (absolute or relative to the process's folder). */
+  readonly reportPath: string;
+  /** Reads a spec file named by a block (already resolved and checked). */
+  readText(file: string): Promise<string>;
+  readonly format?: FormatOptions;
+}
+
+export interface BlockRun {
+  readonly run: SpecRun;
+  readonly spec: SpecV1;
+  readonly markdown: string;
+}
+
+/** The message of an error, with `file:line:column:` in front when its JSON path can be located. */
+export function describeRunError(e: unknown, file: string, located?: LocatedJson): string {
+  if (e instanceof SpecError) return e.message;
+  if (isInputError(e)) {
+    const jsonPath = e.location.jsonPath;
+    const at = located && jsonPath ? locatePath(located, jsonPath) : undefined;
+    const where = at ? `${file}:${at.line}:${at.column}` : e.location.file && e.location.line ? `${e.location.file}:${e.location.line}` : file;
+    const path = jsonPath && !e.message.startsWith(jsonPath) ? `${jsonPath}: ` : '';
+    return `${where}: ${path}${e.message}`;
+  }
+  return `${file}: ${e instanceof Error ? e.message : String(e)}`;
+}
+
+export async function runReportBlock(block: ReportBlock, options: BlockRunOptions): Promise<BlockRun> {
+  const reportFile = options.reportPath;
+  // Pad with the lines above the block so that positions in errors are positions in the report.
+  const padded = '\n'.repeat(block.bodyLine - 1) + block.body;
+  const located = parseJsonWithLocations(padded, reportFile);
+  const value = located.value;
+  const runOptions = { readers: options.readers, allowedRoot: options.allowedRoot, allowOutsideRoot: options.allowOutsideRoot, signal: options.signal, onProgress: options.onProgress };
+  let spec: SpecV1;
+  let run: SpecRun;
+  if (value && typeof value === 'object' && !Array.isArray(value) && 'spec' in value) {
+    const extra = Object.keys(value).filter((k) => k !== 'spec');
+    if (extra.length || typeof value.spec !== 'string') {
+      const problems = [
+        ...(typeof value.spec !== 'string' ? [{ path: '$.spec', message: 'expected the path of a spec file (a string)' }] : []),
+        ...extra.map((k) => ({ path: childPath('$', k), message: `unknown field "${k}" (a block holds either a spec, or {"spec": "path"} alone)` })),
+      ];
+      throw new SpecError(locateProblems(problems, located), reportFile);
+    }
+    const reportFolder = path.dirname(path.resolve(reportFile));
+    const specFile = resolveSourcePath(reportFolder, value.spec, { allowedRoot: options.allowedRoot ?? reportFolder, allowOutsideRoot: options.allowOutsideRoot }, '$.spec');
+    const shown = path.join(path.dirname(reportFile), value.spec);
+    let text: string;
+    try {
+      text = await options.readText(specFile);
+    } catch (e) {
+      const at = locatePath(located, '$.spec');
+      throw new InputError(`${reportFile}:${at?.line}:${at?.column}: cannot read the spec ${shown}: ${e instanceof Error ? e.message : String(e)}`, { file: reportFile, line: at?.line }, 'missing-spec');
+    }
+    const loaded = loadSpecText(text, shown);
+    spec = loaded.spec;
+    try {
+      run = await runSpec(spec, { ...runOptions, specPath: specFile });
+    } catch (e) {
+      throw new InputError(describeRunError(e, shown, loaded.located), { file: shown }, isInputError(e) ? e.code : 'run-failed');
+    }
+  } else {
+    const problems = validateSpec(value);
+    if (problems.length) throw new SpecError(locateProblems(problems, located), reportFile);
+    spec = value as unknown as SpecV1;
+    try {
+      run = await runSpec(spec, { ...runOptions, specPath: reportFile });
+    } catch (e) {
+      throw new InputError(describeRunError(e, reportFile, located), { file: reportFile }, isInputError(e) ? e.code : 'run-failed');
+    }
+  }
+  const markdown = resultMarkdown(run.result, { decimals: options.format?.decimals ?? 2, title: spec.title });
+  return { run, spec, markdown };
+}
