@@ -3,7 +3,7 @@
  * completions, hovers and squiggles say exactly what `validateSpec` says. `npm run schema` writes it to
  * schemas/countercheck.schema.json; a unit test fails when the committed file is stale.
  */
-import { toJsonSchema, type Field } from './fields';
+import { toJsonSchema } from './fields';
 import { COMMON_FIELDS, PROCEDURES } from './procedures/index';
 
 export const SCHEMA_ID = 'https://countercheck.dev/schemas/countercheck.schema.json';
@@ -11,12 +11,7 @@ export const SCHEMA_ID = 'https://countercheck.dev/schemas/countercheck.schema.j
 export function buildSpecSchema(): Record<string, unknown> {
   // Every field of every test, for completions and hovers; each test then restricts the names it allows.
   const properties: Record<string, unknown> = {};
-  const add = (name: string, f: Field, tests: string[]): void => {
-    if (name in properties) return;
-    const s = toJsonSchema(f.type, f.description + (tests.length ? ` (${tests.join(', ')})` : ''));
-    properties[name] = s;
-  };
-  for (const [name, f] of Object.entries(COMMON_FIELDS)) add(name, f, []);
+  for (const [name, f] of Object.entries(COMMON_FIELDS)) properties[name] = toJsonSchema(f.type, f.description);
   properties.version = { ...toJsonSchema(COMMON_FIELDS.version.type, COMMON_FIELDS.version.description), const: 1 };
   properties.test = {
     description: COMMON_FIELDS.test.description,
@@ -27,7 +22,10 @@ export function buildSpecSchema(): Record<string, unknown> {
   for (const p of PROCEDURES) for (const name of Object.keys(p.fields)) allNames.add(name);
   for (const name of allNames) {
     const owners = PROCEDURES.filter((p) => name in p.fields);
-    add(name, owners[0].fields[name], owners.map((o) => o.test));
+    const shapes = new Set(owners.map((o) => JSON.stringify(toJsonSchema(o.fields[name].type))));
+    const description = `${owners[0].fields[name].description} (${owners.map((o) => o.test).join(', ')})`;
+    // A field whose type differs between tests (source columns, say) is typed in each test's rule only.
+    properties[name] = shapes.size === 1 ? toJsonSchema(owners[0].fields[name].type, description) : { description };
   }
   return {
     $schema: 'http://json-schema.org/draft-07/schema#',
