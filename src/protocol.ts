@@ -120,6 +120,18 @@ export interface PanelPayload {
   readonly strings: PanelStrings;
   /** ISO time the result was computed. */
   readonly computedAt: string;
+  /** The spec that produced the result (plain JSON) and where it lives, so a restored panel can still re-run and save. */
+  readonly origin?: PanelOrigin;
+}
+
+export interface PanelOrigin {
+  readonly spec: Readonly<Record<string, unknown>>;
+  /** Absolute path of the spec file, or of the virtual spec beside the data for an unsaved run. */
+  readonly specPath: string;
+  /** True when specPath is a saved *.countercheck.json file. */
+  readonly saved: boolean;
+  /** The document a result can be inserted back into (selection runs). */
+  readonly documentUri?: string;
 }
 
 export type HostToWebview =

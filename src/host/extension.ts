@@ -1,7 +1,67 @@
+// Wires commands, the panel serializer, CodeLenses, hovers and the Testing view. Nothing else lives here.
 import * as vscode from 'vscode';
+import type { PanelPayload } from '../protocol';
+import { COMMANDS } from './commandIds';
+import { distributionLookup } from './commands/distributionLookup';
+import { refreshBlocks } from './commands/reportBlocks';
+import { runOnCellOutput } from './commands/runOnCellOutput';
+import { runOnFile } from './commands/runOnFile';
+import { runOnSelection } from './commands/runOnSelection';
+import { rerunAndCompare, runSavedSpec } from './commands/savedSpecs';
+import { BlockCodeLensProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
+import { PANEL_VIEW_TYPE } from './panel';
+import { handlePanelAction, trackEditors } from './panelActions';
+import { Services } from './services';
+import { registerTesting } from './testing';
 
-export function activate(_context: vscode.ExtensionContext): { activationMs: number } {
-  return { activationMs: 0 };
+/** What activate returns: used by the integration tests and by other extensions. */
+export interface CountercheckApi {
+  readonly activationMs: number;
+  /** The payloads of the open result panels, most recent last. */
+  panels(): readonly PanelPayload[];
+  activePanel(): PanelPayload | undefined;
+  /** Runs a panel action on the active panel as if its button were pressed. */
+  panelAction(action: 'copy-text' | 'copy-markdown' | 'insert' | 'save-spec' | 'rerun'): Promise<void>;
+  testController: vscode.TestController;
+}
+
+export function activate(context: vscode.ExtensionContext): CountercheckApi {
+  const started = performance.now();
+  const services: Services = new Services(context, { onAction: (action, panel) => handlePanelAction(services, action, panel) });
+  context.subscriptions.push(services);
+  trackEditors(context);
+  const command = (id: string, run: (...args: never[]) => unknown) => context.subscriptions.push(vscode.commands.registerCommand(id, run as (...args: unknown[]) => unknown));
+
+  command(COMMANDS.runOnFile, (uri?: vscode.Uri, answers?: object) => runOnFile(services, uri, answers));
+  command(COMMANDS.runOnSelection, (answers?: object) => runOnSelection(services, answers instanceof vscode.Uri ? {} : answers));
+  command(COMMANDS.runOnCellOutput, (cell?: vscode.NotebookCell, answers?: object) => runOnCellOutput(services, cell, answers));
+  command(COMMANDS.distributionLookup, (args?: { df?: number; x?: number; p?: number }) => distributionLookup(services, args));
+  command(COMMANDS.runSavedSpec, (uri?: vscode.Uri) => runSavedSpec(services, uri));
+  command(COMMANDS.rerunAndCompare, (uri?: vscode.Uri) => rerunAndCompare(services, uri));
+  command(COMMANDS.refreshAllBlocks, (uri?: vscode.Uri) => refreshBlocks(services, uri));
+  command(COMMANDS.refreshBlock, (uri: vscode.Uri, index: number) => refreshBlocks(services, uri, index));
+
+  context.subscriptions.push(
+    vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, services.panels),
+    vscode.languages.registerCodeLensProvider({ pattern: '**/*.countercheck.json' }, new SpecCodeLensProvider()),
+    vscode.languages.registerHoverProvider({ pattern: '**/*.countercheck.json' }, new SpecHoverProvider()),
+    vscode.languages.registerCodeLensProvider({ language: 'markdown' }, new BlockCodeLensProvider()),
+  );
+  const testController = registerTesting(services);
+
+  const activationMs = performance.now() - started;
+  services.output.info(`activated in ${activationMs.toFixed(1)} ms`);
+  return {
+    activationMs,
+    panels: () => services.panels.all.map((p) => p.payload),
+    activePanel: () => services.panels.active?.payload,
+    panelAction: async (action) => {
+      const panel = services.panels.active;
+      if (!panel) throw new Error('no result panel is open');
+      await handlePanelAction(services, action, panel);
+    },
+    testController,
+  };
 }
 
 export function deactivate(): void {}

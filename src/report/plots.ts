@@ -157,12 +157,17 @@ function formatAxis(x: number): string {
 
 /** Observed and expected counts side by side, one pair per category. */
 export function barsPlot(categories: readonly CategoryRow[]): BarsPlot {
-  const yMax = niceCeiling(Math.max(0, ...categories.flatMap((c) => [c.observed, c.expected])));
+  const largest = Math.max(0, ...categories.flatMap((c) => [c.observed, c.expected]));
+  const first = niceTicks(0, niceCeiling(largest), 4);
+  const step = first.length > 1 ? first[1] - first[0] : 1;
+  // The axis ends on a tick at or above the tallest bar.
+  const yMax = Math.max(step, Math.ceil(largest / step - 1e-9) * step);
+  const ticks = niceTicks(0, yMax, Math.round(yMax / step));
   return {
     kind: 'bars',
     title: 'Observed and expected counts',
     yMax,
-    ticks: niceTicks(0, yMax, 4),
+    ticks,
     bars: categories.map((c) => ({ label: c.label, observed: c.observed, expected: c.expected, residual: c.standardizedResidual })),
   };
 }

@@ -1,0 +1,11 @@
+/** Command identifiers, as contributed in package.json. */
+export const COMMANDS = {
+  runOnFile: 'countercheck.runOnFile',
+  runOnSelection: 'countercheck.runOnSelection',
+  runOnCellOutput: 'countercheck.runOnCellOutput',
+  distributionLookup: 'countercheck.distributionLookup',
+  runSavedSpec: 'countercheck.runSavedSpec',
+  rerunAndCompare: 'countercheck.rerunAndCompare',
+  refreshAllBlocks: 'countercheck.refreshAllBlocks',
+  refreshBlock: 'countercheck.refreshBlock',
+} as const;

@@ -1,0 +1,45 @@
+// "Run a test on this file": explorer or editor on a CSV/TSV/JSON file.
+import { open } from 'node:fs/promises';
+import * as vscode from 'vscode';
+import { parseDelimited } from '../../data/delimited';
+import type { Answers } from '../flow';
+import { runOnTable } from '../flow';
+import type { Services } from '../services';
+import { selectionRecords } from '../selectionRecords';
+
+const PREVIEW_BYTES = 64 * 1024;
+
+/** The first records of a file (up to 64 KB, cut at a line end), for column profiles and previews. */
+async function preview(file: string) {
+  const handle = await open(file, 'r');
+  try {
+    const buf = new Uint8Array(PREVIEW_BYTES);
+    const { bytesRead } = await handle.read(buf, 0, PREVIEW_BYTES, 0);
+    let text = new TextDecoder().decode(buf.subarray(0, bytesRead));
+    if (bytesRead === PREVIEW_BYTES) text = text.slice(0, text.lastIndexOf('\n') + 1);
+    const name = vscode.workspace.asRelativePath(file);
+    return /\.json$/i.test(file) ? selectionRecords(text, { file: name }) : parseDelimited(text, { file: name });
+  } finally {
+    await handle.close();
+  }
+}
+
+export async function runOnFile(services: Services, uri?: vscode.Uri, answers: Answers = {}): Promise<void> {
+  const target = uri instanceof vscode.Uri ? uri : vscode.window.activeTextEditor?.document.uri;
+  if (!target || target.scheme !== 'file') {
+    void vscode.window.showWarningMessage(vscode.l10n.t('Countercheck: open or select a CSV, TSV or JSON file first.'));
+    return;
+  }
+  try {
+    if (/\.json$/i.test(target.fsPath)) {
+      // A JSON data file is small by nature: read it whole and run on its records.
+      const text = Buffer.from(await vscode.workspace.fs.readFile(target)).toString('utf8');
+      const records = selectionRecords(text, { file: vscode.workspace.asRelativePath(target) });
+      await runOnTable(services, { kind: 'records', records, description: vscode.workspace.asRelativePath(target), documentUri: target.toString() }, answers);
+      return;
+    }
+    await runOnTable(services, { kind: 'file', file: target.fsPath, preview: await preview(target.fsPath) }, answers);
+  } catch (e) {
+    await services.reportError(e);
+  }
+}

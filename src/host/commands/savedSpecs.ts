@@ -1,0 +1,90 @@
+// Saved tests (*.countercheck.json): run one, or re-run and compare with the result recorded in it.
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import { compareWithRecord, describeReview, type Review } from '../../spec/review';
+import { loadSpecText } from '../../spec/validate';
+import { runSpec } from '../../spec/run';
+import { extensionReaders, settings, type Services } from '../services';
+
+export const SPEC_GLOB = '**/*.countercheck.json';
+
+export function toolName(context: vscode.ExtensionContext): string {
+  return `countercheck ${String((context.extension.packageJSON as { version?: string }).version ?? '0')}`;
+}
+
+async function readText(uri: vscode.Uri): Promise<string> {
+  return Buffer.from(await vscode.workspace.fs.readFile(uri)).toString('utf8');
+}
+
+/** Lets the user pick a saved test when the command was not given one. */
+async function chooseSpec(uri: vscode.Uri | undefined, title: string): Promise<vscode.Uri | undefined> {
+  if (uri instanceof vscode.Uri) return uri;
+  const active = vscode.window.activeTextEditor?.document.uri;
+  const found = await vscode.workspace.findFiles(SPEC_GLOB, '**/node_modules/**', 500);
+  if (found.length === 0) {
+    void vscode.window.showInformationMessage(vscode.l10n.t('Countercheck: no *.countercheck.json files in this workspace.'));
+    return undefined;
+  }
+  found.sort((a, b) => a.fsPath.localeCompare(b.fsPath));
+  const items = found.map((u) => ({ label: path.basename(u.fsPath), description: vscode.workspace.asRelativePath(path.dirname(u.fsPath)), uri: u, picked: u.toString() === active?.toString() }));
+  const chosen = await vscode.window.showQuickPick(items, { title, placeHolder: vscode.l10n.t('Choose a saved test'), matchOnDescription: true });
+  return chosen?.uri;
+}
+
+export async function runSpecFile(services: Services, uri: vscode.Uri): Promise<void> {
+  const text = await readText(uri);
+  const { spec } = loadSpecText(text, uri.fsPath);
+  const run = await services.run(spec, uri.fsPath, path.basename(uri.fsPath));
+  const title = typeof spec.title === 'string' ? spec.title : path.basename(uri.fsPath, '.countercheck.json');
+  services.showResult(run.result, { spec: spec as Record<string, unknown>, specPath: uri.fsPath, saved: true }, title, `${vscode.workspace.asRelativePath(uri)} · ${run.data.description}`);
+}
+
+export async function runSavedSpec(services: Services, uri?: vscode.Uri): Promise<void> {
+  try {
+    const target = await chooseSpec(uri, vscode.l10n.t('Run a saved test'));
+    if (target) await runSpecFile(services, target);
+  } catch (e) {
+    await services.reportError(e);
+  }
+}
+
+/** Re-runs a spec and compares with its recorded result. Never throws: a failure is a "cannot run" review. */
+export async function reviewSpec(services: Services, uri: vscode.Uri, signal?: AbortSignal): Promise<Review> {
+  let spec: Record<string, unknown>;
+  try {
+    spec = loadSpecText(await readText(uri), vscode.workspace.asRelativePath(uri)).spec as Record<string, unknown>;
+  } catch (e) {
+    return { status: 'cannot-run', reason: e instanceof Error ? e.message : String(e), differences: [], tolerance: '' };
+  }
+  try {
+    const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: settings(uri).allowPathsOutsideWorkspace, signal });
+    return compareWithRecord(spec.recorded, run, toolName(services.context), new Date());
+  } catch (e) {
+    return { status: 'cannot-run', reason: e instanceof Error ? e.message : String(e), differences: [], tolerance: '' };
+  }
+}
+
+export async function rerunAndCompare(services: Services, uri?: vscode.Uri): Promise<Review | undefined> {
+  try {
+    const target = await chooseSpec(uri, vscode.l10n.t('Re-run a saved test and compare'));
+    if (!target) return undefined;
+    const review = await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: vscode.l10n.t('Countercheck: re-running {0}', path.basename(target.fsPath)), cancellable: true }, (_p, token) => {
+      const abort = new AbortController();
+      token.onCancellationRequested(() => abort.abort());
+      return reviewSpec(services, target, abort.signal);
+    });
+    const text = describeReview(review, vscode.workspace.asRelativePath(target));
+    services.output.info(text);
+    const openResult = vscode.l10n.t('Open result');
+    const showDetails = vscode.l10n.t('Show details');
+    const notify = review.status === 'reproduced' ? vscode.window.showInformationMessage : vscode.window.showWarningMessage;
+    void notify(`Countercheck: ${text.split('\n')[0]}`, openResult, showDetails).then(async (choice) => {
+      if (choice === openResult) await runSavedSpec(services, target);
+      if (choice === showDetails) services.output.show(true);
+    });
+    return review;
+  } catch (e) {
+    await services.reportError(e);
+    return undefined;
+  }
+}

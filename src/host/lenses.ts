@@ -1,0 +1,55 @@
+// Spec files and markdown reports as first-class documents: CodeLenses and field hovers.
+import * as vscode from 'vscode';
+import { BLOCK_INFO, parseReportBlocks } from '../report/blocks';
+import { COMMON_FIELDS, PROCEDURES, procedureFor } from '../spec/procedures/index';
+import { COMMANDS } from './commandIds';
+
+const t = vscode.l10n.t;
+
+export class SpecCodeLensProvider implements vscode.CodeLensProvider {
+  provideCodeLenses(doc: vscode.TextDocument): vscode.CodeLens[] {
+    const top = new vscode.Range(0, 0, 0, 0);
+    return [
+      new vscode.CodeLens(top, { title: `$(play) ${t('Run')}`, command: COMMANDS.runSavedSpec, arguments: [doc.uri] }),
+      new vscode.CodeLens(top, { title: `$(history) ${t('Re-run and compare')}`, command: COMMANDS.rerunAndCompare, arguments: [doc.uri] }),
+      new vscode.CodeLens(top, { title: `$(preview) ${t('Open result')}`, command: COMMANDS.runSavedSpec, arguments: [doc.uri] }),
+    ];
+  }
+}
+
+export class BlockCodeLensProvider implements vscode.CodeLensProvider {
+  private readonly changed = new vscode.EventEmitter<void>();
+  readonly onDidChangeCodeLenses = this.changed.event;
+
+  provideCodeLenses(doc: vscode.TextDocument): vscode.CodeLens[] {
+    const text = doc.getText();
+    if (!text.includes(BLOCK_INFO)) return [];
+    const blocks = parseReportBlocks(text);
+    const lenses: vscode.CodeLens[] = [];
+    for (const b of blocks) {
+      const range = new vscode.Range(b.fenceLine - 1, 0, b.fenceLine - 1, 0);
+      lenses.push(new vscode.CodeLens(range, { title: `$(refresh) ${b.existing ? t('Refresh result') : t('Run and write result below')}`, command: COMMANDS.refreshBlock, arguments: [doc.uri, b.index] }));
+    }
+    if (blocks.length > 1) lenses.push(new vscode.CodeLens(new vscode.Range(0, 0, 0, 0), { title: `$(refresh) ${t('Refresh all {0} result blocks', blocks.length)}`, command: COMMANDS.refreshAllBlocks, arguments: [doc.uri] }));
+    return lenses;
+  }
+}
+
+/** Explains the field under the cursor in a spec file, from the same table that makes the schema. */
+export class SpecHoverProvider implements vscode.HoverProvider {
+  provideHover(doc: vscode.TextDocument, position: vscode.Position): vscode.Hover | undefined {
+    const range = doc.getWordRangeAtPosition(position, /"[A-Za-z$][\w$]*"\s*:/);
+    if (!range) return undefined;
+    const name = /"([^"]+)"/.exec(doc.getText(range))?.[1];
+    if (!name) return undefined;
+    const test = /"test"\s*:\s*"([^"]+)"/.exec(doc.getText())?.[1];
+    const handler = test ? procedureFor(test) : undefined;
+    const field = COMMON_FIELDS[name] ?? handler?.fields[name] ?? PROCEDURES.map((p) => p.fields[name]).find(Boolean);
+    if (!field) return undefined;
+    const md = new vscode.MarkdownString();
+    md.appendMarkdown(`**${name}**${handler ? ` — ${handler.test}` : ''}\n\n`);
+    md.appendText(field.description);
+    if (name === 'test') md.appendMarkdown(`\n\n${PROCEDURES.map((p) => `- \`${p.test}\`: ${p.summary}`).join('\n')}`);
+    return new vscode.Hover(md, range);
+  }
+}

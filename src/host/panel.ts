@@ -1,0 +1,126 @@
+// Results panels: one webview per result, so two results can sit side by side and each tab restores
+// its own state after a reload. The host keeps what each panel needs to act (the spec behind it).
+import * as vscode from 'vscode';
+import { isWebviewToHost, type HostToWebview, type PanelAction, type PanelPayload, type PanelState } from '../protocol';
+import { panelHtml } from './panelHtml';
+
+export const PANEL_VIEW_TYPE = 'countercheck.result';
+
+/** What a panel can do besides showing: the handlers come from the command that made it. */
+export interface PanelActions {
+  onAction(action: PanelAction, panel: ResultPanel): Promise<void>;
+}
+
+export class ResultPanel {
+  private disposed = false;
+  private readonly disposables: vscode.Disposable[] = [];
+
+  constructor(
+    readonly panel: vscode.WebviewPanel,
+    private payloadValue: PanelPayload,
+    private readonly actions: PanelActions,
+    private readonly onDispose: (p: ResultPanel) => void,
+  ) {
+    this.disposables.push(
+      panel.onDidDispose(() => this.dispose()),
+      panel.webview.onDidReceiveMessage((m: unknown) => this.receive(m)),
+    );
+  }
+
+  get payload(): PanelPayload {
+    return this.payloadValue;
+  }
+
+  get isDisposed(): boolean {
+    return this.disposed;
+  }
+
+  /** Posting after dispose is a no-op (the webview is gone; VS Code would throw). */
+  post(message: HostToWebview): void {
+    if (this.disposed) return;
+    void this.panel.webview.postMessage(message);
+  }
+
+  update(payload: PanelPayload): void {
+    this.payloadValue = payload;
+    if (this.disposed) return;
+    this.panel.title = payload.title;
+    this.post({ type: 'show', payload });
+  }
+
+  private async receive(message: unknown): Promise<void> {
+    if (this.disposed || !isWebviewToHost(message)) return;
+    if (message.type === 'ready') return;
+    try {
+      await this.actions.onAction(message.action, this);
+    } catch (e) {
+      this.post({ type: 'status', text: e instanceof Error ? e.message : String(e), level: 'error' });
+    }
+  }
+
+  dispose(): void {
+    if (this.disposed) return;
+    this.disposed = true;
+    this.onDispose(this);
+    for (const d of this.disposables) d.dispose();
+  }
+}
+
+export class PanelManager implements vscode.WebviewPanelSerializer<PanelState> {
+  private readonly open = new Set<ResultPanel>();
+  private lastActive: ResultPanel | undefined;
+
+  constructor(
+    private readonly extensionUri: vscode.Uri,
+    private readonly actions: PanelActions,
+  ) {}
+
+  private options(): vscode.WebviewOptions & vscode.WebviewPanelOptions {
+    return { enableScripts: true, localResourceRoots: [vscode.Uri.joinPath(this.extensionUri, 'dist')], retainContextWhenHidden: false, enableFindWidget: true };
+  }
+
+  show(payload: PanelPayload, reuse?: ResultPanel): ResultPanel {
+    if (reuse && !reuse.isDisposed) {
+      reuse.update(payload);
+      reuse.panel.reveal(undefined, true);
+      return reuse;
+    }
+    const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, payload.title, { viewColumn: vscode.ViewColumn.Beside, preserveFocus: false }, this.options());
+    return this.adopt(panel, payload);
+  }
+
+  private adopt(panel: vscode.WebviewPanel, payload: PanelPayload): ResultPanel {
+    panel.iconPath = vscode.Uri.joinPath(this.extensionUri, 'media', 'icon.svg');
+    panel.webview.options = this.options();
+    panel.webview.html = panelHtml(panel.webview, this.extensionUri, { payload });
+    const result = new ResultPanel(panel, payload, this.actions, (p) => {
+      this.open.delete(p);
+      if (this.lastActive === p) this.lastActive = undefined;
+    });
+    this.open.add(result);
+    this.lastActive = result;
+    panel.onDidChangeViewState((e) => { if (e.webviewPanel.active) this.lastActive = result; });
+    return result;
+  }
+
+  /** Restores a panel after a reload from the state its webview saved. */
+  async deserializeWebviewPanel(panel: vscode.WebviewPanel, state: PanelState | undefined): Promise<void> {
+    if (!state?.payload) {
+      panel.dispose();
+      return;
+    }
+    this.adopt(panel, state.payload);
+  }
+
+  get active(): ResultPanel | undefined {
+    return this.lastActive;
+  }
+
+  get all(): readonly ResultPanel[] {
+    return [...this.open];
+  }
+
+  dispose(): void {
+    for (const p of [...this.open]) p.panel.dispose();
+  }
+}

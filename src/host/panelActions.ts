@@ -1,0 +1,125 @@
+// What the panel's buttons do: copy, insert at the cursor (or a markdown cell below in a notebook),
+// save as a spec (never overwriting without showing the change), re-run.
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import type { PanelAction, PanelOrigin } from '../protocol';
+import { makeRecord } from '../spec/review';
+import { runSpec } from '../spec/run';
+import { toolName } from './commands/savedSpecs';
+import type { ResultPanel } from './panel';
+import { extensionReaders, settings, type Services } from './services';
+
+const t = vscode.l10n.t;
+
+/** The markdown editor or notebook the user was in before the panel took focus. */
+let lastDocumentEditor: vscode.TextEditor | undefined;
+let lastNotebookEditor: vscode.NotebookEditor | undefined;
+export function trackEditors(context: vscode.ExtensionContext): void {
+  lastDocumentEditor = vscode.window.activeTextEditor;
+  lastNotebookEditor = vscode.window.activeNotebookEditor;
+  context.subscriptions.push(
+    vscode.window.onDidChangeActiveTextEditor((e) => { if (e) lastDocumentEditor = e; }),
+    vscode.window.onDidChangeActiveNotebookEditor((e) => { if (e) lastNotebookEditor = e; }),
+  );
+}
+
+export async function insertMarkdown(markdown: string): Promise<string> {
+  const notebook = vscode.window.activeNotebookEditor ?? lastNotebookEditor;
+  const editor = vscode.window.activeTextEditor ?? lastDocumentEditor;
+  if (notebook && (!editor || editor.document.uri.scheme === 'vscode-notebook-cell') && !notebook.notebook.isClosed) {
+    const at = Math.min(notebook.notebook.cellCount, (notebook.selection?.end ?? notebook.notebook.cellCount));
+    const edit = new vscode.WorkspaceEdit();
+    edit.set(notebook.notebook.uri, [vscode.NotebookEdit.insertCells(at, [new vscode.NotebookCellData(vscode.NotebookCellKind.Markup, markdown, 'markdown')])]);
+    await vscode.workspace.applyEdit(edit);
+    return t('Inserted a markdown cell below the selected cell.');
+  }
+  if (editor && !editor.document.isClosed && editor.document.languageId === 'markdown') {
+    const position = editor.selection.active;
+    const edit = new vscode.WorkspaceEdit();
+    edit.insert(editor.document.uri, position, `\n${markdown}\n`);
+    await vscode.workspace.applyEdit(edit);
+    return t('Inserted into {0} at line {1}.', path.basename(editor.document.uri.fsPath), position.line + 1);
+  }
+  throw new Error(t('Open a markdown document or a notebook to insert into, then try again.'));
+}
+
+function defaultSpecPath(origin: PanelOrigin): string {
+  if (origin.saved) return origin.specPath;
+  const spec = origin.spec;
+  const source = spec.source as { path?: string } | undefined;
+  const base = source?.path ? path.basename(source.path).replace(/\.[^.]+$/, '') : 'result';
+  return path.join(path.dirname(origin.specPath), `${base}.${String(spec.test)}.countercheck.json`);
+}
+
+/** Writes the spec with its recorded result. An existing file is only replaced after the user has seen the diff. */
+export async function saveSpec(services: Services, origin: PanelOrigin, target?: vscode.Uri): Promise<vscode.Uri | undefined> {
+  const uri = target ?? (await vscode.window.showSaveDialog({ defaultUri: vscode.Uri.file(defaultSpecPath(origin)), filters: { [t('Countercheck test')]: ['countercheck.json'] }, title: t('Save as test file') }));
+  if (!uri) return undefined;
+  const spec: Record<string, unknown> = { ...origin.spec };
+  delete spec.recorded;
+  const source = spec.source as Record<string, unknown> | undefined;
+  if (source?.path && typeof source.path === 'string') {
+    // Paths in a spec are relative to the spec file: re-base them on the new location.
+    const abs = path.resolve(path.dirname(origin.specPath), source.path);
+    spec.source = { ...source, path: path.relative(path.dirname(uri.fsPath), abs).split(path.sep).join('/') };
+  }
+  const s = settings(uri);
+  const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: s.allowPathsOutsideWorkspace });
+  const text = `${JSON.stringify({ $schema: undefined, ...spec, recorded: makeRecord(run, toolName(services.context), new Date()) }, null, 2)}\n`;
+  let exists = false;
+  try { await vscode.workspace.fs.stat(uri); exists = true; } catch { /* new file */ }
+  if (exists) {
+    const before = Buffer.from(await vscode.workspace.fs.readFile(uri)).toString('utf8');
+    if (before === text) return uri;
+    const proposed = await vscode.workspace.openTextDocument({ language: 'json', content: text });
+    await vscode.commands.executeCommand('vscode.diff', uri, proposed.uri, t('{0} ↔ proposed', path.basename(uri.fsPath)), { preview: true });
+    const replace = t('Replace');
+    const choice = await vscode.window.showWarningMessage(t('{0} already exists. Replace it with the change shown?', path.basename(uri.fsPath)), { modal: true }, replace);
+    if (choice !== replace) return undefined;
+    const edit = new vscode.WorkspaceEdit();
+    const doc = await vscode.workspace.openTextDocument(uri);
+    edit.replace(uri, new vscode.Range(doc.positionAt(0), doc.positionAt(doc.getText().length)), text);
+    await vscode.workspace.applyEdit(edit);
+    await doc.save();
+  } else {
+    await vscode.workspace.fs.writeFile(uri, new TextEncoder().encode(text));
+  }
+  services.output.info(`saved ${uri.fsPath}`);
+  return uri;
+}
+
+export async function handlePanelAction(services: Services, action: PanelAction, panel: ResultPanel): Promise<void> {
+  const payload = panel.payload;
+  switch (action) {
+    case 'copy-text':
+      await vscode.env.clipboard.writeText(payload.text);
+      panel.post({ type: 'status', text: t('Copied the text summary.'), level: 'info' });
+      return;
+    case 'copy-markdown':
+      await vscode.env.clipboard.writeText(payload.markdown);
+      panel.post({ type: 'status', text: t('Copied the markdown.'), level: 'info' });
+      return;
+    case 'insert':
+      panel.post({ type: 'status', text: await insertMarkdown(payload.markdown), level: 'info' });
+      return;
+    case 'save-spec': {
+      if (!payload.origin) return;
+      const uri = await saveSpec(services, payload.origin);
+      if (uri) {
+        panel.update({ ...payload, origin: { ...payload.origin, specPath: uri.fsPath, saved: true } });
+        panel.post({ type: 'status', text: t('Saved {0}.', vscode.workspace.asRelativePath(uri)), level: 'info' });
+      }
+      return;
+    }
+    case 'rerun': {
+      if (!payload.origin) return;
+      panel.post({ type: 'busy', busy: true });
+      try {
+        const run = await services.run(payload.origin.spec, payload.origin.specPath, payload.title);
+        services.showResult(run.result, payload.origin, payload.title, payload.sourceDescription, panel);
+      } finally {
+        panel.post({ type: 'busy', busy: false });
+      }
+    }
+  }
+}

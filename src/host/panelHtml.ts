@@ -1,0 +1,108 @@
+import { randomBytes } from 'node:crypto';
+import * as vscode from 'vscode';
+import type { PanelState } from '../protocol';
+
+/** Escapes text for a double-quoted HTML attribute (the initial state travels as JSON in data-initial). */
+export function escapeAttribute(text: string): string {
+  return text.replace(/&/g, '&amp;').replace(/"/g, '&quot;').replace(/'/g, '&#39;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+}
+
+// Our own look: a quiet page with a left rule that marks the verdict, residual tints mixed from theme
+// chart colours, and nothing but --vscode-* variables for colour (light, dark and high contrast alike).
+const STYLE = `
+:root { color-scheme: light dark; }
+body { font-family: var(--vscode-font-family); font-size: var(--vscode-font-size); color: var(--vscode-foreground); background: var(--vscode-editor-background); margin: 0; padding: 0 20px 24px; line-height: 1.45; }
+#root { max-width: 860px; }
+h1 { font-size: 1.35em; font-weight: 600; margin: 4px 0 6px; }
+h2 { font-size: 1.05em; font-weight: 600; margin: 22px 0 8px; color: var(--vscode-descriptionForeground); text-transform: none; }
+.headline { border-left: 4px solid var(--vscode-charts-foreground, var(--vscode-foreground)); padding: 14px 0 6px 14px; margin: 16px 0 10px; }
+.headline.signal { border-left-color: var(--vscode-charts-orange); }
+.headline.quiet { border-left-color: var(--vscode-charts-blue); }
+.eyebrow { color: var(--vscode-descriptionForeground); font-size: 0.92em; }
+.apa { font-family: var(--vscode-editor-font-family); background: var(--vscode-textCodeBlock-background); padding: 4px 8px; display: inline-block; border-radius: 3px; margin: 4px 0; }
+.source { color: var(--vscode-descriptionForeground); font-size: 0.9em; margin: 4px 0 0; }
+.actions { display: flex; flex-wrap: wrap; gap: 6px; margin: 8px 0 14px; }
+button { font: inherit; color: var(--vscode-button-secondaryForeground); background: var(--vscode-button-secondaryBackground); border: 1px solid var(--vscode-button-border, transparent); padding: 3px 10px; border-radius: 2px; cursor: pointer; }
+button:hover:not([disabled]) { background: var(--vscode-button-secondaryHoverBackground); }
+button:focus-visible, summary:focus-visible, .table-wrap:focus-visible { outline: 1px solid var(--vscode-focusBorder); outline-offset: 2px; }
+button[disabled] { opacity: 0.5; cursor: default; }
+.figures { display: grid; grid-template-columns: repeat(auto-fill, minmax(150px, 1fr)); gap: 6px 16px; margin: 6px 0 12px; }
+.figures div { border-top: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); padding-top: 4px; }
+.figures dt { color: var(--vscode-descriptionForeground); font-size: 0.88em; }
+.figures dd { margin: 0; font-family: var(--vscode-editor-font-family); font-variant-numeric: tabular-nums; }
+.notices { list-style: none; padding: 0; margin: 8px 0; }
+.notices li { padding: 3px 8px; margin: 2px 0; background: var(--vscode-textBlockQuote-background); border-left: 2px solid var(--vscode-textBlockQuote-border); }
+.notices li.warning { border-left-color: var(--vscode-editorWarning-foreground); }
+.table-wrap { overflow-x: auto; margin: 10px 0; }
+table.counts { border-collapse: collapse; font-variant-numeric: tabular-nums; }
+table.counts caption { text-align: left; color: var(--vscode-descriptionForeground); padding-bottom: 4px; }
+table.counts th, table.counts td { padding: 3px 10px; text-align: right; border-bottom: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); white-space: nowrap; }
+table.counts th.label { text-align: left; }
+table.counts thead th { font-weight: 600; border-bottom: 2px solid var(--vscode-foreground); }
+.tint-above { background: color-mix(in srgb, var(--vscode-charts-orange) var(--tint), transparent); }
+.tint-below { background: color-mix(in srgb, var(--vscode-charts-blue) var(--tint), transparent); }
+.band-3, .band-2 { font-weight: 600; }
+.sign { color: var(--vscode-descriptionForeground); font-size: 0.85em; }
+.plots { display: grid; grid-template-columns: repeat(auto-fit, minmax(340px, 1fr)); gap: 10px 24px; }
+figure { margin: 8px 0; }
+figcaption { color: var(--vscode-descriptionForeground); font-size: 0.9em; }
+svg text { fill: var(--vscode-foreground); font-family: var(--vscode-font-family); }
+svg .tick { font-size: 10px; fill: var(--vscode-descriptionForeground); }
+svg .axis, svg .grid { stroke: var(--vscode-charts-lines, var(--vscode-foreground)); stroke-width: 1; }
+svg .grid { stroke-opacity: 0.35; }
+svg .curve { fill: none; stroke: var(--vscode-charts-foreground, var(--vscode-foreground)); stroke-width: 1.6; }
+svg .tail { fill: var(--vscode-charts-orange); fill-opacity: 0.45; }
+svg .critical { stroke: var(--vscode-descriptionForeground); stroke-dasharray: 4 3; }
+svg .observed { stroke: var(--vscode-charts-red); stroke-width: 2; }
+svg .marker-label { font-size: 11px; font-weight: 600; }
+svg .bar-observed { fill: var(--vscode-charts-blue); }
+svg .bar-expected { fill: none; stroke: var(--vscode-charts-foreground, var(--vscode-foreground)); stroke-width: 1.4; stroke-dasharray: 3 2; }
+svg .cell { stroke: var(--vscode-widget-border, var(--vscode-panel-border)); fill: transparent; }
+svg .cell.tint-above { fill: color-mix(in srgb, var(--vscode-charts-orange) var(--tint), transparent); }
+svg .cell.tint-below { fill: color-mix(in srgb, var(--vscode-charts-blue) var(--tint), transparent); }
+svg .cell-label { font-size: 11px; }
+svg .cell-label.band-2, svg .cell-label.band-3 { font-weight: 700; }
+svg .interval { stroke: var(--vscode-charts-blue); stroke-width: 3; }
+svg .estimate { fill: var(--vscode-charts-blue); }
+svg .reference { stroke: var(--vscode-charts-red); stroke-width: 2; stroke-dasharray: 5 3; }
+.assumption { margin: 4px 0; border: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); border-radius: 3px; padding: 4px 10px; }
+.assumption summary { cursor: pointer; }
+.assumption .state { color: var(--vscode-descriptionForeground); }
+.assumption.met .codicon { color: var(--vscode-testing-iconPassed, var(--vscode-charts-green)); }
+.assumption.failed .codicon { color: var(--vscode-testing-iconFailed, var(--vscode-charts-red)); }
+.assumption.unchecked .codicon { color: var(--vscode-descriptionForeground); }
+.alternative { font-style: italic; }
+.caution { margin-top: 22px; padding-top: 8px; border-top: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); color: var(--vscode-descriptionForeground); font-size: 0.9em; }
+.status.error { color: var(--vscode-errorForeground); }
+[aria-busy="true"] { opacity: 0.6; }
+`;
+
+export function panelHtml(webview: vscode.Webview, extensionUri: vscode.Uri, state: PanelState | undefined): string {
+  const nonce = randomBytes(16).toString('base64');
+  const dist = vscode.Uri.joinPath(extensionUri, 'dist');
+  const script = webview.asWebviewUri(vscode.Uri.joinPath(dist, 'webview.js'));
+  const codicons = webview.asWebviewUri(vscode.Uri.joinPath(dist, 'codicon.css'));
+  const csp = [
+    "default-src 'none'",
+    `img-src ${webview.cspSource} data:`,
+    `font-src ${webview.cspSource}`,
+    `style-src ${webview.cspSource} 'nonce-${nonce}'`,
+    `script-src 'nonce-${nonce}'`,
+  ].join('; ');
+  const initial = state ? escapeAttribute(JSON.stringify(state)) : '';
+  return `<!DOCTYPE html>
+<html lang="${escapeAttribute(vscode.env.language)}">
+<head>
+<meta charset="UTF-8">
+<meta http-equiv="Content-Security-Policy" content="${csp}">
+<meta name="viewport" content="width=device-width, initial-scale=1.0">
+<link rel="stylesheet" href="${codicons}" nonce="${nonce}">
+<style nonce="${nonce}">${STYLE}</style>
+<title>Countercheck</title>
+</head>
+<body>
+<main id="root" data-initial="${initial}" aria-busy="true"></main>
+<script nonce="${nonce}" src="${script}"></script>
+</body>
+</html>`;
+}

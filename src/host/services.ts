@@ -1,0 +1,151 @@
+// What every command shares: settings, the output channel, the spec runner with the extension's file
+// readers, the panels, and the error notification that points at the place in the file.
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import { aggregateFile } from '../data/file';
+import { isInputError, type InputError } from '../errors';
+import type { PanelOrigin } from '../protocol';
+import { runSpec } from '../spec/run';
+import type { SpecReaders, SpecRun } from '../spec/types';
+import type { Result } from '../stats/result';
+import { PanelManager, type PanelActions, type ResultPanel } from './panel';
+import { buildPayload } from './payload';
+
+const t = vscode.l10n.t;
+
+export interface Settings {
+  readonly alpha: number;
+  readonly decimals: number;
+  readonly correction: boolean;
+  readonly missingValues: readonly string[];
+  readonly monteCarloResamples: number;
+  readonly allowPathsOutsideWorkspace: boolean;
+}
+
+export function settings(scope?: vscode.Uri): Settings {
+  const c = vscode.workspace.getConfiguration('countercheck', scope);
+  return {
+    alpha: c.get<number>('alpha', 0.05),
+    decimals: c.get<number>('decimals', 2),
+    correction: c.get<boolean>('correction', false),
+    missingValues: c.get<string[]>('missingValues', ['', 'NA', 'NaN', 'null', '-']),
+    monteCarloResamples: c.get<number>('monteCarloResamples', 10000),
+    allowPathsOutsideWorkspace: c.get<boolean>('allowPathsOutsideWorkspace', false),
+  };
+}
+
+export const extensionReaders: SpecReaders = {
+  aggregateFile: (file, request, options, control) =>
+    aggregateFile(file, request, options, {
+      signal: control.signal,
+      onProgress: (p) => { if (p.totalBytes) control.onProgress?.(p.bytesRead / p.totalBytes); },
+    }),
+};
+
+export class Cancelled extends Error {}
+
+export class Services {
+  readonly output = vscode.window.createOutputChannel('Countercheck', { log: true });
+  readonly panels: PanelManager;
+  private counter = 0;
+
+  constructor(
+    readonly context: vscode.ExtensionContext,
+    actions: PanelActions,
+  ) {
+    this.panels = new PanelManager(context.extensionUri, actions);
+  }
+
+  workspaceRootFor(file: string): string {
+    const folder = vscode.workspace.getWorkspaceFolder(vscode.Uri.file(file)) ?? vscode.workspace.workspaceFolders?.[0];
+    return folder?.uri.fsPath ?? path.dirname(file);
+  }
+
+  /** Runs a spec with a progress notification whose Cancel aborts the read. */
+  async run(spec: Readonly<Record<string, unknown>>, specPath: string, label: string): Promise<SpecRun> {
+    const s = settings(vscode.Uri.file(specPath));
+    const started = Date.now();
+    const outcome = await vscode.window.withProgress(
+      { location: vscode.ProgressLocation.Notification, title: t('Countercheck: {0}', label), cancellable: true },
+      async (progress, token) => {
+        const abort = new AbortController();
+        const sub = token.onCancellationRequested(() => abort.abort());
+        let reported = 0;
+        try {
+          return await runSpec(spec, {
+            readers: extensionReaders,
+            specPath,
+            allowedRoot: this.workspaceRootFor(specPath),
+            allowOutsideRoot: s.allowPathsOutsideWorkspace,
+            signal: abort.signal,
+            onProgress: (fraction) => {
+              const pct = Math.floor(fraction * 100);
+              if (pct > reported) {
+                progress.report({ increment: pct - reported, message: `${pct} %` });
+                reported = pct;
+              }
+            },
+          });
+        } catch (e) {
+          if (abort.signal.aborted) throw new Cancelled(t('Cancelled'));
+          throw e;
+        } finally {
+          sub.dispose();
+        }
+      },
+    );
+    this.output.info(`${label}: ${outcome.result.kind === 'test' ? outcome.result.procedure : outcome.result.kind} in ${Date.now() - started} ms (${outcome.data.description}, ${outcome.data.rows} rows)`);
+    return outcome;
+  }
+
+  showResult(result: Result, origin: PanelOrigin | undefined, title: string, sourceDescription: string, reuse?: ResultPanel): ResultPanel {
+    const s = settings(origin ? vscode.Uri.file(origin.specPath) : undefined);
+    const payload = buildPayload(result, {
+      id: `r${++this.counter}`,
+      title,
+      sourceDescription,
+      decimals: s.decimals,
+      canSave: origin !== undefined,
+      canRerun: origin !== undefined,
+    });
+    return this.panels.show({ ...payload, origin }, reuse);
+  }
+
+  /** Shows any failure as a notification; an InputError gets a button that opens its file at the line. Never rethrows. */
+  async reportError(e: unknown, baseFolder?: string): Promise<void> {
+    if (e instanceof Cancelled) {
+      this.output.info('cancelled by the user');
+      return;
+    }
+    const message = e instanceof Error ? e.message : String(e);
+    this.output.error(message);
+    if (e instanceof Error && e.stack && !isInputError(e)) this.output.debug(e.stack);
+    if (!isInputError(e)) {
+      void vscode.window.showErrorMessage(t('Countercheck: {0}', message));
+      return;
+    }
+    const target = locate(e, baseFolder);
+    const where = target ? ` (${vscode.workspace.asRelativePath(target.uri)}${target.line ? `:${target.line}` : ''}${target.column ? `, ${t('column')} ${target.column}` : ''})` : '';
+    const open = t('Open at location');
+    const choice = await vscode.window.showErrorMessage(t('Countercheck: {0}', message) + where, ...(target ? [open] : []));
+    if (choice === open && target) {
+      const doc = await vscode.workspace.openTextDocument(target.uri);
+      const line = Math.max(0, Math.min(doc.lineCount - 1, (target.line ?? 1) - 1));
+      const col = target.columnIndex ?? 0;
+      await vscode.window.showTextDocument(doc, { selection: new vscode.Range(line, col, line, col) });
+    }
+  }
+
+  dispose(): void {
+    this.panels.dispose();
+    this.output.dispose();
+  }
+}
+
+/** Where an InputError points: file (relative to the spec's folder or absolute), 1-based line, column name. */
+export function locate(e: InputError, baseFolder?: string): { uri: vscode.Uri; line?: number; column?: string; columnIndex?: number } | undefined {
+  const { file, line, column } = e.location;
+  if (!file) return undefined;
+  const abs = path.isAbsolute(file) ? file : path.join(baseFolder ?? vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? '', file);
+  return { uri: vscode.Uri.file(abs), line, column };
+}

@@ -1,0 +1,71 @@
+// Saved tests in the Testing view, grouped by folder. Running one re-runs it and compares with the
+// recorded result: data changed or result differs is a failure whose message is the comparison.
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import { describeReview } from '../spec/review';
+import { reviewSpec, SPEC_GLOB } from './commands/savedSpecs';
+import type { Services } from './services';
+
+export function registerTesting(services: Services): vscode.TestController {
+  const controller = vscode.tests.createTestController('countercheck.savedTests', vscode.l10n.t('Countercheck saved tests'));
+  const folderItem = (uri: vscode.Uri): vscode.TestItemCollection => {
+    const rel = vscode.workspace.asRelativePath(vscode.Uri.file(path.dirname(uri.fsPath)), false);
+    const id = `folder:${rel}`;
+    let folder = controller.items.get(id);
+    if (!folder) {
+      folder = controller.createTestItem(id, rel === path.dirname(uri.fsPath) ? '.' : rel);
+      controller.items.add(folder);
+    }
+    return folder.children;
+  };
+  const add = (uri: vscode.Uri) => {
+    const item = controller.createTestItem(uri.toString(), path.basename(uri.fsPath, '.countercheck.json'), uri);
+    item.range = new vscode.Range(0, 0, 0, 0);
+    folderItem(uri).add(item);
+  };
+  const remove = (uri: vscode.Uri) => {
+    controller.items.forEach((folder) => folder.children.delete(uri.toString()));
+  };
+  const discover = async () => {
+    for (const uri of await vscode.workspace.findFiles(SPEC_GLOB, '**/node_modules/**', 2000)) add(uri);
+  };
+  controller.resolveHandler = async (item) => { if (!item) await discover(); };
+  controller.refreshHandler = async () => { controller.items.replace([]); await discover(); };
+
+  const watcher = vscode.workspace.createFileSystemWatcher(SPEC_GLOB);
+  watcher.onDidCreate(add);
+  watcher.onDidDelete(remove);
+
+  const leaves = (items: readonly vscode.TestItem[]): vscode.TestItem[] =>
+    items.flatMap((i) => (i.uri ? [i] : (() => { const kids: vscode.TestItem[] = []; i.children.forEach((c) => kids.push(c)); return leaves(kids); })()));
+
+  controller.createRunProfile(vscode.l10n.t('Re-run and compare'), vscode.TestRunProfileKind.Run, async (request, token) => {
+    if (controller.items.size === 0) await discover();
+    const all: vscode.TestItem[] = [];
+    controller.items.forEach((i) => all.push(i));
+    const queue = leaves(request.include ? [...request.include] : all).filter((i) => !request.exclude?.includes(i));
+    const run = controller.createTestRun(request);
+    const abort = new AbortController();
+    token.onCancellationRequested(() => abort.abort());
+    for (const item of queue) {
+      if (token.isCancellationRequested) { run.skipped(item); continue; }
+      run.started(item);
+      const started = Date.now();
+      const review = await reviewSpec(services, item.uri!, abort.signal);
+      const text = describeReview(review, vscode.workspace.asRelativePath(item.uri!));
+      run.appendOutput(`${text.replace(/\n/g, '\r\n')}\r\n`, undefined, item);
+      const duration = Date.now() - started;
+      if (review.status === 'reproduced') run.passed(item, duration);
+      else if (review.status === 'cannot-run') run.errored(item, new vscode.TestMessage(text), duration);
+      else {
+        const message = new vscode.TestMessage(text);
+        message.location = new vscode.Location(item.uri!, new vscode.Position(0, 0));
+        run.failed(item, message, duration);
+      }
+    }
+    run.end();
+  }, true);
+
+  services.context.subscriptions.push(controller, watcher);
+  return controller;
+}

@@ -1,0 +1,149 @@
+import { strict as assert } from 'node:assert';
+import { barsPlot, densityPlot, intervalPlot, niceTicks, plotsFor, residualGridPlot, residualShade, RESIDUAL_BANDS } from '../../../src/report/plots';
+import type { TestResult } from '../../../src/stats/result';
+
+function close(got: number, expected: number, tol: number, what: string): void {
+  assert.ok(Math.abs(got - expected) <= tol, `${what}: expected ${expected}, got ${got}, Δ ${Math.abs(got - expected)}, tolerance ${tol}`);
+}
+
+/** A result shell: the geometry reads only the fields set here. */
+function result(over: Partial<TestResult>): TestResult {
+  return {
+    kind: 'test', test: 'independence', procedure: 'test', statisticSymbol: 'X²', statistic: 5, df: 3, n: 100,
+    pValue: { value: 0.17, log10: Math.log10(0.17) }, alternative: null, reference: { kind: 'chi-square', df: 3 },
+    alpha: 0.05, significant: false, conclusion: '', otherStatistics: [], effectSizes: [], estimates: [], notices: [], assumptions: [],
+    ...over,
+  };
+}
+
+describe('plot geometry', () => {
+  it('residual bands are the two-sided 5 %, 1 % and 0.1 % normal points', () => {
+    // NIST/SEMATECH e-Handbook §1.3.6.7.1 (standard normal table): 1.960, 2.576, 3.291.
+    close(RESIDUAL_BANDS[0], 1.960, 5e-4, 'z 0.975');
+    close(RESIDUAL_BANDS[1], 2.576, 5e-4, 'z 0.995');
+    close(RESIDUAL_BANDS[2], 3.291, 5e-4, 'z 0.9995');
+  });
+
+  it('shades a residual by sign and band, and leaves zero and NaN unshaded', () => {
+    assert.deepEqual(residualShade(0), { sign: 'none', level: 0, strength: 0 });
+    assert.deepEqual(residualShade(Number.NaN), { sign: 'none', level: 0, strength: 0 });
+    assert.equal(residualShade(1.5).sign, 'above');
+    assert.equal(residualShade(1.5).level, 0);
+    assert.equal(residualShade(-2.0).sign, 'below');
+    assert.equal(residualShade(-2.0).level, 1);
+    assert.equal(residualShade(3.0).level, 2);
+    assert.equal(residualShade(-12).level, 3);
+    assert.ok(residualShade(3.0).strength > residualShade(2.0).strength, 'tint grows with |r|');
+  });
+
+  it('picks round tick steps', () => {
+    assert.deepEqual(niceTicks(0, 10, 5), [0, 2, 4, 6, 8, 10]);
+    assert.deepEqual(niceTicks(0, 16.27, 6), [0, 5, 10, 15]);
+    assert.deepEqual(niceTicks(-4, 4, 4), [-4, -2, 0, 2, 4]);
+    assert.deepEqual(niceTicks(3, 3), [3]);
+  });
+
+  it('draws the chi-square density with the upper tail shaded for a test of independence', () => {
+    const plot = densityPlot(result({ statistic: 9.2 }));
+    assert.ok(plot);
+    assert.equal(plot.shaded.length, 1);
+    const tail = plot.shaded[0];
+    close(tail[0].x, 9.2, 1e-12, 'tail starts at the statistic');
+    close(tail[tail.length - 1].x, plot.xMax, 1e-12, 'tail ends at the axis end');
+    // χ²(3) upper 5 % point 7.815: NIST/SEMATECH e-Handbook §1.3.6.7.4.
+    assert.equal(plot.critical.length, 1);
+    close(plot.critical[0], 7.815, 5e-4, 'critical value df 3, α 0.05');
+    // Density of χ²(4) at 2 is 2·e^(−1)/4 = 0.18394 (closed form x·e^(−x/2)/4 of the textbook pdf).
+    const df4 = densityPlot(result({ reference: { kind: 'chi-square', df: 4 }, df: 4, statistic: 2 }));
+    assert.ok(df4);
+    const at2 = df4.curve.reduce((best, p) => (Math.abs(p.x - 2) < Math.abs(best.x - 2) ? p : best));
+    close(at2.y, (at2.x * Math.exp(-at2.x / 2)) / 4, 1e-9, `χ²(4) density at ${at2.x}`);
+    assert.equal(plot.observed.clipped, false);
+  });
+
+  it('flags a statistic far beyond the axis as clipped and draws it at the edge', () => {
+    const plot = densityPlot(result({ statistic: 2000, reference: { kind: 'chi-square', df: 1 }, df: 1 }));
+    assert.ok(plot);
+    assert.equal(plot.observed.clipped, true);
+    assert.equal(plot.observed.x, plot.xMax);
+    assert.ok(plot.curve.every((p) => Number.isFinite(p.y) && p.y <= plot.yMax), 'df 1 pole is capped');
+  });
+
+  it('shades both tails with equal probability for a two-sided variance test', () => {
+    // Input: a statistic in the lower tail with lower-tail probability 0.0318 (an illustrative input, not a checked value).
+    const plot = densityPlot(result({
+      test: 'variance', statistic: 10, df: 20, reference: { kind: 'chi-square', df: 20 }, alternative: 'two-sided',
+      details: { lowerTail: { value: 0.0318, log10: Math.log10(0.0318) }, upperTail: { value: 0.9682, log10: Math.log10(0.9682) } },
+    }));
+    assert.ok(plot);
+    assert.equal(plot.shaded.length, 2);
+    close(plot.shaded[0][plot.shaded[0].length - 1].x, 10, 1e-12, 'lower tail ends at the statistic');
+    const mirror = plot.shaded[1][0].x;
+    // The mirror point leaves 3.18 % above it: for χ²(20) that is a little above the upper 5 % point 31.410 (NIST table).
+    assert.ok(mirror > 31.41 && mirror < 37.57, `mirror ${mirror} between the 5 % (31.410) and 1 % (37.566) points`);
+    assert.equal(plot.critical.length, 2);
+    // χ²(20) lower 2.5 % point 9.591 and upper 2.5 % point 34.170: NIST/SEMATECH e-Handbook §1.3.6.7.4.
+    close(plot.critical[0], 9.591, 5e-4, 'lower critical');
+    close(plot.critical[1], 34.170, 5e-4, 'upper critical');
+  });
+
+  it('shades the lower tail only for a "less" alternative', () => {
+    const plot = densityPlot(result({ statistic: 4, df: 10, reference: { kind: 'chi-square', df: 10 }, alternative: 'less' }));
+    assert.ok(plot);
+    assert.equal(plot.shaded.length, 1);
+    assert.equal(plot.shaded[0][0].x, 0);
+  });
+
+  it('draws no density without a reference distribution', () => {
+    assert.equal(densityPlot(result({ reference: { kind: 'none' }, statistic: Number.NaN })), null);
+  });
+
+  it('scales observed/expected bars to a round maximum', () => {
+    const plot = barsPlot([
+      { label: 'a', observed: 48, expected: 40, pearsonResidual: 1.26, standardizedResidual: 1.6, contribution: 1.6 },
+      { label: 'b', observed: 32, expected: 40, pearsonResidual: -1.26, standardizedResidual: -1.6, contribution: 1.6 },
+    ]);
+    assert.ok(plot.yMax >= 48 && plot.yMax <= 60, `yMax ${plot.yMax}`);
+    assert.equal(plot.bars.length, 2);
+    assert.equal(plot.ticks[plot.ticks.length - 1], plot.yMax, 'axis ends on a tick');
+    assert.equal(barsPlot([{ label: 'a', observed: 0, expected: 0, pearsonResidual: 0, standardizedResidual: 0, contribution: 0 }]).yMax > 0, true);
+  });
+
+  it('shades every cell of the residual grid', () => {
+    const plot = residualGridPlot({
+      rowLabels: ['r1', 'r2'], columnLabels: ['c1', 'c2'], observed: [[1, 2], [3, 4]], expected: [[1, 2], [3, 4]],
+      pearsonResiduals: [[0, 0], [0, 0]], adjustedResiduals: [[2.5, -2.5], [-0.5, 4]], contributions: [[0, 0], [0, 0]],
+      rowTotals: [3, 7], columnTotals: [4, 6], total: 10,
+    });
+    assert.deepEqual(plot.shades.map((r) => r.map((s) => `${s.sign}${s.level}`)), [['above1', 'below1'], ['below0', 'above3']]);
+  });
+
+  it('puts the interval for σ against σ0 on the σ scale', () => {
+    const plot = intervalPlot(result({
+      test: 'variance', confidenceInterval: { lower: 4, upper: 16, level: 0.95, parameter: 'σ²', method: 'equal-tail chi-square' },
+      details: { variance0: 25, sampleVariance: 9 },
+    }));
+    assert.ok(plot);
+    assert.equal(plot.lower, 2);
+    assert.equal(plot.upper, 4);
+    assert.equal(plot.reference, 5);
+    assert.equal(plot.estimate, 3);
+    assert.equal(plot.referenceInside, false);
+    assert.ok(plot.xMin <= 2 && plot.xMax >= 5);
+  });
+
+  it('keeps the open side of a one-sided bound at the axis edge', () => {
+    const plot = intervalPlot(result({
+      test: 'variance', confidenceInterval: { lower: 4, upper: Infinity, level: 0.95, parameter: 'σ²', method: 'one-sided' },
+      details: { variance0: 9, sampleVariance: 6 },
+    }));
+    assert.ok(plot);
+    assert.equal(plot.upper, plot.xMax);
+    assert.equal(plot.referenceInside, true);
+  });
+
+  it('lists the plots that fit a result', () => {
+    const kinds = plotsFor(result({})).map((p) => p.kind);
+    assert.deepEqual(kinds, ['density']);
+  });
+});
