@@ -7,6 +7,8 @@ interface BenchPart {
 
 const parts: BenchPart[] = [
   // Each part registers itself here with one line.
+  require('./csv').csvBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./tables').tablesBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
 async function main(): Promise<void> {

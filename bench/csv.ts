@@ -1,0 +1,317 @@
+// The big-file path, measured: a generated parcel-sorter log (10,000,000 rows: parcel id, depot with
+// 6 levels, size class with 4 levels, weight in kg) cross-tabulated (depot × size) with the variance
+// of the weight in one streaming pass, by each candidate in its own child process (wall time from
+// spawn to exit, peak RSS from /usr/bin/time). `COUNTERCHECK_BENCH_ROWS=1000000 npm run bench -- csv`
+// runs a quick 1M-row version. Slow parsers run on the first 1,000,000 rows and are scaled (said so).
+import { spawnSync } from 'node:child_process';
+import { createReadStream, existsSync, mkdirSync, openSync, statSync, writeSync, closeSync, renameSync } from 'node:fs';
+import { join } from 'node:path';
+import { aggregateFileMany } from '../src/data/file';
+import type { Aggregate } from '../src/data/types';
+import { chiSquareUpperProbability } from '../src/stats/chisquare';
+import { compensatedSum, MomentAccumulator, sampleVariance } from '../src/stats/moments';
+
+const CHILD = 'COUNTERCHECK_CSV_BENCH_CHILD';
+const DEPOTS = ['harbor', 'airport', 'uptown', 'rivers', 'meadow', 'quarry'];
+const SIZES = ['small', 'medium', 'large', 'bulky'];
+const PREFIX_ROWS = 1_000_000;
+
+/** mulberry32: a small seeded generator, so the file is the same on every machine. */
+function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function dataPath(rows: number): string {
+  return join(process.cwd(), 'bench', '.data', `parcels-${rows}.csv`);
+}
+
+/** Writes the full file and its first-1M-row prefix once; later runs reuse them. */
+function ensureData(rows: number): void {
+  const full = dataPath(rows);
+  const prefix = dataPath(Math.min(rows, PREFIX_ROWS));
+  if (existsSync(full) && existsSync(prefix)) return;
+  mkdirSync(join(process.cwd(), 'bench', '.data'), { recursive: true });
+  console.log(`generating ${full} (once; reused by later runs) …`);
+  const random = mulberry32(20260101);
+  // Size mix shifts a little by depot, so the association is real but modest.
+  const sizeMix = DEPOTS.map((_, d) => [0.4 + 0.01 * d, 0.3, 0.2 - 0.005 * d, 0.1 - 0.005 * d]);
+  const fullFd = openSync(`${full}.tmp`, 'w');
+  const prefixFd = full === prefix ? -1 : openSync(`${prefix}.tmp`, 'w');
+  const header = 'parcel,depot,size,weight_kg\n';
+  writeSync(fullFd, header);
+  if (prefixFd >= 0) writeSync(prefixFd, header);
+  const block = 100_000;
+  for (let start = 0; start < rows; start += block) {
+    const lines: string[] = [];
+    for (let i = start; i < Math.min(rows, start + block); i++) {
+      const d = Math.floor(random() * DEPOTS.length);
+      let u = random();
+      let s = 0;
+      while (s < 3 && u >= sizeMix[d][s]) u -= sizeMix[d][s++];
+      // Weight: a skewed positive amount (sum of uniforms, scaled by size class).
+      const w = (random() + random() + random()) * (2 + 3 * s);
+      lines.push(`${1_000_000 + i},${DEPOTS[d]},${SIZES[s]},${w.toFixed(3)}\n`);
+    }
+    const text = lines.join('');
+    writeSync(fullFd, text);
+    if (prefixFd >= 0 && start < PREFIX_ROWS) writeSync(prefixFd, text);
+  }
+  closeSync(fullFd);
+  renameSync(`${full}.tmp`, full);
+  if (prefixFd >= 0) {
+    closeSync(prefixFd);
+    renameSync(`${prefix}.tmp`, prefix);
+  }
+}
+
+/** What every candidate reports: the depot × size counts and the weight's variance. */
+interface Outcome {
+  readonly counts: Record<string, number>;
+  readonly variance: number;
+  readonly rows: number;
+  readonly pValue?: string;
+  readonly note?: string;
+}
+
+/** The candidates' common work after parsing a row. */
+class Tally {
+  readonly counts = new Map<string, number>();
+  readonly moments = new MomentAccumulator();
+  rows = 0;
+  add(depot: string, size: string, weight: number): void {
+    const key = `${depot}|${size}`;
+    this.counts.set(key, (this.counts.get(key) ?? 0) + 1);
+    this.moments.push(weight);
+    this.rows++;
+  }
+  outcome(): Outcome {
+    return { counts: Object.fromEntries(this.counts), variance: sampleVariance(this.moments.summary()), rows: this.rows };
+  }
+}
+
+function fromAggregates(table: Aggregate, moments: Aggregate): Outcome {
+  if (table.kind !== 'table' || moments.kind !== 'moments') throw new Error('unexpected aggregate kinds');
+  const counts: Record<string, number> = {};
+  table.table.rowLabels.forEach((r, i) => table.table.columnLabels.forEach((c, j) => (counts[`${r}|${c}`] = table.table.counts[i][j])));
+  return { counts, variance: sampleVariance(moments.moments), rows: table.provenance.rows };
+}
+
+const REQUESTS = [
+  { kind: 'crosstab', rowColumn: 'depot', columnColumn: 'size' },
+  { kind: 'numeric', column: 'weight_kg' },
+] as const;
+
+async function ours(path: string, engine: 'auto' | 'csv-parse'): Promise<Outcome> {
+  const { aggregates, reader } = await aggregateFileMany(path, REQUESTS, {}, { engine });
+  return { ...fromAggregates(aggregates[0], aggregates[1]), note: reader };
+}
+
+function streamed(path: string, parser: NodeJS.ReadWriteStream, row: (r: unknown) => void): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const source = createReadStream(path);
+    source.on('error', reject);
+    parser.on('data', row);
+    parser.on('error', reject);
+    parser.on('end', resolve);
+    source.pipe(parser);
+  });
+}
+
+/** The child side: runs one candidate and prints its outcome as JSON. */
+async function child(candidate: string, path: string): Promise<Outcome> {
+  const tally = new Tally();
+  switch (candidate) {
+    case 'bare': {
+      let bytes = 0;
+      for await (const chunk of createReadStream(path)) bytes += (chunk as Uint8Array).length;
+      return { counts: {}, variance: NaN, rows: 0, note: `${bytes} bytes` };
+    }
+    case 'scanner':
+      return ours(path, 'auto');
+    case 'csv-parse':
+      return ours(path, 'csv-parse');
+    case 'papaparse': {
+      const Papa = (await import('papaparse')).default;
+      await new Promise<void>((resolve, reject) => {
+        let first = true;
+        Papa.parse(createReadStream(path) as unknown as typeof Papa.NODE_STREAM_INPUT, {
+          step: (r: { data: string[] }) => {
+            if (first) first = false;
+            else if (r.data.length === 4) tally.add(r.data[1], r.data[2], Number(r.data[3]));
+          },
+          complete: () => resolve(),
+          error: (e: unknown) => reject(e),
+        });
+      });
+      return tally.outcome();
+    }
+    case 'csv-parser': {
+      const csvParser = (await import('csv-parser')).default;
+      await streamed(path, csvParser(), (r) => {
+        const o = r as Record<string, string>;
+        tally.add(o.depot, o.size, Number(o.weight_kg));
+      });
+      return tally.outcome();
+    }
+    case 'fast-csv': {
+      const { parse } = await import('fast-csv');
+      await streamed(path, parse({ headers: true }), (r) => {
+        const o = r as Record<string, string>;
+        tally.add(o.depot, o.size, Number(o.weight_kg));
+      });
+      return tally.outcome();
+    }
+    case 'udsv': {
+      const { inferSchema, initParser } = await import('udsv');
+      let parser: ReturnType<typeof initParser> | undefined;
+      const decoder = new TextDecoder();
+      for await (const chunk of createReadStream(path)) {
+        const text = decoder.decode(chunk as Uint8Array, { stream: true });
+        parser ??= initParser(inferSchema(text));
+        parser.chunk<string[]>(text, parser.stringArrs, (row: string[]) => tally.add(row[1], row[2], Number(row[3])));
+      }
+      parser?.end();
+      return tally.outcome();
+    }
+    default:
+      throw new Error(`unknown candidate ${candidate}`);
+  }
+}
+
+if (process.env[CHILD]) {
+  const [candidate, path] = process.env[CHILD].split('\t');
+  child(candidate, path).then(
+    (outcome) => {
+      process.stdout.write(`${JSON.stringify(outcome)}\n`);
+      process.exit(0);
+    },
+    (e: unknown) => {
+      console.error(e);
+      process.exit(1);
+    },
+  );
+}
+
+const PANDAS = `
+import json, sys
+import numpy, pandas, scipy
+from scipy.stats import chi2_contingency
+df = pandas.read_csv(sys.argv[1])
+t = pandas.crosstab(df['depot'], df['size'])
+chi2, p, dof, _ = chi2_contingency(t)
+counts = {f"{r}|{c}": int(t.loc[r, c]) for r in t.index for c in t.columns}
+print(json.dumps({"counts": counts, "variance": float(numpy.var(df['weight_kg'].to_numpy(), ddof=1)), "rows": len(df),
+                  "pValue": repr(p), "note": f"pandas {pandas.__version__}, numpy {numpy.__version__}, scipy {scipy.__version__}"}))
+`;
+
+const DATA_TABLE = `
+suppressMessages(library(data.table)); setDTthreads(2)
+d <- fread(commandArgs(TRUE)[1])
+t <- table(d$depot, d$size)
+p <- suppressWarnings(chisq.test(t))$p.value
+cells <- paste0('"', rep(rownames(t), ncol(t)), '|', rep(colnames(t), each = nrow(t)), '":', as.vector(t), collapse = ',')
+cat(sprintf('{"counts":{%s},"variance":%.17g,"rows":%d,"pValue":"%g","note":"data.table %s, 2 threads"}\\n',
+  cells, var(d$weight_kg), nrow(d), p, as.character(packageVersion('data.table'))))
+`;
+
+interface Measured {
+  readonly name: string;
+  readonly seconds: number;
+  readonly rssMb: number;
+  readonly scale: number;
+  readonly outcome?: Outcome;
+  readonly error?: string;
+}
+
+/** Runs a command under /usr/bin/time -v: wall seconds (spawn to exit) and peak RSS. */
+function measure(name: string, command: string, args: string[], env: NodeJS.ProcessEnv, scale: number): Measured {
+  const useTime = existsSync('/usr/bin/time');
+  const started = process.hrtime.bigint();
+  const run = useTime
+    ? spawnSync('/usr/bin/time', ['-v', command, ...args], { env, encoding: 'utf8', maxBuffer: 1 << 26 })
+    : spawnSync(command, args, { env, encoding: 'utf8', maxBuffer: 1 << 26 });
+  const seconds = Number(process.hrtime.bigint() - started) / 1e9;
+  const rss = /Maximum resident set size \(kbytes\): (\d+)/.exec(run.stderr ?? '');
+  const rssMb = rss ? Number(rss[1]) / 1024 : NaN;
+  if (run.status !== 0) return { name, seconds, rssMb, scale, error: (run.stderr ?? String(run.error)).split('\n').slice(0, 3).join(' ') };
+  try {
+    return { name, seconds, rssMb, scale, outcome: JSON.parse(run.stdout.trim().split('\n').pop() ?? '') as Outcome };
+  } catch {
+    return { name, seconds, rssMb, scale, error: `unreadable output: ${run.stdout.slice(0, 200)}` };
+  }
+}
+
+function nodeCandidate(name: string, path: string, scale: number): Measured {
+  // The same script (bundled or under tsx) in child mode.
+  const args = [...process.execArgv, process.argv[1], '--csv-bench-child'];
+  return measure(name, process.execPath, args, { ...process.env, [CHILD]: `${name}\t${path}` }, scale);
+}
+
+function pearsonStatistic(counts: Record<string, number>): { statistic: number; df: number } {
+  const observed = DEPOTS.map((d) => SIZES.map((s) => counts[`${d}|${s}`] ?? 0));
+  const rowTotals = observed.map((r) => compensatedSum(r));
+  const columnTotals = SIZES.map((_, j) => compensatedSum(observed.map((r) => r[j])));
+  const n = compensatedSum(rowTotals);
+  const terms: number[] = [];
+  observed.forEach((r, i) =>
+    r.forEach((o, j) => {
+      const e = (rowTotals[i] * columnTotals[j]) / n;
+      terms.push(((o - e) * (o - e)) / e);
+    }),
+  );
+  return { statistic: compensatedSum(terms), df: (DEPOTS.length - 1) * (SIZES.length - 1) };
+}
+
+async function run(): Promise<void> {
+  const rows = Number(process.env.COUNTERCHECK_BENCH_ROWS ?? 10_000_000);
+  ensureData(rows);
+  const full = dataPath(rows);
+  const prefix = dataPath(Math.min(rows, PREFIX_ROWS));
+  const fullMb = statSync(full).size / 1e6;
+  const scale = statSync(full).size / statSync(prefix).size;
+  console.log(`file: ${full} (${fullMb.toFixed(1)} MB, ${rows.toLocaleString('en')} rows); machine: ${process.platform}, node ${process.version}`);
+  const results: Measured[] = [nodeCandidate('bare', full, 1), nodeCandidate('scanner', full, 1)];
+  for (const name of ['udsv', 'papaparse', 'csv-parser', 'fast-csv', 'csv-parse']) results.push(nodeCandidate(name, prefix, scale));
+  const python = '/usr/bin/python3';
+  if (existsSync(python)) results.push(measure('pandas+scipy', python, ['-c', PANDAS, full], process.env, 1));
+  else console.log('pandas: unavailable (no /usr/bin/python3)');
+  const rscript = '/usr/bin/Rscript';
+  if (existsSync(rscript)) results.push(measure('data.table', rscript, ['-e', DATA_TABLE, full], process.env, 1));
+  else console.log('data.table: unavailable (no /usr/bin/Rscript)');
+
+  console.log('\ncandidate        seconds    MB/s  peak RSS MB  note');
+  for (const r of results) {
+    const seconds = r.seconds * r.scale;
+    const label = r.scale === 1 ? '' : ` (measured on the first ${PREFIX_ROWS.toLocaleString('en')} rows in ${r.seconds.toFixed(2)} s, time ×${r.scale.toFixed(2)}; RSS of that run)`;
+    const note = r.error ? `FAILED: ${r.error}` : `${r.outcome?.note ?? ''}${label}`;
+    console.log(`${r.name.padEnd(15)} ${seconds.toFixed(2).padStart(8)} ${(fullMb / seconds).toFixed(1).padStart(7)} ${r.rssMb.toFixed(0).padStart(12)}  ${note}`);
+  }
+
+  const scanner = results.find((r) => r.name === 'scanner');
+  const pandas = results.find((r) => r.name === 'pandas+scipy');
+  const dataTable = results.find((r) => r.name === 'data.table');
+  if (!scanner?.outcome) return;
+  const secs = scanner.seconds;
+  console.log(`\ntargets: ≥ 100 MB/s → ${(fullMb / secs).toFixed(1)} MB/s; peak RSS < 100 MB → ${scanner.rssMb.toFixed(0)} MB`);
+  if (dataTable?.outcome) console.log(`  ≥ 1.5× data.table → ${(dataTable.seconds / secs).toFixed(2)}×`);
+  if (pandas?.outcome) console.log(`  ≥ 4× pandas → ${(pandas.seconds / secs).toFixed(2)}×`);
+  for (const reference of [pandas, dataTable]) {
+    if (!reference?.outcome) continue;
+    const keys = new Set([...Object.keys(reference.outcome.counts), ...Object.keys(scanner.outcome.counts)]);
+    const same = [...keys].every((k) => reference.outcome?.counts[k] === scanner.outcome?.counts[k]);
+    const rel = Math.abs(scanner.outcome.variance - reference.outcome.variance) / Math.abs(reference.outcome.variance);
+    console.log(`${reference.name}: counts ${same ? 'agree exactly' : 'DIFFER'}; variance relative difference ${rel.toExponential(2)}; its p-value prints as ${reference.outcome.pValue}`);
+  }
+  const { statistic, df } = pearsonStatistic(scanner.outcome.counts);
+  const p = chiSquareUpperProbability(statistic, df);
+  console.log(`ours: X² = ${statistic.toFixed(2)}, df = ${df}, upper-tail p = 10^${p.log10.toFixed(1)} (value ${p.value})`);
+}
+
+export const csvBench = { name: 'csv', run };

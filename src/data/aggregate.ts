@@ -1,0 +1,283 @@
+/**
+ * From records to aggregates: cross-tabulations (optionally frequency-weighted, which also reads
+ * long counts), one-column category counts, numeric moments and already-counted tables.
+ * The same Aggregator serves in-memory records, the csv-parse stream and the byte scanner.
+ */
+import { MomentAccumulator } from '../stats/moments';
+import type { Aggregate, AggregateRequest, CountTable } from './types';
+import { CategoryCoder, MISSING, missingTokens } from './categories';
+import { parseDecimal } from './numbers';
+import type { DecimalMark, IntakeOptions } from './options';
+import type { Records } from './records';
+import { fail, inputError, shown, type PositionUnit, type Where } from './where';
+
+/** Where the aggregate came from, apart from what the aggregator counts itself. */
+export interface SourceInfo {
+  readonly description: string;
+  readonly sha256: string;
+}
+
+/** Column roles the byte scanner needs to know about. */
+export type Slot =
+  | { readonly role: 'category'; readonly index: number; readonly coder: CategoryCoder }
+  | { readonly role: 'weight'; readonly index: number }
+  | { readonly role: 'number'; readonly index: number };
+
+const LARGEST_COUNT = Number.MAX_SAFE_INTEGER;
+
+/** Counts in one flat array (row-major), grown as levels appear. */
+class CountGrid {
+  private cells = new Float64Array(64);
+  private stride = 8;
+  private rowCapacity = 8;
+
+  add(r: number, c: number, w: number): void {
+    if (r >= this.rowCapacity || c >= this.stride) this.grow(r, c);
+    this.cells[r * this.stride + c] += w;
+  }
+
+  get(r: number, c: number): number {
+    return r < this.rowCapacity && c < this.stride ? this.cells[r * this.stride + c] : 0;
+  }
+
+  /** Rows of a counted table already read (to refuse a repeated label). */
+  readonly touched = new Set<number>();
+
+  private grow(r: number, c: number): void {
+    const stride = Math.max(this.stride, 2 ** Math.ceil(Math.log2(c + 1)));
+    const rows = Math.max(this.rowCapacity, 2 ** Math.ceil(Math.log2(r + 1)));
+    const cells = new Float64Array(stride * rows);
+    for (let i = 0; i < this.rowCapacity; i++)
+      for (let j = 0; j < this.stride; j++) cells[i * stride + j] = this.cells[i * this.stride + j];
+    this.cells = cells;
+    this.stride = stride;
+    this.rowCapacity = rows;
+  }
+
+  table(rows: CategoryCoder, columns: CategoryCoder): CountTable {
+    const ro = rows.order();
+    const co = columns.order();
+    return {
+      rowLabels: ro.map((i) => rows.labels[i]),
+      columnLabels: co.map((j) => columns.labels[j]),
+      counts: ro.map((i) => co.map((j) => this.get(i, j))),
+    };
+  }
+}
+
+function columnIndex(columns: readonly string[], name: string, where: Where): number {
+  const first = columns.indexOf(name);
+  if (first < 0) {
+    const trimmed = columns.findIndex((c) => c.trim().toLowerCase() === name.trim().toLowerCase());
+    const hint = trimmed >= 0 ? ` (did you mean \`${columns[trimmed]}\`?)` : '';
+    fail(where, `found no column \`${name}\`${hint}; the columns are ${columns.map((c) => `\`${c}\``).join(', ')}`, 'unknown-column');
+  }
+  const second = columns.indexOf(name, first + 1);
+  if (second >= 0) fail(where, `the header names column \`${name}\` twice (fields ${first + 1} and ${second + 1}); expected unique names`, 'duplicate-column');
+  return first;
+}
+
+export class Aggregator {
+  private rows = 0;
+  private dropped = 0;
+  private readonly where: { file?: string; unit?: PositionUnit };
+  private readonly decimal: DecimalMark;
+  private readonly tokens: ReadonlySet<string>;
+  private readonly grid = new CountGrid();
+  private readonly moments = new MomentAccumulator();
+  private readonly values: number[] | undefined;
+  private readonly coders: CategoryCoder[] = [];
+  private readonly weightIndex: number = -1;
+  private readonly numberIndex: number = -1;
+  private readonly indices: number[] = [];
+  private readonly used: string[];
+
+  constructor(
+    readonly columns: readonly string[],
+    readonly request: AggregateRequest,
+    options: IntakeOptions = {},
+    unit: PositionUnit = 'line',
+  ) {
+    this.where = { file: options.file, unit };
+    this.decimal = options.dialect?.decimal ?? '.';
+    this.tokens = missingTokens(options.missing);
+    this.values = options.keepValues && request.kind === 'numeric' ? [] : undefined;
+    const settings = { file: options.file, unit, missing: options.missing, categories: options.categories };
+    const at = { file: options.file };
+    const cats = options.categories;
+    switch (request.kind) {
+      case 'crosstab':
+        this.indices = [columnIndex(columns, request.rowColumn, at), columnIndex(columns, request.columnColumn, at)];
+        this.coders = [
+          new CategoryCoder(request.rowColumn, cats?.rowLevels, settings),
+          new CategoryCoder(request.columnColumn, cats?.columnLevels, settings),
+        ];
+        break;
+      case 'categories':
+        this.indices = [columnIndex(columns, request.column, at)];
+        this.coders = [new CategoryCoder(request.column, cats?.levels, settings)];
+        break;
+      case 'numeric':
+        this.numberIndex = columnIndex(columns, request.column, at);
+        break;
+      case 'counted-table': {
+        if (columns.length < 2)
+          fail(at, `a counted table needs row labels and at least one column of counts; found ${columns.length} column`, 'too-few-columns');
+        this.coders = [
+          new CategoryCoder(columns[0], cats?.rowLevels ?? cats?.levels, { ...settings, ignoreMissing: true }),
+          new CategoryCoder('(header)', cats?.columnLevels, { ...settings, ignoreMissing: true }),
+        ];
+        for (const label of columns.slice(1)) this.coders[1].code(label, 1);
+        break;
+      }
+    }
+    if ((request.kind === 'crosstab' || request.kind === 'categories') && request.weight !== undefined)
+      this.weightIndex = columnIndex(columns, request.weight, at);
+    this.used =
+      request.kind === 'counted-table'
+        ? [...columns]
+        : [...this.indices, this.numberIndex, this.weightIndex].filter((i) => i >= 0).map((i) => columns[i]);
+  }
+
+  /** Column roles for the byte scanner. */
+  slots(): Slot[] {
+    const slots: Slot[] = this.indices.map((index, k) => ({ role: 'category', index, coder: this.coders[k] }));
+    if (this.weightIndex >= 0) slots.push({ role: 'weight', index: this.weightIndex });
+    if (this.numberIndex >= 0) slots.push({ role: 'number', index: this.numberIndex });
+    return slots;
+  }
+
+  isMissing(text: string): boolean {
+    return this.tokens.has(text.trim());
+  }
+
+  /** A frequency weight: a non-negative whole number; -1 when missing. */
+  readWeight(text: string, line: number): number {
+    if (this.isMissing(text)) return -1;
+    const where = { ...this.where, line, column: this.columns[this.weightIndex] };
+    const w = parseDecimal(text, this.decimal);
+    if (Number.isNaN(w) || w < 0)
+      fail(where, `expected a non-negative number (a frequency weight), found ${shown(text.trim())}`, 'bad-weight');
+    return this.checkWhole(w, text, where);
+  }
+
+  private checkWhole(w: number, text: string, where: Where): number {
+    if (!Number.isInteger(w))
+      fail(where, `expected a whole number, found ${shown(text.trim())}; count tests need frequency weights (how many times each record occurred)`, 'non-integer-weight');
+    if (w > LARGEST_COUNT) fail(where, `found ${shown(text.trim())}, above the largest exactly representable count (2^53 − 1)`, 'count-too-large');
+    return w;
+  }
+
+  /** A weight already parsed by the byte scanner's fast path. */
+  checkWeight(w: number, line: number): number {
+    if (w >= 0 && Number.isInteger(w) && w <= LARGEST_COUNT) return w;
+    return this.readWeight(String(w), line);
+  }
+
+  /** A number, or NaN when missing. */
+  readNumber(text: string, line: number): number {
+    if (this.isMissing(text)) return NaN;
+    const x = parseDecimal(text, this.decimal);
+    if (Number.isNaN(x)) {
+      const where = { ...this.where, line, column: this.columns[this.numberIndex] };
+      const hint =
+        this.decimal === '.' && !Number.isNaN(parseDecimal(text, ',')) ? ' (with `.` as the decimal mark; is the decimal mark `,`?)' : '';
+      fail(where, `expected a number${hint}, found ${shown(text.trim())}`, 'not-a-number');
+    }
+    return x;
+  }
+
+  /** Data records seen so far. */
+  get recordCount(): number {
+    return this.rows;
+  }
+
+  // The adders the scanner calls once a record's fields are coded.
+  addRecord(): void {
+    this.rows++;
+  }
+  drop(): void {
+    this.dropped++;
+  }
+  addCell(r: number, c: number, w: number): void {
+    this.grid.add(r, c, w);
+  }
+  addValue(x: number): void {
+    this.moments.push(x);
+    this.values?.push(x);
+  }
+
+  /** One record of string fields (already checked to have the header's number of fields). */
+  push(fields: readonly string[], line: number): void {
+    this.rows++;
+    switch (this.request.kind) {
+      case 'crosstab':
+      case 'categories': {
+        const w = this.weightIndex >= 0 ? this.readWeight(fields[this.weightIndex], line) : 1;
+        const r = this.coders[0].code(fields[this.indices[0]], line);
+        const c = this.indices.length > 1 ? this.coders[1].code(fields[this.indices[1]], line) : 0;
+        if (r === MISSING || c === MISSING || w < 0) this.dropped++;
+        else this.grid.add(r, c, w);
+        return;
+      }
+      case 'numeric': {
+        const x = this.readNumber(fields[this.numberIndex], line);
+        if (Number.isNaN(x)) this.dropped++;
+        else this.addValue(x);
+        return;
+      }
+      case 'counted-table':
+        this.pushCountedRow(fields, line);
+        return;
+    }
+  }
+
+  private pushCountedRow(fields: readonly string[], line: number): void {
+    const label = fields[0].trim();
+    if (label === '') fail({ ...this.where, line, column: this.columns[0] }, 'expected a row label, found an empty field', 'missing-label');
+    const before = this.coders[0].labels.length;
+    const r = this.coders[0].code(label, line);
+    if (r < before && this.grid.touched.has(r))
+      fail({ ...this.where, line, column: this.columns[0] }, `the row label ${shown(label)} appears twice; expected each row once`, 'duplicate-label');
+    this.grid.touched.add(r);
+    const columnIds = this.columns.slice(1).map((c) => this.coders[1].code(c, 1));
+    for (let j = 1; j < fields.length; j++) {
+      const where = { ...this.where, line, column: this.columns[j] };
+      const v = parseDecimal(fields[j], this.decimal);
+      if (Number.isNaN(v) || v < 0) fail(where, `expected a count (a non-negative whole number), found ${shown(fields[j].trim())}`, 'bad-count');
+      this.grid.add(r, columnIds[j - 1], this.checkWhole(v, fields[j], where));
+    }
+  }
+
+  result(source: SourceInfo): Aggregate {
+    const provenance = { description: source.description, sha256: source.sha256, rows: this.rows, dropped: this.dropped, columns: this.used };
+    switch (this.request.kind) {
+      case 'crosstab':
+      case 'counted-table':
+        return { kind: 'table', table: this.grid.table(this.coders[0], this.coders[1]), provenance };
+      case 'categories': {
+        const order = this.coders[0].order();
+        return {
+          kind: 'categories',
+          counts: { labels: order.map((i) => this.coders[0].labels[i]), counts: order.map((i) => this.grid.get(i, 0)) },
+          provenance,
+        };
+      }
+      case 'numeric':
+        return { kind: 'moments', moments: this.moments.summary(), provenance, ...(this.values ? { values: this.values } : {}) };
+    }
+  }
+}
+
+/** Aggregates records already in memory. */
+export function aggregateRecords(records: Records, request: AggregateRequest, options: IntakeOptions = {}): Aggregate {
+  const file = options.file ?? records.file;
+  const opts: IntakeOptions = { ...options, ...(file !== undefined ? { file } : {}), dialect: { ...records.dialect, ...options.dialect } };
+  const aggregator = new Aggregator(records.columns, request, opts, records.unit ?? 'line');
+  records.rows.forEach((fields, i) => {
+    if (fields.length !== records.columns.length)
+      throw inputError({ file, line: records.lines[i], unit: records.unit }, `expected ${records.columns.length} fields, found ${fields.length}`, 'ragged-row');
+    aggregator.push(fields, records.lines[i]);
+  });
+  return aggregator.result({ description: options.description ?? file ?? 'records', sha256: records.sha256 ?? '' });
+}

@@ -1,0 +1,272 @@
+/**
+ * Files of any size, streamed: the byte scanner for plain UTF-8 and Latin-1 files, csv-parse for
+ * UTF-16, counted tables and quoting the scanner leaves to it. The only module of `data/` that
+ * does I/O. Memory stays bounded: one read buffer (grown only for a longer line) and the counts.
+ */
+import { createHash, type Hash } from 'node:crypto';
+import { open, type FileHandle } from 'node:fs/promises';
+import { Readable } from 'node:stream';
+import { parse } from 'csv-parse';
+import { Aggregator } from './aggregate';
+import { detectDialect } from './dialect';
+import { csvParseFailure, csvParseOptions, normaliseNewlines, recordStartLine, RecordSink } from './delimited';
+import type { Dialect, IntakeOptions } from './options';
+import { ByteScanner, ScannerFallback } from './scanner';
+import type { Aggregate, AggregateRequest } from './types';
+import { fail, inputError } from './where';
+
+export interface ReadProgress {
+  readonly bytesRead: number;
+  readonly totalBytes: number;
+  readonly rows: number;
+}
+
+export interface FileReadControl {
+  /** Aborting stops the read within one chunk (a few milliseconds); the promise rejects with the signal's reason. */
+  readonly signal?: AbortSignal;
+  /** Called about every 100 ms and once at the end. */
+  readonly onProgress?: (progress: ReadProgress) => void;
+  /** `auto` (default): the byte scanner where it applies; `csv-parse`: always the general reader. */
+  readonly engine?: 'auto' | 'csv-parse';
+  /** Read buffer size in bytes (default 1 MiB). */
+  readonly chunkSize?: number;
+}
+
+export type FileReader = 'byte-scanner' | 'csv-parse';
+export type FileAggregate = Aggregate & { readonly reader: FileReader };
+
+type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'latin1';
+
+const SAMPLE_BYTES = 64 * 1024;
+
+interface Opened {
+  readonly handle: FileHandle;
+  readonly size: number;
+  readonly encoding: TextEncoding;
+  /** Bytes of the byte-order mark. */
+  readonly bomLength: number;
+  readonly dialect: Dialect;
+}
+
+class Progress {
+  private last = 0;
+  constructor(
+    private readonly total: number,
+    private readonly report: ((p: ReadProgress) => void) | undefined,
+  ) {}
+  tick(bytesRead: number, rows: number, force = false): void {
+    if (!this.report) return;
+    const now = Date.now();
+    if (!force && now - this.last < 100) return;
+    this.last = now;
+    this.report({ bytesRead, totalBytes: this.total, rows });
+  }
+}
+
+function fileFailure(e: unknown, file: string): never {
+  const code = (e as { code?: string }).code;
+  if (code === 'ENOENT') fail({ file }, 'found no file at this path', 'file-not-found');
+  if (code === 'EISDIR') fail({ file }, 'this is a folder; expected a data file', 'not-a-file');
+  if (code === 'EACCES' || code === 'EPERM') fail({ file }, 'permission to read the file was refused', 'unreadable-file');
+  throw e;
+}
+
+function encodingOf(head: Uint8Array, options: IntakeOptions): { encoding: TextEncoding; bomLength: number } {
+  if (head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf) return { encoding: 'utf-8', bomLength: 3 };
+  if (head[0] === 0xff && head[1] === 0xfe) return { encoding: 'utf-16le', bomLength: 2 };
+  if (head[0] === 0xfe && head[1] === 0xff) return { encoding: 'utf-16be', bomLength: 2 };
+  const given = options.dialect?.encoding ?? 'utf-8';
+  return { encoding: given === 'utf-16' ? 'utf-16le' : given, bomLength: 0 };
+}
+
+function decoderFor(encoding: TextEncoding): (bytes: Uint8Array, final: boolean) => string {
+  if (encoding === 'latin1') return (bytes) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('latin1');
+  const decoder = new TextDecoder(encoding);
+  return (bytes, final) => decoder.decode(bytes, { stream: !final });
+}
+
+async function openData(path: string, file: string, options: IntakeOptions): Promise<Opened> {
+  let handle: FileHandle;
+  try {
+    handle = await open(path, 'r');
+  } catch (e) {
+    return fileFailure(e, file);
+  }
+  try {
+    const stat = await handle.stat();
+    if (stat.isDirectory()) fail({ file }, 'this is a folder; expected a data file', 'not-a-file');
+    const head = new Uint8Array(Math.min(SAMPLE_BYTES, stat.size));
+    const { bytesRead } = await handle.read(head, 0, head.length, 0);
+    const { encoding, bomLength } = encodingOf(head.subarray(0, bytesRead), options);
+    const body = head.subarray(bomLength, bytesRead);
+    if (encoding === 'utf-8' || encoding === 'latin1') {
+      const nul = body.indexOf(0);
+      if (nul >= 0) {
+        let line = 1;
+        for (let k = 0; k < nul; k++) if (body[k] === 10) line++;
+        fail(
+          { file, line },
+          'found a NUL byte; expected text (is this a binary file, or UTF-16 without a byte-order mark? then set the encoding to `utf-16`)',
+          'binary-file',
+        );
+      }
+    }
+    const sample = decoderFor(encoding)(body, true);
+    const dialect = detectDialect(sample, options.dialect ?? {}, bytesRead < stat.size);
+    return { handle, size: stat.size, encoding, bomLength, dialect };
+  } catch (e) {
+    await handle.close();
+    throw e;
+  }
+}
+
+/** The byte scanner; throws ScannerFallback for input it leaves to csv-parse. */
+async function scanBytes(
+  opened: Opened,
+  makeAggregators: (columns: string[]) => Aggregator[],
+  file: string,
+  control: FileReadControl,
+  hash: Hash,
+): Promise<Aggregator[] | undefined> {
+  const scanner = new ByteScanner({
+    dialect: opened.dialect,
+    encoding: opened.encoding === 'latin1' ? 'latin1' : 'utf-8',
+    file,
+    aggregatorsFor: makeAggregators,
+  });
+  const progress = new Progress(opened.size, control.onProgress);
+  let buf = new Uint8Array(control.chunkSize ?? 1 << 20);
+  let filled = 0;
+  let position = 0;
+  let first = true;
+  for (;;) {
+    control.signal?.throwIfAborted();
+    if (filled === buf.length) {
+      const bigger = new Uint8Array(buf.length * 2);
+      bigger.set(buf.subarray(0, filled));
+      buf = bigger;
+    }
+    const { bytesRead } = await opened.handle.read(buf, filled, buf.length - filled, position);
+    hash.update(buf.subarray(filled, filled + bytesRead));
+    position += bytesRead;
+    filled += bytesRead;
+    const final = bytesRead === 0;
+    const from = first ? Math.min(opened.bomLength, filled) : 0;
+    first = false;
+    const consumed = scanner.scan(buf, from, filled, final);
+    progress.tick(position, scanner.result()?.[0].recordCount ?? 0, final);
+    if (final) break;
+    buf.copyWithin(0, consumed, filled);
+    filled -= consumed;
+  }
+  return scanner.result();
+}
+
+/** The general reader: decoded text through csv-parse's stream parser. */
+async function parseStream(
+  opened: Opened,
+  makeAggregators: (columns: string[]) => Aggregator[],
+  file: string,
+  control: FileReadControl,
+  hash: Hash,
+): Promise<Aggregator[] | undefined> {
+  const progress = new Progress(opened.size, control.onProgress);
+  let aggregators: Aggregator[] | undefined;
+  const sink = new RecordSink(
+    opened.dialect.header,
+    file,
+    (columns) => {
+      aggregators = makeAggregators(columns);
+    },
+    (fields, line) => {
+      for (const a of aggregators ?? []) a.push(fields, line);
+    },
+  );
+  const chunkSize = control.chunkSize ?? 1 << 20;
+  async function* decoded(): AsyncGenerator<string> {
+    const decode = decoderFor(opened.encoding);
+    const buf = new Uint8Array(chunkSize);
+    let position = 0;
+    let pendingCR = false;
+    for (;;) {
+      control.signal?.throwIfAborted();
+      const { bytesRead } = await opened.handle.read(buf, 0, buf.length, position);
+      const final = bytesRead === 0;
+      hash.update(buf.subarray(0, bytesRead));
+      const skip = position === 0 && opened.encoding === 'latin1' ? opened.bomLength : 0;
+      position += bytesRead;
+      let text: string = (pendingCR ? '\r' : '') + decode(buf.subarray(skip, bytesRead), final);
+      pendingCR = !final && text.endsWith('\r');
+      if (pendingCR) text = text.slice(0, -1);
+      progress.tick(position, aggregators?.[0].recordCount ?? 0, final);
+      if (text !== '') yield normaliseNewlines(text);
+      if (final) return;
+    }
+  }
+  const parser = parse(csvParseOptions(opened.dialect));
+  const source = Readable.from(decoded());
+  source.on('error', (e) => parser.destroy(e));
+  source.pipe(parser);
+  try {
+    for await (const { record, info } of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>)
+      sink.accept(record, recordStartLine(info.lines, record));
+  } catch (e) {
+    source.destroy();
+    return csvParseFailure(e, { file }, 0);
+  }
+  return aggregators;
+}
+
+/**
+ * Aggregates a delimited file in one streaming pass, answering several requests at once (say a
+ * cross-tabulation and the moments of a numeric column). Every provenance carries the SHA-256 of
+ * every byte read, the record count and the columns used; `dropped` counts the records that
+ * request left out for missing values.
+ */
+export async function aggregateFileMany(
+  path: string,
+  requests: readonly AggregateRequest[],
+  options: IntakeOptions = {},
+  control: FileReadControl = {},
+): Promise<{ readonly aggregates: Aggregate[]; readonly reader: FileReader }> {
+  const file = options.file ?? path;
+  control.signal?.throwIfAborted();
+  const opened = await openData(path, file, options);
+  try {
+    const intake: IntakeOptions = { ...options, file, dialect: { ...options.dialect, ...opened.dialect } };
+    const makeAggregators = (columns: string[]) => requests.map((request) => new Aggregator(columns, request, intake, 'line'));
+    const scannable =
+      control.engine !== 'csv-parse' &&
+      requests.every((r) => r.kind !== 'counted-table') &&
+      (opened.encoding === 'utf-8' || opened.encoding === 'latin1');
+    let reader: FileReader = 'csv-parse';
+    let hash = createHash('sha256');
+    let aggregators: Aggregator[] | undefined;
+    if (scannable) {
+      try {
+        aggregators = await scanBytes(opened, makeAggregators, file, control, hash);
+        reader = 'byte-scanner';
+      } catch (e) {
+        if (!(e instanceof ScannerFallback)) throw e;
+        hash = createHash('sha256');
+      }
+    }
+    if (reader === 'csv-parse') aggregators = await parseStream(opened, makeAggregators, file, control, hash);
+    if (aggregators === undefined) throw inputError({ file }, 'found no records; expected at least one line of data', 'empty-input');
+    const source = { description: options.description ?? file, sha256: hash.digest('hex') };
+    return { aggregates: aggregators.map((a) => a.result(source)), reader };
+  } finally {
+    await opened.handle.close();
+  }
+}
+
+/** Aggregates a delimited file in one streaming pass for one request. */
+export async function aggregateFile(
+  path: string,
+  request: AggregateRequest,
+  options: IntakeOptions = {},
+  control: FileReadControl = {},
+): Promise<FileAggregate> {
+  const { aggregates, reader } = await aggregateFileMany(path, [request], options, control);
+  return { ...aggregates[0], reader };
+}
