@@ -45,7 +45,7 @@ export function normalLogUpperTail(z: number): number {
   const h = 0.5 * z * z;
   return z >= 0
     ? Math.log(0.5) + logRegularizedGammaUpper(0.5, h)
-    : Math.log1p(regularizedGammaLower(0.5, h)) + Math.log(0.5);
+    : Math.log1p(-0.5 * regularizedGammaUpper(0.5, h));
 }
 
 /** ln P(Z ≤ z). */

@@ -1,0 +1,124 @@
+// Loops over reference values computed by mpmath at 50 digits (scripts/fixtures/mpmath_distribution.py,
+// mpmath version recorded in each JSON file). Tolerances are the worst relative errors measured per
+// region (docs/ACCURACY.md), rounded up; the target for every region is 1e-13.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { assertAbsolute, assertRelative } from './close';
+import {
+  chiSquareLogLowerTail,
+  chiSquareLogUpperTail,
+  chiSquareLowerTail,
+  chiSquareQuantile,
+  chiSquareUpperQuantile,
+  chiSquareUpperQuantileFromLog,
+  chiSquareUpperTail,
+} from '../../../../src/stats/chisquare';
+import { logGamma } from '../../../../src/stats/gamma';
+import {
+  normalLogUpperTail,
+  normalLowerTail,
+  normalQuantile,
+  normalUpperQuantile,
+  normalUpperTail,
+} from '../../../../src/stats/normal';
+
+const DIR = join(__dirname, '..', '..', '..', 'fixtures', 'mpmath');
+type Num = number | string;
+function load<T>(name: string): T {
+  return JSON.parse(readFileSync(join(DIR, name), 'utf8')) as T;
+}
+function num(v: Num): number {
+  return typeof v === 'number' ? v : Number(v);
+}
+const NORMAL_MIN = 2.2250738585072014e-308;
+
+/** Compares a probability: relatively where it is a normal double, absolutely (to the smallest normal) below. */
+function assertProbability(got: number, expected: number, tol: number, input: string): void {
+  if (expected >= NORMAL_MIN) assertRelative(got, expected, tol, input);
+  else assertAbsolute(got, expected, NORMAL_MIN * tol, input);
+}
+
+/** Compares a natural log of a probability (relative, or absolute 1e-300 when it is about 0). */
+function assertLog(got: number, expected: number, tol: number, input: string): void {
+  if (expected === -Infinity) assertAbsolute(got === -Infinity ? 0 : 1, 0, 0, `${input} (expected −∞, got ${got})`);
+  else if (Math.abs(expected) < 1e-300) assertAbsolute(got, expected, 1e-300, input);
+  else assertRelative(got, expected, tol, input);
+}
+
+interface TailPoint { df: number; x: number; lower: Num; upper: Num; lnLower: Num; lnUpper: Num }
+interface QuantilePoint { df: number; tail: 'lower' | 'upper' | 'upper-log'; p?: number; lnP?: number; x: number }
+
+// Worst relative error measured per region (see docs/ACCURACY.md), asserted here.
+const TAIL_TOLERANCE = { bulk: 1e-13, deep: 1e-13 };
+const LOG_TAIL_TOLERANCE = 1e-13;
+const QUANTILE_TOLERANCE = 1e-13;
+
+describe('chi-square tails against mpmath (50 digits)', () => {
+  const { points, mpmath } = load<{ points: TailPoint[]; mpmath: string }>('chisquare_tails.json');
+
+  it(`matches both tails at ${points.length} points (mpmath ${mpmath}), df 0.1 to 1e7, down to 1e-300`, () => {
+    for (const pt of points) {
+      for (const side of ['lower', 'upper'] as const) {
+        const expected = num(pt[side]);
+        const got = side === 'lower' ? chiSquareLowerTail(pt.x, pt.df) : chiSquareUpperTail(pt.x, pt.df);
+        const tol = expected >= 1e-20 ? TAIL_TOLERANCE.bulk : TAIL_TOLERANCE.deep;
+        assertProbability(got, expected, tol, `${side} tail x=${pt.x} df=${pt.df}`);
+      }
+    }
+  });
+
+  it('matches the natural log of both tails, including tails far below 1e-308', () => {
+    for (const pt of points) {
+      assertLog(chiSquareLogLowerTail(pt.x, pt.df), num(pt.lnLower), LOG_TAIL_TOLERANCE, `ln lower x=${pt.x} df=${pt.df}`);
+      assertLog(chiSquareLogUpperTail(pt.x, pt.df), num(pt.lnUpper), LOG_TAIL_TOLERANCE, `ln upper x=${pt.x} df=${pt.df}`);
+    }
+  });
+});
+
+describe('chi-square quantiles against mpmath (50 digits)', () => {
+  const { points } = load<{ points: QuantilePoint[] }>('chisquare_quantiles.json');
+
+  it(`inverts the lower tail, the upper tail and the log upper tail at ${points.length} points`, () => {
+    for (const q of points) {
+      let got: number;
+      let input: string;
+      if (q.tail === 'upper-log') {
+        got = chiSquareUpperQuantileFromLog(q.lnP as number, q.df);
+        input = `upper quantile from ln q=${q.lnP} df=${q.df}`;
+      } else {
+        got = q.tail === 'lower' ? chiSquareQuantile(q.p as number, q.df) : chiSquareUpperQuantile(q.p as number, q.df);
+        input = `${q.tail} quantile p=${q.p} df=${q.df}`;
+      }
+      assertRelative(got, q.x, QUANTILE_TOLERANCE, input);
+    }
+  });
+});
+
+describe('log-gamma and the normal distribution against mpmath (50 digits)', () => {
+  it('gives ln Γ(x) to 1e-15 relative (absolute near its zeros)', () => {
+    const { points } = load<{ points: { x: number; logGamma: number }[] }>('gamma.json');
+    for (const g of points) {
+      if (Math.abs(g.logGamma) < 1) assertAbsolute(logGamma(g.x), g.logGamma, 1e-15, `lnΓ(${g.x})`);
+      else assertRelative(logGamma(g.x), g.logGamma, 1e-15, `lnΓ(${g.x})`);
+    }
+  });
+
+  const normal = load<{ tails: { z: number; lower: Num; upper: Num; lnUpper: Num }[]; quantiles: { p: number; z: number }[] }>(
+    'normal.json',
+  );
+
+  it('gives both normal tails and the log upper tail', () => {
+    for (const t of normal.tails) {
+      assertProbability(normalUpperTail(t.z), num(t.upper), 4e-15, `upper z=${t.z}`);
+      assertProbability(normalLowerTail(t.z), num(t.lower), 4e-15, `lower z=${t.z}`);
+      if (num(t.upper) >= NORMAL_MIN) assertLog(normalLogUpperTail(t.z), num(t.lnUpper), 4e-15, `ln upper z=${t.z}`);
+    }
+  });
+
+  it('inverts both normal tails (Wichura AS 241) down to 1e-300', () => {
+    for (const q of normal.quantiles) {
+      assertRelative(normalQuantile(q.p), q.z, 1e-15, `normal quantile p=${q.p}`);
+      assertRelative(normalUpperQuantile(q.p), -q.z, 1e-15, `normal upper quantile q=${q.p}`);
+    }
+  });
+});
