@@ -1,0 +1,59 @@
+// Number formatting shared by the reports.
+import { strict as assert } from 'node:assert';
+import {
+  formatApaLine,
+  formatCount,
+  formatEstimate,
+  formatNumber,
+  formatPApa,
+  formatPExact,
+  formatProbability,
+  scientificFromLog10,
+} from '../../../src/report/format';
+
+const p = (value: number, log10 = Math.log10(value)) => ({ value, log10 });
+
+describe('report number formatting', () => {
+  it('writes the APA line with df and N', () => {
+    assert.equal(formatApaLine('X²', 0.470024, 3, 556, p(0.9254)), 'χ²(3, N = 556) = 0.47, p = .925');
+    assert.equal(formatApaLine('G²', 25.37, 1, 22071, p(4.7e-7)), 'G²(1, N = 22,071) = 25.37, p < .001');
+    assert.equal(formatApaLine('χ²', 29.07, 19, null, p(0.13)), 'χ²(19) = 29.07, p = .130');
+  });
+
+  it('honours the decimals setting', () => {
+    assert.equal(formatApaLine('X²', 0.470024, 3, 556, p(0.9254), { decimals: 4 }), 'χ²(3, N = 556) = 0.4700, p = .925');
+    assert.equal(formatNumber(1234567.891, 1), '1,234,567.9');
+  });
+
+  it('uses APA p-values: three decimals, no leading zero, p < .001', () => {
+    assert.equal(formatPApa(p(0.0495)), 'p = .050');
+    assert.equal(formatPApa(p(0.00099)), 'p < .001');
+    assert.equal(formatPApa(p(0.9996)), 'p > .999');
+  });
+
+  it('gives the exact power of ten for a p-value below the double range', () => {
+    // The upper tail at x = 2000 with 1 df is about 9.05e-437 (log10 ≈ -436.04): only its logarithm survives.
+    assert.equal(formatPExact({ value: 0, log10: -436.0435 }), 'p ≈ 9.0 × 10^-437');
+    assert.equal(formatPExact(p(3.2e-12)), 'p ≈ 3.2 × 10^-12');
+    assert.equal(formatPExact(p(0.02)), undefined);
+    assert.equal(scientificFromLog10(-3274.3), '5.0 × 10^-3275');
+    assert.equal(scientificFromLog10(-2.00000001, 2), '1.0 × 10^-2');
+    assert.equal(scientificFromLog10(Math.log10(9.996e-5), 3), '1.00 × 10^-4');
+  });
+
+  it('never prints a small nonzero number as zero', () => {
+    assert.equal(formatNumber(0.000123, 2), '1.2 × 10^-4');
+    assert.equal(formatNumber(0, 2), '0.00');
+    assert.equal(formatProbability(p(0.0004)), '4.0 × 10^-4');
+  });
+
+  it('formats counts, estimates and special values', () => {
+    assert.equal(formatCount(1234567), '1,234,567');
+    assert.equal(formatCount(12.5), '12.50');
+    assert.equal(formatEstimate(0.0153), '0.0153');
+    assert.equal(formatEstimate(1.8321), '1.83');
+    assert.equal(formatNumber(Infinity), '∞');
+    assert.equal(formatNumber(NaN), 'NaN');
+    assert.equal(formatNumber(-0.5, 2), '-0.50');
+  });
+});
