@@ -91,7 +91,9 @@ export function powerDivergence(
   differences?: readonly number[],
 ): Divergence {
   const contributions = observed.map((o, i) => (expected[i] === 0 ? 0 : divergenceTerm(o, expected[i], lambda, differences?.[i])));
-  return { statistic: compensatedSum(contributions), contributions };
+  // An infinite term (o = 0 with λ ≤ −1) would turn the compensated sum into NaN.
+  const statistic = contributions.includes(Infinity) ? Infinity : compensatedSum(contributions);
+  return { statistic, contributions };
 }
 
 /** The options fit and table share for choosing the statistic. */

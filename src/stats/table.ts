@@ -91,7 +91,7 @@ export function independenceTest(table: readonly (readonly number[])[], options:
       statistic: NaN,
       df: null,
       pValue: fisher.twoSided,
-      note: `Conditional on both margins. One-sided: P(odds ratio > 1 side) = ${describeP(fisher.greater).replace('p = ', '')}, P(odds ratio < 1 side) = ${describeP(fisher.less).replace('p = ', '')}.`,
+      note: `Conditional on both margins. One-sided: ${describeP(fisher.greater)} if the alternative is odds ratio > 1, ${describeP(fisher.less)} if it is odds ratio < 1.`,
     });
     fisherDetails = { twoSided: fisher.twoSided, greater: fisher.greater, less: fisher.less, conditionalOddsRatio: fisher.conditionalOddsRatio };
     // Sign of phi from o11 − e11, which equals (ad − bc)/N without forming products of 1e18.

@@ -16,6 +16,12 @@ describe("Fisher's exact test for 2×2 tables", () => {
           if (want.log10 !== undefined) assertClose(got[side].log10, want.log10, { rel: 1e-10, abs: 1e-12 }, `${c.name}: ${side} log10 p`);
         }
       });
+      if (typeof fisher.conditionalOddsRatio === 'number') {
+        it(`matches the conditional maximum-likelihood odds ratio for "${c.name}" (mpmath findroot)`, () => {
+          const table = c.table.filter((_, i) => c.kept.rows[i]).map((row) => row.filter((_, j) => c.kept.columns[j]));
+          assertClose(fisherExact2x2(table).conditionalOddsRatio, fisher.conditionalOddsRatio as number, { rel: 1e-9 }, `${c.name}: conditional MLE`);
+        });
+      }
     }
   });
 
@@ -32,6 +38,11 @@ describe("Fisher's exact test for 2×2 tables", () => {
     // Symmetric margins: the table [[1, 4], [4, 1]] has the same probability as [[4, 1], [1, 4]].
     // Hypergeometric(5, 5, 5): P(1) = P(4) = 25/252, P(0) = P(5) = 1/252, so p = 52/252.
     assertClose(fisherExact2x2([[1, 4], [4, 1]]).twoSided.value, 52 / 252, { rel: 1e-13 }, 'tied tails');
+  });
+
+  it('gives a conditional odds ratio of 0 or infinity at the edge of the support', () => {
+    assert.equal(fisherExact2x2([[1573, 3], [4, 0]]).conditionalOddsRatio, 0);
+    assert.equal(fisherExact2x2([[10, 0], [0, 12]]).conditionalOddsRatio, Infinity);
   });
 
   it('gives p = 1 when the observed table is the most likely one', () => {

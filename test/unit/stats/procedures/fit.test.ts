@@ -154,6 +154,13 @@ describe('goodness of fit', () => {
     assert.equal(fine.assumptions.find((a) => a.id === 'expected-counts')!.status, 'met');
   });
 
+  it('reports an infinite statistic, not NaN, when λ ≤ −1 meets an empty category, and says why', () => {
+    const result = goodnessOfFit([0, 5, 7], { statistic: 'cressie-read', lambda: -1 });
+    assert.equal(result.statistic, Infinity);
+    assert.equal(result.pValue.value, 0);
+    assert.ok(result.notices.some((n) => n.code === 'infinite-statistic'));
+  });
+
   it('reports the chosen statistic as the main one and the others beside it', () => {
     const result = goodnessOfFit([22, 17, 25, 13, 20, 23], { statistic: 'likelihood-ratio' });
     assert.equal(result.statisticSymbol, 'G²');

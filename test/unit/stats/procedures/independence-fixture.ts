@@ -28,7 +28,7 @@ export interface TableCase {
   cramersVCorrected: FixtureNumber;
   highPrecision: HighPrecision;
   yates?: { statistic: number; pValue: number };
-  fisher?: Record<'twoSided' | 'greater' | 'less', { value: FixtureNumber; log10?: FixtureNumber }> & { reference: string };
+  fisher?: Record<'twoSided' | 'greater' | 'less', { value: FixtureNumber; log10?: FixtureNumber }> & { reference: string; conditionalOddsRatio?: number | null };
   oddsRatio?: Ratio;
   relativeRisk?: Ratio;
   phi?: number;
