@@ -1,0 +1,103 @@
+/**
+ * Small pieces shared by the exact, paired, stratified, trend and post-hoc procedures: count checks with
+ * the cell named, statistic lines, and the assembly of a TestResult.
+ */
+import { InputError } from '../errors';
+import { chiSquareUpperProbability } from './chisquare';
+import type { Notice, Probability, StatisticLine, TestResult } from './result';
+
+/** A count table checked cell by cell; the message names the row, the column and the JSON path. */
+export function requireCountTable(table: unknown, jsonPath: string, what = 'table'): number[][] {
+  if (!Array.isArray(table) || table.length === 0) {
+    throw new InputError(`${what}: expected an array of rows of counts, found ${JSON.stringify(table)}`, { jsonPath }, 'table-too-small');
+  }
+  const width = Array.isArray(table[0]) ? table[0].length : -1;
+  return table.map((row: unknown, i: number) => {
+    if (!Array.isArray(row)) throw new InputError(`${what}, row ${i + 1}: expected an array of counts, found ${JSON.stringify(row)}`, { jsonPath: `${jsonPath}[${i}]` }, 'invalid-row');
+    if (row.length !== width) {
+      throw new InputError(`${what}, row ${i + 1}: expected ${width} counts like row 1, found ${row.length}`, { jsonPath: `${jsonPath}[${i}]` }, 'ragged-row');
+    }
+    return row.map((x: unknown, j: number) => {
+      if (typeof x !== 'number' || !Number.isFinite(x) || x < 0 || !Number.isInteger(x)) {
+        throw new InputError(`${what}, row ${i + 1}, column ${j + 1}: expected a count (a whole number ≥ 0), found ${JSON.stringify(x)}`, { jsonPath: `${jsonPath}[${i}][${j}]` }, 'invalid-count');
+      }
+      return x;
+    });
+  });
+}
+
+export function requireShape(table: readonly (readonly number[])[], rows: number | null, columns: number | null, jsonPath: string, what: string): void {
+  const r = table.length;
+  const c = table[0]?.length ?? 0;
+  if ((rows !== null && r !== rows) || (columns !== null && c !== columns)) {
+    const expected = `${rows ?? 'any number of'}×${columns ?? 'any number of'}`;
+    throw new InputError(`${what}: expected a ${expected} table, found ${r}×${c}`, { jsonPath }, 'wrong-shape');
+  }
+}
+
+export function sum(values: readonly number[]): number {
+  let s = 0;
+  let compensation = 0;
+  for (const v of values) {
+    const t = s + v;
+    compensation += Math.abs(s) >= Math.abs(v) ? s - t + v : v - t + s;
+    s = t;
+  }
+  return s + compensation;
+}
+
+export function rowSums(table: readonly (readonly number[])[]): number[] {
+  return table.map((row) => sum(row));
+}
+
+export function columnSums(table: readonly (readonly number[])[]): number[] {
+  return table[0].map((_, j) => sum(table.map((row) => row[j])));
+}
+
+export function chiSquareLine(id: string, name: string, symbol: string, statistic: number, df: number, note?: string): StatisticLine {
+  const pValue = Number.isNaN(statistic) ? { value: 1, log10: 0 } : chiSquareUpperProbability(statistic, df);
+  return note === undefined ? { id, name, symbol, statistic, df, pValue } : { id, name, symbol, statistic, df, pValue, note };
+}
+
+export function pLine(id: string, name: string, pValue: Probability, note?: string, statistic = NaN): StatisticLine {
+  return note === undefined ? { id, name, symbol: '', statistic, df: null, pValue } : { id, name, symbol: '', statistic, df: null, pValue, note };
+}
+
+type Core = Pick<TestResult, 'test' | 'procedure' | 'statisticSymbol' | 'statistic' | 'df' | 'n' | 'pValue' | 'alternative' | 'reference' | 'alpha' | 'conclusion'>;
+
+/** A TestResult with empty lists where a procedure has nothing to add. */
+export function testResult(core: Core, extra: Partial<Omit<TestResult, keyof Core | 'kind' | 'significant'>> = {}): TestResult {
+  return {
+    kind: 'test',
+    ...core,
+    significant: core.pValue.value < core.alpha,
+    otherStatistics: extra.otherStatistics ?? [],
+    effectSizes: extra.effectSizes ?? [],
+    estimates: extra.estimates ?? [],
+    notices: extra.notices ?? [],
+    assumptions: extra.assumptions ?? [],
+    ...(extra.confidenceInterval ? { confidenceInterval: extra.confidenceInterval } : {}),
+    ...(extra.categories ? { categories: extra.categories } : {}),
+    ...(extra.grid ? { grid: extra.grid } : {}),
+    ...(extra.details ? { details: extra.details } : {}),
+  };
+}
+
+export function info(code: string, message: string): Notice {
+  return { code, severity: 'info', message };
+}
+
+export function warning(code: string, message: string): Notice {
+  return { code, severity: 'warning', message };
+}
+
+/** Labels of the given length: the user's, or "1", "2", … */
+export function labelsOr(labels: readonly string[] | undefined, count: number, prefix: string): string[] {
+  return labels && labels.length === count ? labels.slice() : Array.from({ length: count }, (_, i) => `${prefix}${i + 1}`);
+}
+
+/** Removes rows and columns whose total is zero; they carry no information about association. */
+export function dropEmptyMargins(table: readonly (readonly number[])[]): number[][] {
+  const columnKeep = table[0].map((_, j) => table.some((row) => row[j] > 0));
+  return table.filter((row) => row.some((x) => x > 0)).map((row) => row.filter((_, j) => columnKeep[j]));
+}
