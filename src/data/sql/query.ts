@@ -252,10 +252,11 @@ export function planAggregate(source: SqlSource, request: AggregateRequest, opti
     const text =
       options.higherMoments === false
         ? first
-        : `SELECT m.records, m.n, m.mean, m.variance, m.min, m.max, c.d1, c.d2, c.d3 AS m3, c.d4 AS m4\n` +
-          `FROM (${first}) AS m\n` +
-          `CROSS JOIN LATERAL (SELECT sum(d) AS d1, sum(d * d) AS d2, sum(d * d * d) AS d3, sum(d * d * d * d) AS d4\n` +
-          `  FROM (SELECT v.x - m.mean AS d FROM (\n${inner}\n) AS v) AS dv) AS c`;
+        : // The mean reaches the second scan as a one-row CTE read by an InitPlan, which keeps both scans parallel.
+          `WITH m AS (${first})\n` +
+          `SELECT m.records, m.n, m.mean, m.variance, m.min, m.max, c.d1, c.d2, c.d3 AS m3, c.d4 AS m4\n` +
+          `FROM m CROSS JOIN (SELECT sum(d) AS d1, sum(d * d) AS d2, sum(d * d * d) AS d3, sum(d * d * d * d) AS d4\n` +
+          `  FROM (SELECT v.x - (SELECT mean FROM m) AS d FROM (\n${inner}\n) AS v) AS dv) AS c`;
     return { text, values, columns: [request.column], numericColumns: [request.column] };
   }
   const keys = request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
