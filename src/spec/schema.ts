@@ -6,8 +6,6 @@
 import { toJsonSchema } from './fields';
 import { COMMON_FIELDS, PROCEDURES } from './procedures/index';
 
-export const SCHEMA_ID = 'https://countercheck.dev/schemas/countercheck.schema.json';
-
 export function buildSpecSchema(): Record<string, unknown> {
   // Every field of every test, for completions and hovers; each test then restricts the names it allows.
   const properties: Record<string, unknown> = {};
@@ -29,7 +27,6 @@ export function buildSpecSchema(): Record<string, unknown> {
   }
   return {
     $schema: 'http://json-schema.org/draft-07/schema#',
-    $id: SCHEMA_ID,
     title: 'Countercheck saved test (version 1)',
     description: 'One chi-square procedure described completely: the data (inline or a source file), the options, and the result recorded when it was saved.',
     type: 'object',

@@ -11,12 +11,9 @@ import type { SpecV1, WeightsByLevel } from '../types';
 import type { ProcedureHandler } from './index';
 import {
   COUNT_ARRAY,
-  LAMBDA,
-  METHOD,
-  RESAMPLES,
-  SEED,
-  STATISTIC,
+  COUNT_TEST_OPTIONS,
   aggregateOf,
+  checkLambda,
   checkSourceColumns,
   requireAsymptotic,
   requireLength,
@@ -37,11 +34,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
     ratios: field(weightsByLevel, 'Expected ratios such as 9:3:3:1: an array in the order of the categories, or an object keyed by level.', true),
     source: sourceField('The one categorical column whose levels are counted.', 1, 1),
     estimatedParameters: field(num({ integer: true, min: 0 }), 'Number of parameters of the expected distribution estimated from these data; df = k − 1 − this. Default 0.'),
-    statistic: STATISTIC,
-    lambda: LAMBDA,
-    method: METHOD,
-    resamples: RESAMPLES,
-    seed: SEED,
+    ...COUNT_TEST_OPTIONS,
   },
   validate(spec: SpecV1, path: string): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
@@ -81,9 +74,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
         }
       }
     }
-    if (spec.lambda !== undefined && spec.statistic !== 'cressie-read') {
-      problems.push({ path: childPath(path, 'lambda'), message: '"lambda" applies only with "statistic": "cressie-read"' });
-    }
+    checkLambda(spec, path, problems);
     return problems;
   },
   async run(spec, ctx): Promise<TestResult> {

@@ -14,12 +14,9 @@ import {
   CONFIDENCE,
   COUNT_ARRAY,
   LABELS,
-  LAMBDA,
-  METHOD,
-  RESAMPLES,
-  SEED,
-  STATISTIC,
+  COUNT_TEST_OPTIONS,
   aggregateOf,
+  checkLambda,
   checkSourceColumns,
   requireAsymptotic,
   requireLength,
@@ -40,12 +37,8 @@ export const independenceProcedure: ProcedureHandler = {
       2,
     ),
     correction: field(bool, "Apply Yates' continuity correction (2×2 tables only). Effect sizes always use the uncorrected statistic. Default false."),
-    statistic: STATISTIC,
-    lambda: LAMBDA,
+    ...COUNT_TEST_OPTIONS,
     confidence: CONFIDENCE,
-    method: METHOD,
-    resamples: RESAMPLES,
-    seed: SEED,
   },
   validate(spec: SpecV1, path: string): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
@@ -67,9 +60,7 @@ export const independenceProcedure: ProcedureHandler = {
         if (spec[key] !== undefined) problems.push({ path: childPath(path, key), message: `a counted table in a file carries its own labels; remove "${key}"` });
       }
     }
-    if (spec.lambda !== undefined && spec.statistic !== 'cressie-read') {
-      problems.push({ path: childPath(path, 'lambda'), message: '"lambda" applies only with "statistic": "cressie-read"' });
-    }
+    checkLambda(spec, path, problems);
     return problems;
   },
   async run(spec, ctx): Promise<TestResult> {

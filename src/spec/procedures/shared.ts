@@ -25,6 +25,16 @@ export const SEED = field(num({ integer: true, min: 0 }), 'Seed of the Monte Car
 export const LABELS = (what: string): Field => field(arr(str()), `Labels of the ${what}, in order.`, true);
 export const COUNT_ARRAY = arr(num({ min: 0 }));
 
+/** The statistic and p-value method options shared by the count tests (goodness of fit, r×c tables). */
+export const COUNT_TEST_OPTIONS = { statistic: STATISTIC, lambda: LAMBDA, method: METHOD, resamples: RESAMPLES, seed: SEED } as const;
+
+/** "lambda" only means something for the Cressie–Read statistic. */
+export function checkLambda(spec: SpecV1, path: string, problems: SpecProblem[]): void {
+  if (spec.lambda !== undefined && spec.statistic !== 'cressie-read') {
+    problems.push({ path: childPath(path, 'lambda'), message: '"lambda" applies only with "statistic": "cressie-read"' });
+  }
+}
+
 /** `source`: a delimited file (relative path) or a SQL source, with the reader's dialect options. */
 export function sourceField(columnsHelp: string, minColumns: number, maxColumns: number): Field {
   return field(
