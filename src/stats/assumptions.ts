@@ -117,3 +117,8 @@ export function requireCount(value: number, where: string, jsonPath: string): vo
     throw new InputError(`${where}: expected a count (a whole number ≥ 0), found ${found}`, { jsonPath }, 'invalid-count');
   }
 }
+
+/** A number for sentences and notes: four significant digits, no trailing zeros. */
+export function formatNumber(x: number): string {
+  return Number.isFinite(x) ? String(Number(x.toPrecision(4))) : String(x);
+}

@@ -6,7 +6,7 @@
  * log-scale intervals (Woolf 1955; Katz et al. 1978).
  */
 import { InputError } from '../errors';
-import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, requireCount, requireLevel } from './assumptions';
+import { checkExpectedCounts, describeAlpha, describeP, formatNumber, independenceAssumption, requireCount, requireLevel } from './assumptions';
 import { chiSquareUpperProbability } from './chisquare';
 import { type DivergenceLine, type DivergenceOptions, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { fisherExact2x2 } from './fisher2x2';
@@ -72,7 +72,7 @@ export function independenceTest(table: readonly (readonly number[])[], options:
       notices.push({
         code: 'continuity-correction',
         severity: 'info',
-        message: `Yates' continuity correction was applied: X² = ${fmt(corrected)} instead of ${fmt(pearson.line.statistic)}. Effect sizes use the uncorrected X².`,
+        message: `Yates' continuity correction was applied: X² = ${formatNumber(corrected)} instead of ${formatNumber(pearson.line.statistic)}. Effect sizes use the uncorrected X².`,
       });
     }
   }
@@ -291,8 +291,4 @@ function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels
       note: `Proportion in ${event} for \`${rowLabels[0]}\` divided by that for \`${rowLabels[1]}\`; rows are taken as the groups.`,
     },
   ];
-}
-
-function fmt(x: number): string {
-  return String(Number(x.toPrecision(4)));
 }

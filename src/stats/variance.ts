@@ -10,7 +10,7 @@
  * kurtosis-adjusted interval as a robust alternative.
  */
 import { InputError } from '../errors';
-import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
+import { describeAlpha, describeP, formatNumber, independenceAssumption, requireLevel } from './assumptions';
 import { chiSquareLowerProbability, chiSquareQuantile, chiSquareUpperProbability, chiSquareUpperQuantile } from './chisquare';
 import { compensatedSum, MomentAccumulator, type MomentSummary, sampleExcessKurtosis, sampleSkewness } from './moments';
 import { normalUpperQuantile } from './normal';
@@ -186,8 +186,8 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
   }
 
   const parameter = hypothesis.bySd ? 'standard deviation' : 'variance';
-  const null0 = hypothesis.bySd ? `σ0 = ${fmt(Math.sqrt(hypothesis.variance0))}` : `σ0² = ${fmt(hypothesis.variance0)}`;
-  const sample = hypothesis.bySd ? `s = ${fmt(Math.sqrt(variance))}` : `s² = ${fmt(variance)}`;
+  const null0 = hypothesis.bySd ? `σ0 = ${formatNumber(Math.sqrt(hypothesis.variance0))}` : `σ0² = ${formatNumber(hypothesis.variance0)}`;
+  const sample = hypothesis.bySd ? `s = ${formatNumber(Math.sqrt(variance))}` : `s² = ${formatNumber(variance)}`;
   const direction = alternative === 'greater' ? 'is larger than' : alternative === 'less' ? 'is smaller than' : 'differs from';
   const directionNot = alternative === 'greater' ? 'exceeds' : alternative === 'less' ? 'falls below' : 'differs from';
   const conclusion = significant
@@ -285,7 +285,7 @@ function normalityAssumption(shape: Shape | null, source: 'values' | 'moments' |
   }
   const zSkew = shape.skewness / shape.skewnessSe;
   const zKurt = shape.kurtosis / shape.kurtosisSe;
-  const numbers = `skewness ${fmt(shape.skewness)} (${fmt(zSkew)} standard errors), excess kurtosis ${fmt(shape.kurtosis)} (${fmt(zKurt)} standard errors)`;
+  const numbers = `skewness ${formatNumber(shape.skewness)} (${formatNumber(zSkew)} standard errors), excess kurtosis ${formatNumber(shape.kurtosis)} (${formatNumber(zKurt)} standard errors)`;
   // Screening at two standard errors is common practice, not a formal test.
   const failed = Math.abs(zSkew) > 2 || Math.abs(zKurt) > 2;
   return {
@@ -341,8 +341,4 @@ function trimmedMean(values: readonly number[], proportion: number): { rough: nu
   const kept = sorted.slice(cut, sorted.length - cut);
   const rough = compensatedSum(kept) / kept.length;
   return { rough, remainder: compensatedSum(kept.map((x) => x - rough)) / kept.length };
-}
-
-function fmt(x: number): string {
-  return Number.isFinite(x) ? String(Number(x.toPrecision(4))) : String(x);
 }
