@@ -6,6 +6,7 @@
 import { MomentAccumulator } from '../stats/moments';
 import type { Aggregate, AggregateRequest, CountTable } from './types';
 import { CategoryCoder, MISSING, missingTokens } from './categories';
+import { wholeCount } from './counts';
 import { parseDecimal } from './numbers';
 import type { DecimalMark, IntakeOptions } from './options';
 import type { Records } from './records';
@@ -23,7 +24,6 @@ export type Slot =
   | { readonly role: 'weight'; readonly index: number }
   | { readonly role: 'number'; readonly index: number };
 
-const LARGEST_COUNT = Number.MAX_SAFE_INTEGER;
 
 /** Counts in one flat array (row-major), grown as levels appear. */
 class CountGrid {
@@ -155,23 +155,7 @@ export class Aggregator {
   readWeight(text: string, line: number): number {
     if (this.isMissing(text)) return -1;
     const where = { ...this.where, line, column: this.columns[this.weightIndex] };
-    const w = parseDecimal(text, this.decimal);
-    if (Number.isNaN(w) || w < 0)
-      fail(where, `expected a non-negative number (a frequency weight), found ${shown(text.trim())}`, 'bad-weight');
-    return this.checkWhole(w, text, where);
-  }
-
-  private checkWhole(w: number, text: string, where: Where): number {
-    if (!Number.isInteger(w))
-      fail(where, `expected a whole number, found ${shown(text.trim())}; count tests need frequency weights (how many times each record occurred)`, 'non-integer-weight');
-    if (w > LARGEST_COUNT) fail(where, `found ${shown(text.trim())}, above the largest exactly representable count (2^53 − 1)`, 'count-too-large');
-    return w;
-  }
-
-  /** A weight already parsed by the byte scanner's fast path. */
-  checkWeight(w: number, line: number): number {
-    if (w >= 0 && Number.isInteger(w) && w <= LARGEST_COUNT) return w;
-    return this.readWeight(String(w), line);
+    return wholeCount(parseDecimal(text, this.decimal), text, where, 'a frequency weight');
   }
 
   /** A number, or NaN when missing. */
@@ -243,9 +227,7 @@ export class Aggregator {
     const columnIds = this.columns.slice(1).map((c) => this.coders[1].code(c, 1));
     for (let j = 1; j < fields.length; j++) {
       const where = { ...this.where, line, column: this.columns[j] };
-      const v = parseDecimal(fields[j], this.decimal);
-      if (Number.isNaN(v) || v < 0) fail(where, `expected a count (a non-negative whole number), found ${shown(fields[j].trim())}`, 'bad-count');
-      this.grid.add(r, columnIds[j - 1], this.checkWhole(v, fields[j], where));
+      this.grid.add(r, columnIds[j - 1], wholeCount(parseDecimal(fields[j], this.decimal), fields[j], where));
     }
   }
 

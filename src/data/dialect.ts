@@ -67,7 +67,8 @@ function detectDecimal(rows: readonly string[][], delimiter: Delimiter): Decimal
   return commaNumbers > dotNumbers ? ',' : '.';
 }
 
-function detectHeader(rows: readonly string[][], decimal: DecimalMark): boolean {
+/** Whether the first of these rows looks like a header (no number in it, and numbers or new labels below). */
+export function detectHeader(rows: readonly string[][], decimal: DecimalMark): boolean {
   if (rows.length === 0) return true;
   const first = rows[0].map((f) => f.trim());
   if (first.some((f) => f !== '' && looksNumeric(f, decimal))) return false;

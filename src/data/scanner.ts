@@ -437,7 +437,8 @@ export class ByteScanner {
         } else {
           const fast = parseNumberBytes(buf, a, b, this.decimal);
           if (slot.role === WEIGHT_ROLE) {
-            weight = Number.isNaN(fast) ? aggregator.readWeight(this.text(buf, a, b, u), line) : aggregator.checkWeight(fast, line);
+            weight =
+              fast >= 0 && Number.isInteger(fast) && fast <= Number.MAX_SAFE_INTEGER ? fast : aggregator.readWeight(this.text(buf, a, b, u), line);
             if (weight < 0) missing = true;
           } else {
             value = Number.isNaN(fast) ? aggregator.readNumber(this.text(buf, a, b, u), line) : fast;

@@ -1,0 +1,26 @@
+/**
+ * Data intake: text or bytes in, typed data out. Pure functions except `aggregateFile`/`aggregateFileMany`
+ * (file.ts, the one module that reads files).
+ *
+ *   parseDelimited(text, options) → Records           a CSV/TSV/semicolon/pipe text in memory
+ *   parseSelection(text, hint) → Selection             an editor selection (CSV/TSV, JSON, markdown, HTML)
+ *   parseNotebookOutput(mime, data) → Selection        a notebook cell output
+ *   aggregateRecords(records, request, options)        Records → Aggregate (counts, table, moments)
+ *   aggregateFile(path, request, options, control)     a file of any size, streamed
+ *
+ * Long counts (two category columns and a count column) are a `crosstab` request with `weight` set
+ * to the count column; one category column with counts is a `categories` request with `weight`.
+ */
+export type { Aggregate, AggregateRequest, CategoryCounts, CountTable, Provenance } from './types';
+export type { CategoryOptions, DecimalMark, Delimiter, Dialect, DialectOptions, Encoding, IntakeOptions, MissingOptions } from './options';
+export { DEFAULT_MISSING_TOKENS } from './options';
+export type { Records } from './records';
+export { detectDialect } from './dialect';
+export { parseDelimited, type DelimitedOptions } from './delimited';
+export { aggregateRecords } from './aggregate';
+export { parseDecimal } from './numbers';
+export { parseMarkdownTable } from './markdown';
+export { parseHtmlTable, type HtmlTableOptions } from './html';
+export { readJsonData, type JsonData } from './json';
+export { parseSelection, parseNotebookOutput, detectSelectionFormat, type Selection, type SelectionFormat, type SelectionHint, type NotebookOutputOptions } from './selection';
+// The file reader does I/O: import it from './file' (hosts and the command line only).
