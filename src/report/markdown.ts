@@ -9,7 +9,13 @@ import { CAUTION, apaLine, estimateText, intervalText, statisticLineText, type R
 
 /** Escapes text for a markdown table cell or inline text. */
 export function escapeMarkdown(text: string): string {
-  return text.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/([*_`[\]<>])/g, '\\$1').replace(/\r?\n/g, ' ');
+  return text
+    .replace(/\\/g, '\\\\')
+    .replace(/\|/g, '\\|')
+    .replace(/([*_`[\]])/g, '\\$1')
+    .replace(/<(?=[A-Za-z/!?])/g, '\\<')
+    .replace(/^([#>+-])/, '\\$1')
+    .replace(/\r?\n/g, ' ');
 }
 
 /** A pipe table; numeric columns are right-aligned. */
@@ -58,7 +64,7 @@ function noticeBullets(result: { readonly notices: TestResult['notices'] }): str
 
 export function testMarkdown(result: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
   const parts: string[] = [];
-  parts.push(`**${escapeMarkdown(options.title ?? result.procedure)}**${options.title ? ` (${escapeMarkdown(result.procedure)})` : ''}`);
+  parts.push(`**${escapeMarkdown(options.title ?? result.procedure)}**${options.title ? ` — ${escapeMarkdown(result.procedure)}` : ''}`);
   parts.push(escapeMarkdown(result.conclusion));
   const exact = formatPExact(result.pValue);
   const details = [apaLine(result, options) + (exact ? ` (${exact})` : ''), ...result.effectSizes.map((e) => estimateText(e, options))];
