@@ -63,7 +63,7 @@ export const baseSettings = {
  * Starts code-server in its own process group on 127.0.0.1 with private config, data and extension folders.
  * `workspace`: a folder to copy into the temp area (so tests never change the repository), or null to use `folder` as is.
  */
-export async function startHost({ settings = {}, copyWorkspaceFrom = null, folder = null, log = () => {}, extensionsDir = null } = {}) {
+export async function startHost({ settings = {}, copyWorkspaceFrom = null, extraCopies = [], folder = null, log = () => {}, extensionsDir = null } = {}) {
   checkHostInstalled();
   const temp = mkdtempSync(join(tmpdir(), 'countercheck-host-'));
   const userDataDir = join(temp, 'user-data');
@@ -77,6 +77,7 @@ export async function startHost({ settings = {}, copyWorkspaceFrom = null, folde
   if (copyWorkspaceFrom) {
     workspace = join(temp, 'workspace');
     cpSync(copyWorkspaceFrom, workspace, { recursive: true });
+    for (const [from, to] of extraCopies) cpSync(from, join(workspace, to), { recursive: true });
   }
 
   const port = await freePort();

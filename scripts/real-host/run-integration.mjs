@@ -26,7 +26,11 @@ async function main() {
     throw new HostSetupError('dist/extension.js is missing: run `npm run build` first.');
   }
   const suite = await buildIntegrationTests();
-  const host = await startHost({ copyWorkspaceFrom: join(repoRoot, 'demo'), settings: { 'workbench.colorTheme': 'Default Light Modern' } });
+  const host = await startHost({
+    copyWorkspaceFrom: join(repoRoot, 'demo'),
+    // Small inputs with known answers, beside the demo files, so command tests do not depend on demo data changing.
+    extraCopies: [[join(repoRoot, 'test', 'integration', 'data'), 'integration-data']],
+    settings: { 'workbench.colorTheme': 'Default Light Modern' } });
   let context;
   let exitCode = 1;
   try {

@@ -10,9 +10,9 @@ import { runOnSelection } from './commands/runOnSelection';
 import { rerunAndCompare, runSavedSpec } from './commands/savedSpecs';
 import { BlockCodeLensProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
 import { PANEL_VIEW_TYPE } from './panel';
-import { handlePanelAction, trackEditors } from './panelActions';
+import { handlePanelAction, saveSpec, trackEditors } from './panelActions';
 import { Services } from './services';
-import { registerTesting } from './testing';
+import { registerTesting, type SavedTests } from './testing';
 
 /** What activate returns: used by the integration tests and by other extensions. */
 export interface CountercheckApi {
@@ -22,7 +22,13 @@ export interface CountercheckApi {
   activePanel(): PanelPayload | undefined;
   /** Runs a panel action on the active panel as if its button were pressed. */
   panelAction(action: 'copy-text' | 'copy-markdown' | 'insert' | 'save-spec' | 'rerun'): Promise<void>;
-  testController: vscode.TestController;
+  readonly savedTests: SavedTests;
+  /** The last error notification's content. */
+  lastError(): { message: string; code?: string; file?: string; line?: number } | undefined;
+  /** Saves the active panel's spec to `target` with its recorded result (the panel's "save" button without the dialog). */
+  saveActive(target: vscode.Uri): Promise<vscode.Uri | undefined>;
+  /** Restores a panel from serialized state, as the workbench does after a reload. */
+  restorePanel(panel: vscode.WebviewPanel, state: unknown): Promise<void>;
 }
 
 export function activate(context: vscode.ExtensionContext): CountercheckApi {
@@ -47,7 +53,7 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
     vscode.languages.registerHoverProvider({ pattern: '**/*.countercheck.json' }, new SpecHoverProvider()),
     vscode.languages.registerCodeLensProvider({ language: 'markdown' }, new BlockCodeLensProvider()),
   );
-  const testController = registerTesting(services);
+  const savedTests = registerTesting(services);
 
   const activationMs = performance.now() - started;
   services.output.info(`activated in ${activationMs.toFixed(1)} ms`);
@@ -60,7 +66,14 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
       if (!panel) throw new Error('no result panel is open');
       await handlePanelAction(services, action, panel);
     },
-    testController,
+    savedTests,
+    lastError: () => services.lastError,
+    saveActive: async (target) => {
+      const origin = services.panels.active?.payload.origin;
+      if (!origin) throw new Error('the active panel has no spec to save');
+      return saveSpec(services, origin, target);
+    },
+    restorePanel: (panel, state) => services.panels.deserializeWebviewPanel(panel, state as never),
   };
 }
 

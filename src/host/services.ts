@@ -48,6 +48,8 @@ export class Services {
   readonly output = vscode.window.createOutputChannel('Countercheck', { log: true });
   readonly panels: PanelManager;
   private counter = 0;
+  /** The last error shown to the user (for diagnostics and tests). */
+  lastError: { message: string; code?: string; file?: string; line?: number } | undefined;
 
   constructor(
     readonly context: vscode.ExtensionContext,
@@ -118,6 +120,7 @@ export class Services {
       return;
     }
     const message = e instanceof Error ? e.message : String(e);
+    this.lastError = isInputError(e) ? { message, code: e.code, file: e.location.file, line: e.location.line } : { message };
     this.output.error(message);
     if (e instanceof Error && e.stack && !isInputError(e)) this.output.debug(e.stack);
     if (!isInputError(e)) {
@@ -127,13 +130,14 @@ export class Services {
     const target = locate(e, baseFolder);
     const where = target ? ` (${vscode.workspace.asRelativePath(target.uri)}${target.line ? `:${target.line}` : ''}${target.column ? `, ${t('column')} ${target.column}` : ''})` : '';
     const open = t('Open at location');
-    const choice = await vscode.window.showErrorMessage(t('Countercheck: {0}', message) + where, ...(target ? [open] : []));
-    if (choice === open && target) {
+    // Not awaited: the command finishes now; the button works whenever the user gets to it.
+    void vscode.window.showErrorMessage(t('Countercheck: {0}', message) + where, ...(target ? [open] : [])).then(async (choice) => {
+      if (choice !== open || !target) return;
       const doc = await vscode.workspace.openTextDocument(target.uri);
       const line = Math.max(0, Math.min(doc.lineCount - 1, (target.line ?? 1) - 1));
-      const col = target.columnIndex ?? 0;
+      const col = columnOffset(doc, target.column, line);
       await vscode.window.showTextDocument(doc, { selection: new vscode.Range(line, col, line, col) });
-    }
+    });
   }
 
   dispose(): void {
@@ -143,7 +147,24 @@ export class Services {
 }
 
 /** Where an InputError points: file (relative to the spec's folder or absolute), 1-based line, column name. */
-export function locate(e: InputError, baseFolder?: string): { uri: vscode.Uri; line?: number; column?: string; columnIndex?: number } | undefined {
+/** Character offset of a named column on a line of a delimited file (0 when it cannot be found). */
+function columnOffset(doc: vscode.TextDocument, column: string | undefined, line: number): number {
+  if (!column) return 0;
+  const header = doc.lineAt(0).text;
+  const delimiter = [',', '\t', ';', '|'].find((d) => header.includes(d)) ?? ',';
+  const index = header.split(delimiter).map((c) => c.trim().replace(/^"|"$/g, '')).indexOf(column);
+  if (index <= 0) return 0;
+  const text = doc.lineAt(line).text;
+  let offset = 0;
+  for (let k = 0; k < index; k++) {
+    const next = text.indexOf(delimiter, offset);
+    if (next < 0) return 0;
+    offset = next + 1;
+  }
+  return offset;
+}
+
+export function locate(e: InputError, baseFolder?: string): { uri: vscode.Uri; line?: number; column?: string } | undefined {
   const { file, line, column } = e.location;
   if (!file) return undefined;
   const abs = path.isAbsolute(file) ? file : path.join(baseFolder ?? vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? '', file);

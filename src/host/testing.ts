@@ -6,7 +6,15 @@ import { describeReview } from '../spec/review';
 import { reviewSpec, SPEC_GLOB } from './commands/savedSpecs';
 import type { Services } from './services';
 
-export function registerTesting(services: Services): vscode.TestController {
+export interface SavedTests {
+  readonly controller: vscode.TestController;
+  readonly profile: vscode.TestRunProfile;
+  /** Status of the last run of each spec, by URI (for diagnostics and tests). */
+  readonly outcomes: Map<string, { status: string; message: string }>;
+}
+
+export function registerTesting(services: Services): SavedTests {
+  const outcomes = new Map<string, { status: string; message: string }>();
   const controller = vscode.tests.createTestController('countercheck.savedTests', vscode.l10n.t('Countercheck saved tests'));
   const folderItem = (uri: vscode.Uri): vscode.TestItemCollection => {
     const rel = vscode.workspace.asRelativePath(vscode.Uri.file(path.dirname(uri.fsPath)), false);
@@ -27,8 +35,13 @@ export function registerTesting(services: Services): vscode.TestController {
     controller.items.forEach((folder) => folder.children.delete(uri.toString()));
   };
   const discover = async () => {
-    for (const uri of await vscode.workspace.findFiles(SPEC_GLOB, '**/node_modules/**', 2000)) add(uri);
+    const found = await vscode.workspace.findFiles(SPEC_GLOB, '**/node_modules/**', 2000);
+    const keep = new Set(found.map((u) => u.toString()));
+    controller.items.forEach((folder) => folder.children.forEach((item) => { if (!keep.has(item.id)) folder.children.delete(item.id); }));
+    for (const uri of found) add(uri);
   };
+  // Listed right away so the Testing view and the spec files' gutter show them; not awaited by activation.
+  void discover();
   controller.resolveHandler = async (item) => { if (!item) await discover(); };
   controller.refreshHandler = async () => { controller.items.replace([]); await discover(); };
 
@@ -39,8 +52,9 @@ export function registerTesting(services: Services): vscode.TestController {
   const leaves = (items: readonly vscode.TestItem[]): vscode.TestItem[] =>
     items.flatMap((i) => (i.uri ? [i] : (() => { const kids: vscode.TestItem[] = []; i.children.forEach((c) => kids.push(c)); return leaves(kids); })()));
 
-  controller.createRunProfile(vscode.l10n.t('Re-run and compare'), vscode.TestRunProfileKind.Run, async (request, token) => {
-    if (controller.items.size === 0) await discover();
+  const profile = controller.createRunProfile(vscode.l10n.t('Re-run and compare'), vscode.TestRunProfileKind.Run, async (request, token) => {
+    // Run-all re-discovers, so specs created or deleted since the last look are included.
+    if (!request.include) await discover();
     const all: vscode.TestItem[] = [];
     controller.items.forEach((i) => all.push(i));
     const queue = leaves(request.include ? [...request.include] : all).filter((i) => !request.exclude?.includes(i));
@@ -55,6 +69,7 @@ export function registerTesting(services: Services): vscode.TestController {
       const text = describeReview(review, vscode.workspace.asRelativePath(item.uri!));
       run.appendOutput(`${text.replace(/\n/g, '\r\n')}\r\n`, undefined, item);
       const duration = Date.now() - started;
+      outcomes.set(item.uri!.toString(), { status: review.status, message: text });
       if (review.status === 'reproduced') run.passed(item, duration);
       else if (review.status === 'cannot-run') run.errored(item, new vscode.TestMessage(text), duration);
       else {
@@ -67,5 +82,5 @@ export function registerTesting(services: Services): vscode.TestController {
   }, true);
 
   services.context.subscriptions.push(controller, watcher);
-  return controller;
+  return { controller, profile, outcomes };
 }

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import Mocha = require('mocha');
 
 export function run(): Promise<void> {
-  const mocha = new Mocha({ ui: 'bdd', timeout: 30_000, color: false, reporter: 'spec' });
+  const mocha = new Mocha({ ui: 'bdd', timeout: 30_000, color: false, reporter: 'spec', grep: process.env.COUNTERCHECK_GREP });
   for (const file of readdirSync(__dirname).filter((f) => f.endsWith('.test.js')).sort()) {
     mocha.addFile(join(__dirname, file));
   }

@@ -1,0 +1,79 @@
+import { strict as assert } from 'node:assert';
+import * as vscode from 'vscode';
+import { independenceTest } from '../../src/stats/table';
+import type { TestResult } from '../../src/stats/result';
+import { api, closeAllEditors, closeTo, dataUri, panelFrom } from './api';
+
+describe('commands on data', () => {
+  afterEach(closeAllEditors);
+
+  it('runs the test of independence on a counted table file without asking anything', async () => {
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'independence');
+    // scipy 1.10.1 stats.chi2_contingency([[12,5,9],[7,14,6],[9,8,21]]): 13.790222727600893, p 0.00799557024064535, dof 4.
+    closeTo(r.statistic, 13.790222727600893, 1e-9, 'X²');
+    closeTo(r.pValue.value, 0.00799557024064535, 1e-12, 'p');
+    assert.equal(r.df, 4);
+    assert.match(payload.apaLine, /\(4, N = 91\) = 13\.79/);
+    assert.ok(payload.plots.some((p) => p.kind === 'density') && payload.plots.some((p) => p.kind === 'residual-grid'));
+    assert.ok(payload.tables[0].rows[0].cells.some((c) => c.signText), 'residual sign shown as text');
+    assert.ok(payload.caution.length > 40);
+  });
+
+  it('cross-tabulates two columns of a raw file, as pre-filled answers say', async () => {
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'independence', columns: ['rider', 'weather'] }));
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'independence');
+    assert.deepEqual(r.grid?.rowLabels, ['member', 'casual']);
+    // The same counts through the statistics directly: the host changes nothing on the way.
+    const direct = independenceTest(r.grid!.observed, {});
+    closeTo(r.statistic, direct.statistic, 1e-12, 'X² through the host vs direct');
+    assert.equal(r.n, 240);
+  });
+
+  it('tests a variance against σ0 and draws the interval', async () => {
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'variance', columns: ['trip_minutes'], sigma0: 6, alternative: 'two-sided' }));
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'variance');
+    assert.equal(r.df, 239);
+    assert.ok(payload.plots.some((p) => p.kind === 'interval'));
+    assert.ok(payload.assumptions.some((a) => a.id === 'normality'));
+  });
+
+  it('tests goodness of fit of one column against equal proportions', async () => {
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'goodness-of-fit', columns: ['dock'], proportions: 'equal' }));
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'goodness-of-fit');
+    assert.equal(r.categories?.length, 4);
+    assert.ok(payload.plots.some((p) => p.kind === 'bars'));
+  });
+
+  it('runs on a markdown table selected in the editor', async () => {
+    const doc = await vscode.workspace.openTextDocument(dataUri('report.md'));
+    const editor = await vscode.window.showTextDocument(doc);
+    editor.selection = new vscode.Selection(4, 0, 9, 0);
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnSelection'));
+    const r = payload.result as TestResult;
+    // scipy 1.10.1 stats.chi2_contingency([[4,96],[11,89],[6,94]]): 3.993855606758832, p 0.13575169916469682.
+    closeTo(r.statistic, 3.993855606758832, 1e-9, 'X²');
+    closeTo(r.pValue.value, 0.13575169916469682, 1e-12, 'p');
+    assert.match(payload.sourceDescription, /report\.md, lines 5–10/);
+  });
+
+  it('looks up the chi-square distribution', async () => {
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.distributionLookup', { df: 3, x: 7.815 }));
+    assert.equal(payload.result.kind, 'distribution');
+    // NIST/SEMATECH e-Handbook §1.3.6.7.4: the upper 5 % point of χ²(3) is 7.815.
+    const point = (payload.result as unknown as { points: { upper: { value: number } }[] }).points[0];
+    closeTo(point.upper.value, 0.05, 1e-4, 'P(X > 7.815), df 3');
+  });
+
+  it('refuses a column that does not exist with a located error, without throwing', async () => {
+    const a = await api();
+    await vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'goodness-of-fit', columns: ['nope'], proportions: 'equal' });
+    const err = a.lastError();
+    assert.ok(err, 'an error was shown');
+    assert.match(err.message, /nope/);
+  });
+});

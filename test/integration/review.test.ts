@@ -1,0 +1,75 @@
+import { strict as assert } from 'node:assert';
+import * as vscode from 'vscode';
+import { RESULT_START } from '../../src/report/blocks';
+import { api, closeAllEditors, dataUri, panelFrom, workspacePath } from './api';
+
+async function runProfile(include?: readonly vscode.TestItem[]): Promise<void> {
+  const a = await api();
+  const source = new vscode.CancellationTokenSource();
+  await a.savedTests.profile.runHandler(new vscode.TestRunRequest(include), source.token);
+}
+
+describe('saved tests and living reports', () => {
+  afterEach(closeAllEditors);
+
+  it('saves a result as a spec, runs it from the palette command and re-runs it as reproduced', async () => {
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'independence', columns: ['rider', 'dock'] }));
+    const target = vscode.Uri.file(workspacePath('integration-data', 'rider-dock.countercheck.json'));
+    assert.ok(payload.origin);
+    const a = await api();
+    await a.saveActive(target);
+    const text = Buffer.from(await vscode.workspace.fs.readFile(target)).toString('utf8');
+    const spec = JSON.parse(text) as { source: { path: string }; recorded: { data: { sha256: string } } };
+    assert.equal(spec.source.path, 'bike-trips.csv');
+    assert.match(spec.recorded.data.sha256, /^[0-9a-f]{64}$/);
+    const review = await vscode.commands.executeCommand<{ status: string }>('countercheck.rerunAndCompare', target);
+    assert.equal(review?.status, 'reproduced');
+    const shown = await panelFrom(() => vscode.commands.executeCommand('countercheck.runSavedSpec', target));
+    assert.equal(shown.origin?.saved, true);
+  });
+
+  it('runs saved specs in the Testing view: reproduced passes, a changed file fails with the comparison', async () => {
+    const a = await api();
+    const spec = vscode.Uri.file(workspacePath('integration-data', 'ovens.countercheck.json'));
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    await a.saveActive(spec);
+    await runProfile();
+    assert.equal(a.savedTests.outcomes.get(spec.toString())?.status, 'reproduced', `outcomes for ${spec.toString()}: ${JSON.stringify([...a.savedTests.outcomes])}`);
+    // One row more in the data: the fingerprint changes.
+    await vscode.workspace.fs.writeFile(dataUri('oven-defects.csv'), new TextEncoder().encode('oven,cracked,burnt,misshapen\nOven A,12,5,9\nOven B,7,14,6\nOven C,9,8,21\nOven D,30,2,1\n'));
+    await runProfile();
+    const outcome = a.savedTests.outcomes.get(spec.toString());
+    assert.equal(outcome?.status, 'data-changed');
+    assert.match(outcome?.message ?? '', /data fingerprint differs/);
+    await vscode.workspace.fs.writeFile(dataUri('oven-defects.csv'), new TextEncoder().encode('oven,cracked,burnt,misshapen\nOven A,12,5,9\nOven B,7,14,6\nOven C,9,8,21\n'));
+  });
+
+  it('every saved test of the demo workspace reproduces', async () => {
+    const a = await api();
+    const specs = (await vscode.workspace.findFiles('**/*.countercheck.json', '{**/node_modules/**,integration-data/**}')).filter((u) => !u.fsPath.includes('integration-data'));
+    assert.ok(specs.length >= 1, 'the demo workspace holds saved tests');
+    await runProfile();
+    for (const u of specs) assert.equal(a.savedTests.outcomes.get(u.toString())?.status, 'reproduced', vscode.workspace.asRelativePath(u) + ': ' + a.savedTests.outcomes.get(u.toString())?.message);
+  });
+
+  it('refreshes a living block through its CodeLens as one undoable edit, and all blocks idempotently', async () => {
+    const doc = await vscode.workspace.openTextDocument(dataUri('report.md'));
+    await vscode.window.showTextDocument(doc);
+    const original = doc.getText();
+    const lenses = await vscode.commands.executeCommand<vscode.CodeLens[]>('vscode.executeCodeLensProvider', doc.uri);
+    const lens = lenses.find((l) => l.command?.command === 'countercheck.refreshBlock');
+    assert.ok(lens?.command, 'a refresh lens on the block');
+    await vscode.commands.executeCommand(lens.command.command, ...(lens.command.arguments ?? []));
+    assert.ok(doc.getText().includes(RESULT_START), 'result written below the block');
+    assert.equal(doc.getText().split(RESULT_START).length - 1, 1, 'only the first block was refreshed');
+    await vscode.commands.executeCommand('undo');
+    assert.equal(doc.getText(), original, 'one undo restores the report');
+    const first = await vscode.commands.executeCommand<{ changed: number[] }>('countercheck.refreshAllBlocks', doc.uri);
+    assert.deepEqual(first?.changed, [0, 1]);
+    const afterFirst = doc.getText();
+    const second = await vscode.commands.executeCommand<{ changed: number[] }>('countercheck.refreshAllBlocks', doc.uri);
+    assert.deepEqual(second?.changed, []);
+    assert.equal(doc.getText(), afterFirst, 'second refresh gives identical text');
+    assert.ok(afterFirst.startsWith(original.slice(0, original.indexOf('```countercheck'))), 'text before the first block kept byte for byte');
+  });
+});
