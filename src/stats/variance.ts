@@ -181,6 +181,8 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
   if (bonett) {
     estimates.push({ id: 'varianceBonett', name: 'Sample variance s², robust interval', value: variance, interval: bonett.interval, note: bonett.note });
     estimates.push({ id: 'sdBonett', name: 'Sample standard deviation s, robust interval', value: Math.sqrt(variance), interval: sqrtInterval(bonett.interval), note: bonett.note });
+    const disagreement = robustDisagreement(varianceInterval, bonett.interval, hypothesis);
+    if (disagreement) notices.push(disagreement);
   } else if (source !== 'summary') {
     notices.push({ code: 'bonett-unavailable', severity: 'info', message: "Bonett's robust interval needs at least 5 values and the fourth moment; it is not shown." });
   }
@@ -223,6 +225,24 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
     notices,
     assumptions: [normalityAssumption(shape, source), independenceAssumption('value')],
     details: { variance0: hypothesis.variance0, sampleVariance: variance, source, lowerTail: lower, upperTail: upper },
+  };
+}
+
+/** A warning when the chi-square and Bonett intervals disagree about the hypothesised value. */
+function robustDisagreement(classic: Interval, robust: Interval, hypothesis: Hypothesis): Notice | null {
+  const v0 = hypothesis.variance0;
+  const inClassic = classic.lower <= v0 && v0 <= classic.upper;
+  const inRobust = robust.lower <= v0 && v0 <= robust.upper;
+  if (inClassic === inRobust) return null;
+  const value = hypothesis.bySd ? `σ0 = ${formatNumber(Math.sqrt(v0))}` : `σ0² = ${formatNumber(v0)}`;
+  const shown = (i: Interval) =>
+    hypothesis.bySd ? `${formatNumber(Math.sqrt(i.lower))} to ${formatNumber(Math.sqrt(i.upper))}` : `${formatNumber(i.lower)} to ${formatNumber(i.upper)}`;
+  return {
+    code: 'robust-disagrees',
+    severity: 'warning',
+    message:
+      `The chi-square interval (${shown(classic)}) ${inClassic ? 'contains' : 'excludes'} ${value}, but Bonett's robust interval ` +
+      `(${shown(robust)}) ${inRobust ? 'contains' : 'excludes'} it: the conclusion depends on the normality assumption.`,
   };
 }
 

@@ -126,6 +126,16 @@ describe('chi-square test for one variance', () => {
     assert.match(normality.alternative!, /Bonett/);
   });
 
+  it('warns when the robust interval and the chi-square interval disagree about σ0', () => {
+    // One far value: the chi-square test finds σ > 1, Bonett's interval (kurtosis 6) does not exclude 1.
+    const values = [4.1, 5.3, 3.8, 6.0, 5.1, 4.4, 4.9, 5.6, 9.8, 4.7];
+    const skewed = varianceTestFromValues(values, { sigma0: 1, alternative: 'greater' });
+    assert.ok(skewed.confidenceInterval!.lower > 1 && skewed.estimates.find((e) => e.id === 'varianceBonett')!.interval!.lower < 1);
+    assert.ok(skewed.notices.some((n) => n.code === 'robust-disagrees' && /excludes σ0 = 1, but Bonett's robust interval .* contains it/.test(n.message)));
+    const calm = varianceTestFromValues([4.1, 5.3, 3.8, 6.0, 5.1, 4.4, 4.9, 5.6, 5.2, 4.7], { sigma0: 0.7 });
+    assert.ok(!calm.notices.some((n) => n.code === 'robust-disagrees'));
+  });
+
   it('leaves normality unchecked for a summary and independence unchecked always', () => {
     const result = varianceTestFromSummary({ n: 30, sd: 2 }, { sigma0: 2 });
     assert.equal(result.assumptions.find((a) => a.id === 'normality')!.status, 'unchecked');
