@@ -1,0 +1,100 @@
+import { strict as assert } from 'node:assert';
+import { InputError } from '../../../../src/errors';
+import { stratifiedTest } from '../../../../src/stats/stratified';
+import { closeTo, fixture } from './check';
+
+interface Cmh {
+  name: string; strata: number[][][]; corrected: number; correctedP: number; uncorrected: number; uncorrectedP: number;
+  commonOddsRatio: number; ciLower: number; ciUpper: number; exactP: number; exactConditionalOddsRatio: number;
+}
+interface Gcmh { name: string; strata: number[][][]; statistic: number; df: number; pValue: number }
+interface Lbl { name: string; table: number[][]; rowScores: number[]; columnScores: number[]; statistic: number }
+const R = fixture<{ rVersion: string; cmh: Cmh[]; generalizedCmh: Gcmh[]; linearByLinear: Lbl[] }>('R', 'advanced');
+interface Sm {
+  name: string; strata: number[][][]; pooledOddsRatio: number; logOddsRatioSe: number; ciLower: number; ciUpper: number;
+  breslowDay: number; breslowDayP: number; tarone: number; taroneP: number; cmh: number; cmhP: number; cmhCorrected: number;
+}
+const SM = fixture<{ statsmodels: string; stratified: Sm[] }>('statsmodels', 'advanced');
+
+const other = (r: ReturnType<typeof stratifiedTest>, id: string) => r.otherStatistics.find((l) => l.id === id)!;
+
+describe('Cochran–Mantel–Haenszel test (2×2×K)', () => {
+  it("reproduces R's own help example, the penicillin and rabbits data: X² = 3.9286, p = 0.04747, OR 7 (1.026713, 47.725133)", () => {
+    // Values printed by example(mantelhaen.test) in R 4.2.2 (data from Agresti 1990, pp. 231–237).
+    const c = R.cmh.find((x) => x.name === 'rabbits')!;
+    const r = stratifiedTest(c.strata, { correction: true });
+    closeTo(r.statistic, 3.9286, 0, 'corrected X²', c.strata, 5e-5);
+    closeTo(r.pValue.value, 0.04747, 0, 'p', c.strata, 5e-6);
+    closeTo(r.estimates[0].value, 7, 1e-12, 'MH odds ratio', c.strata);
+    closeTo(r.confidenceInterval!.lower, 1.026713, 0, 'lower', c.strata, 5e-7);
+    closeTo(r.confidenceInterval!.upper, 47.725133, 0, 'upper', c.strata, 5e-6);
+  });
+
+  for (const c of R.cmh) {
+    it(`matches R mantelhaen.test (asymptotic, corrected, exact) on ${c.name}`, () => {
+      const src = `R ${R.rVersion} mantelhaen.test`;
+      const plain = stratifiedTest(c.strata);
+      const corrected = stratifiedTest(c.strata, { correction: true });
+      const exact = stratifiedTest(c.strata, { method: 'exact' });
+      closeTo(plain.statistic, c.uncorrected, 1e-10, `uncorrected (${src})`, c.strata);
+      closeTo(plain.pValue.value, c.uncorrectedP, 1e-9, `uncorrected p (${src})`, c.strata);
+      closeTo(corrected.statistic, c.corrected, 1e-10, `corrected (${src})`, c.strata);
+      closeTo(corrected.pValue.value, c.correctedP, 1e-9, `corrected p (${src})`, c.strata);
+      closeTo(plain.estimates[0].value, c.commonOddsRatio, 1e-12, `MH odds ratio (${src})`, c.strata);
+      closeTo(plain.confidenceInterval!.lower, c.ciLower, 1e-9, `RBG lower (${src})`, c.strata);
+      closeTo(plain.confidenceInterval!.upper, c.ciUpper, 1e-9, `RBG upper (${src})`, c.strata);
+      closeTo(exact.pValue.value, c.exactP, 1e-9, `exact conditional p (${src}, exact = TRUE)`, c.strata);
+      // R finds the conditional MLE with uniroot at its default tolerance (about 1.2e-4), so only 1e-4 is asked.
+      closeTo(exact.estimates[1].value, c.exactConditionalOddsRatio, 1e-4, `conditional MLE (${src}, exact = TRUE)`, c.strata);
+    });
+  }
+
+  for (const c of SM.stratified) {
+    it(`matches statsmodels ${SM.statsmodels} StratifiedTable on ${c.name} (RBG interval, Breslow–Day, Tarone)`, () => {
+      const r = stratifiedTest(c.strata);
+      closeTo(r.estimates[0].value, c.pooledOddsRatio, 1e-12, 'pooled OR', c.strata);
+      closeTo(r.confidenceInterval!.lower, c.ciLower, 1e-9, 'RBG lower', c.strata);
+      closeTo(r.confidenceInterval!.upper, c.ciUpper, 1e-9, 'RBG upper', c.strata);
+      closeTo(other(r, 'breslow-day').statistic, c.breslowDay, 1e-7, 'Breslow–Day', c.strata);
+      closeTo(other(r, 'breslow-day').pValue.value, c.breslowDayP, 1e-6, 'Breslow–Day p', c.strata);
+      closeTo(other(r, 'breslow-day-tarone').statistic, c.tarone, 1e-7, 'Tarone', c.strata);
+      closeTo(other(r, 'breslow-day-tarone').pValue.value, c.taroneP, 1e-6, 'Tarone p', c.strata);
+      closeTo(r.statistic, c.cmh, 1e-10, 'CMH', c.strata);
+      closeTo(stratifiedTest(c.strata, { correction: true }).statistic, c.cmhCorrected, 1e-10, 'CMH corrected', c.strata);
+    });
+  }
+
+  it('warns when the odds ratios differ between strata', () => {
+    const c = SM.stratified.find((x) => x.name === 'heterogeneous')!;
+    assert.ok(stratifiedTest(c.strata).notices.some((n) => n.code === 'heterogeneous-odds-ratios'));
+  });
+
+  it('names the stratum with a bad count', () => {
+    assert.throws(
+      () => stratifiedTest([[[1, 2], [3, 4]], [[1, -2], [3, 4]]], { stratumLabels: ['north', 'south'] }),
+      (e: unknown) => e instanceof InputError && /south/.test(e.message) && e.location.jsonPath === '$.strata[1][0][1]',
+    );
+  });
+
+  it('refuses strata of different shapes', () => {
+    assert.throws(() => stratifiedTest([[[1, 2], [3, 4]], [[1, 2, 3], [3, 4, 5]]]), (e: unknown) => e instanceof InputError && e.code === 'wrong-shape');
+  });
+});
+
+describe('generalized CMH (R×C×K)', () => {
+  for (const c of R.generalizedCmh) {
+    it(`general association matches R mantelhaen.test on ${c.name}`, () => {
+      const r = stratifiedTest(c.strata);
+      closeTo(r.statistic, c.statistic, 1e-9, `general association (R ${R.rVersion})`, c.strata);
+      assert.equal(r.df, c.df);
+      closeTo(r.pValue.value, c.pValue, 1e-8, 'p', c.strata);
+    });
+  }
+
+  for (const c of R.linearByLinear) {
+    it(`the correlation statistic with one stratum equals (N − 1)r² from R cor() on ${c.name}`, () => {
+      const r = stratifiedTest([c.table], { rowScores: c.rowScores, columnScores: c.columnScores });
+      closeTo(r.otherStatistics.find((l) => l.id === 'cmh-correlation')!.statistic, c.statistic, 1e-9, '(N − 1) r² (R cor)', c);
+    });
+  }
+});
