@@ -34,9 +34,10 @@ export function describeRunError(e: unknown, file: string, located?: LocatedJson
   if (isInputError(e)) {
     const jsonPath = e.location.jsonPath;
     const at = located && jsonPath ? locatePath(located, jsonPath) : undefined;
-    const where = at ? `${file}:${at.line}:${at.column}` : e.location.file && e.location.line ? `${e.location.file}:${e.location.line}` : file;
-    const path = jsonPath && !e.message.startsWith(jsonPath) ? `${jsonPath}: ` : '';
-    return `${where}: ${path}${e.message}`;
+    // A data error names its own file, line and column in the message; the spec file goes in front.
+    const where = at ? `${file}:${at.line}:${at.column}` : file;
+    const prefix = jsonPath && !e.message.startsWith(jsonPath) ? `${jsonPath}: ` : '';
+    return `${where}: ${prefix}${e.message}`;
   }
   return `${file}: ${e instanceof Error ? e.message : String(e)}`;
 }

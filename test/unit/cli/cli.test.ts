@@ -110,6 +110,14 @@ describe('command line', function () {
     assert.match(zero.stderr, /zero\.countercheck\.json:3:18: .*expected count is 0 but 3 observed/);
   });
 
+  it('bad data exits 2 naming the spec, the data file, its line and column', async () => {
+    write('data/shifts.csv', 'shift,defect,count\nday,yes,2\nnight,no,n/a\n');
+    write('shifts.countercheck.json', '{"test": "independence", "source": {"path": "data/shifts.csv", "columns": ["shift", "defect"], "weight": "count"}}');
+    const out = await cli(['run', 'shifts.countercheck.json']);
+    assert.equal(out.code, 2);
+    assert.match(out.stderr, /^shifts\.countercheck\.json: data\/shifts\.csv, line 3, column `count`: .*found `n\/a`/);
+  });
+
   it('a source path leading out of the folder is refused unless allowed', async () => {
     write('escape.countercheck.json', '{"test": "variance", "sigma0": 1, "source": {"path": "../elsewhere.csv", "columns": ["x"]}}');
     const out = await cli(['run', 'escape.countercheck.json']);
