@@ -30,18 +30,22 @@ class CountGrid {
   private cells = new Float64Array(64);
   private stride = 8;
   private rowCapacity = 8;
+  /** Levels that occur in a record that was kept (a level seen only in dropped records is left out). */
+  private rowUsed = new Uint8Array(8);
+  private columnUsed = new Uint8Array(8);
+  /** Rows of a counted table already read (to refuse a repeated label). */
+  readonly touched = new Set<number>();
 
   add(r: number, c: number, w: number): void {
     if (r >= this.rowCapacity || c >= this.stride) this.grow(r, c);
     this.cells[r * this.stride + c] += w;
+    this.rowUsed[r] = 1;
+    this.columnUsed[c] = 1;
   }
 
   get(r: number, c: number): number {
     return r < this.rowCapacity && c < this.stride ? this.cells[r * this.stride + c] : 0;
   }
-
-  /** Rows of a counted table already read (to refuse a repeated label). */
-  readonly touched = new Set<number>();
 
   private grow(r: number, c: number): void {
     const stride = Math.max(this.stride, 2 ** Math.ceil(Math.log2(c + 1)));
@@ -49,14 +53,29 @@ class CountGrid {
     const cells = new Float64Array(stride * rows);
     for (let i = 0; i < this.rowCapacity; i++)
       for (let j = 0; j < this.stride; j++) cells[i * stride + j] = this.cells[i * this.stride + j];
+    const rowUsed = new Uint8Array(rows);
+    rowUsed.set(this.rowUsed);
+    const columnUsed = new Uint8Array(stride);
+    columnUsed.set(this.columnUsed);
     this.cells = cells;
     this.stride = stride;
     this.rowCapacity = rows;
+    this.rowUsed = rowUsed;
+    this.columnUsed = columnUsed;
+  }
+
+  /** Level ids to show: in the coder's order, given levels always, others once kept. */
+  rowsShown(coder: CategoryCoder): number[] {
+    return coder.order().filter((i) => coder.isGiven(i) || (i < this.rowCapacity && this.rowUsed[i] === 1));
+  }
+
+  columnsShown(coder: CategoryCoder): number[] {
+    return coder.order().filter((j) => coder.isGiven(j) || (j < this.stride && this.columnUsed[j] === 1));
   }
 
   table(rows: CategoryCoder, columns: CategoryCoder): CountTable {
-    const ro = rows.order();
-    const co = columns.order();
+    const ro = this.rowsShown(rows);
+    const co = this.columnsShown(columns);
     return {
       rowLabels: ro.map((i) => rows.labels[i]),
       columnLabels: co.map((j) => columns.labels[j]),
@@ -238,7 +257,7 @@ export class Aggregator {
       case 'counted-table':
         return { kind: 'table', table: this.grid.table(this.coders[0], this.coders[1]), provenance };
       case 'categories': {
-        const order = this.coders[0].order();
+        const order = this.grid.rowsShown(this.coders[0]);
         return {
           kind: 'categories',
           counts: { labels: order.map((i) => this.coders[0].labels[i]), counts: order.map((i) => this.grid.get(i, 0)) },

@@ -85,6 +85,11 @@ export class CategoryCoder {
     return id;
   }
 
+  /** Whether the level was among the given categories. */
+  isGiven(id: number): boolean {
+    return this.given !== undefined && id < this.given.length;
+  }
+
   /** Ids in presentation order: given, first seen or sorted; the missing level last. */
   order(): number[] {
     const ids = this.labels.map((_, i) => i).filter((i) => i !== this.missingId);

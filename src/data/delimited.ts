@@ -43,14 +43,29 @@ export function csvParseOptions(dialect: Dialect) {
   } as const;
 }
 
-/** Turns a csv-parse failure into a positioned InputError. */
-export function csvParseFailure(e: unknown, where: Where, lineOffset: number): never {
+/** 1-based line of the last quote that opens and is never closed (quotes pair up, doubled ones too). */
+function unclosedQuoteLine(text: string): number | undefined {
+  let line = 1;
+  let openedAt: number | undefined;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10) line++;
+    else if (c === 34) openedAt = openedAt === undefined ? line : undefined;
+  }
+  return openedAt;
+}
+
+/** Turns a csv-parse failure into a positioned InputError; `text` (when in memory) finds where an unclosed quote opened. */
+export function csvParseFailure(e: unknown, where: Where, lineOffset: number, text?: string): never {
   if (!(e instanceof CsvError)) throw e;
   const line = (typeof (e as unknown as { lines?: unknown }).lines === 'number' ? (e as unknown as { lines: number }).lines : 1) + lineOffset;
   const at = { ...where, line };
   switch (e.code) {
-    case 'CSV_QUOTE_NOT_CLOSED':
-      return fail(at, 'a quoted field is still open at the end of the text; expected a closing `"`', 'unclosed-quote');
+    case 'CSV_QUOTE_NOT_CLOSED': {
+      const opened = text === undefined ? undefined : unclosedQuoteLine(text);
+      const from = opened === undefined ? at : { ...where, line: opened + lineOffset };
+      return fail(from, 'a quoted field opens here and is still open at the end of the text; expected a closing `"`', 'unclosed-quote');
+    }
     case 'CSV_INVALID_CLOSING_QUOTE': {
       const found = /got "(.*)" at line/.exec(e.message)?.[1] ?? '';
       return fail(at, `after a closing quote, expected a delimiter or the end of the line, found ${shown(found)}`, 'bad-closing-quote');
@@ -141,7 +156,7 @@ export function parseDelimited(text: string, options: DelimitedOptions = {}): Re
   try {
     parsed = parse(body, csvParseOptions(dialect)) as unknown as { record: string[]; info: { lines: number } }[];
   } catch (e) {
-    return csvParseFailure(e, { file }, offset);
+    return csvParseFailure(e, { file }, offset, body);
   }
   const rows: string[][] = [];
   const lines: number[] = [];

@@ -1,0 +1,27 @@
+import { strict as assert } from 'node:assert';
+import { InputError } from '../../../src/errors';
+
+/** Asserts that `run` throws an InputError with exactly this message (and code, when given). */
+export function throwsInput(run: () => unknown, message: string, code?: string): InputError {
+  try {
+    run();
+  } catch (e) {
+    assert.ok(e instanceof InputError, `expected an InputError, got ${String(e)}`);
+    assert.equal(e.message, message);
+    if (code !== undefined) assert.equal(e.code, code);
+    return e;
+  }
+  assert.fail(`expected an InputError with message: ${message}`);
+}
+
+export async function rejectsInput(run: () => Promise<unknown>, message: string, code?: string): Promise<InputError> {
+  try {
+    await run();
+  } catch (e) {
+    assert.ok(e instanceof InputError, `expected an InputError, got ${String(e)}`);
+    assert.equal(e.message, message);
+    if (code !== undefined) assert.equal(e.code, code);
+    return e;
+  }
+  assert.fail(`expected an InputError with message: ${message}`);
+}
