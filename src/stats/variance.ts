@@ -223,7 +223,7 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
     estimates,
     confidenceInterval: varianceInterval,
     notices,
-    assumptions: [normalityAssumption(shape, source), independenceAssumption('value')],
+    assumptions: [normalityAssumption(shape, source, n), independenceAssumption('value')],
     details: { variance0: hypothesis.variance0, sampleVariance: variance, source, lowerTail: lower, upperTail: upper },
   };
 }
@@ -287,7 +287,7 @@ function shapeOf(moments: MomentSummary): Shape | null {
   return { skewness: sampleSkewness(moments), kurtosis: sampleExcessKurtosis(moments), skewnessSe, kurtosisSe };
 }
 
-function normalityAssumption(shape: Shape | null, source: 'values' | 'moments' | 'summary'): Assumption {
+function normalityAssumption(shape: Shape | null, source: 'values' | 'moments' | 'summary', n: number): Assumption {
   const base = {
     id: 'normality',
     title: 'Values come from a normal distribution',
@@ -300,7 +300,7 @@ function normalityAssumption(shape: Shape | null, source: 'values' | 'moments' |
       explanation:
         source === 'summary'
           ? 'Only n and s were given, so the shape of the data cannot be checked. This test is very sensitive to non-normality.'
-          : 'Too few values to estimate skewness and kurtosis. This test is very sensitive to non-normality.',
+          : `${n < 4 ? 'Too few values to estimate skewness and kurtosis' : 'The third and fourth moments were not available, so skewness and kurtosis cannot be estimated'}. This test is very sensitive to non-normality.`,
     };
   }
   const zSkew = shape.skewness / shape.skewnessSe;

@@ -136,6 +136,13 @@ describe('chi-square test for one variance', () => {
     assert.ok(!calm.notices.some((n) => n.code === 'robust-disagrees'));
   });
 
+  it('leaves normality unchecked, saying why, when streamed moments carry no third and fourth moments', () => {
+    const moments = { n: 500, mean: 3, m2: 998, m3: NaN, m4: NaN, min: NaN, max: NaN };
+    const normality = varianceTestFromMoments(moments, { sigma0: 1.5 }).assumptions.find((a) => a.id === 'normality')!;
+    assert.equal(normality.status, 'unchecked');
+    assert.match(normality.explanation, /third and fourth moments were not available/);
+  });
+
   it('leaves normality unchecked for a summary and independence unchecked always', () => {
     const result = varianceTestFromSummary({ n: 30, sd: 2 }, { sigma0: 2 });
     assert.equal(result.assumptions.find((a) => a.id === 'normality')!.status, 'unchecked');
