@@ -18,7 +18,7 @@ import { resultText } from './report/text';
 import { isInside } from './spec/paths';
 import { describeRunError, runReportBlock } from './spec/living';
 import { parseJsonWithLocations, type LocatedJson } from './spec/json-text';
-import { STATUS_LABEL, compareWithRecord, cannotRun, describeReview, makeRecord, reviewExitCode, reviewJson, writeRecordedInto, type Review } from './spec/review';
+import { STATUS_LABEL, TOLERANCE_TEXT, compareWithRecord, cannotRun, describeReview, makeRecord, reviewExitCode, reviewJson, writeRecordedInto, type Review } from './spec/review';
 import { runSpec } from './spec/run';
 import type { SpecReaders, SpecRun, SpecV1 } from './spec/types';
 import { loadSpecText } from './spec/validate';
@@ -227,7 +227,7 @@ async function commandCheck(files: readonly string[], flags: Flags, io: CliIo): 
     for (const r of reviews) io.stdout(`${describeReview(r.review, r.file)}\n`);
     const counts = new Map<string, number>();
     for (const r of reviews) counts.set(STATUS_LABEL[r.review.status], (counts.get(STATUS_LABEL[r.review.status]) ?? 0) + 1);
-    io.stdout(`${[...counts].map(([label, n]) => `${n} ${label}`).join(', ')}\n`);
+    io.stdout(`${[...counts].map(([label, n]) => `${n} ${label}`).join(', ')} (tolerance: ${TOLERANCE_TEXT})\n`);
   }
   return reviewExitCode(reviews.map((r) => r.review));
 }

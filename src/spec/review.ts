@@ -174,7 +174,7 @@ export function describeReview(review: Review, name: string): string {
   const lines = [head];
   const stat = (x: RecordedResult): string => (x.result.statistic === null ? 'n/a' : show(x.result.statistic));
   if (review.status === 'reproduced') {
-    lines.push(`  same data (sha256 ${c.data.sha256.slice(0, 12)}…, ${c.data.rows} rows); statistic ${stat(c)}, p ${show(c.result.pValue)}; ${review.tolerance}`);
+    lines.push(`  same data (sha256 ${c.data.sha256.slice(0, 12)}…, ${c.data.rows} rows); statistic ${stat(c)}, p ${show(c.result.pValue)}`);
   } else if (review.status === 'data-changed') {
     lines.push(`  data fingerprint differs: recorded ${r.data.rows} rows (sha256 ${r.data.sha256.slice(0, 12)}…), now ${c.data.rows} rows (sha256 ${c.data.sha256.slice(0, 12)}…)`);
     lines.push(`  n ${show(r.result.n)} → ${show(c.result.n)}; statistic ${stat(r)} → ${stat(c)}; p ${show(r.result.pValue)} → ${show(c.result.pValue)}`);

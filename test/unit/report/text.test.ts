@@ -99,3 +99,14 @@ describe('report content', () => {
     assert.ok(json.warnings.length > 0);
   });
 });
+
+describe('markdown escaping', () => {
+  it('escapes what would change the rendering, and nothing else', async () => {
+    const { escapeMarkdown } = await import('../../../src/report/markdown');
+    assert.equal(escapeMarkdown('a|b'), 'a\\|b');
+    assert.equal(escapeMarkdown('p < .001'), 'p < .001');
+    assert.equal(escapeMarkdown('<script> and *bold* and [link]'), '\\<script> and \\*bold\\* and \\[link\\]');
+    assert.equal(escapeMarkdown('# not a heading'), '\\# not a heading');
+    assert.equal(escapeMarkdown('two\nlines'), 'two lines');
+  });
+});
