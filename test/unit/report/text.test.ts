@@ -3,7 +3,7 @@
 // against published values where one exists; the procedures' own accuracy is tested in test/unit/stats.
 import { strict as assert } from 'node:assert';
 import { resultJson } from '../../../src/report/json';
-import { markdownTable, resultMarkdown } from '../../../src/report/markdown';
+import { escapeMarkdown, markdownTable, resultMarkdown } from '../../../src/report/markdown';
 import { CAUTION, resultText } from '../../../src/report/text';
 import { goodnessOfFit } from '../../../src/stats/fit';
 import { independenceTest } from '../../../src/stats/table';
@@ -101,8 +101,7 @@ describe('report content', () => {
 });
 
 describe('markdown escaping', () => {
-  it('escapes what would change the rendering, and nothing else', async () => {
-    const { escapeMarkdown } = await import('../../../src/report/markdown');
+  it('escapes what would change the rendering, and nothing else', () => {
     assert.equal(escapeMarkdown('a|b'), 'a\\|b');
     assert.equal(escapeMarkdown('p < .001'), 'p < .001');
     assert.equal(escapeMarkdown('<script> and *bold* and [link]'), '\\<script> and \\*bold\\* and \\[link\\]');
