@@ -57,14 +57,17 @@ function unclosedQuoteLine(text: string): number | undefined {
 
 /** Turns a csv-parse failure into a positioned InputError; `text` (when in memory) finds where an unclosed quote opened. */
 export function csvParseFailure(e: unknown, where: Where, lineOffset: number, text?: string): never {
-  if (!(e instanceof CsvError)) throw e;
+  // The sync and stream entry points each carry their own CsvError class, so test by shape.
+  if (!(e instanceof CsvError) && !(e instanceof Error && typeof (e as { code?: unknown }).code === 'string' && 'lines' in e)) throw e;
+  const code = (e as { code: string }).code;
   const line = (typeof (e as unknown as { lines?: unknown }).lines === 'number' ? (e as unknown as { lines: number }).lines : 1) + lineOffset;
   const at = { ...where, line };
-  switch (e.code) {
+  switch (code) {
     case 'CSV_QUOTE_NOT_CLOSED': {
       const opened = text === undefined ? undefined : unclosedQuoteLine(text);
-      const from = opened === undefined ? at : { ...where, line: opened + lineOffset };
-      return fail(from, 'a quoted field opens here and is still open at the end of the text; expected a closing `"`', 'unclosed-quote');
+      if (opened === undefined)
+        return fail(at, 'the text ends inside a quoted field; expected a closing `"` (look for an unpaired quote above)', 'unclosed-quote');
+      return fail({ ...where, line: opened + lineOffset }, 'a quoted field opens here and is still open at the end of the text; expected a closing `"`', 'unclosed-quote');
     }
     case 'CSV_INVALID_CLOSING_QUOTE': {
       const found = /got "(.*)" at line/.exec(e.message)?.[1] ?? '';

@@ -212,6 +212,7 @@ export class ByteScanner {
   line = 1;
   private parts: Part[] | undefined;
   private columnCount = 0;
+  private headerLine = 1;
   /** Compact index of each field a request uses (-1: not used). */
   private usedIndex = new Int16Array(0);
   private starts = new Int32Array(0);
@@ -268,6 +269,7 @@ export class ByteScanner {
     const text = decodeBytes(buf, start, end > start && buf[end - 1] === CR ? end - 1 : end, this.settings.encoding);
     if (text.includes('"') && (text.split('"').length - 1) % 2 === 1) throw new ScannerFallback(this.line, 'a quoted header field spans lines');
     const fields = splitOutsideQuotes(text, this.settings.dialect.delimiter);
+    this.headerLine = this.line;
     this.start(this.settings.dialect.header ? headerNames(fields) : numberedColumns(fields.length));
   }
 
@@ -394,7 +396,7 @@ export class ByteScanner {
         { file: this.settings.file, line: this.line },
         this.columnCount,
         fields,
-        this.settings.dialect.header ? 'as in the header' : 'as in the first record',
+        this.settings.dialect.header ? `as in the header on line ${this.headerLine}` : `as on line ${this.headerLine}`,
       );
     }
     const line = this.line;
