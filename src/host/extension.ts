@@ -12,6 +12,7 @@ import { BlockCodeLensProvider, SpecCodeLensProvider, SpecHoverProvider } from '
 import { PANEL_VIEW_TYPE } from './panel';
 import { handlePanelAction, saveSpec, trackEditors } from './panelActions';
 import { Services } from './services';
+import { registerSqlCommands } from './sqlCommand';
 import { registerTesting, type SavedTests } from './testing';
 
 /** What activate returns: used by the integration tests and by other extensions. */
@@ -46,6 +47,7 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
   command(COMMANDS.rerunAndCompare, (uri?: vscode.Uri) => rerunAndCompare(services, uri));
   command(COMMANDS.refreshAllBlocks, (uri?: vscode.Uri) => refreshBlocks(services, uri));
   command(COMMANDS.refreshBlock, (uri: vscode.Uri, index: number) => refreshBlocks(services, uri, index));
+  registerSqlCommands(context, services);
 
   context.subscriptions.push(
     vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, services.panels),

@@ -10,6 +10,7 @@ import type { SpecReaders, SpecRun } from '../spec/types';
 import type { Result } from '../stats/result';
 import { PanelManager, type PanelActions, type ResultPanel } from './panel';
 import { buildPayload } from './payload';
+import { hostAggregateSql } from './sqlSource';
 
 const t = vscode.l10n.t;
 
@@ -40,6 +41,7 @@ export const extensionReaders: SpecReaders = {
       signal: control.signal,
       onProgress: (p) => { if (p.totalBytes) control.onProgress?.(p.bytesRead / p.totalBytes); },
     }),
+  aggregateSql: hostAggregateSql,
 };
 
 export class Cancelled extends Error {}
