@@ -9,13 +9,13 @@ import { arr, field, num, obj, oneOf, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1, WeightsByLevel } from '../types';
 import type { ProcedureHandler } from './index';
+import { applyMethod } from './method';
 import {
   COUNT_ARRAY,
   COUNT_TEST_OPTIONS,
   aggregateOf,
   checkLambda,
   checkSourceColumns,
-  requireAsymptotic,
   requireLength,
   requireOneOf,
   sourceField,
@@ -78,7 +78,6 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
     return problems;
   },
   async run(spec, ctx): Promise<TestResult> {
-    requireAsymptotic(spec);
     const keyed = keyedWeights(spec);
     let observed: readonly number[];
     let labels: readonly string[] | undefined;
@@ -106,16 +105,20 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
       }
       return labels!.map((l) => (w as Readonly<Record<string, number>>)[l]);
     };
-    return goodnessOfFit(observed, {
-      labels,
-      expected: spec.expected,
-      proportions: weightsFor('proportions'),
-      ratios: weightsFor('ratios'),
-      estimatedParameters: spec.estimatedParameters,
-      statistic: spec.statistic,
-      lambda: spec.lambda,
-      alpha: spec.alpha,
-    });
+    return applyMethod(
+      goodnessOfFit(observed, {
+        labels,
+        expected: spec.expected,
+        proportions: weightsFor('proportions'),
+        ratios: weightsFor('ratios'),
+        estimatedParameters: spec.estimatedParameters,
+        statistic: spec.statistic,
+        lambda: spec.lambda,
+        alpha: spec.alpha,
+      }),
+      spec,
+      { signal: ctx.signal },
+    );
   },
 };
 

@@ -9,6 +9,7 @@ import { arr, bool, field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
+import { applyMethod } from './method';
 import { alignToLevels } from './goodness-of-fit';
 import {
   CONFIDENCE,
@@ -18,7 +19,6 @@ import {
   aggregateOf,
   checkLambda,
   checkSourceColumns,
-  requireAsymptotic,
   requireLength,
   requireOneOf,
   sourceField,
@@ -64,7 +64,6 @@ export const independenceProcedure: ProcedureHandler = {
     return problems;
   },
   async run(spec, ctx): Promise<TestResult> {
-    requireAsymptotic(spec);
     let counts: readonly (readonly number[])[];
     let rowLabels = spec.rowLabels;
     let columnLabels = spec.columnLabels;
@@ -92,15 +91,19 @@ export const independenceProcedure: ProcedureHandler = {
         'correction-not-2x2',
       );
     }
-    return independenceTest(counts, {
-      rowLabels,
-      columnLabels,
-      correction: spec.correction,
-      statistic: spec.statistic,
-      lambda: spec.lambda,
-      alpha: spec.alpha,
-      confidence: spec.confidence,
-    });
+    return applyMethod(
+      independenceTest(counts, {
+        rowLabels,
+        columnLabels,
+        correction: spec.correction,
+        statistic: spec.statistic,
+        lambda: spec.lambda,
+        alpha: spec.alpha,
+        confidence: spec.confidence,
+      }),
+      spec,
+      { signal: ctx.signal },
+    );
   },
 };
 

@@ -33,6 +33,10 @@ import { distributionProcedure } from './distribution';
 import { goodnessOfFitProcedure } from './goodness-of-fit';
 import { independenceProcedure } from './independence';
 import { varianceProcedure } from './variance';
+import { pairedProcedure } from './paired';
+import { stratifiedProcedure } from './stratified';
+import { trendProcedure } from './trend';
+import { powerProcedure } from './power';
 
 export interface ProcedureHandler {
   readonly test: string;
@@ -58,6 +62,10 @@ export const PROCEDURES: readonly ProcedureHandler[] = [
   goodnessOfFitProcedure,
   independenceProcedure,
   distributionProcedure,
+  pairedProcedure,
+  stratifiedProcedure,
+  trendProcedure,
+  powerProcedure,
 ];
 
 export function procedureFor(test: string): ProcedureHandler | undefined {

@@ -1,0 +1,55 @@
+/**
+ * `"test": "paired"`: the same units classified twice. A 2×2 `"table"` gives McNemar's test (with the
+ * continuity-corrected, exact binomial and mid-p versions beside it); a k×k table gives Bowker's test of symmetry.
+ */
+import { pairedTest } from '../../stats/paired';
+import type { TestResult } from '../../stats/result';
+import { arr, bool, field, str, type SpecProblem } from '../fields';
+import { childPath } from '../json-text';
+import type { SpecV1 } from '../types';
+import type { ProcedureHandler } from './index';
+import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength } from './shared';
+
+export const pairedProcedure: ProcedureHandler = {
+  test: 'paired',
+  summary: "Paired classifications: McNemar's test for a 2×2 table, Bowker's test of symmetry for k×k (rows: first classification, columns: second).",
+  fields: {
+    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
+    rowLabels: LABELS('categories (the same for rows and columns)'),
+    columnLabels: LABELS('categories as columns (must equal "rowLabels" when both are given)'),
+    correction: field(bool, "Use McNemar's continuity correction for the main chi-square (2×2). Default false; both versions are always reported."),
+    method: field(str({ enum: ['asymptotic', 'exact', 'mid-p'] }), 'Main p-value for a 2×2 table: "asymptotic" chi-square (default), "exact" binomial, or "mid-p". All are reported.'),
+    confidence: CONFIDENCE,
+  },
+  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+    const problems: SpecProblem[] = [];
+    if (!spec.table) {
+      problems.push({ path, message: 'missing data: give "table", a square table of counts' });
+      return problems;
+    }
+    const k = spec.table.length;
+    spec.table.forEach((row, i) => {
+      if (row.length !== k) problems.push({ path: childPath(childPath(path, 'table'), i), message: `row ${i + 1} has ${row.length} counts; a paired table is square, so every row needs ${k}` });
+    });
+    requireLength(spec, path, 'rowLabels', k, 'one per category', problems);
+    requireLength(spec, path, 'columnLabels', k, 'one per category', problems);
+    const rows = spec.rowLabels;
+    const cols = spec.columnLabels;
+    if (rows && cols && rows.join('\u0000') !== cols.join('\u0000')) {
+      problems.push({ path: childPath(path, 'columnLabels'), message: 'paired categories must be the same in rows and columns, in the same order' });
+    }
+    if (spec.method !== undefined && spec.method !== 'asymptotic' && k > 2) {
+      problems.push({ path: childPath(path, 'method'), message: `"${String(spec.method)}" applies to 2×2 tables (McNemar); Bowker's test for ${k}×${k} is asymptotic` });
+    }
+    return problems;
+  },
+  async run(spec: SpecV1): Promise<TestResult> {
+    return pairedTest(spec.table!, {
+      alpha: spec.alpha,
+      confidence: spec.confidence,
+      correction: spec.correction,
+      method: spec.method as 'asymptotic' | 'exact' | 'mid-p' | undefined,
+      labels: spec.rowLabels ?? spec.columnLabels,
+    });
+  },
+};
