@@ -78,8 +78,9 @@ const LN_HALF = -Math.LN2;
  * The gamma(a, 1) quantile y with ln(tail) = lnTarget, where tail is the lower tail (upper = false)
  * or the upper tail (upper = true); the caller passes the smaller tail (lnTarget ≤ ln ½).
  * Start: Wilson & Hilferty (1931) cube-root normal approximation, or for a small lower tail the
- * leading term P ≈ y^a/Γ(a+1) (as in Best & Roberts 1975, AS 91). Refinement: Newton's method on
- * ln(tail), in ln y for the lower tail and in y for the upper tail, kept inside a shrinking bracket.
+ * leading term P ≈ y^a/Γ(a+1) (as in Best & Roberts 1975, AS 91). Refinement: Halley's method on
+ * ln(tail) — in ln y for the lower tail, in y for the upper tail — inside a shrinking bracket; once a
+ * step is below 1e-6 (relative) the cubic convergence leaves an error far below one ulp, so we stop.
  */
 function gammaQuantile(a: number, lnTarget: number, upper: boolean): number {
   const df = 2 * a;
@@ -96,22 +97,37 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean): number {
   } else if (!(wh > 0)) {
     y = a;
   }
+  const lnA = Math.log(a);
   let lo = 0;
   let hi = Infinity;
-  for (let iter = 0; iter < 200; iter++) {
+  for (let iter = 0; iter < 100; iter++) {
     const lnTail = upper ? logRegularizedGammaUpper(a, y) : logRegularizedGammaLower(a, y);
     const g = lnTail - lnTarget;
     if (g === 0 || Number.isNaN(g)) return y;
     // The tail is decreasing in y for the upper tail, increasing for the lower tail.
     if ((g > 0) === upper) lo = y;
     else hi = y;
-    // d ln(tail)/dy = ± y^(a−1) e^(−y) / (Γ(a) · tail) = ± a · prefactor / (y · tail).
-    const slope = Math.exp(Math.log(a) + logGammaPrefactor(a, y) - lnTail);
+    // s = y · |d ln(tail)/dy| = a · prefactor / tail.
+    const s = Math.exp(lnA + logGammaPrefactor(a, y) - lnTail);
     let next: number;
-    if (upper) next = y + (g * y) / slope;
-    else next = y * Math.exp(-g / slope);
+    let relativeStep: number;
+    if (upper) {
+      const h = s / y; // hazard f/Q
+      const curvature = (a - 1) / y - 1 + h;
+      const newton = g / h;
+      const denominator = 1 + (g * curvature) / (2 * h);
+      const step = denominator > 0.5 ? newton / denominator : newton;
+      next = y + step;
+      relativeStep = Math.abs(step) / y;
+    } else {
+      const newton = -g / s;
+      const denominator = 1 - (g * (a - y - s)) / (2 * s);
+      const step = denominator > 0.5 ? newton / denominator : newton;
+      next = y * Math.exp(step);
+      relativeStep = Math.abs(step);
+    }
+    if (relativeStep <= 1e-6 && next >= lo && next <= hi) return next;
     if (!(next > lo && next < hi)) next = hi === Infinity ? 2 * lo + 1 : lo === 0 ? hi / 16 : 0.5 * (lo + hi);
-    if (Math.abs(next - y) <= 4e-16 * y) return next;
     y = next;
   }
   return y;

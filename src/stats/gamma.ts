@@ -117,111 +117,182 @@ function stirlingError(a: number): number {
 // ---- double-double arithmetic (Dekker 1971; Knuth, TAOCP vol. 2 §4.2.2) ----
 // The exponent of x^a e^(−x)/Γ(a+1) reaches ±700 in the far tails, where one rounding of it in double
 // costs up to 8e-14 of relative accuracy in the probability; carrying it as hi + lo keeps ~1e-16.
+// Results go to two registers instead of a returned pair, so the hot path allocates nothing.
 
-type DoubleDouble = [number, number];
+let ddHi = 0;
+let ddLo = 0;
 
-function twoSum(a: number, b: number): DoubleDouble {
+function twoSum(a: number, b: number): void {
   const s = a + b;
   const bb = s - a;
-  return [s, a - (s - bb) + (b - bb)];
+  ddHi = s;
+  ddLo = a - (s - bb) + (b - bb);
 }
 
-function splitHigh(a: number): number {
-  const c = 134217729 * a; // 2^27 + 1 (Veltkamp split)
-  return c - (c - a);
-}
-
-function twoProduct(a: number, b: number): DoubleDouble {
+function twoProduct(a: number, b: number): void {
   const p = a * b;
-  const ah = splitHigh(a);
+  let c = 134217729 * a; // 2^27 + 1 (Veltkamp split)
+  const ah = c - (c - a);
   const al = a - ah;
-  const bh = splitHigh(b);
+  c = 134217729 * b;
+  const bh = c - (c - b);
   const bl = b - bh;
-  return [p, ah * bh - p + ah * bl + al * bh + al * bl];
+  ddHi = p;
+  ddLo = ah * bh - p + ah * bl + al * bh + al * bl;
 }
 
 const LN2_HI = 6.9314718036912381649e-1; // 32 significant bits: k·LN2_HI is exact for |k| < 2^21
 const LN2_LO = 1.90821492927058770002e-10;
 
+const BITS = new Float64Array(1);
+const WORDS = new Uint32Array(BITS.buffer);
+const HIGH = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0; // index of the high word
+// 2/(2j+1), j = 1…11: ln m = 2u + u³ Σ_j 2u^(2j−2)/(2j+1) for u ≤ 0.1716 (u² ≤ 0.0295).
+const ATANH_TAIL = Array.from({ length: 11 }, (_, j) => 2 / (2 * j + 3));
+
 /**
- * ln y as a double-double, y > 0 finite: y = m·2^k with m in [1/√2, √2], ln m = 2 atanh((m−1)/(m+1))
- * by its series, the leading 2u carried exactly.
+ * ln y into (ddHi, ddLo), y > 0 finite: y = m·2^k with m in [1/√2, √2] read from the bits,
+ * ln m = 2 atanh((m−1)/(m+1)) by its series with the leading 2u carried exactly.
  */
-function logDoubleDouble(y: number): DoubleDouble {
-  let k = Math.round(Math.log2(y));
-  const k1 = Math.trunc(-k / 2);
-  let m = y * 2 ** k1 * 2 ** (-k - k1);
+function logDoubleDouble(y: number): void {
+  let k = 0;
+  if (y < 2.2250738585072014e-308) {
+    y *= 18014398509481984; // 2^54, out of the subnormal range
+    k = -54;
+  }
+  BITS[0] = y;
+  const hi = WORDS[HIGH] as number;
+  k += ((hi >>> 20) & 0x7ff) - 1023;
+  WORDS[HIGH] = (hi & 0x000fffff) | 0x3ff00000;
+  let m = BITS[0] as number;
   if (m > Math.SQRT2) {
     m /= 2;
     k += 1;
-  } else if (m < Math.SQRT1_2) {
-    m *= 2;
-    k -= 1;
   }
   const num = m - 1; // exact (Sterbenz)
-  const [s, se] = twoSum(m, 1);
+  const s = m + 1;
+  const se = m - (s - 1); // m + 1 is exact unless m < 1, where this recovers the rounding
   const u = num / s;
-  const [p, pe] = twoProduct(u, s);
-  const uLo = (num - p - pe - u * se) / s;
+  twoProduct(u, s);
+  const uLo = (num - ddHi - ddLo - u * se) / s;
   const u2 = u * u;
   let t = 0;
-  for (let j = 12; j >= 1; j--) t = t * u2 + 1 / (2 * j + 1);
-  const [h, e] = twoSum(k * LN2_HI, 2 * u);
-  return twoSum(h, e + (k * LN2_LO + 2 * uLo + 2 * u * u2 * t));
+  for (let j = ATANH_TAIL.length - 1; j >= 0; j--) t = t * u2 + (ATANH_TAIL[j] as number);
+  twoSum(k * LN2_HI, 2 * u);
+  const e = ddLo;
+  twoSum(ddHi, e + (k * LN2_LO + 2 * uLo + u * u2 * t));
+}
+
+/** Σ_{j≥1} 2a v^(2j+1)/(2j+1): the part of Loader's bd0 series after its first term. */
+function devianceSeriesRest(a: number, v: number): number {
+  let ej = 2 * a * v;
+  const v2 = v * v;
+  let rest = 0;
+  for (let j = 1; j < 1000; j++) {
+    ej *= v2;
+    const next = rest + ej / (2 * j + 1);
+    if (next === rest) break;
+    rest = next;
+  }
+  return rest;
 }
 
 /**
- * a ln(a/x) + x − a ≥ 0 as a double-double, without cancellation (Loader 2000, "Fast and accurate
+ * a ln(a/x) + x − a ≥ 0 into (ddHi, ddLo), without cancellation (Loader 2000, "Fast and accurate
  * computation of binomial probabilities": the bd0 term, by its series in v = (a − x)/(a + x) when a and
  * x are within a factor 3 — the series' terms share a sign or shrink by |v|/3 — else by the logarithm).
+ * Where the result is below 8 one rounding costs < 2e-15, so plain double arithmetic is kept.
  */
-function devianceParts(a: number, x: number): DoubleDouble {
+function devianceParts(a: number, x: number): void {
   if (Math.abs(a - x) < 0.5 * (a + x)) {
-    const [d, de] = twoSum(a, -x);
-    const [s, se] = twoSum(a, x);
-    const v = d / s;
-    const [p, pe] = twoProduct(v, s);
-    const vLo = (d - p - pe + de - v * se) / s;
-    const [t, te] = twoProduct(d, v);
-    const lo = te + d * vLo + de * v;
-    let ej = 2 * a * v;
-    const v2 = v * v;
-    let rest = 0;
-    for (let j = 1; j < 1000; j++) {
-      ej *= v2;
-      const next = rest + ej / (2 * j + 1);
-      if (next === rest) break;
-      rest = next;
+    const d0 = a - x;
+    const v0 = d0 / (a + x);
+    const plain = d0 * v0 + devianceSeriesRest(a, v0);
+    if (plain < 8) {
+      ddHi = plain;
+      ddLo = 0;
+      return;
     }
-    const [h, e] = twoSum(t, rest);
-    return twoSum(h, e + lo);
+    twoSum(a, -x);
+    const d = ddHi;
+    const de = ddLo;
+    twoSum(a, x);
+    const s = ddHi;
+    const se = ddLo;
+    const v = d / s;
+    twoProduct(v, s);
+    const vLo = (d - ddHi - ddLo + de - v * se) / s;
+    twoProduct(d, v);
+    const t = ddHi;
+    const lo = ddLo + d * vLo + de * v;
+    twoSum(t, devianceSeriesRest(a, v));
+    const e = ddLo;
+    twoSum(ddHi, e + lo);
+    return;
   }
-  const [la, lae] = logDoubleDouble(a);
-  const [lx, lxe] = logDoubleDouble(x);
-  const [l, le] = twoSum(la, -lx);
-  const [m, me] = twoProduct(a, l);
-  const [dx, dxe] = twoSum(x, -a);
-  const [h, e] = twoSum(m, dx);
-  return twoSum(h, e + me + a * (le + lae - lxe) + dxe);
+  logDoubleDouble(a);
+  const la = ddHi;
+  const lae = ddLo;
+  logDoubleDouble(x);
+  const lx = ddHi;
+  const lxe = ddLo;
+  twoSum(la, -lx);
+  const l = ddHi;
+  const le = ddLo;
+  twoProduct(a, l);
+  const m = ddHi;
+  const me = ddLo;
+  twoSum(x, -a);
+  const dx = ddHi;
+  const dxe = ddLo;
+  twoSum(m, dx);
+  const e = ddLo;
+  twoSum(ddHi, e + me + a * (le + lae - lxe) + dxe);
 }
 
 /** a ln(a/x) + x − a (Loader's bd0), for a, x > 0. */
 export function deviance(a: number, x: number): number {
-  const [h, l] = devianceParts(a, x);
-  return h + l;
+  devianceParts(a, x);
+  return ddHi + ddLo;
 }
 
-/** ln[x^a e^(−x)/Γ(a + 1)] as a double-double; x > 0 finite, a ≥ 0. */
-function logPrefactorParts(a: number, x: number): DoubleDouble {
+// One-entry caches: callers evaluate many x at one shape (quantile iterations, mixtures, tables).
+let cachedShape = NaN;
+let cachedShapeTerm = 0;
+
+/** ln Γ(a+1) for a < 10, or ½ln(2πa) + stirlingError(a) for a ≥ 10. */
+function shapeTerm(a: number): number {
+  if (a !== cachedShape) {
+    cachedShapeTerm = a < 10 ? logGamma1p(a) : LN_SQRT_2PI + 0.5 * Math.log(a) + stirlingError(a);
+    cachedShape = a;
+  }
+  return cachedShapeTerm;
+}
+
+/** ln[x^a e^(−x)/Γ(a + 1)] into (ddHi, ddLo); x > 0 finite, a ≥ 0. */
+function logPrefactorParts(a: number, x: number): void {
   if (a < 10) {
-    const [lh, ll] = logDoubleDouble(x);
-    const [ph, pl] = twoProduct(a, lh);
-    const [h, e] = twoSum(ph, -x);
-    return twoSum(h, e + pl + a * ll - logGamma1p(a));
+    const lx = Math.log(x);
+    const t = a * lx;
+    if (Math.abs(t) + x < 12) {
+      // Small terms: one rounding of each costs < 3e-15.
+      ddHi = t - x - shapeTerm(a);
+      ddLo = 0;
+      return;
+    }
+    logDoubleDouble(x);
+    const ll = ddLo;
+    twoProduct(a, ddHi);
+    const pl = ddLo;
+    twoSum(ddHi, -x);
+    const e = ddLo;
+    twoSum(ddHi, e + pl + a * ll - shapeTerm(a));
+    return;
   }
   // −bd0 − ½ln(2πa) − stirlingError(a), with ln Γ(a+1) = a ln a − a + ½ln(2πa) + stirlingError(a).
-  const [b, be] = devianceParts(a, x);
-  return twoSum(-b, -be - (LN_SQRT_2PI + 0.5 * Math.log(a) + stirlingError(a)));
+  devianceParts(a, x);
+  const be = ddLo;
+  twoSum(-ddHi, -be - shapeTerm(a));
 }
 
 /**
@@ -232,16 +303,16 @@ function logPrefactorParts(a: number, x: number): DoubleDouble {
 export function logGammaPrefactor(a: number, x: number): number {
   if (x === 0) return a === 0 ? 0 : -Infinity;
   if (x === Infinity) return -Infinity;
-  const [h, l] = logPrefactorParts(a, x);
-  return h + l;
+  logPrefactorParts(a, x);
+  return ddHi + ddLo;
 }
 
 /** x^a e^(−x) / Γ(a + 1) with a relative error of a few units in the last place. */
 export function gammaPrefactor(a: number, x: number): number {
   if (x === 0) return a === 0 ? 1 : 0;
   if (x === Infinity) return 0;
-  const [h, l] = logPrefactorParts(a, x);
-  return Math.exp(h) * (1 + l);
+  logPrefactorParts(a, x);
+  return Math.exp(ddHi) * (1 + ddLo);
 }
 
 /** Σ_{n≥0} x^n / ((a+1)…(a+n)), so that P(a, x) = prefactor · sum (series for γ(a, x); Abramowitz & Stegun 6.5.29). */

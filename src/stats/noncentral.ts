@@ -70,8 +70,32 @@ function startingTerms(
   return { t: Math.exp(lnW + lnTail - k * Math.LN2), e: Math.exp(lnW + lnD - k * Math.LN2), k };
 }
 
+/**
+ * Index of the largest term w_j·tail(a+j), approximately: j(a + j) = m·h (where the ratio of
+ * consecutive terms crosses 1 in both far tails).
+ */
+function termMode(a: number, h: number, m: number): number {
+  return Math.max(0, (-a + Math.sqrt(a * a + 4 * m * h)) / 2);
+}
+
+/**
+ * Where to start the downward sum for the lower tail. Beyond j the terms shrink at least by
+ * r_j = m·h/((j+1)(a+j+1)), since P(b+1, h)/P(b, h) ≤ h/(b+1); so walking up from the mode until the
+ * product of these ratios is below 1e-20 bounds the rest. The Poisson bound m + 10√m + 40 caps it.
+ */
+function lowerStart(a: number, h: number, m: number): number {
+  const poissonCap = Math.ceil(m + 10 * Math.sqrt(m) + 40);
+  let j = Math.ceil(termMode(a, h, m));
+  let logProduct = 0;
+  while (j < poissonCap && logProduct > -46) {
+    logProduct += Math.log((m * h) / ((j + 1) * (a + j + 1)));
+    j++;
+  }
+  return Math.max(1, Math.min(j, poissonCap));
+}
+
 function lowerMixture(a: number, h: number, m: number): ScaledSum {
-  const jHi = Math.ceil(m + 10 * Math.sqrt(m) + 40);
+  const jHi = lowerStart(a, h, m);
   const b = a + jHi;
   const lnW = logGammaPrefactor(jHi, m);
   const start = startingTerms(lnW, logRegularizedGammaLower(b, h), logGammaPrefactor(b - 1, h), () => {
@@ -170,7 +194,10 @@ export function noncentralChiSquareLogLowerTail(x: number, df: number, ncp: numb
   if (ncp === 0) return chiSquareLogLowerTail(x, df);
   const at = edge(x, df, ncp);
   if (at) return Math.log(at.lower);
-  return scaledLog(lowerMixture(df / 2, x / 2, ncp / 2));
+  const lower = lowerMixture(df / 2, x / 2, ncp / 2);
+  // Near 1, ln L = log1p(−U) keeps the relative accuracy that ln of a rounded L would lose.
+  if (scaledValue(lower) > 0.5) return Math.log1p(-scaledValue(upperMixture(df / 2, x / 2, ncp / 2)));
+  return scaledLog(lower);
 }
 
 /** ln P(X > x). */
@@ -179,7 +206,9 @@ export function noncentralChiSquareLogUpperTail(x: number, df: number, ncp: numb
   if (ncp === 0) return chiSquareLogUpperTail(x, df);
   const at = edge(x, df, ncp);
   if (at) return Math.log1p(-at.lower);
-  return scaledLog(upperMixture(df / 2, x / 2, ncp / 2));
+  const upper = upperMixture(df / 2, x / 2, ncp / 2);
+  if (scaledValue(upper) > 0.5) return Math.log1p(-scaledValue(lowerMixture(df / 2, x / 2, ncp / 2)));
+  return scaledLog(upper);
 }
 
 /**

@@ -15,6 +15,14 @@ import {
 } from '../../../../src/stats/chisquare';
 import { logGamma } from '../../../../src/stats/gamma';
 import {
+  noncentralChiSquareLogLowerTail,
+  noncentralChiSquareLogUpperTail,
+  noncentralChiSquareLowerTail,
+  noncentralChiSquareQuantile,
+  noncentralChiSquareUpperQuantile,
+  noncentralChiSquareUpperTail,
+} from '../../../../src/stats/noncentral';
+import {
   normalLogUpperTail,
   normalLowerTail,
   normalQuantile,
@@ -119,6 +127,35 @@ describe('log-gamma and the normal distribution against mpmath (50 digits)', () 
     for (const q of normal.quantiles) {
       assertRelative(normalQuantile(q.p), q.z, 1e-15, `normal quantile p=${q.p}`);
       assertRelative(normalUpperQuantile(q.p), -q.z, 1e-15, `normal upper quantile q=${q.p}`);
+    }
+  });
+});
+
+describe('noncentral chi-square against mpmath (50 digits, Poisson mixture summed to 1e-55)', () => {
+  const nc = load<{
+    tails: { df: number; ncp: number; x: number; lower: Num; upper: Num; lnLower: Num; lnUpper: Num }[];
+    quantiles: { df: number; ncp: number; tail: 'lower' | 'upper'; p: number; x: number }[];
+  }>('noncentral.json');
+  // Worst measured: 5.8e-15 for the tails and their logs, 2.9e-15 for quantiles (docs/ACCURACY.md).
+  const TOL = 1e-14;
+
+  it(`matches both tails and their logs at ${nc.tails.length} points, tails down to 1e-30`, () => {
+    for (const t of nc.tails) {
+      const input = `x=${t.x} df=${t.df} ncp=${t.ncp}`;
+      assertProbability(noncentralChiSquareLowerTail(t.x, t.df, t.ncp), num(t.lower), TOL, `lower ${input}`);
+      assertProbability(noncentralChiSquareUpperTail(t.x, t.df, t.ncp), num(t.upper), TOL, `upper ${input}`);
+      assertLog(noncentralChiSquareLogLowerTail(t.x, t.df, t.ncp), num(t.lnLower), TOL, `ln lower ${input}`);
+      assertLog(noncentralChiSquareLogUpperTail(t.x, t.df, t.ncp), num(t.lnUpper), TOL, `ln upper ${input}`);
+    }
+  });
+
+  it(`inverts either tail at ${nc.quantiles.length} points`, () => {
+    for (const q of nc.quantiles) {
+      const got =
+        q.tail === 'lower'
+          ? noncentralChiSquareQuantile(q.p, q.df, q.ncp)
+          : noncentralChiSquareUpperQuantile(q.p, q.df, q.ncp);
+      assertRelative(got, q.x, TOL, `${q.tail} quantile p=${q.p} df=${q.df} ncp=${q.ncp}`);
     }
   });
 });
