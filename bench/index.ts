@@ -9,6 +9,7 @@ const parts: BenchPart[] = [
   // Each part registers itself here with one line.
   require('./csv').csvBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./tables').tablesBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./distribution').distributionBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./postgres').postgresBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
