@@ -11,6 +11,7 @@ const parts: BenchPart[] = [
   require('./tables').tablesBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./distribution').distributionBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./postgres').postgresBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./exact').exactBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
 async function main(): Promise<void> {

@@ -137,18 +137,33 @@ export function drawHypergeometric(rng: UniformSource, marked: number, draws: nu
   const lo = Math.max(0, draws + marked - population);
   const hi = Math.min(draws, marked);
   const unmarked = population - marked;
+  const offset = unmarked - draws; // P(x+1)/P(x) = (marked − x)(draws − x) / ((x + 1)(offset + x + 1))
   const mode = Math.floor(((draws + 1) * (marked + 1)) / (population + 2));
-  const logMode =
-    lf[marked] - lf[mode] - lf[marked - mode] + lf[unmarked] - lf[draws - mode] - lf[unmarked - draws + mode] - (lf[population] - lf[draws] - lf[population - draws]);
-  return searchFromMode(
-    rng.next(),
-    mode,
-    Math.exp(logMode),
-    lo,
-    hi,
-    (x) => ((marked - x) * (draws - x)) / ((x + 1) * (unmarked - draws + x + 1)),
-    (x) => (x * (unmarked - draws + x)) / ((marked - x + 1) * (draws - x + 1)),
+  const modeProbability = Math.exp(
+    lf[marked] - lf[mode] - lf[marked - mode] + lf[unmarked] - lf[draws - mode] - lf[offset + mode] - lf[population] + lf[draws] + lf[population - draws],
   );
+  // Inversion from the mode outwards (inlined for speed; same search as searchFromMode).
+  let u = rng.next() - modeProbability;
+  if (u < 0) return mode;
+  let up = mode;
+  let down = mode;
+  let pUp = modeProbability;
+  let pDown = modeProbability;
+  while (up < hi || down > lo) {
+    if (up < hi) {
+      pUp *= ((marked - up) * (draws - up)) / ((up + 1) * (offset + up + 1));
+      up++;
+      u -= pUp;
+      if (u < 0) return up;
+    }
+    if (down > lo) {
+      pDown *= (down * (offset + down)) / ((marked - down + 1) * (draws - down + 1));
+      down--;
+      u -= pDown;
+      if (u < 0) return down;
+    }
+  }
+  return mode;
 }
 
 /** A binomial draw. */
@@ -266,7 +281,7 @@ export function monteCarloTable(table: readonly (readonly number[])[], options: 
   const expected: number[] = [];
   for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) expected.push((rowTotals[i] * columnTotals[j]) / n);
   const evaluate = statisticEvaluator(expected, options.statistic, n, options.lambda);
-  const observed = evaluate(table.flat());
+  const observed = evaluate(Int32Array.from(table.flat()));
   const lf = logFactorialTable(n);
   const rng = new Xoshiro128(options.seed ?? DEFAULT_SEED);
   const out = new Int32Array(r * c);
@@ -297,7 +312,7 @@ export function monteCarloMultinomial(observed: readonly number[], probabilities
     return rest > 0 ? Math.min(1, x / rest) : 0;
   });
   const out = new Int32Array(k);
-  return runResamples(options, evaluate(observed), () => {
+  return runResamples(options, evaluate(Int32Array.from(observed)), () => {
     let left = n;
     for (let i = 0; i < k - 1; i++) {
       const x = drawBinomial(rng, left, conditional[i], lf);

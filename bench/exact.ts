@@ -1,0 +1,69 @@
+// Exact and Monte Carlo p-values for r×c tables: Fisher's exact test (network algorithm) on the issue's table
+// sizes and 1e5 Monte Carlo resamples on a 5×5 table with N = 1000, with R's fisher.test and
+// chisq.test(simulate.p.value = TRUE) timed in the same run when /usr/bin/Rscript is present.
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { fisherExactRxC } from '../src/stats/exact';
+import { monteCarloTable } from '../src/stats/montecarlo';
+
+const EXACT_TABLES: Record<string, number[][]> = {
+  '2×6 N=500': [[40, 45, 38, 50, 42, 35], [42, 40, 45, 38, 44, 41]],
+  '3×4 N=200': [[10, 20, 15, 25], [12, 18, 22, 8], [20, 15, 10, 25]],
+  '5×5 N=100 (no association)': [[4, 5, 3, 4, 4], [3, 4, 5, 4, 4], [5, 3, 4, 4, 4], [4, 4, 4, 5, 3], [4, 4, 4, 3, 5]],
+  '5×5 N=100 (mild association)': [[6, 5, 4, 3, 2], [5, 5, 4, 3, 3], [4, 4, 5, 4, 3], [3, 4, 4, 5, 4], [2, 3, 4, 5, 6]],
+};
+const MC_TABLE = [[45, 38, 42, 36, 39], [40, 44, 37, 41, 38], [38, 41, 46, 35, 40], [42, 36, 39, 44, 39], [35, 41, 36, 44, 44]];
+
+function ms(start: bigint): number {
+  return Number(process.hrtime.bigint() - start) / 1e6;
+}
+
+function rMatrix(t: number[][]): string {
+  return `matrix(c(${t.flat().join(',')}), ${t.length}, byrow = TRUE)`;
+}
+
+/** Elapsed seconds of each R expression, timed by R's system.time in one Rscript process. */
+function timeInR(expressions: string[]): number[] | null {
+  if (!existsSync('/usr/bin/Rscript')) return null;
+  const code = expressions.map((e) => `tryCatch(cat(system.time(invisible(${e}))[["elapsed"]], "\\n"), error = function(err) cat("NaN\\n"))`).join('; ');
+  const out = spawnSync('/usr/bin/Rscript', ['-e', code], { encoding: 'utf8', timeout: 300_000 });
+  if (out.status !== 0) return null;
+  return out.stdout.trim().split(/\s+/).map((x) => Number(x) * 1000);
+}
+
+export async function run(): Promise<void> {
+  const names = Object.keys(EXACT_TABLES);
+  const ours = names.map((name) => {
+    const start = process.hrtime.bigint();
+    const result = fisherExactRxC(EXACT_TABLES[name]);
+    return { name, ms: ms(start), p: result.pValue?.value, work: result.work };
+  });
+  const mcStarts: { statistic: 'pearson' | 'probability'; ms: number; p: number }[] = [];
+  for (const statistic of ['pearson', 'probability'] as const) {
+    const start = process.hrtime.bigint();
+    const r = monteCarloTable(MC_TABLE, { statistic, resamples: 100_000, seed: 1 });
+    mcStarts.push({ statistic, ms: ms(start), p: r.pValue });
+  }
+  const r = timeInR([
+    ...names.map((n) => `fisher.test(${rMatrix(EXACT_TABLES[n])}, workspace = 2e8)`),
+    `fisher.test(${rMatrix(EXACT_TABLES['3×4 N=200'])})`,
+    `chisq.test(${rMatrix(MC_TABLE)}, simulate.p.value = TRUE, B = 1e5)`,
+    `fisher.test(${rMatrix(MC_TABLE)}, simulate.p.value = TRUE, B = 1e5)`,
+  ]);
+  for (let i = 0; i < ours.length; i++) {
+    const o = ours[i];
+    const rText = r ? `R fisher.test (workspace 2e8) ${r[i].toFixed(0)} ms` : 'R not available';
+    console.log(`Fisher exact ${o.name.padEnd(30)} ${o.ms.toFixed(0).padStart(6)} ms  p = ${o.p?.toPrecision(6)}  paths ${o.work}   ${rText}`);
+  }
+  if (r) console.log(`R fisher.test on 3×4 N=200 with its default workspace: ${Number.isNaN(r[names.length]) ? 'failed' : `${r[names.length].toFixed(0)} ms`}`);
+  const rChisq = r ? r[names.length + 1] : NaN;
+  const rFisher = r ? r[names.length + 2] : NaN;
+  for (const m of mcStarts) {
+    const rMs = m.statistic === 'pearson' ? rChisq : rFisher;
+    const rName = m.statistic === 'pearson' ? 'chisq.test' : 'fisher.test';
+    const ratio = Number.isFinite(rMs) ? `  ${(m.ms / rMs).toFixed(2)}× R ${rName} (${rMs.toFixed(0)} ms)` : '';
+    console.log(`Monte Carlo 1e5 resamples, 5×5 N=1000, ${m.statistic.padEnd(11)} ${m.ms.toFixed(0).padStart(6)} ms  p = ${m.p.toFixed(4)}${ratio}`);
+  }
+}
+
+export const exactBench = { name: 'exact', run };
