@@ -306,8 +306,8 @@ const byCodeUnits = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 
 /**
  * Turns the aggregate rows of `planAggregate` into the reader's Aggregate with the file readers'
  * category coding (trimming, case folding, missing tokens, given levels, order), applied to each
- * group as the file reader applies it to each record: both labels are coded even when the record
- * is then dropped, so the levels are the same as from the same data in a file.
+ * group as the file reader applies it to each record; a level seen only in dropped records is left
+ * out, as the file readers leave it out, so the levels are the same as from the same data in a file.
  */
 export function decodeAggregate(request: AggregateRequest, rows: readonly AggregateRow[], options: SqlAggregateOptions = {}): DecodedAggregate {
   if (request.kind === 'counted-table') throw new InputError('a SQL source cannot read an already counted table', sqlLocation, 'sql-counted-table');
@@ -349,6 +349,9 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
   let dropped = 0;
   let invalidWeights = 0;
   const cells: number[][] = [];
+  // Levels shown, as the file readers show them: given ones, and those of a record that was kept.
+  const usedRows = new Set<number>();
+  const usedColumns = new Set<number>();
   for (const { row, labels } of groups) {
     const n = toCount(row.records, 'a group count');
     records += n;
@@ -374,6 +377,8 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
     const c = ids[1] ?? 0;
     const cellRow = (cells[r] ??= []);
     cellRow[c] = (cellRow[c] ?? 0) + count;
+    usedRows.add(r);
+    usedColumns.add(c);
   }
   if (invalidWeights > 0) {
     throw new InputError(
@@ -383,12 +388,12 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
     );
   }
   const provenance: Described = { rows: records, dropped, columns: weighted ? [...keys, request.weight as string] : keys };
-  const rowOrder = coders[0].order();
+  const rowOrder = coders[0].order().filter((i) => coders[0].isGiven(i) || usedRows.has(i));
   const rowLabels = rowOrder.map((i) => coders[0].labels[i]);
   if (request.kind === 'categories') {
     return { kind: 'categories', counts: { labels: rowLabels, counts: rowOrder.map((i) => cells[i]?.[0] ?? 0) }, provenance };
   }
-  const columnOrder = coders[1].order();
+  const columnOrder = coders[1].order().filter((j) => coders[1].isGiven(j) || usedColumns.has(j));
   const table = {
     rowLabels,
     columnLabels: columnOrder.map((j) => coders[1].labels[j]),

@@ -223,7 +223,7 @@ describe('decoding aggregate rows', () => {
       { k0: 'a', records: '3', weighted: '2', weight: '40', invalid_weights: '0' },
       { k0: 'b', records: '1', weighted: '0', weight: null, invalid_weights: '0' },
     ]);
-    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['a', 'b'], counts: [40, 0] }, 'b is seen, as in a file, though its records are dropped');
+    assert.deepEqual(d.kind === 'categories' && d.counts, { labels: ['a'], counts: [40] }, 'b is only in dropped records, so it is left out as from a file');
     assert.deepEqual(d.provenance, { rows: 4, dropped: 2, columns: ['shift', 'n'] });
     refuses(() => decodeAggregate(request, [{ k0: 'a', records: '3', weighted: '3', weight: '2.5', invalid_weights: '2' }]), 'non-integer-weight', /2 records have weights that are not a non-negative whole number/);
     refuses(() => decodeAggregate(request, [{ k0: 'a', records: '1', weighted: '1', weight: 'NaN', invalid_weights: '0' }]), 'non-integer-weight', /sum to NaN/);
@@ -250,9 +250,14 @@ describe('decoding aggregate rows', () => {
     refuses(() => decodeAggregate({ kind: 'categories', column: 'size' }, [{ k0: 'XL', records: 1 }], { categories: { levels: ['S'] } }), 'unknown-category', /column `size`: found `XL`/);
   });
 
-  it('keeps the levels of a record dropped for a missing value in the other column, as a file does', () => {
+  it('leaves out a level seen only beside a missing value, and keeps a level whose weights are all zero, as a file does', () => {
     const d = decodeAggregate(crosstab, [{ k0: 'night', k1: null, records: 2 }, { k0: 'early', k1: 'burn', records: 1 }]);
-    assert.deepEqual(d.kind === 'table' && d.table, { rowLabels: ['early', 'night'], columnLabels: ['burn'], counts: [[1], [0]] });
+    assert.deepEqual(d.kind === 'table' && d.table, { rowLabels: ['early'], columnLabels: ['burn'], counts: [[1]] });
+    const zero = decodeAggregate({ kind: 'categories', column: 's', weight: 'w' }, [
+      { k0: 'a', records: 1, weighted: 1, weight: '0', invalid_weights: 0 },
+      { k0: 'b', records: 1, weighted: 1, weight: '3', invalid_weights: 0 },
+    ]);
+    assert.deepEqual(zero.kind === 'categories' && zero.counts, { labels: ['a', 'b'], counts: [0, 3] });
   });
 
   it('takes m2 from the corrected two-pass sums when the second pass ran', () => {

@@ -1,0 +1,64 @@
+// The demo specs in demo/sql run from the command line (the CLI's own readers, connection from
+// COUNTERCHECK_CONNECTION_GREENHOUSE, password from PGPASSWORD) and give the same result as the
+// same spec pointed at the same rows written to CSV.
+import { strict as assert } from 'node:assert';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { main } from '../../src/cli';
+import { liveServer } from './server';
+
+const server = liveServer();
+const demo = join(__dirname, '..', '..', 'demo', 'sql');
+
+async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  const code = await main(args, { stdout: (s) => (out += s), stderr: (s) => (err += s), readStdin: async () => '', cwd });
+  return { code, out, err };
+}
+
+describe('saved specs with a SQL source, from the command line', () => {
+  let folder = '';
+  const saved: Record<string, string | undefined> = {};
+  before(async () => {
+    folder = mkdtempSync(join(tmpdir(), 'countercheck-pg-spec-'));
+    await server.psql(readFileSync(join(demo, 'greenhouse.sql'), 'utf8'));
+    const e = server.env();
+    for (const key of ['COUNTERCHECK_CONNECTION_GREENHOUSE', 'PGPASSWORD']) saved[key] = process.env[key];
+    process.env.COUNTERCHECK_CONNECTION_GREENHOUSE = `postgresql://${encodeURIComponent(e.PGUSER)}@${e.PGHOST}:${e.PGPORT}/${encodeURIComponent(e.PGDATABASE)}?sslmode=disable`;
+    process.env.PGPASSWORD = e.PGPASSWORD;
+  });
+  after(() => {
+    for (const [key, value] of Object.entries(saved)) {
+      if (value === undefined) delete process.env[key];
+      else process.env[key] = value;
+    }
+    if (folder) rmSync(folder, { recursive: true, force: true });
+  });
+
+  for (const [name, select] of [
+    ['harvest-grade-by-bay', 'SELECT * FROM harvest_crates'],
+    ['crate-weight-spread', "SELECT * FROM harvest_crates WHERE shift = 'early'"],
+  ] as const) {
+    it(`runs demo/sql/${name} and matches the CSV path on the same rows`, async () => {
+      const viaSql = await cli(['run', '--json', join(demo, `${name}.countercheck.json`)], demo);
+      assert.equal(viaSql.code, 0, viaSql.err);
+      const csv = join(folder, `${name}.csv`);
+      await server.psql(`\\copy (${select}) TO '${csv}' WITH (FORMAT csv, HEADER)`);
+      const spec = JSON.parse(readFileSync(join(demo, `${name}.countercheck.json`), 'utf8')) as { source: Record<string, unknown> };
+      spec.source = { path: `${name}.csv`, columns: spec.source.columns, categories: 'sorted' };
+      writeFileSync(join(folder, `${name}.countercheck.json`), JSON.stringify(spec));
+      const viaFile = await cli(['run', '--json', join(folder, `${name}.countercheck.json`)], folder);
+      assert.equal(viaFile.code, 0, viaFile.err);
+      const a = JSON.parse(viaSql.out) as { statistic: number; df: number; n: number; pValue: number };
+      const b = JSON.parse(viaFile.out) as typeof a;
+      assert.ok(a.n > 1000, `n = ${a.n}`);
+      assert.equal(a.n, b.n, 'n');
+      assert.equal(a.df, b.df, 'df');
+      const delta = Math.abs(a.statistic - b.statistic) / Math.abs(b.statistic);
+      assert.ok(delta <= 1e-12, `statistic: SQL ${a.statistic}, CSV ${b.statistic}, relative Δ ${delta}, tolerance 1e-12`);
+      assert.doesNotMatch(viaSql.out + viaSql.err, new RegExp(server.env().PGPASSWORD), 'no password in the output');
+    });
+  }
+});
