@@ -10,23 +10,12 @@ import { aggregateFileMany } from '../src/data/file';
 import type { Aggregate } from '../src/data/types';
 import { chiSquareUpperProbability } from '../src/stats/chisquare';
 import { compensatedSum, MomentAccumulator, sampleVariance } from '../src/stats/moments';
+import { Xoshiro128 } from '../src/stats/random';
 
 const CHILD = 'COUNTERCHECK_CSV_BENCH_CHILD';
 const DEPOTS = ['harbor', 'airport', 'uptown', 'rivers', 'meadow', 'quarry'];
 const SIZES = ['small', 'medium', 'large', 'bulky'];
 const PREFIX_ROWS = 1_000_000;
-
-/** mulberry32: a small seeded generator, so the file is the same on every machine. */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function dataPath(rows: number): string {
   return join(process.cwd(), 'bench', '.data', `parcels-${rows}.csv`);
@@ -39,7 +28,8 @@ function ensureData(rows: number): void {
   if (existsSync(full) && existsSync(prefix)) return;
   mkdirSync(join(process.cwd(), 'bench', '.data'), { recursive: true });
   console.log(`generating ${full} (once; reused by later runs) …`);
-  const random = mulberry32(20260101);
+  const source = new Xoshiro128(20260101);
+  const random = () => source.next();
   // Size mix shifts a little by depot, so the association is real but modest.
   const sizeMix = DEPOTS.map((_, d) => [0.4 + 0.01 * d, 0.3, 0.2 - 0.005 * d, 0.1 - 0.005 * d]);
   const fullFd = openSync(`${full}.tmp`, 'w');
