@@ -1,0 +1,213 @@
+/**
+ * Post-hoc analysis of an r×c table after an overall test of independence:
+ * - pairwise comparisons of rows (or columns): the Pearson chi-square test of homogeneity on each pair, a
+ *   2×c (or r×2) sub-table, df c − 1 (or r − 1);
+ * - cell-wise tests: each adjusted standardized residual (Haberman 1973) is approximately standard normal
+ *   under independence, giving a two-sided p-value per cell.
+ * Each family of p-values is adjusted for multiplicity: Bonferroni, Holm (1979) step-down, or
+ * Benjamini–Hochberg (1995) step-up false discovery rate. Every line names the rows, columns or cell it is about.
+ */
+import { InputError } from '../errors';
+import { chiSquareLine, columnSums, dropEmptyMargins, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { describeAlpha, describeP, requireLevel } from './assumptions';
+import { normalUpperProbability } from './normal';
+import { probabilityFromLog, probabilityFromValue } from './probability';
+import type { Notice, Probability, StatisticLine, TestResult } from './result';
+
+export type Adjustment = 'bonferroni' | 'holm' | 'benjamini-hochberg';
+export type Comparison = 'rows' | 'columns' | 'cells';
+
+/** Adjusted p-values in the input order (as R's p.adjust, capped at 1). */
+export function adjustPValues(p: readonly number[], method: Adjustment): number[] {
+  const m = p.length;
+  if (method === 'bonferroni') return p.map((x) => Math.min(1, x * m));
+  const order = p.map((_, i) => i).sort((a, b) => p[a] - p[b]);
+  const adjusted = new Array<number>(m);
+  if (method === 'holm') {
+    let running = 0;
+    order.forEach((idx, rank) => {
+      running = Math.max(running, Math.min(1, (m - rank) * p[idx]));
+      adjusted[idx] = running;
+    });
+    return adjusted;
+  }
+  let running = 1;
+  for (let rank = m - 1; rank >= 0; rank--) {
+    const idx = order[rank];
+    running = Math.min(running, (m / (rank + 1)) * p[idx]);
+    adjusted[idx] = Math.min(1, running);
+  }
+  return adjusted;
+}
+
+export interface PostHocOptions {
+  readonly compare?: Comparison;
+  readonly adjustment?: Adjustment;
+  readonly alpha?: number;
+  readonly rowLabels?: readonly string[];
+  readonly columnLabels?: readonly string[];
+}
+
+export interface PairwiseComparison {
+  readonly first: string;
+  readonly second: string;
+  /** 0-based indices of the two rows (or columns) compared. */
+  readonly indices: readonly [number, number];
+  readonly statistic: number;
+  readonly df: number;
+  readonly pValue: number;
+  readonly adjustedPValue: number;
+  readonly significant: boolean;
+}
+
+export interface CellTest {
+  readonly row: number;
+  readonly column: number;
+  readonly rowLabel: string;
+  readonly columnLabel: string;
+  readonly observed: number;
+  readonly expected: number;
+  readonly adjustedResidual: number;
+  readonly pValue: number;
+  readonly adjustedPValue: number;
+  readonly significant: boolean;
+}
+
+function pearson(table: readonly (readonly number[])[]): { statistic: number; df: number } {
+  const t = dropEmptyMargins(table);
+  const rows = rowSums(t);
+  const cols = columnSums(t);
+  const n = sum(rows);
+  let x2 = 0;
+  t.forEach((row, i) => row.forEach((o, j) => {
+    const e = (rows[i] * cols[j]) / n;
+    x2 += ((o - e) * (o - e)) / e;
+  }));
+  return { statistic: x2, df: (t.length - 1) * ((t[0]?.length ?? 1) - 1) };
+}
+
+/** Pairwise homogeneity tests between rows (transpose the table for columns). */
+export function pairwiseRows(table: readonly (readonly number[])[], labels: readonly string[], adjustment: Adjustment, alpha: number): PairwiseComparison[] {
+  const raw: Omit<PairwiseComparison, 'adjustedPValue' | 'significant'>[] = [];
+  for (let i = 0; i < table.length; i++) {
+    for (let j = i + 1; j < table.length; j++) {
+      const { statistic, df } = pearson([table[i], table[j]]);
+      const p = df > 0 ? chiSquareLine('pair', '', 'X²', statistic, df).pValue.value : 1;
+      raw.push({ first: labels[i], second: labels[j], indices: [i, j], statistic, df, pValue: p });
+    }
+  }
+  const adjusted = adjustPValues(raw.map((r) => r.pValue), adjustment);
+  return raw.map((r, k) => ({ ...r, adjustedPValue: adjusted[k], significant: adjusted[k] < alpha }));
+}
+
+/** Adjusted standardized residual tests for every cell. */
+export function cellTests(table: readonly (readonly number[])[], rowLabels: readonly string[], columnLabels: readonly string[], adjustment: Adjustment, alpha: number): CellTest[] {
+  const rows = rowSums(table);
+  const cols = columnSums(table);
+  const n = sum(rows);
+  const raw = table.flatMap((row, i) =>
+    row.map((o, j) => {
+      const e = (rows[i] * cols[j]) / n;
+      const z = (o - e) / Math.sqrt(e * (1 - rows[i] / n) * (1 - cols[j] / n));
+      const p = twoSidedNormal(z).value;
+      return { row: i, column: j, rowLabel: rowLabels[i], columnLabel: columnLabels[j], observed: o, expected: e, adjustedResidual: z, pValue: p };
+    }),
+  );
+  const adjusted = adjustPValues(raw.map((r) => r.pValue), adjustment);
+  return raw.map((r, k) => ({ ...r, adjustedPValue: adjusted[k], significant: adjusted[k] < alpha }));
+}
+
+function twoSidedNormal(z: number): Probability {
+  const upper = normalUpperProbability(Math.abs(z));
+  return probabilityFromLog(Math.min(0, upper.log10 * Math.LN10 + Math.LN2));
+}
+
+const ADJUSTMENT_NAMES: Record<Adjustment, string> = {
+  bonferroni: 'Bonferroni',
+  holm: 'Holm',
+  'benjamini-hochberg': 'Benjamini–Hochberg (false discovery rate)',
+};
+
+/** Post-hoc comparisons on an r×c table, with the overall Pearson test at the head of the result. */
+export function postHocTest(table: readonly (readonly number[])[], options: PostHocOptions = {}): TestResult {
+  const counts = requireCountTable(table, '$.table');
+  const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
+  const compare = options.compare ?? 'cells';
+  const adjustment = options.adjustment ?? 'holm';
+  if (!(adjustment in ADJUSTMENT_NAMES)) throw new InputError(`adjustment: expected one of ${Object.keys(ADJUSTMENT_NAMES).join(', ')}, found ${String(adjustment)}`, { jsonPath: '$.adjustment' }, 'invalid-adjustment');
+  const rowLabels = labelsOr(options.rowLabels, counts.length, 'row ');
+  const columnLabels = labelsOr(options.columnLabels, counts[0].length, 'column ');
+  const rows = rowSums(counts);
+  const cols = columnSums(counts);
+  const emptyRow = rows.findIndex((x) => x === 0);
+  const emptyColumn = cols.findIndex((x) => x === 0);
+  if (emptyRow >= 0 || emptyColumn >= 0) {
+    const what = emptyRow >= 0 ? `row ${emptyRow + 1} ("${rowLabels[emptyRow]}")` : `column ${emptyColumn + 1} ("${columnLabels[emptyColumn]}")`;
+    throw new InputError(`table: ${what} has no counts; remove it before post-hoc comparisons`, { jsonPath: '$.table' }, 'empty-margin');
+  }
+  if (counts.length < 2 || counts[0].length < 2) throw new InputError(`table: expected at least a 2×2 table, found ${counts.length}×${counts[0].length}`, { jsonPath: '$.table' }, 'wrong-shape');
+  const overall = pearson(counts);
+  const overallLine = chiSquareLine('pearson', 'Pearson chi-square (overall)', 'X²', overall.statistic, overall.df);
+  const notices: Notice[] = [];
+  if (overallLine.pValue.value >= alpha) {
+    notices.push({ code: 'overall-not-significant', severity: 'info', message: `The overall test is not significant ${describeAlpha(alpha)} (${describeP(overallLine.pValue)}); post-hoc comparisons are usually read only after a significant overall test.` });
+  }
+  const adjustName = ADJUSTMENT_NAMES[adjustment];
+  let lines: StatisticLine[];
+  let detail: Record<string, unknown>;
+  let flagged: string[];
+  if (compare === 'cells') {
+    const cells = cellTests(counts, rowLabels, columnLabels, adjustment, alpha);
+    lines = cells.map((c) => ({
+      id: `cell-${c.row + 1}-${c.column + 1}`,
+      name: `Cell ${c.rowLabel} × ${c.columnLabel}: ${c.adjustedResidual > 0 ? 'more' : 'fewer'} than expected`,
+      symbol: 'z',
+      statistic: c.adjustedResidual,
+      df: null,
+      pValue: probabilityFromValue(c.adjustedPValue),
+      note: `observed ${c.observed}, expected ${c.expected.toPrecision(4)}; unadjusted p = ${c.pValue.toPrecision(3)}, ${adjustName}-adjusted p = ${c.adjustedPValue.toPrecision(3)}`,
+    }));
+    detail = { cells };
+    flagged = cells.filter((c) => c.significant).map((c) => `${c.rowLabel} × ${c.columnLabel}`);
+  } else {
+    const byRows = compare === 'rows';
+    const t = byRows ? counts : counts[0].map((_, j) => counts.map((row) => row[j]));
+    const labels = byRows ? rowLabels : columnLabels;
+    const pairs = pairwiseRows(t, labels, adjustment, alpha);
+    lines = pairs.map((p) => ({
+      id: `${compare}-${p.indices[0] + 1}-${p.indices[1] + 1}`,
+      name: `${byRows ? 'Rows' : 'Columns'} ${p.first} vs ${p.second}`,
+      symbol: 'X²',
+      statistic: p.statistic,
+      df: p.df,
+      pValue: probabilityFromValue(p.adjustedPValue),
+      note: `unadjusted p = ${p.pValue.toPrecision(3)}, ${adjustName}-adjusted p = ${p.adjustedPValue.toPrecision(3)}`,
+    }));
+    detail = { pairs };
+    flagged = pairs.filter((p) => p.significant).map((p) => `${p.first} vs ${p.second}`);
+  }
+  const subject = compare === 'cells' ? 'cells' : `pairs of ${compare}`;
+  return testResult(
+    {
+      test: 'post-hoc',
+      procedure: `Post-hoc ${compare === 'cells' ? 'cell-wise adjusted residual tests' : `pairwise comparisons of ${compare}`} (${adjustName})`,
+      statisticSymbol: 'X²',
+      statistic: overall.statistic,
+      df: overall.df,
+      n: sum(rows),
+      pValue: overallLine.pValue,
+      alternative: null,
+      reference: { kind: 'chi-square', df: overall.df },
+      alpha,
+      conclusion:
+        flagged.length > 0
+          ? `After ${adjustName} adjustment, ${flagged.length} ${subject} differ ${describeAlpha(alpha)}: ${flagged.slice(0, 10).join('; ')}${flagged.length > 10 ? '; …' : ''}.`
+          : `After ${adjustName} adjustment, no ${compare === 'cells' ? 'cell departs' : `pair of ${compare} differs`} from independence ${describeAlpha(alpha)}.`,
+    },
+    {
+      otherStatistics: lines,
+      notices,
+      details: { compare, adjustment, ...detail },
+    },
+  );
+}
