@@ -6,12 +6,18 @@
  * The transaction is always ended and the connection always closed, whatever happens.
  */
 import { readFileSync } from 'node:fs';
-import { Client, type ClientConfig, type FieldDef, type QueryConfig } from 'pg';
+import type { Client, ClientConfig, FieldDef, QueryConfig } from 'pg';
 import type { ConnectionOptions } from 'node:tls';
 import { InputError } from '../../errors';
 import { describeConnection, type ResolvedConnection } from './connection';
 
 export const applicationName = 'countercheck';
+
+/** pg is loaded on first use, so that starting the editor extension does not pay for it. */
+function newClient(config: ClientConfig): Client {
+  const pg = require('pg') as typeof import('pg'); // eslint-disable-line @typescript-eslint/no-require-imports
+  return new pg.Client(config);
+}
 
 export interface SqlRunOptions {
   readonly signal?: AbortSignal;
@@ -69,7 +75,7 @@ function backendPid(client: Client): number | undefined {
 }
 
 async function cancelOnServer(c: ResolvedConnection, pid: number): Promise<void> {
-  const canceller = new Client({ ...clientConfig(c), application_name: `${applicationName}-cancel` });
+  const canceller = newClient({ ...clientConfig(c), application_name: `${applicationName}-cancel` });
   canceller.on('error', () => undefined);
   try {
     await canceller.connect();
@@ -110,7 +116,7 @@ export async function withReadOnlySession<T>(
   const cancelled = (): SqlCancelledError => new SqlCancelledError(`the query on connection "${connection.name}" was cancelled`);
   if (signal?.aborted) throw cancelled();
   const timeoutMs = options.timeoutMs ?? connection.statementTimeoutMs;
-  const client = new Client({ ...clientConfig(connection), query_timeout: timeoutMs + 15_000 });
+  const client = newClient({ ...clientConfig(connection), query_timeout: timeoutMs + 15_000 });
   // Without a listener, a connection that the server ends between statements would crash the process.
   let lostConnection: Error | undefined;
   client.on('error', (e: Error) => {
