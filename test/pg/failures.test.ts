@@ -121,6 +121,21 @@ describe('SQL source failures against a live server', () => {
     assert.equal(seq[0].is_called, false, 'the sequence was not advanced');
   });
 
+  it('does not let the condition switch the transaction to read-write or lift the timeout', async () => {
+    expectInput(
+      await refusal({ sql: { connection: 'test', table: 'bottling' }, where: "set_config('transaction_read_only', 'off', true) IS NOT NULL AND nextval('crate_numbers') > 0" }, count),
+      'sql-read-only',
+      /read-write mode must be set before any query/,
+    );
+    const started = Date.now();
+    expectInput(
+      await refusal({ sql: { connection: 'test', table: 'bottling' }, where: "set_config('statement_timeout', '0', true) IS NOT NULL AND pg_sleep(20) IS NOT NULL" }, count, { ...server.context(), timeoutMs: 300 }),
+      'sql-timeout',
+      /statement timeout of 300 ms/,
+    );
+    assert.ok(Date.now() - started < 5000, 'the timeout armed before the statement still applied');
+  });
+
   it('refuses a variance test on a text column', async () => {
     expectInput(await refusal({ sql: { connection: 'test', table: 'bottling' } }, { kind: 'numeric', column: 'line' }), 'sql-not-numeric', /column `line` of bottling on connection "test" has type text; expected a numeric type/);
   });

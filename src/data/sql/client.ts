@@ -213,6 +213,7 @@ export function explainError(e: unknown, c: ResolvedConnection, timeoutMs: numbe
     case '42501':
       return make(`${on}: ${server}; the user "${c.user}" needs SELECT on the source`, 'sql-permission');
     case '25006':
+    case '25001':
       return make(`${on}: the SQL tried to write (${server}); Countercheck only reads, inside a read-only transaction`, 'sql-read-only');
     case '57014':
       return make(`${on}: the query ran longer than the statement timeout of ${timeoutMs} ms and the server stopped it; raise statementTimeoutMs for this connection or narrow the source`, 'sql-timeout');
