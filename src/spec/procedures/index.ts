@@ -37,6 +37,7 @@ import { pairedProcedure } from './paired';
 import { stratifiedProcedure } from './stratified';
 import { trendProcedure } from './trend';
 import { powerProcedure } from './power';
+import { distributionFitProcedure } from './distfit';
 
 export interface ProcedureHandler {
   readonly test: string;
@@ -66,6 +67,7 @@ export const PROCEDURES: readonly ProcedureHandler[] = [
   stratifiedProcedure,
   trendProcedure,
   powerProcedure,
+  distributionFitProcedure,
 ];
 
 export function procedureFor(test: string): ProcedureHandler | undefined {

@@ -21,6 +21,7 @@ const R = fixture<{
   multinomial: { observed: number[]; probabilities: number[]; pearson: number }[];
 }>('R', 'advanced');
 const SM = fixture<{ chiSquareSampleSize: { w: number; power: number; alpha: number; df: number; n: number }[] }>('statsmodels', 'advanced');
+const SP = fixture<{ poissonFit: { values: number[]; binExpected: number[] } }>('statsmodels', 'advanced');
 
 describe('specs for the advanced procedures', () => {
   it('"paired" with a 2×2 table runs McNemar (R mcnemar.test, binom.test)', async () => {
@@ -76,6 +77,14 @@ describe('specs for the advanced procedures', () => {
     const c = R.multinomial[0];
     const r = (await run({ test: 'goodness-of-fit', observed: c.observed, proportions: c.probabilities, method: 'exact' })) as TestResult;
     closeTo(r.pValue.value, c.pearson, 1e-10, 'exact multinomial p (Pearson ordering)', c);
+  });
+
+  it('"distribution-fit" fits a Poisson with λ estimated (scipy poisson.pmf expected counts)', async () => {
+    const c = SP.poissonFit;
+    const r = (await run({ test: 'distribution-fit', values: c.values, family: 'poisson' })) as TestResult;
+    const bins = r.details!.bins as { expected: number }[];
+    bins.forEach((b, k) => closeTo(b.expected, c.binExpected[k], 1e-10, `bin ${k}`, c.values));
+    await assert.rejects(run({ test: 'distribution-fit', values: c.values, family: 'binomial' }), (e: unknown) => e instanceof SpecError && /trials/.test(e.message));
   });
 
   it('rejects a non-square paired table and a power spec with both n and power, naming the field', async () => {
