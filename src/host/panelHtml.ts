@@ -43,7 +43,9 @@ table.counts thead th { font-weight: 600; border-bottom: 2px solid var(--vscode-
 .tint-below { background: color-mix(in srgb, var(--vscode-charts-blue) var(--tint), transparent); }
 .band-3, .band-2 { font-weight: 600; }
 .sign { color: var(--vscode-descriptionForeground); font-size: 0.85em; }
-.plots { display: grid; grid-template-columns: repeat(auto-fit, minmax(340px, 1fr)); gap: 10px 24px; }
+.plots { display: flex; flex-direction: column; gap: 6px; }
+figure.plot { max-width: 640px; }
+figure.plot.residual-grid svg { width: auto; max-width: 100%; }
 figure { margin: 8px 0; }
 figcaption { color: var(--vscode-descriptionForeground); font-size: 0.9em; }
 svg text { fill: var(--vscode-foreground); font-family: var(--vscode-font-family); }
@@ -51,7 +53,7 @@ svg .tick { font-size: 10px; fill: var(--vscode-descriptionForeground); }
 svg .axis, svg .grid { stroke: var(--vscode-charts-lines, var(--vscode-foreground)); stroke-width: 1; }
 svg .grid { stroke-opacity: 0.35; }
 svg .curve { fill: none; stroke: var(--vscode-charts-foreground, var(--vscode-foreground)); stroke-width: 1.6; }
-svg .tail { fill: var(--vscode-charts-orange); fill-opacity: 0.45; }
+svg .tail { fill: var(--vscode-charts-orange); fill-opacity: 0.55; stroke: var(--vscode-charts-orange); stroke-width: 1; }
 svg .critical { stroke: var(--vscode-descriptionForeground); stroke-dasharray: 4 3; }
 svg .observed { stroke: var(--vscode-charts-red); stroke-width: 2; }
 svg .marker-label { font-size: 11px; font-weight: 600; }

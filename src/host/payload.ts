@@ -95,7 +95,7 @@ export function panelStrings(): Record<string, string> {
     otherStatistics: t('Other statistics on the same data'), assumptions: t('Assumptions'),
     met: t('checked, met'), failed: t('checked, not met'), unchecked: t('cannot be checked from the data'),
     alternative: t('Consider instead'), observed: t('observed'), expected: t('expected'),
-    observedMarked: t('Observed statistic marked at'), tailShaded: t('shaded area: the tail the p-value counts'),
+    observedMarked: t('Observed statistic marked at'), tailShaded: t('shaded area: the tail the p-value counts'), criticalDashed: t('dashed: critical value at α'),
     insideInterval: t('inside the interval'), outsideInterval: t('outside the interval'),
   };
 }

@@ -187,7 +187,9 @@ function densityFigure(plot: DensityPlot): HTMLElement {
   const anchor = ox > W * 0.7 ? 'end' : 'start';
   root.append(svg('text', { x: ox + (anchor === 'end' ? -5 : 5), y: M.t + 4, class: 'marker-label', 'text-anchor': anchor }, `${plot.observed.label}${plot.observed.clipped ? ' →' : ''}`));
   const description = `${plot.title}. ${s('observedMarked', 'Observed statistic marked at')} ${plot.observed.label}; ${s('tailShaded', 'shaded area: the tail the p-value counts')}.`;
-  return figure(plot, root, description);
+  const fig = figure(plot, root, description);
+  fig.querySelector('figcaption')?.append(document.createTextNode(` — ${s('tailShaded', 'shaded area: the tail the p-value counts')}; ${s('criticalDashed', 'dashed: critical value at α')}`));
+  return fig;
 }
 
 function barsFigure(plot: BarsPlot): HTMLElement {
@@ -220,7 +222,7 @@ function gridFigure(plot: ResidualGridPlot): HTMLElement {
   const cell = Math.min(64, Math.floor((W - 120) / Math.max(1, cols)));
   const width = 120 + cols * cell + 10;
   const height = 26 + rows * 30 + 6;
-  const root = svg('svg', { viewBox: `0 0 ${width} ${height}`, width: `${Math.min(100, (width / W) * 100)}%` });
+  const root = svg('svg', { viewBox: `0 0 ${width} ${height}`, width: String(width), height: String(height) });
   plot.columnLabels.forEach((c, j) => root.append(svg('text', { x: 120 + j * cell + cell / 2, y: 16, class: 'tick', 'text-anchor': 'middle' }, c.length > 8 ? `${c.slice(0, 7)}…` : c)));
   plot.rowLabels.forEach((r, i) => {
     const y = 26 + i * 30;
@@ -231,7 +233,7 @@ function gridFigure(plot: ResidualGridPlot): HTMLElement {
       (rect as SVGElement & ElementCSSInlineStyle).style.setProperty('--tint', `${Math.round(shade.strength * 100)}%`);
       root.append(rect);
       const mark = shade.sign === 'above' ? '+' : shade.sign === 'below' ? '−' : '';
-      root.append(svg('text', { x: 120 + j * cell + cell / 2, y: y + 19, class: `cell-label band-${shade.level}`, 'text-anchor': 'middle' }, `${mark}${fmt(Math.abs(value))}`));
+      root.append(svg('text', { x: 120 + j * cell + cell / 2, y: y + 19, class: `cell-label band-${shade.level}`, 'text-anchor': 'middle' }, `${mark}${Number.isFinite(value) ? Math.abs(value).toFixed(2) : '–'}`));
     });
   });
   return figure(plot, root, `${plot.title}, ${rows} × ${cols}`);

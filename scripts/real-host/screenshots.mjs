@@ -1,0 +1,161 @@
+// UI test: drives the command palette of a real workbench in headless Chromium, as a keyboard user would,
+// checks the results panel's text, reloads the page and checks the panel comes back, and saves
+// screenshots of the panel in light, dark and high-contrast themes under media/.
+// Exit code 0 when every check passed; prints "N passing" / "N failing" like the mocha runs.
+import { mkdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { launchBrowser, repoRoot, sleep, startHost, testPayloadUrl } from './host.mjs';
+
+const themes = [
+  { name: 'light', theme: 'Default Light Modern', scheme: 'light' },
+  { name: 'dark', theme: 'Default Dark Modern', scheme: 'dark' },
+  { name: 'high-contrast', theme: 'Default High Contrast', scheme: 'dark' },
+];
+const only = process.argv.slice(2);
+const media = join(repoRoot, 'media');
+mkdirSync(media, { recursive: true });
+
+let passing = 0;
+const failures = [];
+let currentPage;
+async function check(name, fn) {
+  try {
+    await fn();
+    passing++;
+    console.log(`    ✔ ${name}`);
+  } catch (e) {
+    failures.push([name, e]);
+    const shot = join(tmpdir(), `countercheck-ui-failure-${failures.length}.png`);
+    await currentPage?.screenshot({ path: shot }).catch(() => {});
+    console.log(`      (screen at failure: ${shot})`);
+    console.log(`    ✗ ${name}: ${e instanceof Error ? e.message.split('\n')[0] : e}`);
+  }
+}
+
+async function palette(page, title) {
+  await page.keyboard.press('F1');
+  await page.waitForSelector('.quick-input-widget', { state: 'visible' });
+  await page.keyboard.type(title, { delay: 15 });
+  await sleep(700);
+  await page.keyboard.press('Enter');
+}
+
+async function quickOpen(page, file) {
+  await page.keyboard.press('Control+P');
+  await page.waitForSelector('.quick-input-widget', { state: 'visible' });
+  await page.keyboard.type(file, { delay: 15 });
+  await sleep(900);
+  await page.keyboard.press('Enter');
+  await sleep(800);
+}
+
+/** Answers the next QuickPick or input box by typing and pressing Enter. */
+async function answer(page, text) {
+  await page.waitForSelector('.quick-input-widget', { state: 'visible' });
+  await sleep(300);
+  if (text) await page.keyboard.type(text, { delay: 15 });
+  await sleep(400);
+  await page.keyboard.press('Enter');
+}
+
+/** Gives the panel the whole window for the screenshot (one editor group, side bar hidden), then brings the side bar back. */
+async function maximized(page, shoot) {
+  await palette(page, 'View: Join All Editor Groups');
+  await sleep(600);
+  await page.keyboard.press('Control+B');
+  await sleep(1200);
+  await shoot();
+  await page.keyboard.press('Control+B');
+  await sleep(400);
+}
+
+function panelFrame(page) {
+  return page.frameLocator('iframe.webview').last().frameLocator('#active-frame');
+}
+
+async function waitForPanel(page, pattern) {
+  const headline = panelFrame(page).locator('#headline');
+  await headline.waitFor({ state: 'visible', timeout: 30_000 });
+  const text = await headline.textContent();
+  if (!pattern.test(text ?? '')) throw new Error(`panel headline "${text}" does not match ${pattern}`);
+  return text;
+}
+
+async function session({ name, theme, scheme }) {
+  console.log(`  ${name} theme`);
+  const host = await startHost({
+    copyWorkspaceFrom: join(repoRoot, 'demo'),
+    extraCopies: [[join(repoRoot, 'test', 'integration', 'data'), 'integration-data']],
+    settings: { 'workbench.colorTheme': theme, 'window.autoDetectColorScheme': false, 'editor.minimap.enabled': false, 'workbench.activityBar.location': 'default' },
+  });
+  let context;
+  try {
+    context = await launchBrowser(host, { colorScheme: scheme, viewport: { width: 1500, height: 1000 } });
+    const page = context.pages()[0] ?? (await context.newPage());
+    currentPage = page;
+    await page.goto(testPayloadUrl(host));
+    await page.waitForSelector('.monaco-workbench', { timeout: 60_000 });
+    await page.waitForSelector('.statusbar', { timeout: 60_000 });
+    await sleep(3500);
+
+    await check(`${name}: palette runs the test on a counted table`, async () => {
+      await quickOpen(page, 'oven-defects.csv');
+      await palette(page, 'Countercheck: Test This Data File');
+      await waitForPanel(page, /associated/);
+      const apa = await panelFrame(page).locator('#apa-line').textContent();
+      if (!/χ²\(4, N = 91\) = 13\.79/.test(apa ?? '')) throw new Error(`APA line "${apa}"`);
+      await sleep(800);
+      await maximized(page, () => page.screenshot({ path: join(media, `panel-table-${name}.png`) }));
+    });
+
+    if (name === 'light') {
+      await check(`${name}: the variance flow is keyboard-only through QuickPicks`, async () => {
+        await page.keyboard.press('Control+K');
+        await page.keyboard.press('W'); // close all editors
+        await sleep(600);
+        await quickOpen(page, 'bike-trips.csv');
+        await palette(page, 'Countercheck: Test This Data File');
+        await answer(page, 'Variance');
+        await answer(page, 'trip_minutes');
+        await answer(page, '6');
+        await answer(page, '');
+        await waitForPanel(page, /standard deviation|variance/i);
+        await sleep(800);
+        await maximized(page, () => page.screenshot({ path: join(media, `panel-variance-${name}.png`) }));
+      });
+
+      await check(`${name}: assumptions open from the keyboard`, async () => {
+        const summary = panelFrame(page).locator('details.assumption summary').first();
+        await summary.focus();
+        await summary.press('Enter');
+        const open = await panelFrame(page).locator('details.assumption').first().getAttribute('open');
+        if (open === null) throw new Error('the first assumption did not open with Enter');
+      });
+
+      await check(`${name}: the panel comes back after a reload`, async () => {
+        await page.reload();
+        await page.waitForSelector('.monaco-workbench', { timeout: 60_000 });
+        await sleep(4000);
+        await waitForPanel(page, /standard deviation|variance/i);
+      });
+    }
+  } finally {
+    await context?.close().catch(() => {});
+    await host.stop();
+    host.cleanup();
+  }
+}
+
+try {
+  for (const t of themes) if (only.length === 0 || only.includes(t.name)) await session(t);
+} catch (e) {
+  failures.push(['host', e]);
+  console.error(e);
+}
+console.log(`\n  ${passing} passing`);
+if (failures.length) {
+  console.log(`  ${failures.length} failing`);
+  for (const [name, e] of failures) console.log(`  - ${name}: ${e instanceof Error ? e.stack : e}`);
+}
+process.exit(failures.length ? 1 : 0);
