@@ -63,6 +63,12 @@ export function pLine(id: string, name: string, pValue: Probability, note?: stri
   return note === undefined ? { id, name, symbol: '', statistic, df: null, pValue } : { id, name, symbol: '', statistic, df: null, pValue, note };
 }
 
+/** The head of a result whose main statistic is a chi-square line (no alternative: the test is one-tailed by nature). */
+export function chiSquareCore(test: string, procedure: string, line: StatisticLine, n: number, alpha: number): Omit<Core, 'conclusion'> {
+  const df = line.df ?? 1;
+  return { test, procedure, statisticSymbol: line.symbol, statistic: line.statistic, df, n, pValue: line.pValue, alternative: null, reference: { kind: 'chi-square', df }, alpha };
+}
+
 type Core = Pick<TestResult, 'test' | 'procedure' | 'statisticSymbol' | 'statistic' | 'df' | 'n' | 'pValue' | 'alternative' | 'reference' | 'alpha' | 'conclusion'>;
 
 /** A TestResult with empty lists where a procedure has nothing to add. */

@@ -15,7 +15,7 @@
  * χ²(k − 1) (Chernoff & Lehmann 1954), so the reported p-value is slightly small; this is said in a notice.
  */
 import { InputError } from '../errors';
-import { chiSquareLine, sum, testResult } from './advanced-common';
+import { chiSquareCore, chiSquareLine, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { logBinomialPmf } from './discrete';
 import { logFactorial } from './gamma';
@@ -208,16 +208,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   const name = FAMILY_NAMES[family];
   return testResult(
     {
-      test: 'distribution-fit',
-      procedure: `Chi-square goodness of fit to a ${name} distribution (parameters estimated)`,
-      statisticSymbol: 'X²',
-      statistic: line.statistic,
-      df,
-      n,
-      pValue: line.pValue,
-      alternative: null,
-      reference: { kind: 'chi-square', df },
-      alpha,
+      ...chiSquareCore('distribution-fit', `Chi-square goodness of fit to a ${name} distribution (parameters estimated)`, line, n, alpha),
       conclusion: significant
         ? `The values do not follow a ${name} distribution ${describeAlpha(alpha)} (${describeP(line.pValue)}): the observed counts per bin depart from the fitted ones by more than chance would explain.`
         : `The data are consistent with a ${name} distribution ${describeAlpha(alpha)} (${describeP(line.pValue)}); this does not prove the values are ${name}, only that the departure is within chance.`,

@@ -9,7 +9,7 @@
  * - k×k: Bowker's (1948) test of symmetry, Σ_{i<j} (n_ij − n_ji)²/(n_ij + n_ji).
  */
 import { InputError } from '../errors';
-import { chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult, warning } from './advanced-common';
+import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult, warning } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { binomialLowerTail, logBinomialPmf } from './discrete';
 import { normalUpperQuantile } from './normal';
@@ -184,16 +184,7 @@ export function bowkerTest(table: readonly (readonly number[])[], options: Paire
   const significant = line.pValue.value < alpha;
   return testResult(
     {
-      test: 'paired',
-      procedure: "Bowker's test of symmetry",
-      statisticSymbol: 'X²',
-      statistic: line.statistic,
-      df,
-      n,
-      pValue: line.pValue,
-      alternative: null,
-      reference: { kind: 'chi-square', df },
-      alpha,
+      ...chiSquareCore('paired', "Bowker's test of symmetry", line, n, alpha),
       conclusion: significant
         ? `Moves between categories are not symmetric ${describeAlpha(alpha)} (${describeP(line.pValue)}): for some pairs of categories, more units moved one way than the other.`
         : `The data do not show asymmetric moves between categories ${describeAlpha(alpha)} (${describeP(line.pValue)}).`,

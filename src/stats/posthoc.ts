@@ -8,7 +8,7 @@
  * Benjamini–Hochberg (1995) step-up false discovery rate. Every line names the rows, columns or cell it is about.
  */
 import { InputError } from '../errors';
-import { chiSquareLine, columnSums, dropEmptyMargins, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { chiSquareCore, chiSquareLine, columnSums, dropEmptyMargins, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, requireLevel } from './assumptions';
 import { normalUpperProbability } from './normal';
 import { probabilityFromLog, probabilityFromValue } from './probability';
@@ -189,16 +189,7 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   const subject = compare === 'cells' ? 'cells' : `pairs of ${compare}`;
   return testResult(
     {
-      test: 'post-hoc',
-      procedure: `Post-hoc ${compare === 'cells' ? 'cell-wise adjusted residual tests' : `pairwise comparisons of ${compare}`} (${adjustName})`,
-      statisticSymbol: 'X²',
-      statistic: overall.statistic,
-      df: overall.df,
-      n: sum(rows),
-      pValue: overallLine.pValue,
-      alternative: null,
-      reference: { kind: 'chi-square', df: overall.df },
-      alpha,
+      ...chiSquareCore('post-hoc', `Post-hoc ${compare === 'cells' ? 'cell-wise adjusted residual tests' : `pairwise comparisons of ${compare}`} (${adjustName})`, overallLine, sum(rows), alpha),
       conclusion:
         flagged.length > 0
           ? `After ${adjustName} adjustment, ${flagged.length} ${subject} differ ${describeAlpha(alpha)}: ${flagged.slice(0, 10).join('; ')}${flagged.length > 10 ? '; …' : ''}.`

@@ -13,7 +13,7 @@
  * (df (R−1)(C−1)), row mean scores differ (df R−1), and nonzero correlation (df 1).
  */
 import { InputError } from '../errors';
-import { chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult } from './advanced-common';
+import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { hypergeometricSupport, logHypergeometricPmf, logSumExp, pointProbabilityTwoSided } from './discrete';
 import { normalUpperQuantile } from './normal';
@@ -408,16 +408,7 @@ function generalizedCmh(strata: readonly Stratum[], notices: Notice[], r: number
   const significant = main.pValue.value < alpha;
   return testResult(
     {
-      test: 'stratified',
-      procedure: 'Generalized Cochran–Mantel–Haenszel test',
-      statisticSymbol: 'Q',
-      statistic: main.statistic,
-      df: main.df,
-      n: sum(strata.map((x) => x.n)),
-      pValue: main.pValue,
-      alternative: null,
-      reference: { kind: 'chi-square', df: main.df ?? 1 },
-      alpha,
+      ...chiSquareCore('stratified', 'Generalized Cochran–Mantel–Haenszel test', main, sum(strata.map((x) => x.n)), alpha),
       conclusion: significant
         ? `Within strata, the row and column variables are associated ${describeAlpha(alpha)} (${describeP(main.pValue)}).`
         : `The data do not show an association within strata ${describeAlpha(alpha)} (${describeP(main.pValue)}).`,
