@@ -22,7 +22,7 @@ function dataPath(rows: number): string {
 }
 
 /** Writes the full file and its first-1M-row prefix once; later runs reuse them. */
-function ensureData(rows: number): void {
+export function ensureData(rows: number): void {
   const full = dataPath(rows);
   const prefix = dataPath(Math.min(rows, PREFIX_ROWS));
   if (existsSync(full) && existsSync(prefix)) return;

@@ -135,29 +135,51 @@ async function scanBytes(
     aggregatorsFor: makeAggregators,
   });
   const progress = new Progress(opened.size, control.onProgress);
-  let buf = new Uint8Array(control.chunkSize ?? 1 << 20);
-  let filled = 0;
+  // Two buffers, so the next read runs while this chunk is scanned. Each keeps `room` bytes in
+  // front of its chunk for the incomplete last line of the previous chunk, which makes the line
+  // contiguous without copying the chunk.
+  const chunk = control.chunkSize ?? 1 << 20;
+  let room = chunk;
+  let current = new Uint8Array(room + chunk);
+  let next = new Uint8Array(room + chunk);
+  let pending: Promise<{ bytesRead: number }> = opened.handle.read(current, room, chunk, 0);
   let position = 0;
+  let leftover = 0;
   let first = true;
-  for (;;) {
-    control.signal?.throwIfAborted();
-    if (filled === buf.length) {
-      const bigger = new Uint8Array(buf.length * 2);
-      bigger.set(buf.subarray(0, filled));
-      buf = bigger;
+  try {
+    for (;;) {
+      const { bytesRead } = await pending;
+      control.signal?.throwIfAborted();
+      hash.update(current.subarray(room, room + bytesRead));
+      position += bytesRead;
+      const final = bytesRead === 0;
+      if (!final) pending = opened.handle.read(next, room, chunk, position);
+      const start = room - leftover + (first ? Math.min(opened.bomLength, bytesRead) : 0);
+      first = false;
+      const end = room + bytesRead;
+      const consumed = scanner.scan(current, start, end, final);
+      progress.tick(position, scanner.result()?.[0].recordCount ?? 0, final);
+      if (final) break;
+      leftover = end - consumed;
+      if (leftover <= room) {
+        next.set(current.subarray(consumed, end), room - leftover);
+        [current, next] = [next, current];
+      } else {
+        // A line longer than the room: wait for the read under way and move both parts to larger buffers.
+        const ahead = await pending;
+        const larger = 2 ** Math.ceil(Math.log2(leftover));
+        const grown = new Uint8Array(larger + Math.max(chunk, ahead.bytesRead));
+        grown.set(current.subarray(consumed, end), larger - leftover);
+        grown.set(next.subarray(room, room + ahead.bytesRead), larger);
+        room = larger;
+        current = grown;
+        next = new Uint8Array(room + chunk);
+        pending = Promise.resolve(ahead);
+      }
     }
-    const { bytesRead } = await opened.handle.read(buf, filled, buf.length - filled, position);
-    hash.update(buf.subarray(filled, filled + bytesRead));
-    position += bytesRead;
-    filled += bytesRead;
-    const final = bytesRead === 0;
-    const from = first ? Math.min(opened.bomLength, filled) : 0;
-    first = false;
-    const consumed = scanner.scan(buf, from, filled, final);
-    progress.tick(position, scanner.result()?.[0].recordCount ?? 0, final);
-    if (final) break;
-    buf.copyWithin(0, consumed, filled);
-    filled -= consumed;
+  } finally {
+    // Never leave a read running on a handle that is about to close.
+    await pending.catch(() => undefined);
   }
   return scanner.result();
 }
