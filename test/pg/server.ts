@@ -35,7 +35,11 @@ export function liveServer(): { env: () => Record<string, string>; context: () =
       this.skip();
     }
     env = readEnvFile(pgEnvFile);
-    await query('SELECT 1');
+    try {
+      await query('SELECT 1');
+    } catch (e) {
+      throw new Error(`the PostgreSQL server of COUNTERCHECK_PG_ENV=${pgEnvFile} (${env.PGHOST}:${env.PGPORT}) does not answer: ${(e as Error).message}`);
+    }
   });
   const need = (): Record<string, string> => {
     if (!env) throw new Error('the server environment was not read');
