@@ -38,6 +38,7 @@ import { stratifiedProcedure } from './stratified';
 import { trendProcedure } from './trend';
 import { powerProcedure } from './power';
 import { distributionFitProcedure } from './distfit';
+import { postHocProcedure } from './posthoc';
 
 export interface ProcedureHandler {
   readonly test: string;
@@ -68,6 +69,7 @@ export const PROCEDURES: readonly ProcedureHandler[] = [
   trendProcedure,
   powerProcedure,
   distributionFitProcedure,
+  postHocProcedure,
 ];
 
 export function procedureFor(test: string): ProcedureHandler | undefined {

@@ -19,6 +19,7 @@ const R = fixture<{
   linearByLinear: { table: number[][]; rowScores: number[]; columnScores: number[]; statistic: number }[];
   permutation2xc: { table: number[][]; pearson: number }[];
   multinomial: { observed: number[]; probabilities: number[]; pearson: number }[];
+  posthoc: { table: number[][]; pairHolm: number[] };
 }>('R', 'advanced');
 const SM = fixture<{ chiSquareSampleSize: { w: number; power: number; alpha: number; df: number; n: number }[] }>('statsmodels', 'advanced');
 const SP = fixture<{ poissonFit: { values: number[]; binExpected: number[] } }>('statsmodels', 'advanced');
@@ -85,6 +86,12 @@ describe('specs for the advanced procedures', () => {
     const bins = r.details!.bins as { expected: number }[];
     bins.forEach((b, k) => closeTo(b.expected, c.binExpected[k], 1e-10, `bin ${k}`, c.values));
     await assert.rejects(run({ test: 'distribution-fit', values: c.values, family: 'binomial' }), (e: unknown) => e instanceof SpecError && /trials/.test(e.message));
+  });
+
+  it('"post-hoc" compares pairs of rows with Holm adjustment (R chisq.test per pair, p.adjust)', async () => {
+    const c = R.posthoc;
+    const r = (await run({ test: 'post-hoc', table: c.table, compare: 'rows', adjustment: 'holm' })) as TestResult;
+    r.otherStatistics.forEach((l, k) => closeTo(l.pValue.value, c.pairHolm[k], 1e-10, `${l.name} Holm p`, c.table));
   });
 
   it('rejects a non-square paired table and a power spec with both n and power, naming the field', async () => {
