@@ -82,7 +82,10 @@ export function measure(impl: Implementation): RegionResult[] {
       const expected = pt[side];
       const fn = side === 'lower' ? impl.lower : impl.upper;
       if (!fn || !(expected >= NORMAL_MIN)) continue;
-      w.add(`${side} tail, ${tailRegion(pt.df, expected)}`, relative(fn(pt.x, pt.df), expected), `df=${pt.df} x=${pt.x}`);
+      const err = relative(fn(pt.x, pt.df), expected);
+      w.add(`${side} tail, ${tailRegion(pt.df, expected)}`, err, `df=${pt.df} x=${pt.x}`);
+      // The everyday corner: small df, p-values of ordinary size.
+      if (side === 'lower' && pt.df <= 100 && expected >= 1e-3) w.add('lower tail, df ≤ 100, p ≥ 1e-3', err, `df=${pt.df} x=${pt.x}`);
     }
     if (impl.logUpper && typeof pt.lnUpper === 'number' && !(pt.upper >= NORMAL_MIN)) {
       w.add('ln upper tail, p < 1e-308', relative(impl.logUpper(pt.x, pt.df), pt.lnUpper), `df=${pt.df} x=${pt.x}`);
@@ -114,11 +117,72 @@ export const oursImplementation: Implementation = {
   upperQuantileFromLog: ours.chiSquareUpperQuantileFromLog,
 };
 
-function print(results: RegionResult[], name: string): void {
-  console.log(`\n${name}`);
-  for (const r of results) console.log(`  ${r.region.padEnd(48)} n=${String(r.count).padStart(4)}  worst ${r.worst.toExponential(2)}  (${r.at})`);
+interface JStatChiSquare {
+  chisquare: { cdf(x: number, dof: number): number; inv(p: number, dof: number): number };
+}
+
+function jstatImplementation(): Implementation {
+  // eslint-disable-next-line @typescript-eslint/no-require-imports
+  const { jStat } = require('jstat') as { jStat: JStatChiSquare };
+  // eslint-disable-next-line @typescript-eslint/no-require-imports
+  const version = (require('jstat/package.json') as { version: string }).version;
+  return {
+    name: `jstat ${version}`,
+    lower: (x, df) => jStat.chisquare.cdf(x, df),
+    upper: (x, df) => 1 - jStat.chisquare.cdf(x, df), // jstat has no upper tail
+    logUpper: (x, df) => Math.log(1 - jStat.chisquare.cdf(x, df)),
+    quantile: (p, df) => jStat.chisquare.inv(p, df),
+    upperQuantile: (q, df) => jStat.chisquare.inv(1 - q, df),
+  };
+}
+
+/** stdlib-js, installed OUTSIDE the repository (never a dependency): pass its node_modules folder. */
+function stdlibImplementation(dir: string): Implementation | null {
+  if (!existsSync(join(dir, '@stdlib', 'stats-base-dists-chisquare-cdf'))) return null;
+  // eslint-disable-next-line @typescript-eslint/no-require-imports
+  const load = (name: string): unknown => require(join(dir, '@stdlib', name));
+  const cdf = load('stats-base-dists-chisquare-cdf') as (x: number, k: number) => number;
+  const quantile = load('stats-base-dists-chisquare-quantile') as (p: number, k: number) => number;
+  const gammainc = load('math-base-special-gammainc') as (x: number, s: number, reg: boolean, upper: boolean) => number;
+  const version = (load('stats-base-dists-chisquare-cdf/package.json') as { version: string }).version;
+  return {
+    name: `stdlib-js ${version}`,
+    lower: cdf,
+    upper: (x, df) => gammainc(x / 2, df / 2, true, true),
+    logUpper: (x, df) => Math.log(gammainc(x / 2, df / 2, true, true)),
+    quantile,
+    upperQuantile: (q, df) => quantile(1 - q, df), // no upper quantile in stdlib-js
+  };
+}
+
+function format(err: number | undefined): string {
+  if (err === undefined) return '—';
+  if (!Number.isFinite(err)) return 'fails (∞/NaN)';
+  return err === 0 ? '0' : err.toExponential(1);
+}
+
+/** Prints one markdown table: the worst relative error per region for each implementation. */
+export function printTable(impls: Implementation[]): void {
+  const results = impls.map((impl) => new Map(measure(impl).map((r) => [r.region, r])));
+  const regions = [...(results[0] as Map<string, RegionResult>).keys()];
+  console.log(`| region | points | ${impls.map((i) => i.name).join(' | ')} |`);
+  console.log(`|---|---:|${impls.map(() => '---:').join('|')}|`);
+  for (const region of regions) {
+    const count = (results[0] as Map<string, RegionResult>).get(region)?.count ?? 0;
+    console.log(`| ${region} | ${count} | ${results.map((m) => format(m.get(region)?.worst)).join(' | ')} |`);
+  }
+  for (const [i, impl] of impls.entries()) {
+    console.log(`\nworst points, ${impl.name}:`);
+    for (const r of (results[i] as Map<string, RegionResult>).values()) console.log(`  ${r.region}: ${format(r.worst)} at ${r.at}`);
+  }
 }
 
 if (require.main === module) {
-  print(measure(oursImplementation), oursImplementation.name);
+  const at = process.argv.indexOf('--stdlib');
+  const stdlibDir = at > 0 ? (process.argv[at + 1] as string) : '/tmp/team/stdlib/node_modules';
+  const impls = [oursImplementation, jstatImplementation()];
+  const stdlib = stdlibImplementation(stdlibDir);
+  if (stdlib) impls.push(stdlib);
+  else console.log(`(stdlib-js not found in ${stdlibDir}; install it there to include it)`);
+  printTable(impls);
 }

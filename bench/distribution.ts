@@ -21,30 +21,35 @@ function inputs(df: number): { xs: number[]; ps: number[] } {
 
 let sink = 0;
 
-/** Median over 7 rounds of ns per call, each round ≥ 100 ms. */
-function nsPerCall(values: readonly number[], df: number, fn: (v: number, df: number) => number): number {
-  const rounds: number[] = [];
+type Fn = (v: number, df: number) => number;
+
+function timeRound(values: readonly number[], df: number, fn: Fn, reps: number): number {
+  const t0 = process.hrtime.bigint();
+  for (let r = 0; r < reps; r++) for (const v of values) sink += fn(v, df);
+  return Number(process.hrtime.bigint() - t0) / (reps * values.length);
+}
+
+/**
+ * ns per call of two functions, measured in alternating rounds of ≥ 30 ms (so that a busy machine
+ * slows both alike); the fastest of 9 rounds each is reported, the least disturbed by other processes.
+ */
+function nsPerCallPair(values: readonly number[], df: number, ours: Fn, theirs: Fn): [number, number] {
   let reps = 1;
-  for (;;) {
-    const t0 = process.hrtime.bigint();
-    for (let r = 0; r < reps; r++) for (const v of values) sink += fn(v, df);
-    const ms = Number(process.hrtime.bigint() - t0) / 1e6;
-    if (ms >= 100) break;
-    reps *= 2;
+  while (timeRound(values, df, ours, reps) * reps * values.length < 30e6) reps *= 2;
+  timeRound(values, df, theirs, reps);
+  let a = Infinity;
+  let b = Infinity;
+  for (let round = 0; round < 9; round++) {
+    a = Math.min(a, timeRound(values, df, ours, reps));
+    b = Math.min(b, timeRound(values, df, theirs, reps));
   }
-  for (let round = 0; round < 7; round++) {
-    const t0 = process.hrtime.bigint();
-    for (let r = 0; r < reps; r++) for (const v of values) sink += fn(v, df);
-    rounds.push(Number(process.hrtime.bigint() - t0) / (reps * values.length));
-  }
-  rounds.sort((a, b) => a - b);
-  return rounds[3] as number;
+  return [a, b];
 }
 
 export const distributionBench = {
   name: 'distribution',
   async run(): Promise<void> {
-    console.log('ns per call (median of 7 rounds), x or p spread over the 1%–99% range of χ²(df)');
+    console.log('ns per call (fastest of 9 alternating rounds), x or p spread over the 1%–99% range of χ²(df)');
     console.log(`${'function'.padEnd(30)}${'df'.padStart(6)}${'ours'.padStart(10)}${'jstat'.padStart(10)}`);
     for (const df of [5, 1000]) {
       const { xs, ps } = inputs(df);
@@ -55,8 +60,7 @@ export const distributionBench = {
         ['upper quantile (jstat: inv(1−q))', ps, chiSquareUpperQuantile, (q, d) => jStat.chisquare.inv(1 - q, d)],
       ];
       for (const [label, values, ourFn, theirFn] of rows) {
-        const a = nsPerCall(values, df, ourFn);
-        const b = nsPerCall(values, df, theirFn);
+        const [a, b] = nsPerCallPair(values, df, ourFn, theirFn);
         console.log(`${label.padEnd(30)}${String(df).padStart(6)}${a.toFixed(0).padStart(10)}${b.toFixed(0).padStart(10)}`);
       }
     }
