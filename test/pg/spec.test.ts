@@ -1,4 +1,4 @@
-// The demo specs in demo/sql run from the command line (the CLI's own readers, connection from
+// The example specs in examples/postgresql run from the command line (the CLI's own readers, connection from
 // COUNTERCHECK_CONNECTION_GREENHOUSE, password from PGPASSWORD) and give the same result as the
 // same spec pointed at the same rows written to CSV.
 import { strict as assert } from 'node:assert';
@@ -9,7 +9,7 @@ import { main } from '../../src/cli';
 import { liveServer } from './server';
 
 const server = liveServer();
-const demo = join(__dirname, '..', '..', 'demo', 'sql');
+const demo = join(__dirname, '..', '..', 'examples', 'postgresql');
 
 async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
   let out = '';
@@ -41,7 +41,7 @@ describe('saved specs with a SQL source, from the command line', () => {
     ['harvest-grade-by-bay', 'SELECT * FROM harvest_crates'],
     ['crate-weight-spread', "SELECT * FROM harvest_crates WHERE shift = 'early'"],
   ] as const) {
-    it(`runs demo/sql/${name} and matches the CSV path on the same rows`, async () => {
+    it(`runs examples/postgresql/${name} and matches the CSV path on the same rows`, async () => {
       const viaSql = await cli(['run', '--json', join(demo, `${name}.countercheck.json`)], demo);
       assert.equal(viaSql.code, 0, viaSql.err);
       const csv = join(folder, `${name}.csv`);

@@ -1,6 +1,6 @@
 -- A tomato greenhouse's harvest log, invented for the Countercheck demo: every crate picked over a
 -- season, with the bay it came from, its grade, the picker's shift and the crate's net weight.
--- Load it into any PostgreSQL database:  psql -f demo/sql/greenhouse.sql
+-- Load it into any PostgreSQL database:  psql -f examples/postgresql/greenhouse.sql
 DROP TABLE IF EXISTS harvest_crates;
 CREATE TABLE harvest_crates (
   crate_id   integer PRIMARY KEY,
