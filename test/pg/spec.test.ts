@@ -37,6 +37,24 @@ describe('saved specs with a SQL source, from the command line', () => {
     if (folder) rmSync(folder, { recursive: true, force: true });
   });
 
+  it('records a result, re-runs it as reproduced, and reports data changed after a row is added', async () => {
+    const spec = join(folder, 'grade-record.countercheck.json');
+    writeFileSync(spec, readFileSync(join(demo, 'harvest-grade-by-bay.countercheck.json'), 'utf8'));
+    const recorded = await cli(['run', '--record', spec], folder);
+    assert.equal(recorded.code, 0, recorded.err);
+    const same = await cli(['check', spec], folder);
+    assert.equal(same.code, 0, same.out + same.err);
+    assert.match(same.out, /reproduced/);
+    await server.query("INSERT INTO harvest_crates VALUES (100001, 'A vent', 'processing', 'early', 12.1)");
+    try {
+      const changed = await cli(['check', spec], folder);
+      assert.equal(changed.code, 1, changed.out + changed.err);
+      assert.match(changed.out, /data changed/);
+    } finally {
+      await server.query('DELETE FROM harvest_crates WHERE crate_id = 100001');
+    }
+  });
+
   for (const [name, select] of [
     ['harvest-grade-by-bay', 'SELECT * FROM harvest_crates'],
     ['crate-weight-spread', "SELECT * FROM harvest_crates WHERE shift = 'early'"],
