@@ -168,8 +168,12 @@ async function commandRun(files: readonly string[], flags: Flags, io: CliIo): Pr
     try {
       const loaded = await loadSpec(file, io);
       const run = await runLoaded(loaded, io, flags);
-      if (flags.json) outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(run.result), data: run.data });
-      else io.stdout(`${files.length > 1 ? `== ${loaded.name}\n` : ''}${resultText(run.result, { decimals: flags.decimals, title: loaded.spec.title })}${files.length > 1 ? '\n' : ''}`);
+      const data = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
+      if (flags.json) outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(run.result), data });
+      else {
+        const text = resultText(run.result, { decimals: flags.decimals, title: loaded.spec.title, data });
+        io.stdout(`${files.length > 1 ? `== ${loaded.name}\n` : ''}${text}${files.length > 1 ? '\n' : ''}`);
+      }
       if (flags.record) exit = Math.max(exit, await record(loaded, run, flags, io));
     } catch (e) {
       io.stderr(`${errorText(e, file)}\n`);

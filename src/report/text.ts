@@ -27,6 +27,8 @@ export const CAUTION =
 export interface ReportOptions extends FormatOptions {
   /** Shown above the result (the spec's title). */
   readonly title?: string;
+  /** Where the data came from; shown before the caution. */
+  readonly data?: DataDescription;
 }
 
 /** The APA line of a test: "χ²(3, N = 556) = 0.47, p = .925". */
@@ -81,6 +83,7 @@ export function testText(result: TestResult, options: ReportOptions = DEFAULT_FO
     lines.push('Assumptions not met:');
     for (const a of failed) lines.push(`  ! ${a.title}: ${a.explanation}${a.alternative ? ` Consider: ${a.alternative}.` : ''}`);
   }
+  if (options.data) lines.push(dataText(options.data));
   lines.push(`Caution: ${CAUTION}`);
   return lines.join('\n') + '\n';
 }
@@ -117,6 +120,21 @@ export function powerText(result: PowerResult, options: ReportOptions = DEFAULT_
   lines.push(...noticeLines(result.notices));
   lines.push(`Caution: ${CAUTION}`);
   return lines.join('\n') + '\n';
+}
+
+/** Where the numbers came from, as the reader reported it (a file, a database, or inline data). */
+export interface DataDescription {
+  readonly description: string;
+  readonly rows: number;
+  readonly dropped?: number;
+  readonly sha256: string;
+}
+
+/** "Data: data/bakery.csv, 1,800 records, 18 dropped for missing values (sha256 1a2b3c4d5e6f…)" */
+export function dataText(data: DataDescription): string {
+  if (data.description === 'inline') return `Data: inline in the spec (sha256 ${data.sha256.slice(0, 12)}…)`;
+  const dropped = data.dropped ? `, ${formatCount(data.dropped)} dropped for missing values` : '';
+  return `Data: ${data.description}, ${formatCount(data.rows)} record${data.rows === 1 ? '' : 's'}${dropped} (sha256 ${data.sha256.slice(0, 12)}…)`;
 }
 
 /** The plain-text summary of any result. */

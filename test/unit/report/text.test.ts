@@ -40,6 +40,11 @@ describe('report content', () => {
     assert.match(text, /Warnings:\n {2}! .*normal/);
   });
 
+  it('text: the data line names the file, the records read and dropped, before the caution', () => {
+    const text = resultText(mendel, { decimals: 2, data: { description: 'data/peas.csv', rows: 560, dropped: 4, sha256: 'ab'.repeat(32) } });
+    assert.match(text, /\nData: data\/peas\.csv, 560 records, 4 dropped for missing values \(sha256 abababababab…\)\nCaution: /);
+  });
+
   it('text: a p-value far below the double range is given as a power of ten', () => {
     assert.equal(extreme.pValue.value, 0);
     const text = resultText(extreme);

@@ -5,6 +5,8 @@ import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { aggregateFile } from '../../../src/data/file';
+import { refreshReport } from '../../../src/report/blocks';
+import { runReportBlock } from '../../../src/spec/living';
 import { compareWithRecord, describeReview } from '../../../src/spec/review';
 import { runSpec } from '../../../src/spec/run';
 import type { SpecReaders } from '../../../src/spec/types';
@@ -71,4 +73,15 @@ describe('demo specs', () => {
       assert.equal(review.status, 'reproduced', describeReview(review, file));
     });
   }
+
+  it('demo/report.md is current: refreshing it changes nothing', async () => {
+    const reportPath = join(demo, 'report.md');
+    const text = readFileSync(reportPath, 'utf8');
+    const outcome = await refreshReport(text, async (block) =>
+      (await runReportBlock(block, { reportPath, readers, readText: async (f) => readFileSync(f, 'utf8'), allowedRoot: demo })).markdown,
+    );
+    assert.equal(outcome.blocks.length, 3);
+    assert.deepEqual(outcome.blocks.filter((b) => b.error || b.changed), [], 'run `node dist/cli.js report demo/report.md`');
+    assert.equal(outcome.text, text);
+  });
 });
