@@ -12,6 +12,7 @@ const parts: BenchPart[] = [
   require('./distribution').distributionBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./postgres').postgresBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./exact').exactBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./extension').extensionBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
 async function main(): Promise<void> {

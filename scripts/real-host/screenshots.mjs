@@ -12,8 +12,10 @@ const themes = [
   { name: 'dark', theme: 'Default Dark Modern', scheme: 'dark' },
   { name: 'high-contrast', theme: 'Default High Contrast', scheme: 'dark' },
 ];
-const only = process.argv.slice(2);
-const media = join(repoRoot, 'media');
+// Screenshots go to media/ (for the README) only with --update-media; a plain test run keeps them in a temp folder.
+const update = process.argv.includes('--update-media');
+const only = process.argv.slice(2).filter((a) => !a.startsWith('--'));
+const media = update ? join(repoRoot, 'media') : join(tmpdir(), 'countercheck-screenshots');
 mkdirSync(media, { recursive: true });
 
 let passing = 0;
