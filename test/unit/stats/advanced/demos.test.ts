@@ -1,0 +1,50 @@
+// Every demo spec in demo/advanced runs through runSpec (the path of the command line and the editor) and agrees
+// with R on the same data (test/fixtures/R/advanced.json, "demos", written by scripts/fixtures/advanced.R).
+import { strict as assert } from 'node:assert';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { runSpec } from '../../../../src/spec/run';
+import { loadSpecText } from '../../../../src/spec/validate';
+import type { PowerResult, TestResult } from '../../../../src/stats/result';
+import { closeTo, fixture } from './check';
+
+interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[] }
+const R = fixture<{ rVersion: string; demos: Demo[] }>('R', 'advanced');
+const folder = join(__dirname, '..', '..', '..', '..', 'demo', 'advanced');
+const files = readdirSync(folder).filter((f) => f.endsWith('.countercheck.json')).sort();
+
+describe('demo specs of the advanced procedures (demo/advanced)', () => {
+  it('has an R reference for every demo spec, and a demo for every advanced test', () => {
+    assert.deepEqual(R.demos.map((d) => d.file).sort(), files);
+    const tests = new Set(files.map((f) => (JSON.parse(readFileSync(join(folder, f), 'utf8')) as { test: string }).test));
+    for (const t of ['paired', 'stratified', 'trend', 'power', 'distribution-fit', 'post-hoc', 'independence', 'goodness-of-fit']) assert.ok(tests.has(t), `a demo for ${t}`);
+  });
+
+  for (const file of files) {
+    it(`${file} runs and agrees with R ${R.rVersion.split(' ')[2]}`, async () => {
+      const text = readFileSync(join(folder, file), 'utf8');
+      const { spec } = loadSpecText(text, file);
+      const ref = R.demos.find((d) => d.file === file)!;
+      const data = spec.table ?? spec.strata ?? spec.values ?? spec.observed;
+      if (ref.data !== undefined) assert.deepEqual(data, ref.data, 'the demo and the R script use the same data');
+      const { result } = await runSpec(spec, { readers: { aggregateFile: () => Promise.reject(new Error('inline data only')) }, specPath: join(folder, file) });
+      if (result.kind === 'power') {
+        const p = result as PowerResult;
+        if (ref.n !== undefined) assert.equal(p.n, ref.n);
+        closeTo(p.power, ref.power!, 1e-9, 'power (R pchisq/qchisq)', file);
+        return;
+      }
+      const r = result as TestResult;
+      if (r.details?.method === 'monte-carlo') {
+        const se = r.details.monteCarloStandardError as number;
+        assert.ok(Math.abs(r.pValue.value - ref.pValue!) <= 4 * se, `Monte Carlo ${r.pValue.value} vs exact ${ref.pValue} (R enumeration), 4 SE = ${4 * se}`);
+        return;
+      }
+      if (ref.statistic !== undefined) closeTo(r.statistic, ref.statistic, 1e-10, 'statistic', file);
+      if (ref.pValue !== undefined) closeTo(r.pValue.value, ref.pValue, 1e-9, 'p-value', file);
+      if (ref.df !== undefined) assert.equal(r.df, ref.df);
+      if (ref.oddsRatio !== undefined) closeTo(r.estimates[0].value, ref.oddsRatio, 1e-12, 'common odds ratio', file);
+      if (ref.cellHolm !== undefined) ref.cellHolm.forEach((p, k) => closeTo(r.otherStatistics[k].pValue.value, p, 1e-9, `cell ${k} Holm p`, file));
+    });
+  }
+});
