@@ -48,7 +48,13 @@ export class SqlCancelledError extends Error {
 function tlsOptions(c: ResolvedConnection): ClientConfig['ssl'] {
   if (c.sslmode === 'disable') return false;
   const options: ConnectionOptions = { rejectUnauthorized: c.sslmode !== 'require' };
-  if (c.sslrootcert && c.sslmode !== 'require') options.ca = readFileSync(c.sslrootcert, 'utf8');
+  if (c.sslrootcert && c.sslmode !== 'require') {
+    try {
+      options.ca = readFileSync(c.sslrootcert, 'utf8');
+    } catch (e) {
+      throw new InputError(`connection "${c.name}": cannot read sslrootcert ${c.sslrootcert} (${(e as Error).message})`, { jsonPath: '$.source.sql.connection' }, 'sql-connection-tls');
+    }
+  }
   // verify-ca: the chain must be trusted, the host name need not match.
   if (c.sslmode === 'verify-ca') options.checkServerIdentity = () => undefined;
   return options;
@@ -223,7 +229,7 @@ export function explainError(e: unknown, c: ResolvedConnection, timeoutMs: numbe
       return make(`${on}: the server ended the connection while the query ran (${server}); nothing was left open on the client, try again when the server is back`, 'sql-connection-lost');
   }
   const sysCode = (e as { code?: string }).code;
-  if (sysCode === 'ECONNREFUSED' || sysCode === 'ENOTFOUND' || sysCode === 'EHOSTUNREACH' || sysCode === 'ETIMEDOUT') {
+  if (sysCode === 'ECONNREFUSED' || sysCode === 'ENOTFOUND' || sysCode === 'EAI_AGAIN' || sysCode === 'EHOSTUNREACH' || sysCode === 'ENETUNREACH' || sysCode === 'ETIMEDOUT') {
     return make(`${on}: cannot reach the server (${sysCode}); is it running and listening on ${c.host}:${c.port}?`, 'sql-unreachable');
   }
   if (/timeout expired|Connection terminated due to connection timeout/i.test(server)) {

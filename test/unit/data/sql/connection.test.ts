@@ -1,6 +1,7 @@
 // Named connections: settings, environment connection strings and the standard PG* variables.
 import { strict as assert } from 'node:assert';
 import { InputError } from '../../../../src/errors';
+import { clientConfig } from '../../../../src/data/sql/client';
 import { connectionEnvName, describeConnection, resolveConnection } from '../../../../src/data/sql/connection';
 
 describe('SQL connections', () => {
@@ -42,5 +43,22 @@ describe('SQL connections', () => {
     assert.throws(() => resolveConnection('a', { a: { sslmode: 'prefer' as never } }, {}), /TLS mode "prefer" is not one of disable, require, verify-ca, verify-full/);
     assert.throws(() => resolveConnection('a', { a: { port: 70000 } }, {}), /port 70000 is not a TCP port number/);
     assert.throws(() => resolveConnection('a', undefined, { COUNTERCHECK_CONNECTION_A: 'mysql://x' }), /expected postgresql:\/\//);
+  });
+});
+
+describe('SQL client configuration', () => {
+  it('refuses an unreadable sslrootcert with the connection and the file named', () => {
+    const c = resolveConnection('vault', { vault: { host: 'db.example', sslmode: 'verify-full', sslrootcert: '/nonexistent/ca.pem' } }, {});
+    assert.throws(() => clientConfig(c), (e: unknown) => e instanceof InputError && e.code === 'sql-connection-tls' && /connection "vault": cannot read sslrootcert \/nonexistent\/ca\.pem/.test(e.message));
+  });
+
+  it('verifies the server certificate by default, and skips only the host name for verify-ca', () => {
+    const full = clientConfig(resolveConnection('a', { a: { host: 'db.example' } }, {}));
+    assert.deepEqual(full.ssl, { rejectUnauthorized: true });
+    const ca = clientConfig(resolveConnection('a', { a: { host: 'db.example', sslmode: 'verify-ca' } }, {})).ssl as { rejectUnauthorized: boolean; checkServerIdentity: () => undefined };
+    assert.equal(ca.rejectUnauthorized, true);
+    assert.equal(typeof ca.checkServerIdentity, 'function');
+    assert.deepEqual(clientConfig(resolveConnection('a', { a: { host: 'db.example', sslmode: 'require' } }, {})).ssl, { rejectUnauthorized: false });
+    assert.equal(clientConfig(resolveConnection('a', { a: { host: '127.0.0.1' } }, {})).ssl, false);
   });
 });
