@@ -23,7 +23,7 @@ import type { Notice, Probability, StatisticLine } from './result';
 export interface FisherExactOptions {
   /**
    * Upper limit on the work (paths examined). Beyond it the computation stops and reports `completed: false`
-   * so that the caller can switch to Monte Carlo. Default 2e7 (a few seconds at most).
+   * so that the caller can switch to Monte Carlo. Default 5e6 (about a second).
    */
   readonly workLimit?: number;
 }
@@ -38,7 +38,7 @@ export interface FisherExactOutcome {
   readonly work: number;
 }
 
-const DEFAULT_WORK_LIMIT = 2e7;
+const DEFAULT_WORK_LIMIT = 5e6;
 const LOG_TIE_TOLERANCE = Math.log1p(1e-7);
 const LN10 = Math.LN10;
 
@@ -274,17 +274,22 @@ export interface ExactIndependenceOptions {
  */
 export function exactIndependence(table: readonly (readonly number[])[], options: ExactIndependenceOptions = {}): ResamplingResult {
   const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
-  const outcome = fisherExactRxC(counts, { workLimit: options.workLimit });
-  const df = (counts.length - 1) * (counts[0].length - 1);
-  if (!outcome.completed) {
-    const mc = monteCarloIndependence(counts, { ...options.fallback, statistic: 'probability' });
-    const notice: Notice = {
-      code: 'exact-too-large',
-      severity: 'info',
-      message: `The exact computation for this ${counts.length}×${counts[0].length} table (n = ${counts.flat().reduce((a, b) => a + b, 0)}) would exceed its work limit, so a Monte Carlo p-value of the same test was computed instead (${mc.details.resamples} resamples).`,
-    };
-    return { line: mc.line, notices: [notice, ...mc.notices], details: { ...mc.details, exactAttempted: true, exactWork: outcome.work } };
-  }
+  const exact = tryExactIndependence(counts, options.workLimit);
+  if (exact !== null) return exact;
+  const mc = monteCarloIndependence(counts, { ...options.fallback, statistic: 'probability' });
+  const notice: Notice = {
+    code: 'exact-too-large',
+    severity: 'info',
+    message: `The exact computation for this ${counts.length}×${counts[0].length} table (n = ${counts.flat().reduce((a, b) => a + b, 0)}) would exceed its work limit, so a Monte Carlo p-value of the same test was computed instead (${mc.details.resamples} resamples).`,
+  };
+  return { line: mc.line, notices: [notice, ...mc.notices], details: { ...mc.details, exactAttempted: true } };
+}
+
+/** Fisher's exact test as a result line, or null when it would exceed the work limit. */
+export function tryExactIndependence(table: readonly (readonly number[])[], workLimit?: number): ResamplingResult | null {
+  const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
+  const outcome = fisherExactRxC(counts, { workLimit });
+  if (!outcome.completed) return null;
   const line: StatisticLine = {
     id: 'fisher-exact',
     name: counts.length === 2 && counts[0].length === 2 ? "Fisher's exact test" : "Fisher's exact test (Fisher–Freeman–Halton)",
@@ -294,6 +299,7 @@ export function exactIndependence(table: readonly (readonly number[])[], options
     pValue: outcome.pValue!,
     note: 'Two-sided: the total probability of the tables with the observed margins that are no more probable than the observed one.',
   };
+  const df = (counts.length - 1) * (counts[0].length - 1);
   return {
     line,
     notices: [],
@@ -310,7 +316,7 @@ export interface ExactFitOptions {
 }
 
 /** Number of ways to put n units in k categories, C(n + k − 1, k − 1), as a double. */
-function outcomeCount(n: number, k: number): number {
+export function outcomeCount(n: number, k: number): number {
   let count = 1;
   for (let i = 1; i < k; i++) count = (count * (n + i)) / i;
   return count;

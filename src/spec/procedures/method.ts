@@ -4,7 +4,7 @@
  * and the asymptotic one stays beside it.
  */
 import { describeAlpha, describeP } from '../../stats/assumptions';
-import { exactIndependence, exactMultinomialFit } from '../../stats/exact';
+import { exactIndependence, exactMultinomialFit, outcomeCount, tryExactIndependence } from '../../stats/exact';
 import { DEFAULT_RESAMPLES, monteCarloFit, monteCarloIndependence, type ResamplingResult, type ResamplingStatistic } from '../../stats/montecarlo';
 import { DEFAULT_SEED } from '../../stats/random';
 import type { StatisticLine, TestResult } from '../../stats/result';
@@ -18,7 +18,7 @@ export interface MethodControl {
 /** Applies the spec's "method" to an asymptotic goodness-of-fit or independence result. */
 export function applyMethod(result: TestResult, spec: SpecV1, control: MethodControl = {}): TestResult {
   const method = spec.method ?? 'asymptotic';
-  if (method === 'asymptotic') return result;
+  if (method === 'asymptotic') return spec.method === undefined ? withExactBeside(result, spec) : result;
   const statistic: ResamplingStatistic = spec.statistic ?? 'pearson';
   const mc = {
     resamples: spec.resamples ?? DEFAULT_RESAMPLES,
@@ -68,5 +68,37 @@ function merge(result: TestResult, resampled: ResamplingResult, method: 'exact' 
     otherStatistics: [line, asymptotic, ...result.otherStatistics],
     notices: [...result.notices, ...resampled.notices],
     details: { ...result.details, method: actual === 'exact' ? 'exact' : 'monte-carlo', requestedMethod: method, resampling: resampled.details, ...(line.standardError !== undefined ? { monteCarloStandardError: line.standardError } : {}) },
+  };
+}
+
+/** Work allowed for the exact p-value shown unasked beside the chi-square one (well under a second). */
+const BESIDE_WORK = 1e6;
+const BESIDE_OUTCOMES = 2e5;
+
+/**
+ * When the expected-count rule fails and no method was chosen, the exact p-value is added beside the
+ * asymptotic one (if it is quick to compute), so the reader sees both without asking.
+ */
+function withExactBeside(result: TestResult, spec: SpecV1): TestResult {
+  if (!result.notices.some((n) => n.code === 'small-expected')) return result;
+  let exact: ResamplingResult | null = null;
+  if (result.grid && !(result.grid.observed.length === 2 && result.grid.observed[0].length === 2)) {
+    exact = tryExactIndependence(result.grid.observed, BESIDE_WORK);
+  } else if (result.categories) {
+    const observed = result.categories.map((c) => c.observed);
+    const n = observed.reduce((a, b) => a + b, 0);
+    if (outcomeCount(n, observed.length) <= BESIDE_OUTCOMES) {
+      exact = exactMultinomialFit(observed, result.categories.map((c) => c.expected), { statistic: spec.statistic ?? 'pearson', lambda: spec.lambda });
+    }
+  }
+  if (exact === null) return result;
+  return {
+    ...result,
+    otherStatistics: [...result.otherStatistics, exact.line],
+    notices: [
+      ...result.notices,
+      { code: 'exact-beside', severity: 'info', message: `Expected counts are small, so the exact p-value (${describeP(exact.line.pValue)}) is shown beside the chi-square one; set "method": "exact" to make it the main result.` },
+    ],
+    details: { ...result.details, exactBeside: exact.details },
   };
 }

@@ -64,6 +64,14 @@ describe('specs for the advanced procedures', () => {
     assert.equal(r.df, 9);
   });
 
+  it('without "method", small expected counts bring the exact p-value beside the chi-square one (R fisher.test)', async () => {
+    const c = R.fisher.find((f) => f.name === 't3x3')!;
+    const r = (await run({ test: 'independence', table: c.table })) as TestResult;
+    const exact = r.otherStatistics.find((l) => l.id === 'fisher-exact')!;
+    closeTo(exact.pValue.value, c.pValue, 1e-9, 'exact p beside', c.table);
+    assert.ok(r.notices.some((n) => n.code === 'exact-beside'));
+  });
+
   it('"method": "monte-carlo" with a seed is reproducible and within 4 SE of the exact permutation p (R enumeration)', async () => {
     const c = R.permutation2xc[2];
     const spec = { test: 'independence', table: c.table, method: 'monte-carlo', resamples: 20000, seed: 7 };
