@@ -36,6 +36,10 @@ export interface CliIo {
   readonly now?: () => Date;
   /** Readers (tests may pass fakes); default: the file readers and the SQL reader. */
   readonly readers?: SpecReaders;
+  /** Aborted on Ctrl-C: a long read stops and the command exits 2. */
+  readonly signal?: AbortSignal;
+  /** Receives a one-line progress message for long reads (a terminal shows it in place). */
+  readonly progress?: (line: string) => void;
 }
 
 export const HELP = `countercheck ${VERSION}: chi-square procedures from saved test specs (*.countercheck.json)
@@ -100,9 +104,19 @@ function parseArgs(args: readonly string[]): { command?: string; files: string[]
   return { command, files, flags, help, version };
 }
 
-function defaultReaders(): SpecReaders {
+function defaultReaders(io: CliIo): SpecReaders {
   return {
-    aggregateFile: (file, request, options, control) => aggregateFile(file, request, options, { signal: control.signal }),
+    aggregateFile: (file, request, options, control) =>
+      aggregateFile(file, request, options, {
+        signal: control.signal,
+        onProgress: io.progress
+          ? (p) => {
+              if (p.totalBytes <= 32 * 1024 * 1024) return;
+              if (p.bytesRead >= p.totalBytes) io.progress!('');
+              else io.progress!(`reading ${options.file ?? file}: ${Math.round((100 * p.bytesRead) / p.totalBytes)}%, ${p.rows.toLocaleString('en-US')} records`);
+            }
+          : undefined,
+      }),
     aggregateSql: sqlSpecReader({}),
   };
 }
@@ -139,7 +153,8 @@ async function loadSpec(file: string, io: CliIo): Promise<Loaded> {
 async function runLoaded(loaded: Loaded, io: CliIo, flags: Flags): Promise<SpecRun> {
   try {
     return await runSpec(loaded.spec, {
-      readers: io.readers ?? defaultReaders(),
+      readers: io.readers ?? defaultReaders(io),
+      signal: io.signal,
       specPath: loaded.absolute,
       allowedRoot: allowedRootFor(loaded.absolute, io),
       allowOutsideRoot: flags.allowOutside,
@@ -251,7 +266,8 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
     const outcome = await refreshReport(text, async (block) => {
       const { markdown } = await runReportBlock(block, {
         reportPath: absolute,
-        readers: io.readers ?? defaultReaders(),
+        readers: io.readers ?? defaultReaders(io),
+        signal: io.signal,
         readText: (f) => readFile(f, 'utf8'),
         allowedRoot: allowedRootFor(absolute, io),
         allowOutsideRoot: flags.allowOutside,
@@ -319,11 +335,25 @@ async function readAll(stream: NodeJS.ReadableStream): Promise<string> {
 
 // Run when executed as a program: `node dist/cli.js …` or through bin/countercheck.js.
 if (require.main === module || /[\\/]bin[\\/]countercheck(\.js)?$/.test(require.main?.filename ?? '')) {
+  const interrupt = new AbortController();
+  process.once('SIGINT', () => interrupt.abort());
+  let progressShown = false;
   main(process.argv.slice(2), {
     stdout: (t) => process.stdout.write(t),
-    stderr: (t) => process.stderr.write(t),
+    stderr: (t) => {
+      if (progressShown) process.stderr.write('\r\x1b[K');
+      progressShown = false;
+      process.stderr.write(t);
+    },
     readStdin: () => readAll(process.stdin),
     cwd: process.cwd(),
+    signal: interrupt.signal,
+    progress: process.stderr.isTTY
+      ? (line) => {
+          process.stderr.write(`\r\x1b[K${line}`);
+          progressShown = line !== '';
+        }
+      : undefined,
   }).then(
     (code) => {
       process.exitCode = code;

@@ -42,7 +42,7 @@ export function formatCount(x: number, decimals = DEFAULT_FORMAT.decimals): stri
 
 /** Degrees of freedom: whole numbers as they are, fractional ones with up to the given decimals. */
 export function formatDf(df: number, decimals = DEFAULT_FORMAT.decimals): string {
-  return Number.isInteger(df) ? String(df) : String(Number(df.toFixed(decimals)));
+  return Number.isInteger(df) ? formatCount(df) : String(Number(df.toFixed(decimals)));
 }
 
 /** "3.2 × 10^-5" with `significant` significant digits. */

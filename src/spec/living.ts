@@ -39,6 +39,7 @@ export function describeRunError(e: unknown, file: string, located?: LocatedJson
     const prefix = jsonPath && !e.message.startsWith(jsonPath) ? `${jsonPath}: ` : '';
     return `${where}: ${prefix}${e.message}`;
   }
+  if (e instanceof Error && e.name === 'AbortError') return `${file}: cancelled`;
   return `${file}: ${e instanceof Error ? e.message : String(e)}`;
 }
 

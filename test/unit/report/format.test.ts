@@ -18,6 +18,7 @@ describe('report number formatting', () => {
     assert.equal(formatApaLine('X²', 0.470024, 3, 556, p(0.9254)), 'χ²(3, N = 556) = 0.47, p = .925');
     assert.equal(formatApaLine('G²', 25.37, 1, 22071, p(4.7e-7)), 'G²(1, N = 22,071) = 25.37, p < .001');
     assert.equal(formatApaLine('χ²', 29.07, 19, null, p(0.13)), 'χ²(19) = 29.07, p = .130');
+    assert.equal(formatApaLine('X²', 3705082.03, 3999999, 4000000, p(0)), 'χ²(3,999,999, N = 4,000,000) = 3,705,082.03, p < .001');
     assert.equal(formatApaLine('z', 4.07, null, 177, p(0.0000477)), 'z = 4.07, p < .001');
   });
 
