@@ -28,7 +28,7 @@ export interface FileReadControl {
   readonly onProgress?: (progress: ReadProgress) => void;
   /** `auto` (default): the byte scanner where it applies; `csv-parse`: always the general reader. */
   readonly engine?: 'auto' | 'csv-parse';
-  /** Read buffer size in bytes (default 1 MiB). */
+  /** Read size in bytes (default 1 MiB for the byte scanner, 64 KiB for csv-parse, whose memory grows with it). */
   readonly chunkSize?: number;
 }
 
@@ -204,7 +204,7 @@ async function parseStream(
       for (const a of aggregators ?? []) a.push(fields, line);
     },
   );
-  const chunkSize = control.chunkSize ?? 1 << 20;
+  const chunkSize = control.chunkSize ?? 1 << 16;
   async function* decoded(): AsyncGenerator<string> {
     const decode = decoderFor(opened.encoding);
     const buf = new Uint8Array(chunkSize);
@@ -225,17 +225,29 @@ async function parseStream(
       if (final) return;
     }
   }
-  const parser = parse(csvParseOptions(opened.dialect));
+  const parser = parse(csvParseOptions(opened.dialect, false));
   const source = Readable.from(decoded());
-  source.on('error', (e) => parser.destroy(e));
-  source.pipe(parser);
-  try {
-    for await (const { record, info } of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>)
-      sink.accept(record, recordStartLine(info.lines, record));
-  } catch (e) {
-    source.destroy();
-    return csvParseFailure(e, { file }, 0);
-  }
+  await new Promise<void>((resolve, reject) => {
+    const stop = (e: unknown) => {
+      source.unpipe(parser);
+      source.destroy();
+      parser.destroy();
+      reject(e);
+    };
+    source.on('error', stop);
+    parser.on('error', stop);
+    // In flowing mode each record arrives while csv-parse is at its end, so the parser's running
+    // line count is the record's last line (what `info: true` would say, without an object per record).
+    parser.on('data', (record: string[]) => {
+      try {
+        sink.accept(record, recordStartLine(parser.info.lines, record));
+      } catch (e) {
+        stop(e);
+      }
+    });
+    parser.on('end', resolve);
+    source.pipe(parser);
+  }).catch((e: unknown) => csvParseFailure(e, { file }, 0));
   return aggregators;
 }
 

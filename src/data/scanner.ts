@@ -400,16 +400,6 @@ export class ByteScanner {
       );
     }
     const line = this.line;
-    const used = this.starts.length;
-    // Trim each used field once.
-    for (let u = 0; u < used; u++) {
-      let a = this.starts[u];
-      let b = this.ends[u];
-      while (a < b && (buf[a] === SPACE || buf[a] === TAB)) a++;
-      while (b > a && (buf[b - 1] === SPACE || buf[b - 1] === TAB)) b--;
-      this.starts[u] = a;
-      this.ends[u] = b;
-    }
     const parts = this.parts as Part[];
     for (let p = 0; p < parts.length; p++) {
       const part = parts[p];
@@ -423,17 +413,12 @@ export class ByteScanner {
       for (let q = 0; q < slots.length; q++) {
         const slot = slots[q];
         const u = slot.field;
-        const a = this.starts[u];
-        const b = this.ends[u];
+        let a = this.starts[u];
+        let b = this.ends[u];
+        while (a < b && (buf[a] === SPACE || buf[a] === TAB)) a++;
+        while (b > a && (buf[b - 1] === SPACE || buf[b - 1] === TAB)) b--;
         if (slot.role === CATEGORY_ROLE) {
-          let hash = 0x811c9dc5 | 0;
-          for (let k = a; k < b; k++) hash = Math.imul(hash ^ buf[k], 0x01000193);
-          const interner = slot.interner as ByteInterner;
-          let code = interner.find(buf, a, b, hash);
-          if (code === undefined) {
-            code = (slot.code as (label: string, line: number) => number)(this.text(buf, a, b, u), line);
-            interner.add(buf, a, b, hash, code);
-          }
+          const code = this.category(slot, buf, a, b, u, line);
           if (code === MISSING) missing = true;
           this.codes[c++] = code;
         } else {
@@ -452,6 +437,18 @@ export class ByteScanner {
       else if (part.kind === KIND_NUMERIC) aggregator.addValue(value);
       else aggregator.addCell(this.codes[0], part.kind === KIND_CROSSTAB ? this.codes[1] : 0, weight);
     }
+  }
+
+  /** The category code of a field's bytes: a hash-table hit, or a new label decoded and coded once. */
+  private category(slot: SlotState, buf: Uint8Array, a: number, b: number, u: number, line: number): number {
+    let hash = 0x811c9dc5 | 0;
+    for (let k = a; k < b; k++) hash = Math.imul(hash ^ buf[k], 0x01000193);
+    const interner = slot.interner as ByteInterner;
+    const known = interner.find(buf, a, b, hash);
+    if (known !== undefined) return known;
+    const code = (slot.code as (label: string, line: number) => number)(this.text(buf, a, b, u), line);
+    interner.add(buf, a, b, hash, code);
+    return code;
   }
 
   private text(buf: Uint8Array, a: number, b: number, u: number): string {

@@ -157,7 +157,7 @@ describe('data: files', () => {
       it(`refuses a ragged record by line, never shifting columns (${engine})`, async () => {
         const path = scratchFile('ragged.csv', 'route,class\nA,x\nB\nC,y\n');
         await rejectsInput(
-          () => aggregateFile(path, FERRY.records, { file: 'ragged.csv' }, { engine }),
+          () => aggregateFile(path, FERRY.records, { file: 'ragged.csv' }, { engine, chunkSize: 5 }),
           'ragged.csv, line 3: expected 2 fields (as in the header on line 1), found 1; a record with another number of fields would shift the columns',
           'ragged-row',
         );
@@ -166,7 +166,7 @@ describe('data: files', () => {
         const lines = ['route,class,passengers', ...Array.from({ length: 810 }, (_, i) => `A,x,${i % 5}`), 'B,y,n/a'];
         const path = scratchFile('weights.csv', `${lines.join('\n')}\n`);
         await rejectsInput(
-          () => aggregateFile(path, FERRY.byPassengers, { file: 'weights.csv' }, { engine }),
+          () => aggregateFile(path, FERRY.byPassengers, { file: 'weights.csv' }, { engine, chunkSize: 64 }),
           'weights.csv, line 812, column `passengers`: expected a frequency weight (a non-negative whole number), found `n/a`',
           'bad-count',
         );
