@@ -16,7 +16,7 @@
 import { InputError } from '../errors';
 import { dropEmptyMargins, requireCountTable } from './advanced-common';
 import { LogSumAccumulator, logFactorialTable } from './discrete';
-import { checkFitInput, monteCarloFit, monteCarloIndependence, type MonteCarloOptions, type ResamplingResult, type ResamplingStatistic } from './montecarlo';
+import { MAX_RESAMPLING_TOTAL, checkFitInput, monteCarloFit, monteCarloIndependence, type MonteCarloOptions, type ResamplingResult, type ResamplingStatistic } from './montecarlo';
 import { probabilityFromLog } from './probability';
 import type { Notice, Probability, StatisticLine } from './result';
 
@@ -78,6 +78,7 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
   const columnTotals = t[0].map((_, j) => t.reduce((a, row) => a + row[j], 0)).sort((a, b) => b - a);
   const c = columnTotals.length;
   const n = rowTotals.reduce((a, b) => a + b, 0);
+  if (n > MAX_RESAMPLING_TOTAL) return { completed: false, logTableProbability: NaN, work: 0 };
   const lf = logFactorialTable(n);
   const keys = new NodeKeys(rowTotals.length, n);
 

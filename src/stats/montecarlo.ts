@@ -48,6 +48,19 @@ export interface MonteCarloOutcome {
 }
 
 export const DEFAULT_RESAMPLES = 100_000;
+/** Largest total count for resampling: the tables of ln k! it needs grow with n (8 bytes per unit). */
+export const MAX_RESAMPLING_TOTAL = 10_000_000;
+
+/** Refuses totals whose lookup tables would not fit in memory; at such sizes the chi-square approximation is the tool. */
+export function requireResamplingTotal(n: number): void {
+  if (n > MAX_RESAMPLING_TOTAL) {
+    throw new InputError(
+      `method: the total count ${n} is above ${MAX_RESAMPLING_TOTAL.toExponential(0)}, too large for exact or Monte Carlo p-values here; with counts this large the chi-square approximation is accurate unless some expected counts are tiny — use "asymptotic"`,
+      { jsonPath: '$.method' },
+      'too-large-for-resampling',
+    );
+  }
+}
 const Z_995 = 2.5758293035489004; // upper 0.5% point of the standard normal
 
 /** The statistic for a vector of counts (a flattened table) against fixed expected counts. */
@@ -278,6 +291,7 @@ export function monteCarloTable(table: readonly (readonly number[])[], options: 
   const rowTotals = table.map((row) => row.reduce((a, b) => a + b, 0));
   const columnTotals = table[0].map((_, j) => table.reduce((a, row) => a + row[j], 0));
   const n = rowTotals.reduce((a, b) => a + b, 0);
+  requireResamplingTotal(n);
   const expected: number[] = [];
   for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) expected.push((rowTotals[i] * columnTotals[j]) / n);
   const evaluate = statisticEvaluator(expected, options.statistic, n, options.lambda);
@@ -295,6 +309,7 @@ export function monteCarloTable(table: readonly (readonly number[])[], options: 
 /** Monte Carlo p-value for goodness of fit: multinomial samples of size Σobserved with the given probabilities. */
 export function monteCarloMultinomial(observed: readonly number[], probabilities: readonly number[], options: MonteCarloOptions): MonteCarloOutcome {
   const n = observed.reduce((a, b) => a + b, 0);
+  requireResamplingTotal(n);
   const k = observed.length;
   const pTotal = probabilities.reduce((a, b) => a + b, 0);
   const p = probabilities.map((x) => x / pTotal);

@@ -1,4 +1,5 @@
 import { strict as assert } from 'node:assert';
+import { InputError } from '../../../../src/errors';
 import { exactIndependence, exactMultinomialFit } from '../../../../src/stats/exact';
 import { monteCarloFit, monteCarloIndependence, type ResamplingStatistic } from '../../../../src/stats/montecarlo';
 import { Xoshiro128 } from '../../../../src/stats/random';
@@ -66,6 +67,12 @@ describe('Monte Carlo p-values', () => {
     const out = exactIndependence(c.table, { workLimit: 1e5, fallback: { resamples: 20000, seed: 3 } });
     assert.ok(out.notices.some((n) => n.code === 'exact-too-large'));
     withinFourSe(out.line.pValue.value, out.line.standardError!, c.pValue, `fallback MC vs fisher.test (${R.rVersion})`, c.table);
+  });
+
+  it('refuses totals too large for its lookup tables, with advice, instead of exhausting memory', () => {
+    const big = [[6e8, 4e8], [3e8, 7e8]];
+    assert.throws(() => monteCarloIndependence(big, { statistic: 'pearson', resamples: 10 }), (e: unknown) => e instanceof InputError && e.code === 'too-large-for-resampling');
+    assert.throws(() => exactIndependence(big), (e: unknown) => e instanceof InputError && /asymptotic/.test(e.message));
   });
 
   it('xoshiro128** gives uniform numbers in [0, 1) with a mean near ½', () => {
