@@ -9,7 +9,7 @@
  * - Probabilities outside [0, 1] (or log probabilities > 0) given to a quantile → NaN.
  */
 import {
-  gammaPrefactor,
+  gammaDensity,
   logGamma1p,
   logGammaPrefactor,
   logRegularizedGammaLower,
@@ -32,10 +32,8 @@ export function chiSquareDensity(x: number, df: number): number {
   if (df === 0) return x === 0 ? Infinity : 0;
   const a = df / 2;
   if (x === 0) return a < 1 ? Infinity : a === 1 ? 0.5 : 0;
-  // f(x) = (a/x) · (x/2)^a e^(−x/2) / Γ(a + 1).
-  const d = gammaPrefactor(a, x / 2);
-  if (d > 0 && x > 1e-300) return (d * a) / x;
-  return Math.exp(logGammaPrefactor(a, x / 2) + Math.log(a) - Math.log(x));
+  // f(x) = ½ g(x/2), g the gamma(a, 1) density.
+  return 0.5 * gammaDensity(a, x / 2);
 }
 
 /** P(X ≤ x) for X ~ χ²(df). */

@@ -5,6 +5,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { assertAbsolute, assertRelative } from './close';
 import {
+  chiSquareDensity,
   chiSquareLogLowerTail,
   chiSquareLogUpperTail,
   chiSquareLowerTail,
@@ -53,7 +54,7 @@ function assertLog(got: number, expected: number, tol: number, input: string): v
   else assertRelative(got, expected, tol, input);
 }
 
-interface TailPoint { df: number; x: number; lower: Num; upper: Num; lnLower: Num; lnUpper: Num }
+interface TailPoint { df: number; x: number; lower: Num; upper: Num; lnLower: Num; lnUpper: Num; density: Num }
 interface QuantilePoint { df: number; tail: 'lower' | 'upper' | 'upper-log'; p?: number; lnP?: number; x: number }
 
 // The worst relative error measured per region (docs/ACCURACY.md), rounded up, is what each region
@@ -84,6 +85,14 @@ describe('chi-square tails against mpmath (50 digits)', () => {
         const got = side === 'lower' ? chiSquareLowerTail(pt.x, pt.df) : chiSquareUpperTail(pt.x, pt.df);
         assertProbability(got, expected, tailTolerance(pt.df, expected), `${side} tail x=${pt.x} df=${pt.df}`);
       }
+    }
+  });
+
+  it('matches the density (worst measured 2.1e-14, in the far tails of large df)', () => {
+    for (const pt of points) {
+      const expected = num(pt.density);
+      const tol = pt.df < 1e4 ? 1e-14 : 3e-14; // measured 7e-15 and 2.1e-14
+      assertProbability(chiSquareDensity(pt.x, pt.df), expected, tol, `density x=${pt.x} df=${pt.df}`);
     }
   });
 
