@@ -32,7 +32,7 @@ export interface BlockRun {
 export function describeRunError(e: unknown, file: string, located?: LocatedJson): string {
   if (e instanceof SpecError) return e.message;
   if (isInputError(e)) {
-    const jsonPath = e.location.jsonPath;
+    const jsonPath = e.location.jsonPath ?? sourceColumnPath(e.code, e.location.column ?? /found no column `([^`]+)`/.exec(e.message)?.[1], located);
     const at = located && jsonPath ? locatePath(located, jsonPath) : undefined;
     // A data error names its own file, line and column in the message; the spec file goes in front.
     const where = at ? `${file}:${at.line}:${at.column}` : file;
@@ -41,6 +41,15 @@ export function describeRunError(e: unknown, file: string, located?: LocatedJson
   }
   if (e instanceof Error && e.name === 'AbortError') return `${file}: cancelled`;
   return `${file}: ${e instanceof Error ? e.message : String(e)}`;
+}
+
+/** For a column the data lacks, the place in the spec that names it ($.source.columns[i] or $.source.weight). */
+function sourceColumnPath(code: string, column: string | undefined, located: LocatedJson | undefined): string | undefined {
+  if (code !== 'unknown-column' || column === undefined || !located) return undefined;
+  const source = (located.value as { source?: { columns?: unknown; weight?: unknown } } | null)?.source;
+  const index = Array.isArray(source?.columns) ? source.columns.indexOf(column) : -1;
+  if (index >= 0) return `$.source.columns[${index}]`;
+  return source?.weight === column ? '$.source.weight' : undefined;
 }
 
 export async function runReportBlock(block: ReportBlock, options: BlockRunOptions): Promise<BlockRun> {

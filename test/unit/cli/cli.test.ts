@@ -118,6 +118,13 @@ describe('command line', function () {
     assert.match(out.stderr, /^shifts\.countercheck\.json: data\/shifts\.csv, line 3, column `count`: .*found `n\/a`/);
   });
 
+  it('a column the data lacks is pointed at in the spec', async () => {
+    write('nocol.countercheck.json', '{"test": "goodness-of-fit",\n "source": {"path": "data/sorting.csv", "columns": ["result"]}}');
+    const out = await cli(['run', 'nocol.countercheck.json']);
+    assert.equal(out.code, 2);
+    assert.match(out.stderr, /^nocol\.countercheck\.json:2:53: \$\.source\.columns\[0\]: .*found no column `result`; the columns are `batch`, `outcome`/);
+  });
+
   it('a source path leading out of the folder is refused unless allowed', async () => {
     write('escape.countercheck.json', '{"test": "variance", "sigma0": 1, "source": {"path": "../elsewhere.csv", "columns": ["x"]}}');
     const out = await cli(['run', 'escape.countercheck.json']);
