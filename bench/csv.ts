@@ -5,6 +5,7 @@
 // runs a quick 1M-row version. Slow parsers run on the first 1,000,000 rows and are scaled (said so).
 import { spawnSync } from 'node:child_process';
 import { createReadStream, existsSync, mkdirSync, openSync, statSync, writeSync, closeSync, renameSync } from 'node:fs';
+import { cpus, loadavg } from 'node:os';
 import { join } from 'node:path';
 import { aggregateFileMany } from '../src/data/file';
 import type { Aggregate } from '../src/data/types';
@@ -127,6 +128,14 @@ async function child(candidate: string, path: string): Promise<Outcome> {
       return ours(path, 'auto');
     case 'csv-parse':
       return ours(path, 'csv-parse');
+    case 'csv-parse-bare': {
+      const { parse } = await import('csv-parse');
+      await streamed(path, parse({ from_line: 2 }), (r) => {
+        const row = r as string[];
+        tally.add(row[1], row[2], Number(row[3]));
+      });
+      return tally.outcome();
+    }
     case 'papaparse': {
       const Papa = (await import('papaparse')).default;
       await new Promise<void>((resolve, reject) => {
@@ -266,9 +275,14 @@ async function run(): Promise<void> {
   const prefix = dataPath(Math.min(rows, PREFIX_ROWS));
   const fullMb = statSync(full).size / 1e6;
   const scale = statSync(full).size / statSync(prefix).size;
-  console.log(`file: ${full} (${fullMb.toFixed(1)} MB, ${rows.toLocaleString('en')} rows); machine: ${process.platform}, node ${process.version}`);
+  console.log(
+    `file: ${full} (${fullMb.toFixed(1)} MB, ${rows.toLocaleString('en')} rows); node ${process.version}, ${cpus().length} cores, load average ${loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ')}`,
+  );
+  console.log('csv-parse-bare: csv-parse streaming into a Map; csv-parse: our general reader (csv-parse with line numbers, missing values, categories)');
   const results: Measured[] = [nodeCandidate('bare', full, 1), nodeCandidate('scanner', full, 1)];
-  for (const name of ['udsv', 'papaparse', 'csv-parser', 'fast-csv', 'csv-parse']) results.push(nodeCandidate(name, prefix, scale));
+  for (const name of ['udsv', 'papaparse', 'csv-parser', 'fast-csv', 'csv-parse-bare', 'csv-parse']) results.push(nodeCandidate(name, prefix, scale));
   const python = '/usr/bin/python3';
   if (existsSync(python)) results.push(measure('pandas+scipy', python, ['-c', PANDAS, full], process.env, 1));
   else console.log('pandas: unavailable (no /usr/bin/python3)');
