@@ -62,9 +62,13 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
     discordant: [b, c],
     uncorrected: chiSquareLine('mcnemar', 'McNemar chi-square', 'X²', uncorrected, 1),
     corrected: chiSquareLine('mcnemar-corrected', 'McNemar chi-square with continuity correction', 'X²', corrected, 1),
-    exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(low, m), `b = ${b} of ${m} discordant pairs, tested against ½`, b),
-    midP: pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', probabilityFromValue(midP), 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b),
+    exact: withSymbol(pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(low, m), `b = ${b} of ${m} discordant pairs, tested against ½`, b)),
+    midP: withSymbol(pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', probabilityFromValue(midP), 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b)),
   };
+}
+
+function withSymbol(line: StatisticLine): StatisticLine {
+  return { ...line, symbol: 'b' };
 }
 
 function exactBinomialProbability(low: number, m: number): ReturnType<typeof probabilityFromValue> {
@@ -114,7 +118,7 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
     {
       test: 'paired',
       procedure: method === 'asymptotic' ? `McNemar's test${options.correction ? ' with continuity correction' : ''}` : method === 'exact' ? "McNemar's test, exact binomial version" : "McNemar's test, mid-p version",
-      statisticSymbol: main.symbol || 'b',
+      statisticSymbol: main.symbol,
       statistic: main.statistic,
       df: main.df,
       n,

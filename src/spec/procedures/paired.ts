@@ -2,19 +2,21 @@
  * `"test": "paired"`: the same units classified twice. A 2×2 `"table"` gives McNemar's test (with the
  * continuity-corrected, exact binomial and mid-p versions beside it); a k×k table gives Bowker's test of symmetry.
  */
+import { InputError } from '../../errors';
 import { pairedTest } from '../../stats/paired';
 import type { TestResult } from '../../stats/result';
 import { arr, bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
+import type { RunContext, SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength } from './shared';
+import { CONFIDENCE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, requireLength, requireOneOf, sourceField } from './shared';
 
 export const pairedProcedure: ProcedureHandler = {
   test: 'paired',
   summary: "Paired classifications: McNemar's test for a 2×2 table, Bowker's test of symmetry for k×k (rows: first classification, columns: second).",
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
+    source: sourceField('Two categorical columns: the first classification and the second, one record per unit.', 2, 2),
     rowLabels: LABELS('categories (the same for rows and columns)'),
     columnLabels: LABELS('categories as columns (must equal "rowLabels" when both are given)'),
     correction: field(bool, "Use McNemar's continuity correction for the main chi-square (2×2). Default false; both versions are always reported."),
@@ -23,10 +25,9 @@ export const pairedProcedure: ProcedureHandler = {
   },
   validate(spec: SpecV1, path: string): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
-    if (!spec.table) {
-      problems.push({ path, message: 'missing data: give "table", a square table of counts' });
-      return problems;
-    }
+    requireOneOf(spec, path, ['table', 'source'], problems, false, 'missing data: give "table", a square table of counts, or a "source" with two columns');
+    checkSourceColumns(spec, path, [2], 'two columns (first classification, second classification)', problems);
+    if (!spec.table) return problems;
     const k = spec.table.length;
     spec.table.forEach((row, i) => {
       if (row.length !== k) problems.push({ path: childPath(childPath(path, 'table'), i), message: `row ${i + 1} has ${row.length} counts; a paired table is square, so every row needs ${k}` });
@@ -43,13 +44,40 @@ export const pairedProcedure: ProcedureHandler = {
     }
     return problems;
   },
-  async run(spec: SpecV1): Promise<TestResult> {
-    return pairedTest(spec.table!, {
+  async run(spec: SpecV1, ctx): Promise<TestResult> {
+    const data = spec.table ? { counts: spec.table, labels: spec.rowLabels ?? spec.columnLabels } : await squareFromSource(spec, ctx);
+    return pairedTest(data.counts, {
       alpha: spec.alpha,
       confidence: spec.confidence,
       correction: spec.correction,
       method: spec.method as 'asymptotic' | 'exact' | 'mid-p' | undefined,
-      labels: spec.rowLabels ?? spec.columnLabels,
+      labels: data.labels,
     });
   },
 };
+
+/**
+ * Cross-tabulates the two classification columns into a square table whose rows and columns list the same
+ * categories in the same order: the spec's labels, or the levels of the first column then any new ones of the second.
+ */
+async function squareFromSource(spec: SpecV1, ctx: RunContext): Promise<{ counts: number[][]; labels: string[] }> {
+  const [first, second] = spec.source!.columns!;
+  const given = spec.rowLabels ?? spec.columnLabels;
+  const { table } = await aggregateOf(ctx, { kind: 'crosstab', rowColumn: first, columnColumn: second, weight: spec.source!.weight }, 'table', given ? { rowLevels: given, columnLevels: given } : undefined);
+  const labels = given ? [...given] : [...table.rowLabels, ...table.columnLabels.filter((l) => !table.rowLabels.includes(l))];
+  const counts = labels.map(() => labels.map(() => 0));
+  table.rowLabels.forEach((r, i) =>
+    table.columnLabels.forEach((c, j) => {
+      const n = table.counts[i][j];
+      if (n === 0) return;
+      const ri = labels.indexOf(r);
+      const ci = labels.indexOf(c);
+      if (ri < 0 || ci < 0) {
+        const column = ri < 0 ? first : second;
+        throw new InputError(`column \`${column}\` has the level "${ri < 0 ? r : c}", which "rowLabels" does not list (${labels.map((l) => `"${l}"`).join(', ')})`, { jsonPath: '$.rowLabels', column }, 'unknown-level');
+      }
+      counts[ri][ci] += n;
+    }),
+  );
+  return { counts, labels };
+}

@@ -3,7 +3,9 @@
 import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { aggregateFile } from '../../../../src/data/file';
 import { runSpec } from '../../../../src/spec/run';
+import type { SpecReaders } from '../../../../src/spec/types';
 import { loadSpecText } from '../../../../src/spec/validate';
 import type { PowerResult, TestResult } from '../../../../src/stats/result';
 import { closeTo, fixture } from './check';
@@ -11,6 +13,7 @@ import { closeTo, fixture } from './check';
 interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[] }
 const R = fixture<{ rVersion: string; demos: Demo[] }>('R', 'advanced');
 const folder = join(__dirname, '..', '..', '..', '..', 'demo', 'advanced');
+const readers: SpecReaders = { aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }) };
 const files = readdirSync(folder).filter((f) => f.endsWith('.countercheck.json')).sort();
 
 describe('demo specs of the advanced procedures (demo/advanced)', () => {
@@ -27,7 +30,7 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       const ref = R.demos.find((d) => d.file === file)!;
       const data = spec.table ?? spec.strata ?? spec.values ?? spec.observed;
       if (ref.data !== undefined) assert.deepEqual(data, ref.data, 'the demo and the R script use the same data');
-      const { result } = await runSpec(spec, { readers: { aggregateFile: () => Promise.reject(new Error('inline data only')) }, specPath: join(folder, file) });
+      const { result } = await runSpec(spec, { readers, specPath: join(folder, file), allowedRoot: folder });
       if (result.kind === 'power') {
         const p = result as PowerResult;
         if (ref.n !== undefined) assert.equal(p.n, ref.n);
