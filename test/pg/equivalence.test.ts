@@ -144,7 +144,7 @@ describe('PostgreSQL and CSV give the same aggregates', function () {
       { dialect: { header: true, comment: null }, categories: { order: 'sorted' } },
     );
     const viaSql = await aggregateSql(
-      { sql: { connection: 'test', query: 'SELECT oven, defect, batch_size FROM bakery_log WHERE batch_size > $1' }, where: "defect <> 'NA'", parameters: [1] },
+      { sql: { connection: 'test', query: 'SELECT oven, defect, batch_size FROM bakery_log WHERE batch_size > $1' }, where: 'defect <> $2', parameters: [1, 'NA'] },
       { kind: 'crosstab', rowColumn: 'oven', columnColumn: 'defect' },
       server.context(),
     );

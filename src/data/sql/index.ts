@@ -15,6 +15,7 @@ import {
   describeStatement,
   parseTableName,
   planAggregate,
+  queryParameters,
   sourceName,
   type SqlAggregateOptions,
   type SqlSource,
@@ -67,7 +68,7 @@ const typeNames = new Map<number, string>([...numericTypes, [16, 'boolean'], [25
 
 /** Checks the requested columns against what the server says the source has, before aggregating. */
 async function checkColumns(session: SqlSession, source: SqlSource, columns: readonly string[], numericColumns: readonly string[]): Promise<void> {
-  const { fields } = await session.run(describeStatement(source), source.sql.query !== undefined ? source.parameters ?? [] : []);
+  const { fields } = await session.run(describeStatement(source), queryParameters(source));
   const byName = new Map(fields.map((f) => [f.name, f.dataTypeID]));
   const where = `${sourceName(source)} on connection "${source.sql.connection}"`;
   for (const column of columns) {
@@ -185,7 +186,7 @@ export async function listColumns(
       if (rows.length === 0) throw new InputError(`table ${parts.join('.')} was not found on connection "${connection.name}" (or has no columns you may read)`, { jsonPath: '$.source.sql.table' }, 'sql-unknown-table');
       return rows.map((r) => ({ name: String(r.column_name), type: String(r.data_type), numeric: r.numeric === true }));
     }
-    const { fields } = await s.run(describeStatement(source), source.parameters ?? []);
+    const { fields } = await s.run(describeStatement(source), queryParameters(source));
     return fields.map((f) => ({ name: f.name, type: typeNames.get(f.dataTypeID) ?? `oid ${f.dataTypeID}`, numeric: numericTypes.has(f.dataTypeID) }));
   });
   return value;

@@ -195,6 +195,20 @@ export function checkSqlSource(source: SqlSource): void {
       throw new InputError(`$${k} is used but "parameters" holds ${given} value${given === 1 ? '' : 's'}`, { jsonPath: '$.source.parameters' }, 'sql-parameters');
     }
   }
+  // The server needs a type for every parameter it is sent, which it infers from where the parameter is used.
+  for (let k = 1; k <= given; k++) {
+    if (!used.has(k)) {
+      throw new InputError(`"parameters" holds a value for $${k}, which neither "where" nor "query" uses`, { jsonPath: `$.source.parameters[${k - 1}]` }, 'sql-parameters');
+    }
+  }
+}
+
+/** The parameters the user's query itself uses (the rest belong to the `where` condition). */
+export function queryParameters(source: SqlSource): readonly (string | number | boolean | null)[] {
+  if (source.sql.query === undefined || !source.parameters) return [];
+  let highest = 0;
+  for (const t of tokenizeSql(source.sql.query, 'the query')) if (t.kind === 'parameter') highest = Math.max(highest, Number(t.text.slice(1)));
+  return source.parameters.slice(0, highest);
 }
 
 /** The FROM item for the source: a quoted table name or the user's SELECT as a subquery. */

@@ -132,6 +132,7 @@ describe('the SQL source', () => {
   it('checks that every $n has a parameter', () => {
     refuses(() => checkSqlSource({ ...table, where: 'shift = $2', parameters: ['night'] }), 'sql-parameters', /\$2 is used but "parameters" holds 1 value/);
     assert.doesNotThrow(() => checkSqlSource({ ...table, where: 'shift = $1', parameters: ['night'] }));
+    refuses(() => checkSqlSource({ ...table, where: 'shift = $2', parameters: ['night', 'late'] }), 'sql-parameters', /a value for \$1, which neither "where" nor "query" uses/);
   });
 
   it('describes a source without reading a row', () => {
