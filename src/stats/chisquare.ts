@@ -10,8 +10,9 @@
  */
 import {
   gammaDensity,
+  lastLogPrefactor,
+  logTailWithPrefactor,
   logGamma1p,
-  logGammaPrefactor,
   logRegularizedGammaLower,
   logRegularizedGammaUpper,
   regularizedGammaLower,
@@ -99,14 +100,14 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean): number {
   let lo = 0;
   let hi = Infinity;
   for (let iter = 0; iter < 100; iter++) {
-    const lnTail = upper ? logRegularizedGammaUpper(a, y) : logRegularizedGammaLower(a, y);
+    const lnTail = logTailWithPrefactor(a, y, upper);
     const g = lnTail - lnTarget;
     if (g === 0 || Number.isNaN(g)) return y;
     // The tail is decreasing in y for the upper tail, increasing for the lower tail.
     if ((g > 0) === upper) lo = y;
     else hi = y;
     // s = y · |d ln(tail)/dy| = a · prefactor / tail.
-    const s = Math.exp(lnA + logGammaPrefactor(a, y) - lnTail);
+    const s = Math.exp(lnA + lastLogPrefactor() - lnTail);
     let next: number;
     let relativeStep: number;
     if (upper) {

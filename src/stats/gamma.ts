@@ -566,3 +566,33 @@ export function logRegularizedGammaUpper(a: number, x: number): number {
       return Math.log(a) + logGammaPrefactor(a, x) + Math.log(upperContinuedFraction(a, x));
   }
 }
+
+let searchLogPrefactor = 0;
+
+/**
+ * For quantile searches: ln of the lower (upper = false) or upper tail of gamma(a, 1) at x > 0, with
+ * ln[x^a e^(−x)/Γ(a+1)] from the same evaluation left for lastLogPrefactor() (saves computing it twice).
+ */
+export function logTailWithPrefactor(a: number, x: number, upper: boolean): number {
+  const method = chooseMethod(a, x);
+  if (method === 'series' || method === 'fraction') {
+    logPrefactorParts(a, x);
+    const lnD = ddHi + ddLo;
+    const d = Math.exp(ddHi) * (1 + ddLo);
+    searchLogPrefactor = lnD;
+    if (method === 'series') {
+      const sum = lowerSeriesSum(a, x);
+      return upper ? Math.log1p(-d * sum) : lnD + Math.log(sum);
+    }
+    const h = upperContinuedFraction(a, x);
+    return upper ? Math.log(a) + lnD + Math.log(h) : Math.log1p(-a * d * h);
+  }
+  const lnTail = upper ? logRegularizedGammaUpper(a, x) : logRegularizedGammaLower(a, x);
+  searchLogPrefactor = logGammaPrefactor(a, x);
+  return lnTail;
+}
+
+/** The log prefactor of the last logTailWithPrefactor call. */
+export function lastLogPrefactor(): number {
+  return searchLogPrefactor;
+}
