@@ -91,16 +91,20 @@ async function cancelOnServer(c: ResolvedConnection, pid: number): Promise<void>
   }
 }
 
-function closeQuietly(client: Client): Promise<void> {
+async function closeQuietly(client: Client): Promise<void> {
   // end() waits for the server's goodbye; a dead socket would make it wait forever.
   const stream = (client as unknown as { connection?: { stream?: { destroy(): void } } }).connection?.stream;
-  return Promise.race([
+  let timer: NodeJS.Timeout | undefined;
+  await Promise.race([
     client.end().catch(() => undefined),
-    new Promise<void>((resolve) => setTimeout(() => {
-      stream?.destroy();
-      resolve();
-    }, 2_000).unref()),
+    new Promise<void>((resolve) => {
+      timer = setTimeout(() => {
+        stream?.destroy();
+        resolve();
+      }, 2_000);
+    }),
   ]);
+  clearTimeout(timer);
 }
 
 function traffic(client: Client): WireTraffic {
