@@ -109,7 +109,7 @@ export interface DivergenceOptions {
 export const DIVERGENCE_STATISTICS: readonly DivergenceStatistic[] = ['pearson', 'likelihood-ratio', 'cressie-read'];
 
 /** Validates the choice of statistic and λ, naming the field on error. */
-export function resolveStatistic(options: DivergenceOptions): { statistic: DivergenceStatistic; lambda: number } {
+export function resolveStatistic(options: DivergenceOptions): { statistic: DivergenceStatistic; lambda: number; cressieReadLambda: number } {
   const statistic = options.statistic ?? 'pearson';
   if (!DIVERGENCE_STATISTICS.includes(statistic)) {
     throw new InputError(`statistic: expected one of ${DIVERGENCE_STATISTICS.join(', ')}, found ${String(statistic)}`, { jsonPath: '$.statistic' }, 'invalid-statistic');
@@ -118,7 +118,9 @@ export function resolveStatistic(options: DivergenceOptions): { statistic: Diver
   if (typeof lambda !== 'number' || !Number.isFinite(lambda)) {
     throw new InputError(`lambda: expected a finite number, found ${String(options.lambda)}`, { jsonPath: '$.lambda' }, 'invalid-lambda');
   }
-  return { statistic, lambda };
+  // The Cressie–Read line shown beside the main statistic always uses the chosen λ (default 2/3),
+  // whatever the main statistic is; otherwise it would repeat Pearson (λ = 1) or G² (λ = 0).
+  return { statistic, lambda, cressieReadLambda: lambdaFor('cressie-read', options.lambda) };
 }
 
 export interface DivergenceLine {
@@ -127,16 +129,16 @@ export interface DivergenceLine {
   readonly contributions: readonly number[];
 }
 
-/** Pearson, likelihood-ratio and Cressie–Read (with the given λ) on the same counts, each with its p-value. */
+/** Pearson, likelihood-ratio and Cressie–Read (with its own λ) on the same counts, each with its p-value. */
 export function divergenceLines(
   observed: readonly number[],
   expected: readonly number[],
   df: number,
-  lambda: number,
+  cressieReadLambda: number,
   differences?: readonly number[],
 ): DivergenceLine[] {
   return DIVERGENCE_STATISTICS.map((s) => {
-    const l = lambdaFor(s, s === 'cressie-read' ? lambda : undefined);
+    const l = lambdaFor(s, s === 'cressie-read' ? cressieReadLambda : undefined);
     const { statistic, contributions } = powerDivergence(observed, expected, l, differences);
     return { id: s, line: { ...labelFor(s, l), statistic, df, pValue: chiSquareUpperProbability(statistic, df) }, contributions };
   });

@@ -26,7 +26,7 @@ type ExpectedSource = 'counts' | 'proportions' | 'ratios' | 'uniform';
 
 export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFitOptions = {}): TestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
-  const { statistic, lambda } = resolveStatistic(options);
+  const { statistic, lambda, cressieReadLambda } = resolveStatistic(options);
   const m = options.estimatedParameters ?? 0;
   if (!Number.isInteger(m) || m < 0) {
     throw new InputError(`estimatedParameters: expected a whole number ≥ 0, found ${String(m)}`, { jsonPath: '$.estimatedParameters' }, 'invalid-estimated-parameters');
@@ -88,7 +88,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
     );
   }
 
-  const lines = divergenceLines(observed, expected, df, lambda);
+  const lines = divergenceLines(observed, expected, df, cressieReadLambda);
   const main = lines.find((l) => l.id === statistic)!;
   const pearson = lines.find((l) => l.id === 'pearson')!;
   if (!Number.isFinite(main.line.statistic)) {

@@ -33,7 +33,7 @@ interface Prepared {
 export function independenceTest(table: readonly (readonly number[])[], options: IndependenceOptions = {}): TestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
-  const { statistic, lambda } = resolveStatistic(options);
+  const { statistic, lambda, cressieReadLambda } = resolveStatistic(options);
   const { counts, rowLabels, columnLabels, notices } = prepare(table, options);
   const r = counts.length;
   const c = counts[0].length;
@@ -50,7 +50,7 @@ export function independenceTest(table: readonly (readonly number[])[], options:
   const expectedFlat = expected.flat();
   const differenceFlat = differences.flat();
 
-  const lines: DivergenceLine[] = divergenceLines(observedFlat, expectedFlat, df, lambda, differenceFlat);
+  const lines: DivergenceLine[] = divergenceLines(observedFlat, expectedFlat, df, cressieReadLambda, differenceFlat);
   const pearson = lines.find((l) => l.id === 'pearson')!;
 
   let correctionApplied = false;

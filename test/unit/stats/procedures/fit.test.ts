@@ -65,6 +65,14 @@ describe('goodness of fit', () => {
         });
       });
 
+      it(`shows the Cressie–Read line at λ = 2/3 beside a Pearson result for "${c.name}"`, () => {
+        const cr = c.highPrecision.cressieRead.find((x) => Math.abs(x.lambda - 2 / 3) < 1e-12);
+        assert.ok(cr, `${c.name}: fixture has no λ = 2/3 case`);
+        const line = goodnessOfFit(c.observed, optionsFor(c)).otherStatistics.find((s) => s.id === 'cressie-read')!;
+        // mpmath at 40 digits, power divergence with λ = 2/3
+        assertClose(line.statistic, cr!.statistic, { rel: 1e-12, abs: 1e-12 }, `${c.name}: Cressie–Read side line vs mpmath`);
+      });
+
       it(`matches expected counts, residuals, contributions and Cohen's w for "${c.name}"`, () => {
         const result = goodnessOfFit(c.observed, optionsFor(c));
         const rows = result.categories!;
