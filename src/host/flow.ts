@@ -25,7 +25,17 @@ export interface Answers {
 
 export type TableSource =
   | { readonly kind: 'file'; readonly file: string; readonly preview: Records }
-  | { readonly kind: 'records'; readonly records: Records; readonly description: string; readonly documentUri?: string };
+  | { readonly kind: 'records'; readonly records: Records; readonly description: string; readonly documentUri?: string }
+  /** Data already in a test's shape (a counted table, category counts, a list of values): only options are asked. */
+  | {
+      readonly kind: 'inline';
+      readonly test: 'independence' | 'goodness-of-fit' | 'variance';
+      readonly data: Readonly<Record<string, unknown>>;
+      readonly levels?: readonly string[];
+      readonly hasExpectation?: boolean;
+      readonly description: string;
+      readonly documentUri?: string;
+    };
 
 const TESTS = {
   independence: { label: () => t('Independence of two categorical columns'), detail: () => t('Pearson χ² on their cross-tabulation') },
@@ -145,6 +155,34 @@ export async function completeAnswers(records: Records, given: Answers, remember
 }
 
 /** The spec for the answers: a `source` for files, inline data for records held in memory. */
+/** Counted data from a selection or a cell: the test is known; ask only its options. */
+async function runOnInline(services: Services, source: Extract<TableSource, { kind: 'inline' }>, given: Answers): Promise<void> {
+  const s = settings();
+  const remembered = services.context.workspaceState.get<Answers>(answersKey(source.description)) ?? {};
+  const answers: Answers = { ...given, test: source.test };
+  const options: Record<string, unknown> = { alpha: s.alpha };
+  if (source.test === 'goodness-of-fit' && !source.hasExpectation) {
+    answers.proportions ??= await askProportions(source.levels ?? [], remembered.proportions);
+    if (Array.isArray(answers.proportions)) options.proportions = answers.proportions;
+  }
+  if (source.test === 'variance') {
+    answers.sigma0 ??= await askNumber(t('Hypothesised standard deviation σ0'), t('σ0 in the units of the values'), remembered.sigma0 !== undefined ? String(remembered.sigma0) : undefined, (n) => (n > 0 ? undefined : t('σ0 must be greater than 0')));
+    answers.alternative ??= await askAlternative(remembered.alternative);
+    Object.assign(options, { sigma0: answers.sigma0, alternative: answers.alternative });
+  }
+  if (source.test === 'independence' && (answers.correction ?? s.correction) && isTwoByTwo(source.data.table)) options.correction = true;
+  await services.context.workspaceState.update(answersKey(source.description), answers);
+  const spec = { version: 1, test: source.test, ...source.data, ...options };
+  const folder = services.workspaceRootFor(source.documentUri ? vscode.Uri.parse(source.documentUri).fsPath : '');
+  const specPath = path.join(folder, 'untitled.countercheck.json');
+  const run = await services.run(spec, specPath, source.description);
+  services.showResult(run.result, { spec, specPath, saved: false, documentUri: source.documentUri }, `${TESTS[source.test].label()} — ${source.description}`, source.description);
+}
+
+function isTwoByTwo(table: unknown): boolean {
+  return Array.isArray(table) && table.length === 2 && table.every((r) => Array.isArray(r) && r.length === 2);
+}
+
 export function specFor(source: TableSource, answers: Answers, shape: ReturnType<typeof inferShape>, alpha: number, specFolder: string): Record<string, unknown> {
   const options: Record<string, unknown> = { alpha };
   if (answers.test === 'goodness-of-fit' && Array.isArray(answers.proportions)) options.proportions = answers.proportions;
@@ -152,6 +190,7 @@ export function specFor(source: TableSource, answers: Answers, shape: ReturnType
   if (answers.test === 'independence' && answers.correction) options.correction = true;
   const test = answers.test!;
 
+  if (source.kind === 'inline') return { version: 1, test: source.test, ...source.data, ...options };
   if (source.kind === 'file') {
     const rel = path.relative(specFolder, source.file).split(path.sep).join('/');
     if (shape.kind === 'counted-table' && !answers.columns) return { version: 1, test, source: { path: rel }, ...options };
@@ -180,6 +219,7 @@ function answersKey(id: string): string {
 
 /** The whole flow for one table: ask, build the spec, run it, show the panel. */
 export async function runOnTable(services: Services, source: TableSource, given: Answers): Promise<void> {
+  if (source.kind === 'inline') return runOnInline(services, source, given);
   const key = source.kind === 'file' ? source.file : source.description;
   const s = settings();
   const records = source.kind === 'file' ? source.preview : source.records;

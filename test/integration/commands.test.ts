@@ -2,7 +2,7 @@ import { strict as assert } from 'node:assert';
 import * as vscode from 'vscode';
 import { independenceTest } from '../../src/stats/table';
 import type { TestResult } from '../../src/stats/result';
-import { api, closeAllEditors, closeTo, dataUri, panelFrom } from './api';
+import { api, closeAllEditors, closeTo, dataUri, panelFrom, workspacePath } from './api';
 
 describe('commands on data', () => {
   afterEach(closeAllEditors);
@@ -75,5 +75,38 @@ describe('commands on data', () => {
     const err = a.lastError();
     assert.ok(err, 'an error was shown');
     assert.match(err.message, /nope/);
+  });
+});
+
+describe('notebook cells', () => {
+  afterEach(closeAllEditors);
+
+  it("runs the test on a cell's HTML table output", async () => {
+    const nb = await vscode.workspace.openNotebookDocument(vscode.Uri.file(workspacePath('weekend-loaves.ipynb')));
+    await vscode.window.showNotebookDocument(nb);
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(1)));
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'independence');
+    // scipy 1.10.1 stats.chi2_contingency([[41,18,25],[33,29,19],[52,14,30]]): 11.339110585158599, p 0.023005956745473254, dof 4.
+    closeTo(r.statistic, 11.339110585158599, 1e-9, 'X²');
+    closeTo(r.pValue.value, 0.023005956745473254, 1e-12, 'p');
+  });
+
+  it("asks only σ0 and the alternative for a cell's list of values, and inserts the result as a markdown cell below", async () => {
+    const nb = await vscode.workspace.openNotebookDocument(vscode.Uri.file(workspacePath('weekend-loaves.ipynb')));
+    const editor = await vscode.window.showNotebookDocument(nb);
+    editor.selection = new vscode.NotebookRange(3, 4);
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(3), { sigma0: 0.4, alternative: 'two-sided' }));
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'variance');
+    assert.equal(r.n, 12);
+    const cells = nb.cellCount;
+    await vscode.window.showNotebookDocument(nb);
+    const a = await api();
+    await a.panelAction('insert');
+    assert.equal(nb.cellCount, cells + 1);
+    assert.equal(nb.cellAt(4).kind, vscode.NotebookCellKind.Markup);
+    assert.ok(nb.cellAt(4).document.getText().includes(payload.apaLine.split(',')[0]));
+    await vscode.commands.executeCommand('undo');
   });
 });

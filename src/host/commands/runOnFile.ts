@@ -5,7 +5,7 @@ import { parseDelimited } from '../../data/delimited';
 import type { Answers } from '../flow';
 import { runOnTable } from '../flow';
 import type { Services } from '../services';
-import { selectionRecords } from '../selectionRecords';
+import { sourceFromText } from '../selectionRecords';
 
 const PREVIEW_BYTES = 64 * 1024;
 
@@ -18,7 +18,7 @@ async function preview(file: string) {
     let text = new TextDecoder().decode(buf.subarray(0, bytesRead));
     if (bytesRead === PREVIEW_BYTES) text = text.slice(0, text.lastIndexOf('\n') + 1);
     const name = vscode.workspace.asRelativePath(file);
-    return /\.json$/i.test(file) ? selectionRecords(text, { file: name }) : parseDelimited(text, { file: name });
+    return parseDelimited(text, { file: name });
   } finally {
     await handle.close();
   }
@@ -34,8 +34,8 @@ export async function runOnFile(services: Services, uri?: vscode.Uri, answers: A
     if (/\.json$/i.test(target.fsPath)) {
       // A JSON data file is small by nature: read it whole and run on its records.
       const text = Buffer.from(await vscode.workspace.fs.readFile(target)).toString('utf8');
-      const records = selectionRecords(text, { file: vscode.workspace.asRelativePath(target) });
-      await runOnTable(services, { kind: 'records', records, description: vscode.workspace.asRelativePath(target), documentUri: target.toString() }, answers);
+      const name = vscode.workspace.asRelativePath(target);
+      await runOnTable(services, sourceFromText(text, { file: target.fsPath, description: name, documentUri: target.toString() }), answers);
       return;
     }
     await runOnTable(services, { kind: 'file', file: target.fsPath, preview: await preview(target.fsPath) }, answers);

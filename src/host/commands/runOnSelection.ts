@@ -3,7 +3,7 @@ import * as vscode from 'vscode';
 import type { Answers } from '../flow';
 import { runOnTable } from '../flow';
 import type { Services } from '../services';
-import { selectionRecords } from '../selectionRecords';
+import { sourceFromText } from '../selectionRecords';
 
 export async function runOnSelection(services: Services, answers: Answers = {}): Promise<void> {
   const editor = vscode.window.activeTextEditor;
@@ -17,9 +17,9 @@ export async function runOnSelection(services: Services, answers: Answers = {}):
     const text = doc.getText(range);
     const name = vscode.workspace.asRelativePath(doc.uri);
     const firstLine = range.start.line + 1;
-    const records = selectionRecords(text, { file: doc.uri.scheme === 'file' ? doc.uri.fsPath : name, firstLine });
     const description = vscode.l10n.t('selection in {0}, lines {1}–{2}', name, firstLine, range.end.line + 1);
-    await runOnTable(services, { kind: 'records', records, description, documentUri: doc.uri.toString() }, answers);
+    const source = sourceFromText(text, { file: doc.uri.scheme === 'file' ? doc.uri.fsPath : name, firstLine, description, documentUri: doc.uri.toString() });
+    await runOnTable(services, source, answers);
   } catch (e) {
     await services.reportError(e);
   }
