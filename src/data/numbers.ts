@@ -14,7 +14,12 @@ const groupedWithSpace = /^[+-]?\d{1,3}(?:[ \u00a0\u202f]\d{3})+(?:[.,]\d+)?$/;
  * 1.234,5 or 1 234) is accepted only where it cannot be confused with the decimal mark.
  */
 export function parseDecimal(text: string, decimal: DecimalMark = '.'): number {
-  const t = text.trim();
+  const x = readDecimal(text.trim(), decimal);
+  // 1e400 is a well-formed number that a double cannot hold.
+  return Number.isFinite(x) ? x : NaN;
+}
+
+function readDecimal(t: string, decimal: DecimalMark): number {
   if (decimal === '.') {
     if (plainNumber.test(t)) return Number(t);
     if (groupedWithComma.test(t)) return Number(t.replace(/,/g, ''));

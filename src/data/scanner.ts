@@ -19,6 +19,10 @@ export class ScannerFallback extends Error {
   }
 }
 
+/** FNV-1a (32-bit) offset basis and prime. */
+const FNV_OFFSET = 0x811c9dc5 | 0;
+const FNV_PRIME = 0x01000193;
+
 const LF = 10;
 const CR = 13;
 const QUOTE = 34;
@@ -218,6 +222,11 @@ export class ByteScanner {
   private starts = new Int32Array(0);
   private ends = new Int32Array(0);
   private escaped = new Uint8Array(0);
+  /** Per field: 1 when a category slot reads it, so the scan loop hashes its bytes on the way. */
+  private hashFields = new Uint8Array(0);
+  /** Per used field: the FNV-1a hash of its raw bytes, and whether the scan loop computed it. */
+  private hashes = new Int32Array(0);
+  private hashed = new Uint8Array(0);
   private readonly codes = new Int32Array(2);
   private readonly classes = new Uint8Array(256);
   private readonly decimal: number;
@@ -262,6 +271,10 @@ export class ByteScanner {
     this.starts = new Int32Array(used);
     this.ends = new Int32Array(used);
     this.escaped = new Uint8Array(used);
+    this.hashes = new Int32Array(used);
+    this.hashed = new Uint8Array(used);
+    this.hashFields = new Uint8Array(columns.length + 1);
+    for (const part of this.parts) for (const slot of part.slots) if (slot.role === CATEGORY_ROLE) this.hashFields[this.usedIndex.indexOf(slot.field)] = 1;
   }
 
   /** Reads the header line, or sizes the columns from the first record. */
@@ -303,11 +316,24 @@ export class ByteScanner {
       let quotedStart = -1;
       let quotedEnd = -1;
       let quotedEscaped = 0;
+      let fieldHash = 0;
+      let hashing = 0;
       let i = pos;
       const slots = this.usedIndex;
+      const hashFields = this.hashFields;
       for (;;) {
         let cls = 0;
-        while (i < end && (cls = classes[buf[i]]) === 0) i++;
+        if (i === fieldStart && field < this.columnCount && hashFields[field] === 1) {
+          // A category field: hash its bytes while looking for its end.
+          let h = FNV_OFFSET;
+          let b = 0;
+          while (i < end && (cls = classes[(b = buf[i])]) === 0) {
+            h = Math.imul(h ^ b, FNV_PRIME);
+            i++;
+          }
+          fieldHash = h;
+          hashing = 1;
+        } else while (i < end && (cls = classes[buf[i]]) === 0) i++;
         if (i >= end) {
           if (!final) return lineStart;
           cls = NEWLINE;
@@ -322,15 +348,19 @@ export class ByteScanner {
                 this.starts[s] = quotedStart;
                 this.ends[s] = quotedEnd;
                 this.escaped[s] = quotedEscaped;
+                this.hashed[s] = 0;
               } else {
                 this.starts[s] = fieldStart;
                 this.ends[s] = fieldEnd;
                 this.escaped[s] = 0;
+                this.hashed[s] = hashing;
+                this.hashes[s] = fieldHash;
               }
             }
           }
           field++;
           quotedStart = -1;
+          hashing = 0;
           if (cls === NEWLINE) {
             this.endRecord(buf, lineStart, i, field);
             this.line++;
@@ -415,10 +445,19 @@ export class ByteScanner {
         const u = slot.field;
         let a = this.starts[u];
         let b = this.ends[u];
+        if (slot.role === CATEGORY_ROLE && this.hashed[u] === 1) {
+          // Raw bytes as the key: ` A` and `A` are two keys of one category (the coder trims).
+          const code = this.category(slot, buf, a, b, this.hashes[u], u, line);
+          if (code === MISSING) missing = true;
+          this.codes[c++] = code;
+          continue;
+        }
         while (a < b && (buf[a] === SPACE || buf[a] === TAB)) a++;
         while (b > a && (buf[b - 1] === SPACE || buf[b - 1] === TAB)) b--;
         if (slot.role === CATEGORY_ROLE) {
-          const code = this.category(slot, buf, a, b, u, line);
+          let hash = FNV_OFFSET;
+          for (let k = a; k < b; k++) hash = Math.imul(hash ^ buf[k], FNV_PRIME);
+          const code = this.category(slot, buf, a, b, hash, u, line);
           if (code === MISSING) missing = true;
           this.codes[c++] = code;
         } else {
@@ -440,9 +479,7 @@ export class ByteScanner {
   }
 
   /** The category code of a field's bytes: a hash-table hit, or a new label decoded and coded once. */
-  private category(slot: SlotState, buf: Uint8Array, a: number, b: number, u: number, line: number): number {
-    let hash = 0x811c9dc5 | 0;
-    for (let k = a; k < b; k++) hash = Math.imul(hash ^ buf[k], 0x01000193);
+  private category(slot: SlotState, buf: Uint8Array, a: number, b: number, hash: number, u: number, line: number): number {
     const interner = slot.interner as ByteInterner;
     const known = interner.find(buf, a, b, hash);
     if (known !== undefined) return known;

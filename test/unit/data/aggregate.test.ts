@@ -105,6 +105,9 @@ describe('data: aggregation', () => {
         'not-a-number',
       );
     });
+    it('refuses a number beyond the double range', () => {
+      throwsInput(() => run('oven,grams\nA,1e400\n', { kind: 'numeric', column: 'grams' }), 'line 2, column `grams`: expected a number, found `1e400`', 'not-a-number');
+    });
     it('suggests the decimal mark when a number has a comma', () => {
       throwsInput(
         () => run('oven,grams\nA,"12,5"\n', { kind: 'numeric', column: 'grams' }),
