@@ -264,28 +264,71 @@ function summarise(
   };
 }
 
-function runResamples(
-  options: MonteCarloOptions,
-  observed: number,
-  draw: () => number,
-): MonteCarloOutcome {
+/** A Monte Carlo run that can be advanced in slices, so a host can show progress and cancel between them. */
+export interface ResamplingSession {
+  readonly requested: number;
+  readonly done: number;
+  /** Draws up to `count` more resamples. */
+  advance(count: number): void;
+  outcome(cancelled: boolean): MonteCarloOutcome;
+}
+
+function createSession(options: MonteCarloOptions, observed: number, draw: () => number): ResamplingSession {
   const requested = options.resamples ?? DEFAULT_RESAMPLES;
   const seed = options.seed ?? DEFAULT_SEED;
   const cutoff = observed - tieTolerance(observed);
-  const step = Math.max(1, Math.floor(requested / 100));
   let extreme = 0;
   let done = 0;
-  while (done < requested) {
-    const end = Math.min(requested, done + step);
-    for (; done < end; done++) if (draw() >= cutoff) extreme++;
-    options.onProgress?.(done / requested);
-    if (done < requested && options.shouldCancel?.()) return summarise(observed, extreme, done, requested, seed, true);
+  return {
+    requested,
+    get done() {
+      return done;
+    },
+    advance(count: number): void {
+      const end = Math.min(requested, done + count);
+      for (; done < end; done++) if (draw() >= cutoff) extreme++;
+    },
+    outcome: (cancelled) => summarise(observed, extreme, done, requested, seed, cancelled),
+  };
+}
+
+/** Runs a session to the end (or until cancelled), reporting progress about every 1%. */
+export function runSession(session: ResamplingSession, options: Pick<MonteCarloOptions, 'onProgress' | 'shouldCancel'>): MonteCarloOutcome {
+  const step = Math.max(1, Math.floor(session.requested / 100));
+  while (session.done < session.requested) {
+    session.advance(step);
+    options.onProgress?.(session.done / session.requested);
+    if (session.done < session.requested && options.shouldCancel?.()) return session.outcome(true);
   }
-  return summarise(observed, extreme, done, requested, seed, false);
+  return session.outcome(false);
+}
+
+/**
+ * Runs a session in slices, awaiting `pause` between them (the caller supplies it, e.g. a macrotask, so that an
+ * editor stays responsive and a Cancel button is seen).
+ */
+export async function runSessionInSlices(
+  session: ResamplingSession,
+  options: Pick<MonteCarloOptions, 'onProgress' | 'shouldCancel'>,
+  pause: () => Promise<void>,
+): Promise<MonteCarloOutcome> {
+  const step = Math.max(1, Math.floor(session.requested / 100));
+  while (session.done < session.requested) {
+    session.advance(step);
+    options.onProgress?.(session.done / session.requested);
+    await pause();
+    if (session.done < session.requested && options.shouldCancel?.()) return session.outcome(true);
+  }
+  return session.outcome(false);
 }
 
 /** Monte Carlo p-value of a statistic for independence in an r×c table (margins fixed). */
 export function monteCarloTable(table: readonly (readonly number[])[], options: MonteCarloOptions): MonteCarloOutcome {
+  return runSession(tableSession(table, options), options);
+}
+
+/** A resampling session of random tables with the margins of `table`. */
+export function tableSession(table: readonly (readonly number[])[], options: MonteCarloOptions): ResamplingSession {
   const r = table.length;
   const c = table[0].length;
   const rowTotals = table.map((row) => row.reduce((a, b) => a + b, 0));
@@ -300,7 +343,7 @@ export function monteCarloTable(table: readonly (readonly number[])[], options: 
   const rng = new Xoshiro128(options.seed ?? DEFAULT_SEED);
   const out = new Int32Array(r * c);
   const work = new Int32Array(c);
-  return runResamples(options, observed, () => {
+  return createSession(options, observed, () => {
     randomTable(rng, rowTotals, columnTotals, lf, out, work);
     return evaluate(out);
   });
@@ -308,6 +351,11 @@ export function monteCarloTable(table: readonly (readonly number[])[], options: 
 
 /** Monte Carlo p-value for goodness of fit: multinomial samples of size Σobserved with the given probabilities. */
 export function monteCarloMultinomial(observed: readonly number[], probabilities: readonly number[], options: MonteCarloOptions): MonteCarloOutcome {
+  return runSession(multinomialSession(observed, probabilities, options), options);
+}
+
+/** A resampling session of multinomial samples. */
+export function multinomialSession(observed: readonly number[], probabilities: readonly number[], options: MonteCarloOptions): ResamplingSession {
   const n = observed.reduce((a, b) => a + b, 0);
   requireResamplingTotal(n);
   const k = observed.length;
@@ -327,7 +375,7 @@ export function monteCarloMultinomial(observed: readonly number[], probabilities
     return rest > 0 ? Math.min(1, x / rest) : 0;
   });
   const out = new Int32Array(k);
-  return runResamples(options, evaluate(Int32Array.from(observed)), () => {
+  return createSession(options, evaluate(Int32Array.from(observed)), () => {
     let left = n;
     for (let i = 0; i < k - 1; i++) {
       const x = drawBinomial(rng, left, conditional[i], lf);
@@ -391,22 +439,48 @@ function monteCarloResult(outcome: MonteCarloOutcome, statistic: ResamplingStati
 
 /** Monte Carlo p-value for independence in an r×c table (empty rows and columns removed first). */
 export function monteCarloIndependence(table: readonly (readonly number[])[], options: MonteCarloOptions): ResamplingResult {
+  const counts = independenceInput(table, options);
+  return independenceResult(runSession(tableSession(counts, options), options), counts, options);
+}
+
+/** The same, run in slices with `pause` awaited between them (progress and cancel in an editor). */
+export async function monteCarloIndependenceInSlices(table: readonly (readonly number[])[], options: MonteCarloOptions, pause: () => Promise<void>): Promise<ResamplingResult> {
+  const counts = independenceInput(table, options);
+  return independenceResult(await runSessionInSlices(tableSession(counts, options), options, pause), counts, options);
+}
+
+function independenceInput(table: readonly (readonly number[])[], options: MonteCarloOptions): number[][] {
   const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
   if (counts.length < 2 || counts[0].length < 2) {
     throw new InputError('table: a Monte Carlo test of independence needs at least two non-empty rows and two non-empty columns', { jsonPath: '$.table' }, 'table-too-small');
   }
   requireResamples(options.resamples);
-  const outcome = monteCarloTable(counts, options);
+  return counts;
+}
+
+function independenceResult(outcome: MonteCarloOutcome, counts: readonly (readonly number[])[], options: MonteCarloOptions): ResamplingResult {
   return monteCarloResult(outcome, options.statistic, (counts.length - 1) * (counts[0].length - 1), 'tables with the observed margins');
 }
 
 /** Monte Carlo p-value for goodness of fit (multinomial samples with the hypothesised probabilities). */
 export function monteCarloFit(observed: readonly number[], probabilities: readonly number[], options: MonteCarloOptions): ResamplingResult {
+  return fitResult(runSession(fitSession(observed, probabilities, options), options), observed, options);
+}
+
+/** The same, run in slices with `pause` awaited between them. */
+export async function monteCarloFitInSlices(observed: readonly number[], probabilities: readonly number[], options: MonteCarloOptions, pause: () => Promise<void>): Promise<ResamplingResult> {
+  return fitResult(await runSessionInSlices(fitSession(observed, probabilities, options), options, pause), observed, options);
+}
+
+function fitSession(observed: readonly number[], probabilities: readonly number[], options: MonteCarloOptions): ResamplingSession {
   checkFitInput(observed, probabilities);
   requireResamples(options.resamples);
-  // Categories with probability 0 have count 0 (checked above) and never vary.
+  // Categories with probability 0 have count 0 (checked by checkFitInput) and never vary.
   const kept = probabilities.map((_, i) => i).filter((i) => probabilities[i] > 0);
-  const outcome = monteCarloMultinomial(kept.map((i) => observed[i]), kept.map((i) => probabilities[i]), options);
+  return multinomialSession(kept.map((i) => observed[i]), kept.map((i) => probabilities[i]), options);
+}
+
+function fitResult(outcome: MonteCarloOutcome, observed: readonly number[], options: MonteCarloOptions): ResamplingResult {
   return monteCarloResult(outcome, options.statistic, observed.length - 1, 'samples from the hypothesised distribution');
 }
 

@@ -5,10 +5,13 @@
  */
 import { describeAlpha, describeP } from '../../stats/assumptions';
 import { exactIndependence, exactMultinomialFit, outcomeCount, tryExactIndependence } from '../../stats/exact';
-import { DEFAULT_RESAMPLES, monteCarloFit, monteCarloIndependence, type ResamplingResult, type ResamplingStatistic } from '../../stats/montecarlo';
+import { DEFAULT_RESAMPLES, monteCarloFitInSlices, monteCarloIndependenceInSlices, type ResamplingResult, type ResamplingStatistic } from '../../stats/montecarlo';
 import { DEFAULT_SEED } from '../../stats/random';
 import type { StatisticLine, TestResult } from '../../stats/result';
 import type { SpecV1 } from '../types';
+
+/** Lets the event loop run between Monte Carlo slices, so progress is shown and a cancel is seen. */
+const pause = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
 
 export interface MethodControl {
   readonly signal?: AbortSignal;
@@ -16,7 +19,7 @@ export interface MethodControl {
 }
 
 /** Applies the spec's "method" to an asymptotic goodness-of-fit or independence result. */
-export function applyMethod(result: TestResult, spec: SpecV1, control: MethodControl = {}): TestResult {
+export async function applyMethod(result: TestResult, spec: SpecV1, control: MethodControl = {}): Promise<TestResult> {
   const method = spec.method ?? 'asymptotic';
   if (method === 'asymptotic') return spec.method === undefined ? withExactBeside(result, spec) : result;
   const statistic: ResamplingStatistic = spec.statistic ?? 'pearson';
@@ -29,14 +32,14 @@ export function applyMethod(result: TestResult, spec: SpecV1, control: MethodCon
   let resampled: ResamplingResult;
   if (result.grid) {
     const table = result.grid.observed;
-    resampled = method === 'exact' ? exactIndependence(table, { fallback: mc }) : monteCarloIndependence(table, { ...mc, statistic, lambda: spec.lambda });
+    resampled = method === 'exact' ? exactIndependence(table, { fallback: mc }) : await monteCarloIndependenceInSlices(table, { ...mc, statistic, lambda: spec.lambda }, pause);
   } else if (result.categories) {
     const observed = result.categories.map((c) => c.observed);
     const probabilities = result.categories.map((c) => c.expected);
     resampled =
       method === 'exact'
         ? exactMultinomialFit(observed, probabilities, { statistic, lambda: spec.lambda, fallback: mc })
-        : monteCarloFit(observed, probabilities, { ...mc, statistic, lambda: spec.lambda });
+        : await monteCarloFitInSlices(observed, probabilities, { ...mc, statistic, lambda: spec.lambda }, pause);
   } else {
     return result;
   }

@@ -1,7 +1,7 @@
 import { strict as assert } from 'node:assert';
 import { InputError } from '../../../../src/errors';
 import { exactIndependence, exactMultinomialFit } from '../../../../src/stats/exact';
-import { monteCarloFit, monteCarloIndependence, type ResamplingStatistic } from '../../../../src/stats/montecarlo';
+import { monteCarloFit, monteCarloIndependence, monteCarloIndependenceInSlices, type ResamplingStatistic } from '../../../../src/stats/montecarlo';
 import { Xoshiro128 } from '../../../../src/stats/random';
 import { fixture } from './check';
 
@@ -67,6 +67,19 @@ describe('Monte Carlo p-values', () => {
     const out = exactIndependence(c.table, { workLimit: 1e5, fallback: { resamples: 20000, seed: 3 } });
     assert.ok(out.notices.some((n) => n.code === 'exact-too-large'));
     withinFourSe(out.line.pValue.value, out.line.standardError!, c.pValue, `fallback MC vs fisher.test (${R.rVersion})`, c.table);
+  });
+
+  it('run in slices, yields between them, sees a cancel, and agrees with the one-go run when not cancelled', async () => {
+    const t = [[12, 15, 9], [20, 11, 25]];
+    let pauses = 0;
+    const pause = async (): Promise<void> => {
+      pauses++;
+    };
+    const cancelled = await monteCarloIndependenceInSlices(t, { statistic: 'pearson', resamples: 10000, seed: 2, shouldCancel: () => pauses >= 3 }, pause);
+    assert.equal(cancelled.details.cancelled, true);
+    assert.equal(cancelled.details.resamples, 300);
+    const sliced = await monteCarloIndependenceInSlices(t, { statistic: 'pearson', resamples: 10000, seed: 2 }, pause);
+    assert.deepEqual(sliced, monteCarloIndependence(t, { statistic: 'pearson', resamples: 10000, seed: 2 }));
   });
 
   it('refuses totals too large for its lookup tables, with advice, instead of exhausting memory', () => {
