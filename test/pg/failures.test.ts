@@ -84,6 +84,23 @@ describe('SQL source failures against a live server', () => {
     expectInput(await refusal({ sql: { connection: 'test', table: 'bottling' } }, count, { ...server.context(), password: 'not-the-password' }), 'sql-auth', /refused the password for user "countercheck_test"/);
   });
 
+  it('says when the server wants a password and none is known', async () => {
+    const env: Record<string, string> = { ...server.env(), PGPASSFILE: '/nonexistent/pgpass' };
+    delete env.PGPASSWORD;
+    // The client also falls back to PGPASSWORD and ~/.pgpass of the process environment.
+    const saved = { PGPASSFILE: process.env.PGPASSFILE, PGPASSWORD: process.env.PGPASSWORD };
+    process.env.PGPASSFILE = '/nonexistent/pgpass';
+    delete process.env.PGPASSWORD;
+    try {
+      expectInput(await refusal({ sql: { connection: 'test', table: 'bottling' } }, count, { connections: { test: {} }, env }), 'sql-auth', /asks for a password and none is known for user "countercheck_test"/);
+    } finally {
+      for (const [key, value] of Object.entries(saved)) {
+        if (value === undefined) delete process.env[key];
+        else process.env[key] = value;
+      }
+    }
+  });
+
   it('refuses a server that is not there', async () => {
     const context = { connections: { test: { host: '127.0.0.1', port: await deadPort() } }, env: server.env() };
     expectInput(await refusal({ sql: { connection: 'test', table: 'bottling' } }, count, context), 'sql-unreachable', /cannot reach the server \(ECONNREFUSED\)/);

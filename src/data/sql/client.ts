@@ -232,6 +232,9 @@ export function explainError(e: unknown, c: ResolvedConnection, timeoutMs: numbe
     case '57P03':
       return make(`${on}: the server ended the connection while the query ran (${server}); nothing was left open on the client, try again when the server is back`, 'sql-connection-lost');
   }
+  if (/client password must be a string|no password supplied|password must be/i.test(server)) {
+    return make(`${on}: the server asks for a password and none is known for user "${c.user}"; give it when asked, or set PGPASSWORD or ~/.pgpass`, 'sql-auth');
+  }
   const sysCode = (e as { code?: string }).code;
   if (sysCode === 'ECONNREFUSED' || sysCode === 'ENOTFOUND' || sysCode === 'EAI_AGAIN' || sysCode === 'EHOSTUNREACH' || sysCode === 'ENETUNREACH' || sysCode === 'ETIMEDOUT') {
     return make(`${on}: cannot reach the server (${sysCode}); is it running and listening on ${c.host}:${c.port}?`, 'sql-unreachable');
