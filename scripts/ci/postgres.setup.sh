@@ -11,6 +11,12 @@ if ! ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1; then
   SUDO=""; [ "$(id -u)" -eq 0 ] || SUDO="sudo"
   $SUDO apt-get update -qq
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq postgresql
+  # The package may start a default cluster of its own; the tests use a throwaway one, so stop it.
+  if command -v pg_lsclusters >/dev/null; then
+    pg_lsclusters -h | awk '$4 == "online" { print $1, $2 }' | while read -r version name; do
+      $SUDO pg_ctlcluster "$version" "$name" stop || true
+    done
+  fi
 fi
 
 bash "$here/../pg/start.sh" "$DIR"
