@@ -4,6 +4,9 @@
  * double range, computed from their base-10 logarithm. Pure.
  */
 import type { Probability } from '../stats/result';
+import { formatProbability, scientificFromLog10 } from '../stats/probabilityText';
+
+export { formatProbability, scientificFromLog10 };
 
 export interface FormatOptions {
   /** Decimals for statistics, counts that are not whole, and intervals. Default 2. */
@@ -11,9 +14,6 @@ export interface FormatOptions {
 }
 
 export const DEFAULT_FORMAT: FormatOptions = { decimals: 2 };
-
-/** Plain ASCII minus keeps copied text searchable; the times sign and superscript-free exponent stay readable. */
-const TIMES = ' × 10^';
 
 function groupThousands(integerDigits: string): string {
   return integerDigits.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
@@ -49,30 +49,6 @@ export function formatDf(df: number, decimals = DEFAULT_FORMAT.decimals): string
 export function formatScientific(x: number, significant = 2): string {
   if (x === 0 || !Number.isFinite(x)) return formatNumber(x);
   return `${x < 0 ? '-' : ''}${scientificFromLog10(Math.log10(Math.abs(x)), significant)}`;
-}
-
-/**
- * The positive number whose base-10 logarithm is `log10`, as "m × 10^e" with `significant` digits in m.
- * Works for any finite logarithm (10^-3274.3 prints as "5.0 × 10^-3275").
- */
-export function scientificFromLog10(log10: number, significant = 2): string {
-  if (!Number.isFinite(log10)) return log10 > 0 ? '∞' : '0';
-  let exponent = Math.floor(log10);
-  let mantissa = 10 ** (log10 - exponent);
-  let digits = mantissa.toFixed(Math.max(0, significant - 1));
-  if (Number(digits) >= 10) {
-    exponent += 1;
-    mantissa /= 10;
-    digits = mantissa.toFixed(Math.max(0, significant - 1));
-  }
-  return `${digits}${TIMES}${exponent}`;
-}
-
-/** A probability in decimal form for p ≥ 0.001, otherwise as a power of ten ("0.925", "3.2 × 10^-437"). */
-export function formatProbability(p: Probability, significant = 2): string {
-  if (p.value >= 0.001) return p.value >= 0.9995 && p.value < 1 ? p.value.toFixed(4) : p.value.toFixed(3);
-  if (p.value === 0 && p.log10 === -Infinity) return '0';
-  return scientificFromLog10(Number.isFinite(p.log10) ? p.log10 : Math.log10(p.value), significant);
 }
 
 /** APA style: "p = .925", "p = .049", "p < .001" (three decimals, no leading zero). */

@@ -2,6 +2,7 @@
  * Assumption and notice builders shared by the procedures, so the same rule is worded and
  * applied the same way in every result (goodness of fit, r×c tables, and later the exact tests).
  */
+import { formatProbability } from './probabilityText';
 import { InputError } from '../errors';
 import type { Assumption, Notice, Probability } from './result';
 
@@ -87,11 +88,9 @@ export function independenceAssumption(unit: string): Assumption {
   };
 }
 
-/** A p-value in words for conclusion sentences: "p = 0.0432", "p < 1e-300 (about 10^-437.2)". */
+/** A p-value in words for conclusion sentences, written as every report writes it: "p = 0.008", "p ≈ 3.2 × 10^-437". */
 export function describeP(p: Probability): string {
-  if (p.value >= 0.001) return `p = ${p.value.toPrecision(3)}`;
-  if (p.value > 0) return `p = ${p.value.toExponential(2)}`;
-  return Number.isFinite(p.log10) ? `p ≈ 10^${p.log10.toFixed(1)}` : 'p = 0';
+  return `${p.value >= 0.001 || (p.value === 0 && p.log10 === -Infinity) ? 'p =' : 'p ≈'} ${formatProbability(p)}`;
 }
 
 /** "at the 5% level" for α = 0.05. */
