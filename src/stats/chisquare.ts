@@ -81,7 +81,7 @@ const LN_HALF = -Math.LN2;
  * ln(tail) — in ln y for the lower tail, in y for the upper tail — inside a shrinking bracket; once a
  * step is below 1e-6 (relative) the cubic convergence leaves an error far below one ulp, so we stop.
  */
-function gammaQuantile(a: number, lnTarget: number, upper: boolean): number {
+function gammaQuantile(a: number, lnTarget: number, upper: boolean, target = NaN): number {
   const df = 2 * a;
   const z = upper ? normalUpperQuantileFromLog(lnTarget) : normalQuantileFromLog(lnTarget);
   const c = 2 / (9 * df);
@@ -102,12 +102,13 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean): number {
   for (let iter = 0; iter < 100; iter++) {
     const lnTail = logTailWithPrefactor(a, y, upper);
     const g = lnTail - lnTarget;
-    if (g === 0 || Number.isNaN(g)) return y;
+    if (Number.isNaN(g)) return y;
     // The tail is decreasing in y for the upper tail, increasing for the lower tail.
     if ((g > 0) === upper) lo = y;
     else hi = y;
     // s = y · |d ln(tail)/dy| = a · prefactor / tail.
     const s = Math.exp(lnA + lastLogPrefactor() - lnTail);
+    if (g === 0) return polish(a, y, upper, target, lnTarget, s);
     let next: number;
     let relativeStep: number;
     if (upper) {
@@ -125,11 +126,26 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean): number {
       next = y * Math.exp(step);
       relativeStep = Math.abs(step);
     }
-    if (relativeStep <= 1e-6 && next >= lo && next <= hi) return next;
+    if (relativeStep <= 1e-6 && next >= lo && next <= hi) return polish(a, next, upper, target, lnTarget, s);
     if (!(next > lo && next < hi)) next = hi === Infinity ? 2 * lo + 1 : lo === 0 ? hi / 16 : 0.5 * (lo + hi);
     y = next;
   }
   return y;
+}
+
+/**
+ * The search above solves ln(tail) = ln(target), and ln(target) itself is rounded: an absolute error of
+ * |ln target|·2^−53, which the problem's conditioning (1/s, s = |d ln tail / d ln y|) can turn into
+ * 1e-13 of relative error in y (df 0.5, p = 1e-70). Where the target is a double we were given, one
+ * Newton step on tail/target − 1, computed from the tail's value, removes it.
+ */
+function polish(a: number, y: number, upper: boolean, target: number, lnTarget: number, s: number): number {
+  // Below |ln target| ≈ 2 the rounding of the log is no worse than that of the tail value: skip.
+  if (!(target >= 1e-300) || Math.abs(lnTarget) < 2) return y;
+  const tail = upper ? regularizedGammaUpper(a, y) : regularizedGammaLower(a, y);
+  const r = tail / target - 1;
+  // Lower tail: d ln P / d ln y = s; upper tail: d ln Q / d ln y = −s.
+  return y * (upper ? 1 + r / s : 1 - r / s);
 }
 
 function validProbability(p: number): boolean {
@@ -142,7 +158,7 @@ export function chiSquareQuantile(p: number, df: number): number {
   if (df === 0 || p === 0) return 0;
   if (p === 1) return Infinity;
   const a = df / 2;
-  return 2 * (p <= 0.5 ? gammaQuantile(a, Math.log(p), false) : gammaQuantile(a, Math.log1p(-p), true));
+  return 2 * (p <= 0.5 ? gammaQuantile(a, Math.log(p), false, p) : gammaQuantile(a, Math.log1p(-p), true, 1 - p));
 }
 
 /** x with P(X > x) = q, solved on the upper tail itself for q ≤ ½ (so q = 1e-300 works). q = 1 → 0, q = 0 → ∞. */
@@ -151,7 +167,7 @@ export function chiSquareUpperQuantile(q: number, df: number): number {
   if (df === 0 || q === 1) return 0;
   if (q === 0) return Infinity;
   const a = df / 2;
-  return 2 * (q <= 0.5 ? gammaQuantile(a, Math.log(q), true) : gammaQuantile(a, Math.log1p(-q), false));
+  return 2 * (q <= 0.5 ? gammaQuantile(a, Math.log(q), true, q) : gammaQuantile(a, Math.log1p(-q), false, 1 - q));
 }
 
 /** x with ln P(X > x) = lnQ, for upper tails below the double range (e.g. lnQ = −7539 for 10^−3274). */
