@@ -23,7 +23,7 @@ import type { Notice, Probability, StatisticLine } from './result';
 export interface FisherExactOptions {
   /**
    * Upper limit on the work (paths examined). Beyond it the computation stops and reports `completed: false`
-   * so that the caller can switch to Monte Carlo. Default 5e6 (about a second).
+   * so that the caller can switch to Monte Carlo. Default 5e6 (one to two seconds).
    */
   readonly workLimit?: number;
 }

@@ -3,13 +3,14 @@
  * with `"scores"`; an r×c table of two ordinal variables gives the linear-by-linear association test with
  * `"rowScores"` and `"columnScores"`.
  */
+import { InputError } from '../../errors';
 import type { TestResult } from '../../stats/result';
 import { cochranArmitageTest, linearByLinearTest } from '../../stats/trend';
 import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
+import type { RunContext, SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { ALTERNATIVE, COUNT_ARRAY, LABELS, requireLength } from './shared';
+import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, requireLength, requireOneOf, sourceField } from './shared';
 
 export const trendProcedure: ProcedureHandler = {
   test: 'trend',
@@ -19,16 +20,21 @@ export const trendProcedure: ProcedureHandler = {
     scores: field(arr(num()), 'Scores of the ordered groups (columns) for Cochran–Armitage. Default 1, 2, …, k (equally spaced).'),
     rowScores: field(arr(num()), 'Row scores for the linear-by-linear test. Giving them (or a table with more than 2 rows) selects that test.'),
     columnScores: field(arr(num()), 'Column scores for the linear-by-linear test. Default 1, 2, …'),
-    rowLabels: LABELS('rows'),
-    columnLabels: LABELS('ordered groups (columns)'),
+    source: sourceField('Two categorical columns: the outcome (rows; the first of "rowLabels" is the event) and the ordered group (columns, in the order of "columnLabels").', 2, 2),
+    rowLabels: LABELS('rows (with a source: the outcome levels, the event first)'),
+    columnLabels: LABELS('ordered groups (columns; with a source: every group level, in order)'),
     alternative: { ...ALTERNATIVE, description: 'Two-sided (default); "greater": the first row’s proportion (or the column score) rises with the score; "less": it falls.' },
   },
   validate(spec: SpecV1, path: string): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
-    if (!spec.table) {
-      problems.push({ path, message: 'missing data: give "table"' });
-      return problems;
+    requireOneOf(spec, path, ['table', 'source'], problems);
+    checkSourceColumns(spec, path, [2], 'two columns (outcome, ordered group)', problems);
+    if (spec.source) {
+      for (const key of ['rowLabels', 'columnLabels']) {
+        if (spec[key] === undefined) problems.push({ path, message: `with a "source", give "${key}": the order of the levels matters for a trend test` });
+      }
     }
+    if (!spec.table) return problems;
     const width = spec.table[0].length;
     spec.table.forEach((row, i) => {
       if (row.length !== width) problems.push({ path: childPath(childPath(path, 'table'), i), message: `row ${i + 1} has ${row.length} counts but row 1 has ${width}` });
@@ -42,8 +48,8 @@ export const trendProcedure: ProcedureHandler = {
     requireLength(spec, path, 'columnLabels', width, 'one per column', problems);
     return problems;
   },
-  async run(spec: SpecV1): Promise<TestResult> {
-    const table = spec.table!;
+  async run(spec: SpecV1, ctx): Promise<TestResult> {
+    const table = spec.table ?? (await orderedTableFromSource(spec, ctx));
     if (table.length > 2 || spec.rowScores !== undefined) {
       return linearByLinearTest(table, {
         alpha: spec.alpha,
@@ -61,3 +67,26 @@ export const trendProcedure: ProcedureHandler = {
     });
   },
 };
+
+/** Cross-tabulates outcome × ordered group from the source, in the order the spec gives (unlisted levels are an error). */
+async function orderedTableFromSource(spec: SpecV1, ctx: RunContext): Promise<number[][]> {
+  const [outcome, group] = spec.source!.columns!;
+  const rows = spec.rowLabels!;
+  const columns = spec.columnLabels!;
+  const { table } = await aggregateOf(ctx, { kind: 'crosstab', rowColumn: outcome, columnColumn: group, weight: spec.source!.weight }, 'table', { rowLevels: rows, columnLevels: columns });
+  const counts = rows.map(() => columns.map(() => 0));
+  table.rowLabels.forEach((r, i) =>
+    table.columnLabels.forEach((c, j) => {
+      const n = table.counts[i][j];
+      if (n === 0) return;
+      const ri = rows.indexOf(r);
+      const ci = columns.indexOf(c);
+      if (ri < 0 || ci < 0) {
+        const [column, level, key] = ri < 0 ? [outcome, r, 'rowLabels'] : [group, c, 'columnLabels'];
+        throw new InputError(`column \`${column}\` has the level "${level}", which "${key}" does not list; add it in its place in the order or fix the data`, { jsonPath: `$.${key}`, column }, 'unknown-level');
+      }
+      counts[ri][ci] += n;
+    }),
+  );
+  return counts;
+}

@@ -10,7 +10,7 @@ import { loadSpecText } from '../../../../src/spec/validate';
 import type { PowerResult, TestResult } from '../../../../src/stats/result';
 import { closeTo, fixture } from './check';
 
-interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[] }
+interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[]; z?: number }
 const R = fixture<{ rVersion: string; demos: Demo[] }>('R', 'advanced');
 const folder = join(__dirname, '..', '..', '..', '..', 'demo', 'advanced');
 const readers: SpecReaders = { aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }) };
@@ -46,6 +46,7 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       if (ref.statistic !== undefined) closeTo(r.statistic, ref.statistic, 1e-10, 'statistic', file);
       if (ref.pValue !== undefined) closeTo(r.pValue.value, ref.pValue, 1e-9, 'p-value', file);
       if (ref.df !== undefined) assert.equal(r.df, ref.df);
+      if (ref.z !== undefined) closeTo(r.statistic, ref.z, 1e-10, 'z', file);
       if (ref.oddsRatio !== undefined) closeTo(r.estimates[0].value, ref.oddsRatio, 1e-12, 'common odds ratio', file);
       if (ref.cellHolm !== undefined) ref.cellHolm.forEach((p, k) => closeTo(r.otherStatistics[k].pValue.value, p, 1e-9, `cell ${k} Holm p`, file));
     });
