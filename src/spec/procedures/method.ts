@@ -43,7 +43,16 @@ export async function applyMethod(result: TestResult, spec: SpecV1, control: Met
   } else {
     return result;
   }
-  return merge(result, resampled, method);
+  const merged = merge(result, resampled, method);
+  if (result.categories && (spec.estimatedParameters ?? 0) > 0) {
+    const notice = {
+      code: 'resampling-known-probabilities',
+      severity: 'warning' as const,
+      message: `The ${method === 'exact' ? 'exact' : 'Monte Carlo'} p-value treats the expected proportions as known; it does not allow for the ${spec.estimatedParameters} parameter(s) estimated from these data, so it is somewhat too large. The asymptotic line with df reduced is shown beside it.`,
+    };
+    return { ...merged, notices: [...merged.notices, notice] };
+  }
+  return merged;
 }
 
 function merge(result: TestResult, resampled: ResamplingResult, method: 'exact' | 'monte-carlo'): TestResult {
