@@ -43,14 +43,71 @@ const LOG_TIE_TOLERANCE = Math.log1p(1e-7);
 const LN10 = Math.LN10;
 
 
-interface PastEntry {
-  value: number;
-  count: number;
+/**
+ * The past weights reaching one node, merged when equal to 1e-9: an open-addressing hash table in typed
+ * arrays (no object per entry), read out sorted by value.
+ */
+class PastTable {
+  private keys = new Float64Array(8);
+  private values = new Float64Array(8);
+  private counts = new Float64Array(8);
+  private used = new Uint8Array(8);
+  size = 0;
+
+  add(value: number, count: number): void {
+    if (2 * (this.size + 1) > this.used.length) this.grow();
+    const key = Math.round(value * 1e9);
+    const mask = this.used.length - 1;
+    let h = hashKey(key) & mask;
+    while (this.used[h] === 1) {
+      if (this.keys[h] === key) {
+        this.counts[h] += count;
+        return;
+      }
+      h = (h + 1) & mask;
+    }
+    this.used[h] = 1;
+    this.keys[h] = key;
+    this.values[h] = value;
+    this.counts[h] = count;
+    this.size++;
+  }
+
+  /** Values ascending with their counts. */
+  sorted(): { values: Float64Array; counts: Float64Array } {
+    const order: number[] = [];
+    for (let i = 0; i < this.used.length; i++) if (this.used[i] === 1) order.push(i);
+    order.sort((a, b) => this.values[a] - this.values[b]);
+    const values = new Float64Array(order.length);
+    const counts = new Float64Array(order.length);
+    order.forEach((slot, i) => {
+      values[i] = this.values[slot];
+      counts[i] = this.counts[slot];
+    });
+    return { values, counts };
+  }
+
+  private grow(): void {
+    const { values, counts, used } = this;
+    const capacity = used.length * 2;
+    this.keys = new Float64Array(capacity);
+    this.values = new Float64Array(capacity);
+    this.counts = new Float64Array(capacity);
+    this.used = new Uint8Array(capacity);
+    this.size = 0;
+    for (let i = 0; i < used.length; i++) if (used[i] === 1) this.add(values[i], counts[i]);
+  }
+}
+
+function hashKey(key: number): number {
+  const low = key % 4294967296;
+  const high = (key - low) / 4294967296;
+  return (Math.imul(low | 0, 0x9e3779b1) ^ Math.imul(high | 0, 0x85ebca6b)) >>> 0;
 }
 
 interface Node {
   readonly rows: Int32Array;
-  readonly pasts: Map<number, PastEntry>;
+  readonly pasts: PastTable;
 }
 
 interface NodeBounds {
@@ -93,7 +150,9 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
   let work = 0;
 
   const start = Int32Array.from(rowTotals).sort();
-  let stage = new Map<number | string, Node>([[keys.of(start), { rows: start, pasts: new Map([[0, { value: 0, count: 1 }]]) }]]);
+  const first = new PastTable();
+  first.add(0, 1);
+  let stage = new Map<number | string, Node>([[keys.of(start), { rows: start, pasts: first }]]);
 
   for (let s = 0; s < c - 1; s++) {
     const next = new Map<number | string, Node>();
@@ -102,10 +161,10 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
     const lastColumn = s + 1 === c - 1;
     for (const node of stage.values()) {
       // Past entries sorted by value, with prefix sums of their weights relative to the largest value.
-      const entries = [...node.pasts.values()].sort((a, b) => a.value - b.value);
-      const top = entries[entries.length - 1].value;
-      const prefix = new Float64Array(entries.length + 1);
-      for (let i = 0; i < entries.length; i++) prefix[i + 1] = prefix[i] + entries[i].count * Math.exp(entries[i].value - top);
+      const { values, counts } = node.pasts.sorted();
+      const top = values[values.length - 1];
+      const prefix = new Float64Array(values.length + 1);
+      for (let i = 0; i < values.length; i++) prefix[i + 1] = prefix[i] + counts[i] * Math.exp(values[i] - top);
 
       forEachAllocation(node.rows, columnTotals[s], lf, (childRows, d) => {
         const key = keys.of(childRows);
@@ -115,24 +174,18 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
           boundsMemo.set(key, b);
         }
         // Past values p with p + d + best ≤ threshold: every completion counts.
-        const allUpTo = upperIndex(entries, threshold - d - b.best);
+        const allUpTo = upperIndex(values, threshold - d - b.best);
         if (allUpTo > 0) relativeSum += prefix[allUpTo] * Math.exp(top + d + b.logTotal + constant - logObserved);
         // Past values with p + d + worst > threshold: no completion counts. The rest go on to the next column.
-        const someUpTo = upperIndex(entries, threshold - d - b.worst);
+        const someUpTo = upperIndex(values, threshold - d - b.worst);
         work += 1 + someUpTo - allUpTo;
         if (someUpTo > allUpTo) {
           let target = next.get(key);
           if (target === undefined) {
-            target = { rows: Int32Array.from(childRows), pasts: new Map() };
+            target = { rows: Int32Array.from(childRows), pasts: new PastTable() };
             next.set(key, target);
           }
-          for (let e = allUpTo; e < someUpTo; e++) {
-            const value = entries[e].value + d;
-            const pastKey = Math.round(value * 1e9);
-            const existing = target.pasts.get(pastKey);
-            if (existing === undefined) target.pasts.set(pastKey, { value, count: entries[e].count });
-            else existing.count += entries[e].count;
-          }
+          for (let e = allUpTo; e < someUpTo; e++) target.pasts.add(values[e] + d, counts[e]);
         }
       });
       if (work > workLimit) return { completed: false, logTableProbability: logObserved, work };
@@ -204,13 +257,13 @@ function singleCompletion(rows: Int32Array, lf: Float64Array): NodeBounds {
   return { best: v, worst: v, logTotal: v };
 }
 
-/** Number of entries with value ≤ limit (entries sorted ascending). */
-function upperIndex(entries: readonly PastEntry[], limit: number): number {
+/** Number of values ≤ limit (values sorted ascending). */
+function upperIndex(values: Float64Array, limit: number): number {
   let lo = 0;
-  let hi = entries.length;
+  let hi = values.length;
   while (lo < hi) {
     const mid = (lo + hi) >>> 1;
-    if (entries[mid].value <= limit) lo = mid + 1;
+    if (values[mid] <= limit) lo = mid + 1;
     else hi = mid;
   }
   return lo;
