@@ -10,8 +10,8 @@
  */
 import {
   gammaDensity,
-  lastLogPrefactor,
-  logTailWithPrefactor,
+  lastSlope,
+  logTailWithSlope,
   logGamma1p,
   logRegularizedGammaLower,
   logRegularizedGammaUpper,
@@ -88,26 +88,25 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean, target = NaN
   const wh = (df * Math.pow(1 - c + z * Math.sqrt(c), 3)) / 2;
   let y = wh;
   if (!upper) {
-    const small = (lnTarget + logGamma1p(a)) / a;
     if (!(wh > 0) || df < -1.24 * lnTarget) {
+      const small = (lnTarget + logGamma1p(a)) / a;
       if (small < -700) return Math.exp(small);
       y = Math.exp(small);
     }
   } else if (!(wh > 0)) {
     y = a;
   }
-  const lnA = Math.log(a);
   let lo = 0;
   let hi = Infinity;
   for (let iter = 0; iter < 100; iter++) {
-    const lnTail = logTailWithPrefactor(a, y, upper);
+    const lnTail = logTailWithSlope(a, y, upper);
     const g = lnTail - lnTarget;
     if (Number.isNaN(g)) return y;
     // The tail is decreasing in y for the upper tail, increasing for the lower tail.
     if ((g > 0) === upper) lo = y;
     else hi = y;
     // s = y · |d ln(tail)/dy| = a · prefactor / tail.
-    const s = Math.exp(lnA + lastLogPrefactor() - lnTail);
+    const s = lastSlope();
     if (g === 0) return polish(a, y, upper, target, lnTarget, s);
     let next: number;
     let relativeStep: number;

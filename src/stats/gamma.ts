@@ -567,32 +567,43 @@ export function logRegularizedGammaUpper(a: number, x: number): number {
   }
 }
 
-let searchLogPrefactor = 0;
+let searchSlope = 0;
 
 /**
- * For quantile searches: ln of the lower (upper = false) or upper tail of gamma(a, 1) at x > 0, with
- * ln[x^a e^(−x)/Γ(a+1)] from the same evaluation left for lastLogPrefactor() (saves computing it twice).
+ * For quantile searches: ln of the lower (upper = false) or upper tail T of gamma(a, 1) at x > 0,
+ * leaving s = a·x^a e^(−x)/(Γ(a+1)·T) = |d ln T / d ln x| from the same evaluation for lastSlope().
  */
-export function logTailWithPrefactor(a: number, x: number, upper: boolean): number {
+export function logTailWithSlope(a: number, x: number, upper: boolean): number {
   const method = chooseMethod(a, x);
   if (method === 'series' || method === 'fraction') {
     logPrefactorParts(a, x);
     const lnD = ddHi + ddLo;
     const d = Math.exp(ddHi) * (1 + ddLo);
-    searchLogPrefactor = lnD;
     if (method === 'series') {
       const sum = lowerSeriesSum(a, x);
-      return upper ? Math.log1p(-d * sum) : lnD + Math.log(sum);
+      if (!upper) {
+        searchSlope = a / sum; // P = D·sum
+        return lnD + Math.log(sum);
+      }
+      const q = 1 - d * sum;
+      searchSlope = (a * d) / q;
+      return Math.log1p(-d * sum);
     }
     const h = upperContinuedFraction(a, x);
-    return upper ? Math.log(a) + lnD + Math.log(h) : Math.log1p(-a * d * h);
+    if (upper) {
+      searchSlope = 1 / h; // Q = a·D·h
+      return Math.log(a) + lnD + Math.log(h);
+    }
+    const p = 1 - a * d * h;
+    searchSlope = (a * d) / p;
+    return Math.log1p(-a * d * h);
   }
   const lnTail = upper ? logRegularizedGammaUpper(a, x) : logRegularizedGammaLower(a, x);
-  searchLogPrefactor = logGammaPrefactor(a, x);
+  searchSlope = Math.exp(Math.log(a) + logGammaPrefactor(a, x) - lnTail);
   return lnTail;
 }
 
-/** The log prefactor of the last logTailWithPrefactor call. */
-export function lastLogPrefactor(): number {
-  return searchLogPrefactor;
+/** s = |d ln(tail)/d ln x| of the last logTailWithSlope call. */
+export function lastSlope(): number {
+  return searchSlope;
 }

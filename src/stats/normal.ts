@@ -27,11 +27,32 @@ export function normalDensity(z: number): number {
   return INV_SQRT_2PI * expHalfSquare(z);
 }
 
+/**
+ * z²/2 is rounded in double: an absolute error of up to |z|²·2^−54, which e^(−z²/2) turns into a
+ * relative error of the same size (4e-14 at z = 37). With z = z1 + z2, z1 carrying 16 fractional bits,
+ * z1² is exact and the rounding δ = (z1²/2 − h) + (z2/2 + z1)·z2 is known; Q(½, h + δ) = Q(½, h)·e^(−δ·λ)
+ * with λ the hazard of Q, ≈ 1 + 1/(2h) (its error matters only at δ/h², far below one ulp).
+ */
+function roundingOfHalfSquare(z: number, h: number): number {
+  const a = Math.abs(z);
+  if (a > 1e9 || h === 0) return 0;
+  const z1 = Math.round(a * 65536) / 65536;
+  const z2 = a - z1;
+  return 0.5 * z1 * z1 - h + (0.5 * z2 + z1) * z2;
+}
+
+/** ½ Q(½, z²/2) = P(Z > |z|), corrected for the rounding of z²/2. */
+function smallerTail(z: number, h: number): number {
+  return 0.5 * regularizedGammaUpper(0.5, h) * (1 - roundingOfHalfSquare(z, h) * (1 + 0.5 / Math.max(h, 1)));
+}
+
 /** P(Z > z) = ½ Q(½, z²/2) for z ≥ 0 (erfc as an incomplete gamma function, A&S 6.5.17), ½(1 + P(½, z²/2)) for z < 0. */
 export function normalUpperTail(z: number): number {
   if (Number.isNaN(z)) return NaN;
   const h = 0.5 * z * z;
-  return z >= 0 ? 0.5 * regularizedGammaUpper(0.5, h) : 0.5 + 0.5 * regularizedGammaLower(0.5, h);
+  if (z < 0) return 0.5 + 0.5 * regularizedGammaLower(0.5, h);
+  if (h === Infinity) return 0;
+  return smallerTail(z, h);
 }
 
 /** P(Z ≤ z). */
@@ -43,9 +64,9 @@ export function normalLowerTail(z: number): number {
 export function normalLogUpperTail(z: number): number {
   if (Number.isNaN(z)) return NaN;
   const h = 0.5 * z * z;
-  return z >= 0
-    ? Math.log(0.5) + logRegularizedGammaUpper(0.5, h)
-    : Math.log1p(-0.5 * regularizedGammaUpper(0.5, h));
+  if (z < 0) return Math.log1p(-smallerTail(z, h));
+  if (h === Infinity) return -Infinity;
+  return Math.log(0.5) + logRegularizedGammaUpper(0.5, h) - roundingOfHalfSquare(z, h) * (1 + 0.5 / Math.max(h, 1));
 }
 
 /** ln P(Z ≤ z). */
