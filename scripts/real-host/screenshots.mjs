@@ -43,13 +43,22 @@ async function palette(page, title) {
   await page.keyboard.press('Enter');
 }
 
+/** Opens a file with Quick Open; retries while the file index is still being built after start-up. */
 async function quickOpen(page, file) {
-  await page.keyboard.press('Control+P');
-  await page.waitForSelector('.quick-input-widget', { state: 'visible' });
-  await page.keyboard.type(file, { delay: 15 });
-  await sleep(900);
-  await page.keyboard.press('Enter');
-  await sleep(800);
+  for (let attempt = 1; ; attempt++) {
+    await page.keyboard.press('Control+P');
+    await page.waitForSelector('.quick-input-widget', { state: 'visible' });
+    await page.keyboard.type(file, { delay: 15 });
+    await sleep(1200 * attempt);
+    await page.keyboard.press('Enter');
+    try {
+      await page.waitForSelector(`.tab.active[aria-label*="${file}"]`, { timeout: 3000 });
+      return;
+    } catch (e) {
+      await page.keyboard.press('Escape');
+      if (attempt === 4) throw new Error(`Quick Open did not open ${file}: ${e instanceof Error ? e.message : e}`);
+    }
+  }
 }
 
 /** Answers the next QuickPick or input box by typing and pressing Enter. */

@@ -17,11 +17,12 @@ export function registerTesting(services: Services): SavedTests {
   const outcomes = new Map<string, { status: string; message: string }>();
   const controller = vscode.tests.createTestController('countercheck.savedTests', vscode.l10n.t('Countercheck saved tests'));
   const folderItem = (uri: vscode.Uri): vscode.TestItemCollection => {
-    const rel = vscode.workspace.asRelativePath(vscode.Uri.file(path.dirname(uri.fsPath)), false);
+    const dir = path.posix.dirname(vscode.workspace.asRelativePath(uri, false));
+    const rel = dir === '.' ? vscode.workspace.getWorkspaceFolder(uri)?.name ?? '.' : dir;
     const id = `folder:${rel}`;
     let folder = controller.items.get(id);
     if (!folder) {
-      folder = controller.createTestItem(id, rel === path.dirname(uri.fsPath) ? '.' : rel);
+      folder = controller.createTestItem(id, rel);
       controller.items.add(folder);
     }
     return folder.children;

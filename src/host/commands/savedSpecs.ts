@@ -16,6 +16,12 @@ async function readText(uri: vscode.Uri): Promise<string> {
   return Buffer.from(await vscode.workspace.fs.readFile(uri)).toString('utf8');
 }
 
+/** The spec's folder relative to the workspace ('' at the top). */
+function folderOf(uri: vscode.Uri): string {
+  const folder = path.posix.dirname(vscode.workspace.asRelativePath(uri, false));
+  return folder === '.' ? '' : folder;
+}
+
 /** Lets the user pick a saved test when the command was not given one. */
 async function chooseSpec(uri: vscode.Uri | undefined, title: string): Promise<vscode.Uri | undefined> {
   if (uri instanceof vscode.Uri) return uri;
@@ -26,7 +32,7 @@ async function chooseSpec(uri: vscode.Uri | undefined, title: string): Promise<v
     return undefined;
   }
   found.sort((a, b) => a.fsPath.localeCompare(b.fsPath));
-  const items = found.map((u) => ({ label: path.basename(u.fsPath), description: vscode.workspace.asRelativePath(path.dirname(u.fsPath)), uri: u, picked: u.toString() === active?.toString() }));
+  const items = found.map((u) => ({ label: path.basename(u.fsPath), description: folderOf(u), uri: u, picked: u.toString() === active?.toString() }));
   const chosen = await vscode.window.showQuickPick(items, { title, placeHolder: vscode.l10n.t('Choose a saved test'), matchOnDescription: true });
   return chosen?.uri;
 }
