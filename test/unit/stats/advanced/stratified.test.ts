@@ -8,7 +8,7 @@ interface Cmh {
   commonOddsRatio: number; ciLower: number; ciUpper: number; exactP: number; exactConditionalOddsRatio: number;
 }
 interface Gcmh { name: string; strata: number[][][]; statistic: number; df: number; pValue: number }
-interface Lbl { name: string; table: number[][]; rowScores: number[]; columnScores: number[]; statistic: number }
+interface Lbl { name: string; table: number[][]; rowScores: number[]; columnScores: number[]; statistic: number; rowMeanScores: number; rowMeanScoresDf: number }
 const R = fixture<{ rVersion: string; cmh: Cmh[]; generalizedCmh: Gcmh[]; linearByLinear: Lbl[] }>('R', 'advanced');
 interface Sm {
   name: string; strata: number[][][]; pooledOddsRatio: number; logOddsRatioSe: number; ciLower: number; ciUpper: number;
@@ -95,6 +95,12 @@ describe('generalized CMH (R×C×K)', () => {
     it(`the correlation statistic with one stratum equals (N − 1)r² from R cor() on ${c.name}`, () => {
       const r = stratifiedTest([c.table], { rowScores: c.rowScores, columnScores: c.columnScores });
       closeTo(r.otherStatistics.find((l) => l.id === 'cmh-correlation')!.statistic, c.statistic, 1e-9, '(N − 1) r² (R cor)', c);
+    });
+    it(`the row-mean-scores statistic with one stratum equals (N − 1)·SSB/SST from R aov on ${c.name}`, () => {
+      const r = stratifiedTest([c.table], { rowScores: c.rowScores, columnScores: c.columnScores });
+      const line = r.otherStatistics.find((l) => l.id === 'cmh-row-means')!;
+      closeTo(line.statistic, c.rowMeanScores, 1e-9, 'row mean scores (R aov)', c);
+      assert.equal(line.df, c.rowMeanScoresDf);
     });
   }
 });
