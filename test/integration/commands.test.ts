@@ -78,6 +78,21 @@ describe('commands on data', () => {
   });
 });
 
+describe('bad input', () => {
+  it('points at the file and line of a ragged row, and changes nothing', async () => {
+    const a = await api();
+    const bad = dataUri('ragged.csv');
+    const text = 'shift,outcome\nearly,pass\nlate,fail,extra\nnight,pass\n';
+    await vscode.workspace.fs.writeFile(bad, new TextEncoder().encode(text));
+    await vscode.commands.executeCommand('countercheck.runOnFile', bad, { test: 'independence', columns: ['shift', 'outcome'] });
+    const err = a.lastError();
+    assert.ok(err, 'an error notification was shown');
+    assert.equal(err.line, 3, `line of the ragged record in: ${err.message}`);
+    assert.match(err.file ?? '', /ragged\.csv$/);
+    assert.equal(new TextDecoder().decode(await vscode.workspace.fs.readFile(bad)), text, 'the file is unchanged');
+  });
+});
+
 describe('notebook cells', () => {
   afterEach(closeAllEditors);
 
