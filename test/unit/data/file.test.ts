@@ -2,7 +2,7 @@
 // expected values counted by hand below), the pandas reference file, encodings, progress,
 // cancellation and refusals.
 import { strict as assert } from 'node:assert';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { aggregateFile, aggregateFileMany } from '../../../src/data/file';
@@ -41,6 +41,8 @@ const cases: { file: string; options: IntakeOptions; reader: string }[] = [
 ];
 
 describe('data: files', () => {
+  after(() => rmSync(scratch, { recursive: true, force: true }));
+
   for (const c of cases) {
     it(`reads ${c.file} to the hand-counted tables and variance`, async () => {
       for (const engine of ['auto', 'csv-parse'] as const) {

@@ -1,7 +1,7 @@
 // Property tests (fast-check): round trips of count tables through every text form, readers
 // that never crash on random input, and the byte scanner agreeing with csv-parse.
 import { strict as assert } from 'node:assert';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import fc from 'fast-check';
@@ -83,6 +83,8 @@ async function neverCrashesAsync(run: () => Promise<unknown>): Promise<string> {
 }
 
 describe('data: properties', () => {
+  after(() => rmSync(scratch, { recursive: true, force: true }));
+
   it('a table of counts reads back the same from CSV, markdown, JSON and long counts', () => {
     fc.assert(
       fc.property(countTable, (t) => {
@@ -132,7 +134,14 @@ describe('data: properties', () => {
   });
 
   it('random bytes never crash the file reader', async () => {
-    const bytes = fc.oneof(fc.uint8Array({ maxLength: 300 }), csvish.map((s) => new TextEncoder().encode(s)));
+    const withBom = (bom: number[]) => fc.uint8Array({ maxLength: 200 }).map((b) => new Uint8Array([...bom, ...b]));
+    const bytes = fc.oneof(
+      fc.uint8Array({ maxLength: 300 }),
+      csvish.map((s) => new TextEncoder().encode(s)),
+      withBom([0xff, 0xfe]),
+      withBom([0xfe, 0xff]),
+      withBom([0xef, 0xbb, 0xbf]),
+    );
     await fc.assert(
       fc.asyncProperty(bytes, fc.constantFrom<'auto' | 'csv-parse'>('auto', 'csv-parse'), async (b, engine) => {
         const path = scratchFile(b);
