@@ -44,6 +44,10 @@ export async function applyMethod(result: TestResult, spec: SpecV1, control: Met
     return result;
   }
   const merged = merge(result, resampled, method);
+  if (result.grid && resampled.details.method === 'exact') {
+    const note = { code: 'exact-ordering', severity: 'info' as const, message: `The exact p-value is Fisher's (Fisher–Freeman–Halton): tables are ordered by their probability, not by ${result.statisticSymbol}. For the permutation distribution of ${result.statisticSymbol} itself, use "method": "monte-carlo".` };
+    return { ...merged, notices: [...merged.notices, note] };
+  }
   if (result.categories && (spec.estimatedParameters ?? 0) > 0) {
     const notice = {
       code: 'resampling-known-probabilities',
