@@ -93,8 +93,14 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean, target = NaN
       if (small < -700) return Math.exp(small);
       y = Math.exp(small);
     }
-  } else if (!(wh > 0)) {
-    y = a;
+  } else {
+    if (a < 1) {
+      // Tiny shapes put even the median far below the double range (df = 1e-10: x ≈ e^(−7e9)); there
+      // the lower tail 1 − q ≈ y^a/Γ(a+1) gives the answer directly.
+      const small = (Math.log(-Math.expm1(lnTarget)) + logGamma1p(a)) / a;
+      if (small < -700) return Math.exp(small);
+    }
+    if (!(wh > 0)) y = a;
   }
   let lo = 0;
   let hi = Infinity;
