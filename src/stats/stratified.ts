@@ -156,25 +156,50 @@ function convolvedLogPmf(tables: readonly (readonly (readonly number[])[])[]): {
   return { lo, logPmf };
 }
 
-/** Conditional MLE of the common odds ratio: solves E_ψ[Σa] = observed Σa on the log scale by bisection. */
+/** The monotone function f(ln ψ) solved by bisection on [−50, 50] (ψ from about 2e-22 to 5e21). */
+function solveLogPsi(increasing: (logPsi: number) => number, target: number): number {
+  let a = -50;
+  let b = 50;
+  for (let it = 0; it < 200 && b - a > 1e-12; it++) {
+    const mid = (a + b) / 2;
+    if (increasing(mid) < target) a = mid;
+    else b = mid;
+  }
+  return Math.exp((a + b) / 2);
+}
+
+/** ln of the weights P(S = s)·ψ^s normalised, for the noncentral (ψ ≠ 1) conditional distribution. */
+function tiltedLogPmf(lo: number, logPmf: readonly number[], logPsi: number): number[] {
+  const w = logPmf.map((lp, i) => lp + (lo + i) * logPsi);
+  const z = logSumExp(w);
+  return w.map((x) => x - z);
+}
+
+/** Conditional MLE of the common odds ratio: solves E_ψ[Σa] = observed Σa. */
 function conditionalMle(lo: number, logPmf: readonly number[], observed: number): number {
   const hi = lo + logPmf.length - 1;
   if (observed <= lo) return 0;
   if (observed >= hi) return Infinity;
-  const meanAt = (logPsi: number): number => {
-    const w = logPmf.map((lp, i) => lp + (lo + i) * logPsi);
-    const z = logSumExp(w);
-    return w.reduce((acc, lw, i) => acc + (lo + i) * Math.exp(lw - z), 0);
+  return solveLogPsi((logPsi) => tiltedLogPmf(lo, logPmf, logPsi).reduce((acc, lw, i) => acc + (lo + i) * Math.exp(lw), 0), observed);
+}
+
+/**
+ * Exact conditional interval for the common odds ratio (Cornfield-type, as R's mantelhaen.test with exact = TRUE):
+ * the ψ at which P_ψ(S ≥ s) = (1 − level)/2 (lower) and P_ψ(S ≤ s) = (1 − level)/2 (upper).
+ */
+function conditionalInterval(lo: number, logPmf: readonly number[], observed: number, level: number): Interval {
+  const hi = lo + logPmf.length - 1;
+  const tail = (1 - level) / 2;
+  const upperTail = (logPsi: number): number => logSumExp(tiltedLogPmf(lo, logPmf, logPsi).slice(observed - lo));
+  const lowerTail = (logPsi: number): number => -logSumExp(tiltedLogPmf(lo, logPmf, logPsi).slice(0, observed - lo + 1));
+  const logTail = Math.log(tail);
+  return {
+    lower: observed <= lo ? 0 : solveLogPsi(upperTail, logTail),
+    upper: observed >= hi ? Infinity : solveLogPsi(lowerTail, -logTail),
+    level,
+    parameter: 'common odds ratio',
+    method: 'exact conditional (inverting the one-sided conditional tests)',
   };
-  let a = -50;
-  let b = 50;
-  for (let it = 0; it < 200; it++) {
-    const mid = (a + b) / 2;
-    if (meanAt(mid) < observed) a = mid;
-    else b = mid;
-    if (b - a < 1e-12) break;
-  }
-  return Math.exp((a + b) / 2);
 }
 
 function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: StratifiedOptions): TestResult {
@@ -239,7 +264,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   if (strata.length < 2) notices.push(info('single-stratum', 'Only one stratum: the homogeneity test of odds ratios needs at least two.'));
   const estimates: Estimate[] = [
     { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio, interval },
-    { id: 'conditionalOddsRatio', name: 'Common odds ratio, conditional maximum likelihood', value: conditionalOr, note: 'The estimate that goes with the exact conditional test.' },
+    { id: 'conditionalOddsRatio', name: 'Common odds ratio, conditional maximum likelihood', value: conditionalOr, interval: conditionalInterval(lo, logPmf, sumA, confidence), note: 'The estimate and interval that go with the exact conditional test.' },
   ];
   const main = method === 'exact' ? exactLine : options.correction ? correctedLine : uncorrectedLine;
   const others = [uncorrectedLine, correctedLine, exactLine].filter((l) => l !== main);

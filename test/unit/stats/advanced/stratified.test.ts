@@ -5,7 +5,7 @@ import { closeTo, fixture } from './check';
 
 interface Cmh {
   name: string; strata: number[][][]; corrected: number; correctedP: number; uncorrected: number; uncorrectedP: number;
-  commonOddsRatio: number; ciLower: number; ciUpper: number; exactP: number; exactConditionalOddsRatio: number;
+  commonOddsRatio: number; ciLower: number; ciUpper: number; exactP: number; exactConditionalOddsRatio: number; exactLower: number; exactUpper: number;
 }
 interface Gcmh { name: string; strata: number[][][]; statistic: number; df: number; pValue: number }
 interface Lbl { name: string; table: number[][]; rowScores: number[]; columnScores: number[]; statistic: number; rowMeanScores: number; rowMeanScoresDf: number }
@@ -46,6 +46,11 @@ describe('Cochran–Mantel–Haenszel test (2×2×K)', () => {
       closeTo(exact.pValue.value, c.exactP, 1e-9, `exact conditional p (${src}, exact = TRUE)`, c.strata);
       // R finds the conditional MLE with uniroot at its default tolerance (about 1.2e-4), so only 1e-4 is asked.
       closeTo(exact.estimates[1].value, c.exactConditionalOddsRatio, 1e-4, `conditional MLE (${src}, exact = TRUE)`, c.strata);
+      // R solves for the interval ends with uniroot on ψ (ψ < 1) or 1/ψ (ψ > 1), absolute tolerance about 1.2e-4.
+      const onRScale = (v: number): number => (v > 1 ? 1 / v : v);
+      const interval = exact.estimates[1].interval!;
+      closeTo(onRScale(interval.lower), onRScale(c.exactLower), 0, `exact lower (${src})`, c.strata, 2e-4);
+      closeTo(onRScale(interval.upper), onRScale(c.exactUpper), 0, `exact upper (${src})`, c.strata, 2e-4);
     });
   }
 
