@@ -59,8 +59,8 @@ export function chiSquareLine(id: string, name: string, symbol: string, statisti
   return note === undefined ? { id, name, symbol, statistic, df, pValue } : { id, name, symbol, statistic, df, pValue, note };
 }
 
-export function pLine(id: string, name: string, pValue: Probability, note?: string, statistic = NaN): StatisticLine {
-  return note === undefined ? { id, name, symbol: '', statistic, df: null, pValue } : { id, name, symbol: '', statistic, df: null, pValue, note };
+export function pLine(id: string, name: string, pValue: Probability, note?: string, statistic = NaN, symbol = ''): StatisticLine {
+  return note === undefined ? { id, name, symbol, statistic, df: null, pValue } : { id, name, symbol, statistic, df: null, pValue, note };
 }
 
 /** The head of a result whose main statistic is a chi-square line (no alternative: the test is one-tailed by nature). */

@@ -185,7 +185,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   const m = estimated.length;
   const df = groups.length - 1 - m;
   if (df < 1) {
-    throw new InputError(`values: after pooling bins to expected counts of at least ${minimum}, only ${groups.length} bins remain, leaving ${df} degrees of freedom for ${m} estimated parameter${m > 1 ? 's' : ''}; more data are needed`, { jsonPath: '$.values' }, 'too-few-bins');
+    throw new InputError(`values: after pooling bins to expected counts of at least ${minimum}, only ${groups.length} bin${groups.length === 1 ? ' remains' : 's remain'}, leaving ${Math.max(df, 0)} degrees of freedom for ${m} estimated parameter${m > 1 ? 's' : ''}; more data are needed`, { jsonPath: '$.values' }, 'too-few-bins');
   }
   const pooled = groups.filter((g) => g.bins.length > 1);
   if (pooled.length > 0) {

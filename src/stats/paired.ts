@@ -62,13 +62,9 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
     discordant: [b, c],
     uncorrected: chiSquareLine('mcnemar', 'McNemar chi-square', 'X²', uncorrected, 1),
     corrected: chiSquareLine('mcnemar-corrected', 'McNemar chi-square with continuity correction', 'X²', corrected, 1),
-    exact: withSymbol(pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(low, m), `b = ${b} of ${m} discordant pairs, tested against ½`, b)),
-    midP: withSymbol(pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', probabilityFromValue(midP), 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b)),
+    exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(low, m), `b = ${b} of ${m} discordant pairs, tested against ½`, b, 'b'),
+    midP: pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', probabilityFromValue(midP), 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b, 'b'),
   };
-}
-
-function withSymbol(line: StatisticLine): StatisticLine {
-  return { ...line, symbol: 'b' };
 }
 
 function exactBinomialProbability(low: number, m: number): ReturnType<typeof probabilityFromValue> {

@@ -246,13 +246,17 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
 
   const { lo, logPmf } = convolvedLogPmf(tables);
   const exactP = pointProbabilityTwoSided(logPmf, sumA - lo);
-  const exactLine = pLine('cmh-exact', 'Exact conditional test (common odds ratio 1)', exactP, `Σa = ${sumA}, given every stratum's margins`, sumA);
+  const exactLine = pLine('cmh-exact', 'Exact conditional test (common odds ratio 1)', exactP, `Σa = ${sumA}, given every stratum's margins`, sumA, 'Σa');
   const conditionalOr = conditionalMle(lo, logPmf, sumA);
 
   const oddsRatio = rNum / sDen;
   const variance = pr / (2 * rNum * rNum) + psqr / (2 * rNum * sDen) + qs / (2 * sDen * sDen);
   const z = normalUpperQuantile((1 - confidence) / 2);
   const se = Math.sqrt(variance);
+  const finiteRatio = oddsRatio > 0 && Number.isFinite(oddsRatio);
+  if (!finiteRatio) {
+    notices.push(info('odds-ratio-not-finite', `The Mantel–Haenszel odds ratio is ${Number.isNaN(oddsRatio) ? 'undefined' : oddsRatio === 0 ? '0' : 'infinite'} (a zero in every stratum's ${oddsRatio === 0 ? 'a·d' : 'b·c'} product), so it has no interval and the homogeneity test is not computed; the tests of association are unaffected.`));
+  }
   const interval: Interval = {
     lower: Math.exp(Math.log(oddsRatio) - z * se),
     upper: Math.exp(Math.log(oddsRatio) + z * se),
@@ -263,15 +267,16 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   const homogeneity = breslowDay(tables, oddsRatio);
   if (strata.length < 2) notices.push(info('single-stratum', 'Only one stratum: the homogeneity test of odds ratios needs at least two.'));
   const estimates: Estimate[] = [
-    { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio, interval },
+    finiteRatio ? { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio, interval } : { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio },
     { id: 'conditionalOddsRatio', name: 'Common odds ratio, conditional maximum likelihood', value: conditionalOr, interval: conditionalInterval(lo, logPmf, sumA, confidence), note: 'The estimate and interval that go with the exact conditional test.' },
   ];
   const main = method === 'exact' ? exactLine : options.correction ? correctedLine : uncorrectedLine;
   const others = [uncorrectedLine, correctedLine, exactLine].filter((l) => l !== main);
-  if (strata.length >= 2) others.push(homogeneity.breslowDay, homogeneity.tarone);
+  const homogeneityTested = strata.length >= 2 && finiteRatio;
+  if (homogeneityTested) others.push(homogeneity.breslowDay, homogeneity.tarone);
   const pValue = main.pValue;
   const significant = pValue.value < alpha;
-  const heterogeneous = strata.length >= 2 && homogeneity.tarone.pValue.value < alpha;
+  const heterogeneous = homogeneityTested && homogeneity.tarone.pValue.value < alpha;
   if (heterogeneous) {
     notices.push({ code: 'heterogeneous-odds-ratios', severity: 'warning', message: `The odds ratios differ between strata (Breslow–Day with Tarone's adjustment, ${describeP(homogeneity.tarone.pValue)}): a single common odds ratio summarises them poorly; look at the strata one by one.` });
   }
@@ -279,7 +284,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
     {
       test: 'stratified',
       procedure: method === 'exact' ? 'Exact conditional test of independence in 2×2×K tables' : `Cochran–Mantel–Haenszel test${options.correction ? ' with continuity correction' : ''}`,
-      statisticSymbol: main.symbol || 'Σa',
+      statisticSymbol: main.symbol,
       statistic: main.statistic,
       df: main.df,
       n: sum(strata.map((s) => s.n)),
@@ -288,29 +293,29 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
       reference: method === 'exact' ? { kind: 'none' } : { kind: 'chi-square', df: 1 },
       alpha,
       conclusion: significant
-        ? `Within strata, the row and column variables are associated ${describeAlpha(alpha)} (${describeP(pValue)}); the common odds ratio is about ${oddsRatio.toPrecision(3)}.`
+        ? `Within strata, the row and column variables are associated ${describeAlpha(alpha)} (${describeP(pValue)})${finiteRatio ? `; the common odds ratio is about ${oddsRatio.toPrecision(3)}` : ''}.`
         : `The data do not show an association within strata ${describeAlpha(alpha)} (${describeP(pValue)}).`,
     },
     {
       otherStatistics: others,
       estimates,
       effectSizes: [],
-      confidenceInterval: interval,
+      ...(finiteRatio ? { confidenceInterval: interval } : {}),
       notices,
       assumptions: [
         independenceAssumption('counted unit'),
         {
           id: 'common-odds-ratio',
           title: 'A common odds ratio across strata',
-          status: strata.length < 2 ? 'unchecked' : heterogeneous ? 'failed' : 'met',
+          status: !homogeneityTested ? 'unchecked' : heterogeneous ? 'failed' : 'met',
           explanation: 'The CMH test is most powerful, and the pooled odds ratio meaningful, when the association has the same direction and size in every stratum. The Breslow–Day test checks this.',
           alternative: 'Report the strata separately',
         },
       ],
       details: {
         strata: perStratum,
-        commonOddsRatio: { value: oddsRatio, logStandardError: se, interval },
-        homogeneity: strata.length >= 2 ? { breslowDay: homogeneity.breslowDay, tarone: homogeneity.tarone } : null,
+        commonOddsRatio: finiteRatio ? { value: oddsRatio, logStandardError: se, interval } : { value: oddsRatio },
+        homogeneity: homogeneityTested ? { breslowDay: homogeneity.breslowDay, tarone: homogeneity.tarone } : null,
         exact: { pValue: exactP, conditionalOddsRatio: conditionalOr },
         correctionApplied: method === 'asymptotic' && options.correction === true,
       },

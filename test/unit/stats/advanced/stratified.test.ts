@@ -74,6 +74,14 @@ describe('Cochran–Mantel–Haenszel test (2×2×K)', () => {
     assert.ok(stratifiedTest(c.strata).notices.some((n) => n.code === 'heterogeneous-odds-ratios'));
   });
 
+  it('reports an infinite common odds ratio without a NaN interval, and says why', () => {
+    const r = stratifiedTest([[[2, 0], [0, 3]], [[4, 0], [0, 2]]]);
+    assert.equal(r.estimates[0].value, Infinity);
+    assert.equal(r.confidenceInterval, undefined);
+    assert.ok(r.notices.some((n) => n.code === 'odds-ratio-not-finite'));
+    assert.ok(!r.otherStatistics.some((l) => l.id.startsWith('breslow-day')));
+  });
+
   it('names the stratum with a bad count', () => {
     assert.throws(
       () => stratifiedTest([[[1, 2], [3, 4]], [[1, -2], [3, 4]]], { stratumLabels: ['north', 'south'] }),
