@@ -280,12 +280,11 @@ function shapeTerm(a: number): number {
 /** ln[x^a e^(−x)/Γ(a + 1)] into (ddHi, ddLo); x > 0 finite, a ≥ 0. */
 function logPrefactorParts(a: number, x: number): void {
   if (a < 10) {
-    const lx = Math.log(x);
-    const t = a * lx;
-    if (Math.abs(t) + x < 12) {
-      // Small terms: one rounding of each costs < 3e-15.
-      ddHi = t - x - shapeTerm(a);
-      ddLo = 0;
+    const t = a * Math.log(x);
+    if (Math.abs(t) < 12) {
+      // a·ln x is small, so its roundings cost < 2e-15; −x is exact, and twoSum keeps the rounding of
+      // the sum, so a large x (the far upper tail of a small df) costs nothing.
+      twoSum(t - shapeTerm(a), -x);
       return;
     }
     logDoubleDouble(x);
