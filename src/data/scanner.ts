@@ -29,6 +29,11 @@ const QUOTE = 34;
 const SPACE = 32;
 const TAB = 9;
 
+// Field kinds of the fast path.
+const SKIP_FIELD = 0;
+const HASH_FIELD = 1;
+const NUMBER_FIELD = 2;
+
 // Byte classes for the hot loop: 0 = ordinary byte.
 const DELIMITER = 1;
 const NEWLINE = 2;
@@ -227,6 +232,11 @@ export class ByteScanner {
   /** Per used field: the FNV-1a hash of its raw bytes, and whether the scan loop computed it. */
   private hashes = new Int32Array(0);
   private hashed = new Uint8Array(0);
+  /** Per field, for the fast path: skip it, hash it (category) or read it as a number. */
+  private fieldKinds = new Uint8Array(0);
+  /** Per used field: the number the fast path read, and whether it read one. */
+  private numbers = new Float64Array(0);
+  private numbered = new Uint8Array(0);
   private readonly codes = new Int32Array(2);
   private readonly classes = new Uint8Array(256);
   private readonly decimal: number;
@@ -274,7 +284,109 @@ export class ByteScanner {
     this.hashes = new Int32Array(used);
     this.hashed = new Uint8Array(used);
     this.hashFields = new Uint8Array(columns.length + 1);
-    for (const part of this.parts) for (const slot of part.slots) if (slot.role === CATEGORY_ROLE) this.hashFields[this.usedIndex.indexOf(slot.field)] = 1;
+    this.fieldKinds = new Uint8Array(columns.length + 1);
+    this.numbers = new Float64Array(used);
+    this.numbered = new Uint8Array(used);
+    for (const part of this.parts)
+      for (const slot of part.slots) {
+        const index = this.usedIndex.indexOf(slot.field);
+        if (slot.role === CATEGORY_ROLE) {
+          this.hashFields[index] = 1;
+          this.fieldKinds[index] = HASH_FIELD;
+        } else if (this.fieldKinds[index] === SKIP_FIELD) this.fieldKinds[index] = NUMBER_FIELD;
+      }
+  }
+
+  /**
+   * The fast path for one line whose newline is known to be in the buffer: each field is read by
+   * its kind (skipped, hashed, or read as a number while it is scanned), with no bounds checks.
+   * Returns the index after the line, or -1 when the line needs the general path (a quote, a lone
+   * CR, a wrong number of fields).
+   */
+  private fastLine(buf: Uint8Array, lineStart: number): number {
+    const classes = this.classes;
+    const kinds = this.fieldKinds;
+    const usedIndex = this.usedIndex;
+    const last = this.columnCount - 1;
+    // A decimal mark that is also the delimiter only occurs inside quotes: leave those to endRecord.
+    const decimal = this.decimal === this.settings.dialect.delimiter.charCodeAt(0) ? -1 : this.decimal;
+    let i = lineStart;
+    for (let f = 0; f <= last; f++) {
+      const fieldStart = i;
+      const kind = kinds[f];
+      let cls = 0;
+      if (kind === SKIP_FIELD) {
+        while ((cls = classes[buf[i]]) === 0) i++;
+      } else if (kind === HASH_FIELD) {
+        let h = FNV_OFFSET;
+        let b = 0;
+        while ((cls = classes[(b = buf[i])]) === 0) {
+          h = Math.imul(h ^ b, FNV_PRIME);
+          i++;
+        }
+        const u = usedIndex[f];
+        this.hashes[u] = h;
+        this.hashed[u] = 1;
+      } else {
+        // [-]digits[.digits], exact when the significand stays below 2^53 (see parseNumberBytes).
+        let negative = false;
+        if (buf[i] === 45) {
+          negative = true;
+          i++;
+        }
+        let significand = 0;
+        let digits = 0;
+        let exponent = 0;
+        let d = buf[i] - 48;
+        while (d >= 0 && d <= 9) {
+          significand = significand * 10 + d;
+          digits++;
+          d = buf[++i] - 48;
+        }
+        if (buf[i] === decimal) {
+          d = buf[++i] - 48;
+          while (d >= 0 && d <= 9) {
+            significand = significand * 10 + d;
+            digits++;
+            exponent--;
+            d = buf[++i] - 48;
+          }
+        }
+        const u = usedIndex[f];
+        cls = classes[buf[i]];
+        if (cls !== 0 && digits > 0 && significand < TWO53 && exponent >= -22) {
+          const value = exponent === 0 ? significand : significand / POW10[-exponent];
+          this.numbers[u] = negative ? -value : value;
+          this.numbered[u] = 1;
+        } else {
+          // Not a plain number: find the field's end from its start; endRecord reads it slowly.
+          this.numbered[u] = 0;
+          i = fieldStart;
+          while ((cls = classes[buf[i]]) === 0) i++;
+        }
+      }
+      const u = usedIndex[f];
+      if (u >= 0) {
+        this.starts[u] = fieldStart;
+        this.ends[u] = i;
+        this.escaped[u] = 0;
+      }
+      if (cls === DELIMITER) {
+        if (f === last) return -1;
+        i++;
+        continue;
+      }
+      if (f !== last) return -1;
+      if (cls === CARRIAGE) {
+        if (buf[i + 1] !== LF) return -1;
+        this.endRecord(buf, lineStart, i, last + 1);
+        return i + 2;
+      }
+      if (cls !== NEWLINE) return -1;
+      this.endRecord(buf, lineStart, i, last + 1);
+      return i + 1;
+    }
+    return -1;
   }
 
   /** Reads the header line, or sizes the columns from the first record. */
@@ -292,10 +404,20 @@ export class ByteScanner {
    */
   scan(buf: Uint8Array, start: number, end: number, final: boolean): number {
     const classes = this.classes;
+    // Lines that start at or before the last newline in the buffer end inside it.
+    const lastNewline = end > start ? buf.lastIndexOf(LF, end - 1) : -1;
     let pos = start;
     while (pos < end) {
       const lineStart = pos;
       const first = buf[pos];
+      if (pos <= lastNewline && this.parts !== undefined && first !== this.comment && first !== LF && first !== CR) {
+        const next = this.fastLine(buf, pos);
+        if (next >= 0) {
+          this.line++;
+          pos = next;
+          continue;
+        }
+      }
       if (first === this.comment || first === LF || (first === CR && buf[pos + 1] === LF) || this.parts === undefined) {
         let nl = buf.indexOf(LF, pos);
         if (nl < 0 || nl >= end) {
@@ -356,6 +478,7 @@ export class ByteScanner {
                 this.hashed[s] = hashing;
                 this.hashes[s] = fieldHash;
               }
+              this.numbered[s] = 0;
             }
           }
           field++;
@@ -450,6 +573,14 @@ export class ByteScanner {
           const code = this.category(slot, buf, a, b, this.hashes[u], u, line);
           if (code === MISSING) missing = true;
           this.codes[c++] = code;
+          continue;
+        }
+        if (slot.role !== CATEGORY_ROLE && this.numbered[u] === 1) {
+          const x = this.numbers[u];
+          if (slot.role === WEIGHT_ROLE) {
+            weight = x >= 0 && Number.isInteger(x) ? x : aggregator.readWeight(this.text(buf, a, b, u), line);
+            if (weight < 0) missing = true;
+          } else value = x;
           continue;
         }
         while (a < b && (buf[a] === SPACE || buf[a] === TAB)) a++;

@@ -158,7 +158,7 @@ describe('data: properties', () => {
       fc.constantFrom('A', 'B', ' c ', 'NA', '', '-', 'b', 'A ', '"A"', '"x, y"', '"q""r"', 'é', '#'),
       fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e6, max: 1e6 }).map((x) => String(x)),
       fc.integer({ min: -5, max: 30 }).map(String),
-      fc.constantFrom('1e3', '2.50', '.5', '7.', '1,5', 'x1'),
+      fc.constantFrom('1e3', '2.50', '.5', '7.', '1,5', 'x1', '-0', '-', '+3', ' 4 ', '12345678901234567890', '0.1234567890123456789', '"2,5"'),
     );
     const record = fc.array(field, { minLength: 3, maxLength: 3 });
     const file = fc.record({
@@ -166,6 +166,7 @@ describe('data: properties', () => {
       crlf: fc.boolean(),
       lastNewline: fc.boolean(),
       delimiter: fc.constantFrom(',', ';', '\t'),
+      decimal: fc.constantFrom<'.' | ','>('.', ','),
     });
     await fc.assert(
       fc.asyncProperty(file, fc.integer({ min: 4, max: 40 }), async (f, chunkSize) => {
@@ -177,14 +178,14 @@ describe('data: properties', () => {
           { kind: 'numeric', column: 'x' },
           { kind: 'categories', column: 'g', weight: 'x' },
         ];
-        const options = { dialect: { delimiter: f.delimiter as ',' | ';' | '\t', header: true, decimal: '.' as const } };
+        const options = { dialect: { delimiter: f.delimiter as ',' | ';' | '\t', header: true, decimal: f.decimal } };
         for (const request of requests) {
           const scanned = await neverCrashesAsync(() => aggregateFile(path, request, options, { chunkSize }).then(({ reader: _, ...a }) => a));
           const parsed = await neverCrashesAsync(() => aggregateFile(path, request, options, { chunkSize, engine: 'csv-parse' }).then(({ reader: _, ...a }) => a));
           assert.equal(scanned, parsed, `file:\n${JSON.stringify(body)}\nrequest ${JSON.stringify(request)}`);
         }
       }),
-      { numRuns: 150 },
+      { numRuns: 300 },
     );
   });
 
