@@ -24,7 +24,8 @@ export interface Answers {
 }
 
 export type TableSource =
-  | { readonly kind: 'file'; readonly file: string; readonly preview: Records }
+  /** `complete`: the preview holds the whole file (so level counts seen are all there are). */
+  | { readonly kind: 'file'; readonly file: string; readonly preview: Records; readonly complete: boolean }
   | { readonly kind: 'records'; readonly records: Records; readonly description: string; readonly documentUri?: string }
   /** Data already in a test's shape (a counted table, category counts, a list of values): only options are asked. */
   | {
@@ -224,9 +225,14 @@ export async function runOnTable(services: Services, source: TableSource, given:
   const s = settings();
   const records = source.kind === 'file' ? source.preview : source.records;
   const remembered = services.context.workspaceState.get<Answers>(answersKey(key)) ?? {};
-  const { answers, shape } = await completeAnswers(records, given, remembered, s.missingValues);
+  const { answers, shape, profiles } = await completeAnswers(records, given, remembered, s.missingValues);
   await services.context.workspaceState.update(answersKey(key), answers);
   const dataFolder = source.kind === 'file' ? path.dirname(source.file) : services.workspaceRootFor(source.documentUri ? vscode.Uri.parse(source.documentUri).fsPath : '');
+  if (answers.test === 'independence' && answers.correction === undefined && s.correction && (source.kind === 'records' || source.complete)) {
+    // The default correction applies to 2×2 tables only; it is known to be 2×2 only when every row was seen.
+    const levels = answers.columns ? answers.columns.map((c) => profiles.find((p) => p.name === c)?.levels.length ?? 0) : [records.rows.length, records.columns.length - 1];
+    if (levels.length === 2 && levels.every((n) => n === 2)) answers.correction = true;
+  }
   const spec = specFor(source, answers, shape, s.alpha, dataFolder);
   const specPath = path.join(dataFolder, 'untitled.countercheck.json');
   const label = source.kind === 'file' ? vscode.workspace.asRelativePath(source.file) : source.description;

@@ -125,3 +125,18 @@ describe('notebook cells', () => {
     await vscode.commands.executeCommand('undo');
   });
 });
+
+describe('timing figures (printed, not asserted)', () => {
+  afterEach(closeAllEditors);
+
+  it('prints the time from command to panel content for a 1,000-row file', async () => {
+    const lines = ['kiosk,payment'];
+    for (let i = 0; i < 1000; i++) lines.push(`${['North', 'South', 'East', 'West'][i % 4]},${['card', 'cash', 'phone'][(i * 7) % 3]}`);
+    const file = dataUri('kiosk-1000.csv');
+    await vscode.workspace.fs.writeFile(file, new TextEncoder().encode(`${lines.join('\n')}\n`));
+    const started = performance.now();
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', file, { test: 'independence', columns: ['kiosk', 'payment'] }));
+    console.log(`      command to panel content, 1,000 rows: ${(performance.now() - started).toFixed(0)} ms (target < 300 ms)`);
+    assert.equal((payload.result as TestResult).n, 1000);
+  });
+});

@@ -16,9 +16,9 @@ async function preview(file: string) {
     const buf = new Uint8Array(PREVIEW_BYTES);
     const { bytesRead } = await handle.read(buf, 0, PREVIEW_BYTES, 0);
     let text = new TextDecoder().decode(buf.subarray(0, bytesRead));
-    if (bytesRead === PREVIEW_BYTES) text = text.slice(0, text.lastIndexOf('\n') + 1);
-    const name = vscode.workspace.asRelativePath(file);
-    return parseDelimited(text, { file: name });
+    const complete = bytesRead < PREVIEW_BYTES;
+    if (!complete) text = text.slice(0, text.lastIndexOf('\n') + 1);
+    return { records: parseDelimited(text, { file: vscode.workspace.asRelativePath(file) }), complete };
   } finally {
     await handle.close();
   }
@@ -38,7 +38,8 @@ export async function runOnFile(services: Services, uri?: vscode.Uri, answers: A
       await runOnTable(services, sourceFromText(text, { file: target.fsPath, description: name, documentUri: target.toString() }), answers);
       return;
     }
-    await runOnTable(services, { kind: 'file', file: target.fsPath, preview: await preview(target.fsPath) }, answers);
+    const { records, complete } = await preview(target.fsPath);
+    await runOnTable(services, { kind: 'file', file: target.fsPath, preview: records, complete }, answers);
   } catch (e) {
     await services.reportError(e);
   }
