@@ -184,6 +184,11 @@ describe('data: properties', () => {
           const parsed = await neverCrashesAsync(() => aggregateFile(path, request, options, { chunkSize, engine: 'csv-parse' }).then(({ reader: _, ...a }) => a));
           assert.equal(scanned, parsed, `file:\n${JSON.stringify(body)}\nrequest ${JSON.stringify(request)}`);
         }
+        // All at once, with one column read both as categories and as numbers.
+        const all = [...requests, { kind: 'categories', column: 'x' } as const];
+        const scannedAll = await neverCrashesAsync(() => aggregateFileMany(path, all, options, { chunkSize }).then((r) => r.aggregates));
+        const parsedAll = await neverCrashesAsync(() => aggregateFileMany(path, all, options, { chunkSize, engine: 'csv-parse' }).then((r) => r.aggregates));
+        assert.equal(scannedAll, parsedAll, `file:\n${JSON.stringify(body)}\nall requests`);
       }),
       { numRuns: 300 },
     );
