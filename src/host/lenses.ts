@@ -48,7 +48,8 @@ export class SpecHoverProvider implements vscode.HoverProvider {
     if (!field) return undefined;
     const md = new vscode.MarkdownString();
     md.appendMarkdown(`**${name}**${handler ? ` — ${handler.test}` : ''}\n\n`);
-    md.appendText(field.description);
+    // appendText would turn spaces into &nbsp;; escape markdown tokens instead so the text wraps normally.
+    md.appendMarkdown(field.description.replace(/([\\`*_{}[\]<>|#])/g, '\\$1'));
     if (name === 'test') md.appendMarkdown(`\n\n${PROCEDURES.map((p) => `- \`${p.test}\`: ${p.summary}`).join('\n')}`);
     return new vscode.Hover(md, range);
   }

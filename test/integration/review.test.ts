@@ -76,4 +76,19 @@ describe('saved tests and living reports', () => {
     assert.equal(doc.getText(), afterFirst, 'second refresh gives identical text');
     assert.ok(afterFirst.startsWith(original.slice(0, original.indexOf('```countercheck'))), 'text before the first block kept byte for byte');
   });
+
+  it('offers run / re-run and compare / open result lenses and field hovers on a spec file', async () => {
+    const [spec] = await vscode.workspace.findFiles('*.countercheck.json', undefined, 1);
+    assert.ok(spec, 'a spec at the top of the demo workspace');
+    const doc = await vscode.workspace.openTextDocument(spec);
+    await vscode.window.showTextDocument(doc);
+    const lenses = await vscode.commands.executeCommand<vscode.CodeLens[]>('vscode.executeCodeLensProvider', spec);
+    const commands = lenses.map((l) => l.command?.command);
+    assert.ok(commands.includes('countercheck.runSavedSpec') && commands.includes('countercheck.rerunAndCompare'), JSON.stringify(commands));
+    const line = doc.getText().split('\n').findIndex((l) => l.includes('"test"'));
+    const character = doc.lineAt(line).text.indexOf('"test"') + 2;
+    const hovers = await vscode.commands.executeCommand<vscode.Hover[]>('vscode.executeHoverProvider', spec, new vscode.Position(line, character));
+    const text = hovers.flatMap((h) => h.contents.map((c) => (typeof c === 'string' ? c : c.value))).join('\n');
+    assert.match(text, /Which procedure to run/);
+  });
 });
