@@ -13,7 +13,7 @@ const timeoutMs = Number(process.env.COUNTERCHECK_INTEGRATION_TIMEOUT ?? 240_000
 const verbose = process.argv.includes('--verbose');
 
 // Lines the workbench prints on every offline run and that say nothing about our suite.
-const noise = /github\.authentication|ENOTFOUND|marketplace|vsda|telemetry|Failed to load resource|update\.code\.visualstudio|\[Extension Host\] (?:rejected promise|ExtensionService)/i;
+const noise = /github\.authentication|authentication provider 'github'|ENOTFOUND|marketplace|vsda|telemetry|Failed to load resource|update\.code\.visualstudio|\[Extension Host\] (?:rejected promise|ExtensionService)|AccountPolicyGate|AgentHost|connection token|Creating a socket|reconnection-grace-time|Service Worker|builtin extensions cache|Creation of workbench contribution|Extension host \(Remote\) is (?:un)?responsive|DialogService/i;
 
 // The host forwards console calls as (format, ...values): apply printf-style substitution like Node does.
 function formatArgs(args) {

@@ -40,6 +40,13 @@ async function palette(page, title) {
   await page.waitForSelector('.quick-input-widget', { state: 'visible' });
   await page.keyboard.type(title, { delay: 15 });
   await sleep(700);
+  // Enter only when the highlighted entry is the command asked for (a hidden command would otherwise run its nearest match).
+  const label = await page.locator('.quick-input-list .monaco-list-row.focused .label-name').first().textContent().catch(() => '');
+  const wanted = title.replace(/^.*?: /, '');
+  if (!label || !label.replace(/\s+/g, ' ').includes(wanted)) {
+    await page.keyboard.press('Escape');
+    throw new Error(`the command palette offers "${label}" for "${title}"`);
+  }
   await page.keyboard.press('Enter');
 }
 

@@ -122,7 +122,7 @@ describe('notebook cells', () => {
     assert.equal(nb.cellCount, cells + 1);
     assert.equal(nb.cellAt(4).kind, vscode.NotebookCellKind.Markup);
     assert.ok(nb.cellAt(4).document.getText().includes(payload.apaLine.split(',')[0]));
-    await vscode.commands.executeCommand('undo');
+    await vscode.commands.executeCommand('workbench.action.files.revert');
   });
 });
 
