@@ -62,7 +62,7 @@ function startingTerms(
 ): { t: number; e: number; k: number } {
   const largest = Math.max(lnW + lnTail, lnW + lnD);
   const smallest = Math.min(lnW + lnTail, lnW + lnD);
-  if (largest < 600 && smallest > -600) {
+  if (largest < 700 && smallest > -700) {
     const [t, e] = direct();
     return { t, e, k: 0 };
   }
@@ -125,8 +125,25 @@ function lowerMixture(a: number, h: number, m: number): ScaledSum {
   return { sum, k };
 }
 
+/**
+ * Where to start the upward sum for the upper tail. Below j the terms shrink at least by
+ * j(a+j−1)/(m·h) per step while h > a+j−1, since Q(b−1, h)/Q(b, h) ≤ (b−1)/h there (from
+ * Γ(b, h) ≤ h^b e^(−h)/(h − b + 1)); so walking down from the mode until the product of these ratios
+ * is below 1e-20 bounds the rest. The Poisson bound m − 10√m − 40 is the floor.
+ */
+function upperStart(a: number, h: number, m: number): number {
+  const poissonFloor = Math.max(0, Math.floor(m - 10 * Math.sqrt(m) - 40));
+  let j = Math.floor(termMode(a, h, m));
+  let logProduct = 0;
+  while (j > poissonFloor && h > a + j - 1 && logProduct > -46) {
+    logProduct += Math.log((j * (a + j - 1)) / (m * h));
+    j--;
+  }
+  return logProduct <= -46 ? j : poissonFloor;
+}
+
 function upperMixture(a: number, h: number, m: number): ScaledSum {
-  const jLo = Math.max(0, Math.floor(m - 10 * Math.sqrt(m) - 40));
+  const jLo = upperStart(a, h, m);
   const b = a + jLo;
   const lnW = logGammaPrefactor(jLo, m);
   const start = startingTerms(lnW, logRegularizedGammaUpper(b, h), logGammaPrefactor(b, h), () => {

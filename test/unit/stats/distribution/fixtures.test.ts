@@ -158,10 +158,10 @@ describe('noncentral chi-square against mpmath (50 digits, Poisson mixture summe
     tails: { df: number; ncp: number; x: number; lower: Num; upper: Num; lnLower: Num; lnUpper: Num }[];
     quantiles: { df: number; ncp: number; tail: 'lower' | 'upper'; p: number; x: number }[];
   }>('noncentral.json');
-  // Worst measured: 4.0e-15 for the tails and their logs, 2.9e-15 for quantiles (docs/ACCURACY.md).
-  const TOL = 6e-15;
+  // Worst measured: 5.0e-15 for the tails and their logs, 2.7e-15 for quantiles (docs/ACCURACY.md).
+  const TOL = 7e-15;
 
-  it(`matches both tails and their logs at ${nc.tails.length} points, tails down to 1e-30`, () => {
+  it(`matches both tails and their logs at ${nc.tails.length} points, tails down to 1e-250, ncp to 2000`, () => {
     for (const t of nc.tails) {
       const input = `x=${t.x} df=${t.df} ncp=${t.ncp}`;
       assertProbability(noncentralChiSquareLowerTail(t.x, t.df, t.ncp), num(t.lower), TOL, `lower ${input}`);
