@@ -293,17 +293,21 @@ export function deviance(a: number, x: number): number {
   return ddHi + ddLo;
 }
 
-// One-entry caches: callers evaluate many x at one shape (quantile iterations, mixtures, tables).
-let cachedShape = NaN;
-let cachedShapeTerm = 0;
+// A small cache: callers evaluate many x at a few shapes (quantile iterations, the noncentral mixture
+// alternating between the Poisson index and the chi-square shape, tables of one df).
+const SHAPE_CACHE_SIZE = 4;
+const cachedShapes = new Float64Array(SHAPE_CACHE_SIZE).fill(NaN);
+const cachedShapeTerms = new Float64Array(SHAPE_CACHE_SIZE);
+let nextShapeSlot = 0;
 
 /** ln Γ(a+1) for a < 10, or ½ln(2πa) + stirlingError(a) for a ≥ 10. */
 function shapeTerm(a: number): number {
-  if (a !== cachedShape) {
-    cachedShapeTerm = a < 10 ? logGamma1p(a) : LN_SQRT_2PI + 0.5 * Math.log(a) + stirlingError(a);
-    cachedShape = a;
-  }
-  return cachedShapeTerm;
+  for (let i = 0; i < SHAPE_CACHE_SIZE; i++) if (cachedShapes[i] === a) return cachedShapeTerms[i] as number;
+  const value = a < 10 ? logGamma1p(a) : LN_SQRT_2PI + 0.5 * Math.log(a) + stirlingError(a);
+  cachedShapes[nextShapeSlot] = a;
+  cachedShapeTerms[nextShapeSlot] = value;
+  nextShapeSlot = (nextShapeSlot + 1) % SHAPE_CACHE_SIZE;
+  return value;
 }
 
 /** ln[x^a e^(−x)/Γ(a + 1)] into (ddHi, ddLo); x > 0 finite, a ≥ 0. */

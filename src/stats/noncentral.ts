@@ -53,21 +53,19 @@ function scaledLog(s: ScaledSum): number {
   return Math.log(s.sum) + s.k * Math.LN2;
 }
 
-/** Starting products (w·tail, w·D) at a common power-of-two scale chosen from their logarithms. */
+/**
+ * Starting products (w·tail, w·D): directly from the values when both are comfortably inside the
+ * double range, else at a common power-of-two scale chosen from their logarithms.
+ */
 function startingTerms(
-  lnW: number,
-  lnTail: number,
-  lnD: number,
   direct: () => [number, number],
+  logs: () => [number, number],
 ): { t: number; e: number; k: number } {
-  const largest = Math.max(lnW + lnTail, lnW + lnD);
-  const smallest = Math.min(lnW + lnTail, lnW + lnD);
-  if (largest < 700 && smallest > -700) {
-    const [t, e] = direct();
-    return { t, e, k: 0 };
-  }
-  const k = Math.floor(largest / Math.LN2);
-  return { t: Math.exp(lnW + lnTail - k * Math.LN2), e: Math.exp(lnW + lnD - k * Math.LN2), k };
+  const [t, e] = direct();
+  if (t > 1e-300 && e > 1e-300 && t < 1e300 && e < 1e300) return { t, e, k: 0 };
+  const [lnT, lnE] = logs();
+  const k = Math.floor(Math.max(lnT, lnE) / Math.LN2);
+  return { t: Math.exp(lnT - k * Math.LN2), e: Math.exp(lnE - k * Math.LN2), k };
 }
 
 /**
@@ -97,11 +95,16 @@ function lowerStart(a: number, h: number, m: number): number {
 function lowerMixture(a: number, h: number, m: number): ScaledSum {
   const jHi = lowerStart(a, h, m);
   const b = a + jHi;
-  const lnW = logGammaPrefactor(jHi, m);
-  const start = startingTerms(lnW, logRegularizedGammaLower(b, h), logGammaPrefactor(b - 1, h), () => {
-    const w = gammaPrefactor(jHi, m);
-    return [w * regularizedGammaLower(b, h), w * gammaPrefactor(b - 1, h)];
-  });
+  const start = startingTerms(
+    () => {
+      const w = gammaPrefactor(jHi, m);
+      return [w * regularizedGammaLower(b, h), w * gammaPrefactor(b - 1, h)];
+    },
+    () => {
+      const lnW = logGammaPrefactor(jHi, m);
+      return [lnW + logRegularizedGammaLower(b, h), lnW + logGammaPrefactor(b - 1, h)];
+    },
+  );
   let { t, e: f, k } = start;
   let sum = t;
   let previous = t;
@@ -145,11 +148,16 @@ function upperStart(a: number, h: number, m: number): number {
 function upperMixture(a: number, h: number, m: number): ScaledSum {
   const jLo = upperStart(a, h, m);
   const b = a + jLo;
-  const lnW = logGammaPrefactor(jLo, m);
-  const start = startingTerms(lnW, logRegularizedGammaUpper(b, h), logGammaPrefactor(b, h), () => {
-    const w = gammaPrefactor(jLo, m);
-    return [w * regularizedGammaUpper(b, h), w * gammaPrefactor(b, h)];
-  });
+  const start = startingTerms(
+    () => {
+      const w = gammaPrefactor(jLo, m);
+      return [w * regularizedGammaUpper(b, h), w * gammaPrefactor(b, h)];
+    },
+    () => {
+      const lnW = logGammaPrefactor(jLo, m);
+      return [lnW + logRegularizedGammaUpper(b, h), lnW + logGammaPrefactor(b, h)];
+    },
+  );
   let { t, e, k } = start;
   let sum = t;
   let previous = t;
