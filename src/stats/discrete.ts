@@ -50,16 +50,6 @@ export function binomialLowerTail(k: number, n: number, p: number): Probability 
   return probabilityFromLog(Math.min(0, logSumExp(terms)));
 }
 
-/** P(X ≥ k), X ~ Binomial(n, p). */
-export function binomialUpperTail(k: number, n: number, p: number): Probability {
-  const bottom = Math.max(Math.ceil(k), 0);
-  if (bottom > n) return probabilityFromLog(-Infinity);
-  if (bottom <= 0) return probabilityFromLog(0);
-  const terms: number[] = [];
-  for (let i = bottom; i <= n; i++) terms.push(logBinomialPmf(i, n, p));
-  return probabilityFromLog(Math.min(0, logSumExp(terms)));
-}
-
 /**
  * Two-sided p-value of a discrete statistic whose log point probabilities over its support are
  * `logPmf` (index i ↔ value lo + i): the total probability of values no more likely than the
