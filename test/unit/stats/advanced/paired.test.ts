@@ -54,6 +54,12 @@ describe("McNemar's test", () => {
     assert.deepEqual(r.otherStatistics.map((l) => l.id), ['mcnemar-corrected', 'mcnemar-exact', 'mcnemar-mid-p']);
   });
 
+  it('keeps the exact p-value below the double range as a power of ten: 2·2^−2000 for b = 0, c = 2000 (closed form)', () => {
+    const r = mcnemarTest([[10, 0], [2000, 10]], { method: 'exact' });
+    assert.equal(r.pValue.value, 0);
+    closeTo(r.pValue.log10, (1 - 2000) * Math.log10(2), 1e-12, 'log10 p = log10(2) − 2000·log10(2)', 'b = 0, c = 2000');
+  });
+
   it('reports p = 1 with a warning when no pair changed', () => {
     const r = mcnemarTest([[5, 0], [0, 7]]);
     assert.equal(r.pValue.value, 1);
