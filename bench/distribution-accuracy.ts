@@ -1,7 +1,9 @@
 // Measures the worst relative error of chi-square tails and quantiles against the mpmath fixtures,
 // region by region, for our implementation and (when present) jstat and stdlib-js.
-// Run: npx tsx bench/distribution-accuracy.ts [--stdlib /tmp/team/stdlib/node_modules]
-import { existsSync, readFileSync } from 'node:fs';
+// Run: npx tsx bench/distribution-accuracy.ts [--stdlib /tmp/team/stdlib/node_modules] [--with-r]
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import * as ours from '../src/stats/chisquare';
 
@@ -155,6 +157,48 @@ function stdlibImplementation(dir: string): Implementation | null {
   };
 }
 
+/**
+ * R's pchisq/qchisq (r-base-core from Debian), evaluated once for every fixture input through Rscript
+ * and looked up afterwards; null when Rscript is missing.
+ */
+function rImplementation(): Implementation | null {
+  const rscript = '/usr/bin/Rscript';
+  if (!existsSync(rscript)) return null;
+  const dir = mkdtempSync(join(tmpdir(), 'chisq-r-'));
+  const tails = loadTailPoints();
+  const quantiles = loadQuantilePoints();
+  const tailCsv = tails.map((p) => `${p.x},${p.df}`).join('\n');
+  const quantileCsv = quantiles.map((q) => `${q.tail},${q.p ?? 'NA'},${q.lnP ?? 'NA'},${q.df}`).join('\n');
+  writeFileSync(join(dir, 'tails.csv'), `x,df\n${tailCsv}\n`);
+  writeFileSync(join(dir, 'quantiles.csv'), `tail,p,lnp,df\n${quantileCsv}\n`);
+  const program = `
+    t <- read.csv("${dir}/tails.csv"); q <- read.csv("${dir}/quantiles.csv")
+    f <- function(v) sprintf("%.17g", v)
+    writeLines(paste(f(pchisq(t$x, t$df)), f(pchisq(t$x, t$df, lower.tail = FALSE)),
+                     f(pchisq(t$x, t$df, lower.tail = FALSE, log.p = TRUE))), "${dir}/tails.out")
+    out <- ifelse(q$tail == "lower", qchisq(q$p, q$df),
+             ifelse(q$tail == "upper", qchisq(q$p, q$df, lower.tail = FALSE),
+                    qchisq(q$lnp, q$df, lower.tail = FALSE, log.p = TRUE)))
+    writeLines(f(out), "${dir}/quantiles.out")
+    writeLines(R.version.string, "${dir}/version.out")`;
+  execFileSync(rscript, ['-e', program], { stdio: ['ignore', 'ignore', 'inherit'] });
+  const tailRows = readFileSync(join(dir, 'tails.out'), 'utf8').trim().split('\n').map((l) => l.split(' ').map(Number));
+  const quantileRows = readFileSync(join(dir, 'quantiles.out'), 'utf8').trim().split('\n').map(Number);
+  const version = readFileSync(join(dir, 'version.out'), 'utf8').trim().replace(/^R version (\S+).*/, '$1');
+  const tailIndex = new Map(tails.map((p, i) => [`${p.x}|${p.df}`, tailRows[i] as number[]]));
+  const quantileIndex = new Map(quantiles.map((q, i) => [`${q.tail}|${q.p ?? q.lnP}|${q.df}`, quantileRows[i] as number]));
+  const tail = (x: number, df: number, column: number): number => tailIndex.get(`${x}|${df}`)?.[column] ?? NaN;
+  return {
+    name: `R ${version}`,
+    lower: (x, df) => tail(x, df, 0),
+    upper: (x, df) => tail(x, df, 1),
+    logUpper: (x, df) => tail(x, df, 2),
+    quantile: (p, df) => quantileIndex.get(`lower|${p}|${df}`) ?? NaN,
+    upperQuantile: (q, df) => quantileIndex.get(`upper|${q}|${df}`) ?? NaN,
+    upperQuantileFromLog: (lnQ, df) => quantileIndex.get(`upper-log|${lnQ}|${df}`) ?? NaN,
+  };
+}
+
 function format(err: number | undefined): string {
   if (err === undefined) return '—';
   if (!Number.isFinite(err)) return 'fails (∞/NaN)';
@@ -181,6 +225,8 @@ if (require.main === module) {
   const at = process.argv.indexOf('--stdlib');
   const stdlibDir = at > 0 ? (process.argv[at + 1] as string) : '/tmp/team/stdlib/node_modules';
   const impls = [oursImplementation, jstatImplementation()];
+  const r = process.argv.includes('--with-r') ? rImplementation() : null;
+  if (r) impls.push(r);
   const stdlib = stdlibImplementation(stdlibDir);
   if (stdlib) impls.push(stdlib);
   else console.log(`(stdlib-js not found in ${stdlibDir}; install it there to include it)`);
