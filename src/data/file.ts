@@ -42,6 +42,8 @@ const SAMPLE_BYTES = 64 * 1024;
 interface Opened {
   readonly handle: FileHandle;
   readonly size: number;
+  /** Modification time when opened, to notice a file that changes while it is read. */
+  readonly modified: number;
   readonly encoding: TextEncoding;
   /** Bytes of the byte-order mark. */
   readonly bomLength: number;
@@ -113,7 +115,7 @@ async function openData(path: string, file: string, options: IntakeOptions): Pro
     }
     const sample = decoderFor(encoding)(body, true);
     const dialect = detectDialect(sample, options.dialect ?? {}, bytesRead < stat.size);
-    return { handle, size: stat.size, encoding, bomLength, dialect };
+    return { handle, size: stat.size, modified: stat.mtimeMs, encoding, bomLength, dialect };
   } catch (e) {
     await handle.close();
     throw e;
@@ -287,6 +289,10 @@ export async function aggregateFileMany(
     }
     if (reader === 'csv-parse') aggregators = await parseStream(opened, makeAggregators, file, control, hash);
     if (aggregators === undefined) throw inputError({ file }, 'found no records; expected at least one line of data', 'empty-input');
+    // The hash must describe the bytes that were counted: a file written meanwhile is refused.
+    const after = await opened.handle.stat();
+    if (after.size !== opened.size || after.mtimeMs !== opened.modified)
+      fail({ file }, 'the file changed while it was being read; expected it unchanged (read it again once it is written)', 'file-changed');
     const source = { description: options.description ?? file, sha256: hash.digest('hex') };
     return { aggregates: aggregators.map((a) => a.result(source)), reader };
   } finally {

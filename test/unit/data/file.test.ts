@@ -174,6 +174,19 @@ describe('data: files', () => {
         );
       });
     }
+    it('refuses a file that changes while it is read', async () => {
+      const path = scratchFile('growing.csv', 'route,class\nA,x\nB,y\n');
+      const { appendFileSync } = await import('node:fs');
+      await rejectsInput(
+        () =>
+          aggregateFile(path, FERRY.records, { file: 'growing.csv' }, {
+            // The last progress report comes after the last read: the file grows just then.
+            onProgress: (p) => p.bytesRead === p.totalBytes && appendFileSync(path, 'C,z\n'),
+          }),
+        'growing.csv: the file changed while it was being read; expected it unchanged (read it again once it is written)',
+        'file-changed',
+      );
+    });
     it('refuses an unclosed quote in a file, through csv-parse', async () => {
       const path = scratchFile('quote.csv', 'route,class\nA,"x\nB,y\n');
       await rejectsInput(
