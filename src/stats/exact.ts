@@ -99,10 +99,13 @@ class PastTable {
   }
 }
 
+const hashScratch = new Float64Array(1);
+const hashWords = new Int32Array(hashScratch.buffer);
+
+/** Mixes the two 32-bit halves of the key's bit pattern (no floating-point division). */
 function hashKey(key: number): number {
-  const low = key % 4294967296;
-  const high = (key - low) / 4294967296;
-  return (Math.imul(low | 0, 0x9e3779b1) ^ Math.imul(high | 0, 0x85ebca6b)) >>> 0;
+  hashScratch[0] = key;
+  return (Math.imul(hashWords[0], 0x9e3779b1) ^ Math.imul(hashWords[1] ^ (hashWords[0] >>> 15), 0x85ebca6b)) >>> 0;
 }
 
 interface Node {
