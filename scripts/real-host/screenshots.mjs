@@ -143,6 +143,19 @@ async function session({ name, theme, scheme }) {
         await maximized(page, () => page.screenshot({ path: join(media, `panel-variance-${name}.png`) }));
       });
 
+      await check(`${name}: goodness of fit with equal proportions`, async () => {
+        await palette(page, 'View: Join All Editor Groups');
+        await quickOpen(page, 'bike-trips.csv');
+        await palette(page, 'Countercheck: Test This Data File');
+        await answer(page, 'Goodness of fit');
+        await answer(page, 'dock');
+        await answer(page, 'Equal proportions');
+        await waitForPanel(page, /./);
+        const bars = await panelFrame(page).locator('figure.bars rect.bar-observed').count();
+        if (bars < 4) throw new Error(`expected a bar per dock, found ${bars}`);
+        await maximized(page, () => page.screenshot({ path: join(media, `panel-fit-${name}.png`) }));
+      });
+
       await check(`${name}: assumptions open from the keyboard`, async () => {
         const summary = panelFrame(page).locator('details.assumption summary').first();
         await summary.focus();
@@ -155,7 +168,7 @@ async function session({ name, theme, scheme }) {
         await page.reload();
         await page.waitForSelector('.monaco-workbench', { timeout: 60_000 });
         await sleep(4000);
-        await waitForPanel(page, /standard deviation|variance/i);
+        await waitForPanel(page, /equal proportions/i);
       });
     }
   } finally {

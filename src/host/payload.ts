@@ -123,7 +123,7 @@ export function buildPayload(result: Result, options: PayloadOptions): PanelPayl
       significant: result.significant,
       keyFigures: keyFigures(result, f),
       tables: testTables(result, f),
-      plots: plotsFor(result),
+      plots: plotsFor(result, f.decimals),
       assumptions: result.assumptions.map((a) => ({ ...a })),
       notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
       otherStatistics: [

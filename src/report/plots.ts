@@ -7,6 +7,7 @@ import type { BarsPlot, DensityPlot, IntervalPlot, Plot, PlotPoint, ResidualGrid
 import { chiSquareDensity, chiSquareQuantile, chiSquareUpperQuantile } from '../stats/chisquare';
 import { normalDensity, normalQuantile, normalUpperQuantile } from '../stats/normal';
 import type { Alternative, CategoryRow, CellGrid, TestResult } from '../stats/result';
+import { formatNumber } from './format';
 
 /** Two-sided 5 %, 1 % and 0.1 % points of the standard normal (|z| bands for residual shading). */
 export const RESIDUAL_BANDS: readonly number[] = [normalUpperQuantile(0.025), normalUpperQuantile(0.005), normalUpperQuantile(0.0005)];
@@ -81,7 +82,7 @@ function criticalValues(ref: Reference, alternative: Alternative, alpha: number)
  * The axis reaches the 99.9 % point (or a little past the statistic), but never more than 1.6 times that
  * point: a statistic farther out is drawn at the edge and flagged `clipped`.
  */
-export function densityPlot(result: TestResult, samples = 161): DensityPlot | null {
+export function densityPlot(result: TestResult, samples = 161, decimals = 2): DensityPlot | null {
   const { reference, statistic } = result;
   if (reference.kind === 'none' || !Number.isFinite(statistic)) return null;
   if (reference.kind === 'chi-square' && !(reference.df > 0)) return null;
@@ -132,7 +133,7 @@ export function densityPlot(result: TestResult, samples = 161): DensityPlot | nu
     yMax,
     curve: capped,
     shaded,
-    observed: { x: Math.min(xMax, Math.max(xMin, statistic)), label: `${result.statisticSymbol} = ${formatAxis(statistic)}`, clipped },
+    observed: { x: Math.min(xMax, Math.max(xMin, statistic)), label: `${result.statisticSymbol} = ${formatNumber(statistic, decimals)}`, clipped },
     critical: criticalValues(ref, alternative, result.alpha).filter((c) => c >= xMin && c <= xMax),
     ticks: niceTicks(xMin, xMax, 6),
   };
@@ -147,12 +148,6 @@ function tailPolygon(ref: Reference, a: number, b: number, yMax: number): PlotPo
   }
   points.push({ x: b, y: 0 });
   return points;
-}
-
-function formatAxis(x: number): string {
-  const size = Math.abs(x);
-  if (size !== 0 && (size >= 1e6 || size < 1e-3)) return x.toExponential(2);
-  return Number(x.toPrecision(4)).toString();
 }
 
 /** Observed and expected counts side by side, one pair per category. */
@@ -220,9 +215,9 @@ export function intervalPlot(result: TestResult): IntervalPlot | null {
 }
 
 /** Every plot that fits the result, in reading order. */
-export function plotsFor(result: TestResult): Plot[] {
+export function plotsFor(result: TestResult, decimals = 2): Plot[] {
   const plots: Plot[] = [];
-  const density = densityPlot(result);
+  const density = densityPlot(result, 161, decimals);
   if (density) plots.push(density);
   if (result.categories && result.categories.length > 0) plots.push(barsPlot(result.categories));
   if (result.grid) plots.push(residualGridPlot(result.grid));

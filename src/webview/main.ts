@@ -144,7 +144,7 @@ function renderAssumptions(payload: PanelPayload): HTMLElement {
 
 const W = 520;
 const H = 200;
-const M = { l: 44, r: 14, t: 22, b: 34 };
+const M = { l: 44, r: 14, t: 28, b: 34 };
 
 function figure(plot: Plot, body: SVGElement, description: string): HTMLElement {
   body.setAttribute('role', 'img');
@@ -183,9 +183,10 @@ function densityFigure(plot: DensityPlot): HTMLElement {
   for (const c of plot.critical) root.append(svg('line', { x1: sx(c), x2: sx(c), y1: M.t, y2: H - M.b, class: 'critical' }));
   xAxis(root, plot.ticks, sx, H - M.b, plot.xLabel);
   const ox = sx(plot.observed.x);
-  root.append(svg('line', { x1: ox, x2: ox, y1: M.t - 6, y2: H - M.b, class: 'observed' }));
+  root.append(svg('line', { x1: ox, x2: ox, y1: M.t - 4, y2: H - M.b, class: 'observed' }));
+  // The label sits above the plot area, so it never crosses the curve.
   const anchor = ox > W * 0.7 ? 'end' : 'start';
-  root.append(svg('text', { x: ox + (anchor === 'end' ? -5 : 5), y: M.t + 4, class: 'marker-label', 'text-anchor': anchor }, `${plot.observed.label}${plot.observed.clipped ? ' →' : ''}`));
+  root.append(svg('text', { x: ox + (anchor === 'end' ? -4 : 4), y: M.t - 8, class: 'marker-label', 'text-anchor': anchor }, `${plot.observed.label}${plot.observed.clipped ? ' →' : ''}`));
   const description = `${plot.title}. ${s('observedMarked', 'Observed statistic marked at')} ${plot.observed.label}; ${s('tailShaded', 'shaded area: the tail the p-value counts')}.`;
   const fig = figure(plot, root, description);
   fig.querySelector('figcaption')?.append(document.createTextNode(` — ${s('tailShaded', 'shaded area: the tail the p-value counts')}; ${s('criticalDashed', 'dashed: critical value at α')}`));
