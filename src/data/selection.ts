@@ -2,7 +2,7 @@
  * What a user selected in an editor, or what a notebook cell shows: a CSV/TSV range (with or
  * without its header), a JSON block, a markdown pipe table, or an HTML table from a data frame.
  */
-import { parseDelimited } from './delimited';
+import { parseDelimited, sha256Hex } from './delimited';
 import { parseHtmlTable, type HtmlTableOptions } from './html';
 import { readJsonData, type JsonData } from './json';
 import { looksLikeMarkdownTable, parseMarkdownTable } from './markdown';
@@ -35,7 +35,17 @@ export function detectSelectionFormat(text: string): SelectionFormat {
   return 'csv';
 }
 
+/** Records carry the SHA-256 of the selected text, for the provenance of what is computed from them. */
+function hashed(selection: Selection, text: string): Selection {
+  if (selection.kind !== 'records' || selection.records.sha256 !== undefined) return selection;
+  return { ...selection, records: { ...selection.records, sha256: sha256Hex(text) } };
+}
+
 export function parseSelection(text: string, hint: SelectionHint = {}): Selection {
+  return hashed(readSelection(text, hint), text);
+}
+
+function readSelection(text: string, hint: SelectionHint): Selection {
   if (text.trim() === '') fail({ file: hint.file, line: hint.firstLine }, 'the selection is empty; expected a table, a range of delimited lines or a JSON block', 'empty-input');
   const format = hint.format && hint.format !== 'auto' ? hint.format : detectSelectionFormat(text);
   const where = { file: hint.file, firstLine: hint.firstLine };
@@ -73,10 +83,10 @@ export function parseNotebookOutput(mime: string, data: unknown, options: Notebo
   const file = options.file;
   switch (mime.split(';')[0].trim().toLowerCase()) {
     case 'application/json':
-      return { ...readJsonData(text ?? data, { file }), format: 'json' };
+      return hashed({ ...readJsonData(text ?? data, { file }), format: 'json' }, text ?? JSON.stringify(data));
     case 'text/html':
       if (text === undefined) break;
-      return { kind: 'records', records: parseHtmlTable(text, options), format: 'html' };
+      return hashed({ kind: 'records', records: parseHtmlTable(text, options), format: 'html' }, text);
     case 'text/csv':
     case 'text/tab-separated-values':
       if (text === undefined) break;

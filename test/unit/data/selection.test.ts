@@ -8,6 +8,8 @@ import type { Records } from '../../../src/data/records';
 import { parseNotebookOutput, parseSelection, type Selection } from '../../../src/data/selection';
 import { throwsInput } from './expect';
 
+const SHA_OF_RECORD = 'b41c2caad604cad6aaeccd84f0aa87d69cb50ed85796839f912a41b7f244c1c2';
+
 function records(s: Selection): Records {
   assert.equal(s.kind, 'records');
   return (s as { records: Records }).records;
@@ -84,6 +86,11 @@ describe('data: selections', () => {
     it('reads {"values": …}, dropping nulls', () => {
       const s = parseSelection('{"values": [499.5, null, 500.25]}');
       assert.deepEqual(s.kind === 'values' && [s.values, s.dropped], [[499.5, 500.25], 1]);
+    });
+    it('gives records the SHA-256 of the selected text', () => {
+      // sha256 of the 12 bytes `[{"a": "x"}]` (coreutils sha256sum).
+      const r = records(parseSelection('[{"a": "x"}]'));
+      assert.equal(r.sha256, SHA_OF_RECORD);
     });
     it('reads an array of records, with null as missing', () => {
       const r = records(parseSelection('[{"oven": "A", "grams": 512}, {"oven": "B", "grams": null}, {"oven": "A"}]'));
