@@ -1,12 +1,14 @@
 /**
- * Data intake: text or bytes in, typed data out. Pure functions except `aggregateFile`/`aggregateFileMany`
- * (file.ts, the one module that reads files).
+ * Data intake: text or bytes in, typed data out. Everything exported here is pure; the file reader
+ * (`aggregateFile`, `aggregateFileMany` in ./file, the one module that reads files) is imported from
+ * there by hosts and the command line only.
  *
  *   parseDelimited(text, options) → Records           a CSV/TSV/semicolon/pipe text in memory
  *   parseSelection(text, hint) → Selection             an editor selection (CSV/TSV, JSON, markdown, HTML)
  *   parseNotebookOutput(mime, data) → Selection        a notebook cell output
  *   aggregateRecords(records, request, options)        Records → Aggregate (counts, table, moments)
- *   aggregateFile(path, request, options, control)     a file of any size, streamed
+ *   aggregateFile(path, request, options, control)     ./file: a file of any size, streamed
+ *   aggregateFileMany(path, requests, options, control) ./file: several requests in one pass
  *
  * Long counts (two category columns and a count column) are a `crosstab` request with `weight` set
  * to the count column; one category column with counts is a `categories` request with `weight`.
