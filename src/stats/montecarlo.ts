@@ -155,28 +155,15 @@ export function drawHypergeometric(rng: UniformSource, marked: number, draws: nu
   const modeProbability = Math.exp(
     lf[marked] - lf[mode] - lf[marked - mode] + lf[unmarked] - lf[draws - mode] - lf[offset + mode] - lf[population] + lf[draws] + lf[population - draws],
   );
-  // Inversion from the mode outwards (inlined for speed; same search as searchFromMode).
-  let u = rng.next() - modeProbability;
-  if (u < 0) return mode;
-  let up = mode;
-  let down = mode;
-  let pUp = modeProbability;
-  let pDown = modeProbability;
-  while (up < hi || down > lo) {
-    if (up < hi) {
-      pUp *= ((marked - up) * (draws - up)) / ((up + 1) * (offset + up + 1));
-      up++;
-      u -= pUp;
-      if (u < 0) return up;
-    }
-    if (down > lo) {
-      pDown *= (down * (offset + down)) / ((marked - down + 1) * (draws - down + 1));
-      down--;
-      u -= pDown;
-      if (u < 0) return down;
-    }
-  }
-  return mode;
+  return searchFromMode(
+    rng.next(),
+    mode,
+    modeProbability,
+    lo,
+    hi,
+    (x) => ((marked - x) * (draws - x)) / ((x + 1) * (offset + x + 1)),
+    (x) => (x * (offset + x)) / ((marked - x + 1) * (draws - x + 1)),
+  );
 }
 
 /** A binomial draw. */
