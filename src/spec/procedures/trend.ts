@@ -3,13 +3,13 @@
  * with `"scores"`; an r×c table of two ordinal variables gives the linear-by-linear association test with
  * `"rowScores"` and `"columnScores"`.
  */
-import { InputError } from '../../errors';
 import type { TestResult } from '../../stats/result';
 import { cochranArmitageTest, linearByLinearTest } from '../../stats/trend';
 import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext, SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
+import { placeCounts } from './paired';
 import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, requireLength, requireOneOf, sourceField } from './shared';
 
 export const trendProcedure: ProcedureHandler = {
@@ -74,19 +74,5 @@ async function orderedTableFromSource(spec: SpecV1, ctx: RunContext): Promise<nu
   const rows = spec.rowLabels!;
   const columns = spec.columnLabels!;
   const { table } = await aggregateOf(ctx, { kind: 'crosstab', rowColumn: outcome, columnColumn: group, weight: spec.source!.weight }, 'table', { rowLevels: rows, columnLevels: columns });
-  const counts = rows.map(() => columns.map(() => 0));
-  table.rowLabels.forEach((r, i) =>
-    table.columnLabels.forEach((c, j) => {
-      const n = table.counts[i][j];
-      if (n === 0) return;
-      const ri = rows.indexOf(r);
-      const ci = columns.indexOf(c);
-      if (ri < 0 || ci < 0) {
-        const [column, level, key] = ri < 0 ? [outcome, r, 'rowLabels'] : [group, c, 'columnLabels'];
-        throw new InputError(`column \`${column}\` has the level "${level}", which "${key}" does not list; add it in its place in the order or fix the data`, { jsonPath: `$.${key}`, column }, 'unknown-level');
-      }
-      counts[ri][ci] += n;
-    }),
-  );
-  return counts;
+  return placeCounts(table, rows, columns, [outcome, group], ['rowLabels', 'columnLabels']);
 }

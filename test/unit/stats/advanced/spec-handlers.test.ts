@@ -1,6 +1,9 @@
 // The advanced procedures reached through saved specs (runSpec, the same path as the command line and the
 // editor): each answer is compared with the R or statsmodels reference for the same data.
 import { strict as assert } from 'node:assert';
+import { join } from 'node:path';
+import { aggregateFile } from '../../../../src/data/file';
+import { InputError } from '../../../../src/errors';
 import { runSpec } from '../../../../src/spec/run';
 import type { SpecReaders } from '../../../../src/spec/types';
 import { SpecError } from '../../../../src/spec/validate';
@@ -100,6 +103,16 @@ describe('specs for the advanced procedures', () => {
     const c = R.posthoc;
     const r = (await run({ test: 'post-hoc', table: c.table, compare: 'rows', adjustment: 'holm' })) as TestResult;
     r.otherStatistics.forEach((l, k) => closeTo(l.pValue.value, c.pairHolm[k], 1e-10, `${l.name} Holm p`, c.table));
+  });
+
+  it('names the column and the level when a file has a level the spec does not list', async () => {
+    const folder = join(__dirname, '..', '..', '..', '..', 'demo', 'advanced');
+    const fileReaders: SpecReaders = { aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }) };
+    const spec = { test: 'paired', source: { path: 'data/cafe-panel.csv', columns: ['before', 'after'] }, rowLabels: ['recommend', 'undecided'] };
+    await assert.rejects(
+      runSpec(spec, { readers: fileReaders, specPath: join(folder, 'x.countercheck.json'), allowedRoot: folder }),
+      (e: unknown) => e instanceof InputError && /`before`/.test(e.message) && /would not/.test(e.message),
+    );
   });
 
   it('rejects a non-square paired table and a power spec with both n and power, naming the field', async () => {
