@@ -88,6 +88,16 @@ async function maximized(page, shoot) {
   await sleep(400);
 }
 
+/** Opens a data file, runs "Test This Data File…" from the palette and answers each question by typing. */
+async function testFileByKeyboard(page, file, answers, headline) {
+  await palette(page, 'View: Join All Editor Groups');
+  await quickOpen(page, file);
+  await palette(page, 'Countercheck: Test This Data File');
+  for (const text of answers) await answer(page, text);
+  await waitForPanel(page, headline);
+  await sleep(800);
+}
+
 function panelFrame(page) {
   return page.frameLocator('iframe.webview').last().frameLocator('#active-frame');
 }
@@ -129,28 +139,12 @@ async function session({ name, theme, scheme }) {
 
     if (name === 'light') {
       await check(`${name}: the variance flow is keyboard-only through QuickPicks`, async () => {
-        await page.keyboard.press('Control+K');
-        await page.keyboard.press('W'); // close all editors
-        await sleep(600);
-        await quickOpen(page, 'bike-trips.csv');
-        await palette(page, 'Countercheck: Test This Data File');
-        await answer(page, 'Variance');
-        await answer(page, 'trip_minutes');
-        await answer(page, '6');
-        await answer(page, '');
-        await waitForPanel(page, /standard deviation|variance/i);
-        await sleep(800);
+        await testFileByKeyboard(page, 'bike-trips.csv', ['Variance', 'trip_minutes', '6', ''], /standard deviation|variance/i);
         await maximized(page, () => page.screenshot({ path: join(media, `panel-variance-${name}.png`) }));
       });
 
       await check(`${name}: goodness of fit with equal proportions`, async () => {
-        await palette(page, 'View: Join All Editor Groups');
-        await quickOpen(page, 'bike-trips.csv');
-        await palette(page, 'Countercheck: Test This Data File');
-        await answer(page, 'Goodness of fit');
-        await answer(page, 'dock');
-        await answer(page, 'Equal proportions');
-        await waitForPanel(page, /./);
+        await testFileByKeyboard(page, 'bike-trips.csv', ['Goodness of fit', 'dock', 'Equal proportions'], /proportions/i);
         const bars = await panelFrame(page).locator('figure.bars rect.bar-observed').count();
         if (bars < 4) throw new Error(`expected a bar per dock, found ${bars}`);
         await maximized(page, () => page.screenshot({ path: join(media, `panel-fit-${name}.png`) }));
