@@ -42,7 +42,6 @@ const DEFAULT_WORK_LIMIT = 5e6;
 const LOG_TIE_TOLERANCE = Math.log1p(1e-7);
 const LN10 = Math.LN10;
 
-
 /**
  * The past weights reaching one node, merged when equal to 1e-9: an open-addressing hash table in typed
  * arrays (no object per entry), read out sorted by value.
