@@ -23,6 +23,12 @@ describe('Fisher exact test for r×c tables', () => {
     });
   }
 
+  it('ignores an empty row and an empty column (R fisher.test on the table without them)', () => {
+    const c = R.fisher.find((f) => f.name === 't2x3')!;
+    const padded = [[c.table[0][0], 0, c.table[0][1], c.table[0][2]], [0, 0, 0, 0], [c.table[1][0], 0, c.table[1][1], c.table[1][2]]];
+    closeTo(fisherExactRxC(padded).pValue!.value, c.pValue, 1e-9, 'p with empty margins', padded);
+  });
+
   it('gives the same p for a table and its transpose', () => {
     const t = [[3, 0, 2, 5, 1], [0, 4, 1, 1, 6], [2, 2, 3, 0, 0]];
     const tt = t[0].map((_, j) => t.map((row) => row[j]));
