@@ -28,6 +28,8 @@ export interface CountercheckApi {
   lastError(): { message: string; code?: string; file?: string; line?: number } | undefined;
   /** Saves the active panel's spec to `target` with its recorded result (the panel's "save" button without the dialog). */
   saveActive(target: vscode.Uri): Promise<vscode.Uri | undefined>;
+  /** Cancels the runs in progress, as the progress notification's Cancel button does; returns how many. */
+  cancelRunning(): number;
   /** Restores a panel from serialized state, as the workbench does after a reload. */
   restorePanel(panel: vscode.WebviewPanel, state: unknown): Promise<void>;
 }
@@ -75,6 +77,7 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
       if (!origin) throw new Error('the active panel has no spec to save');
       return saveSpec(services, origin, target);
     },
+    cancelRunning: () => services.cancelRunning(),
     restorePanel: (panel, state) => services.panels.deserializeWebviewPanel(panel, state as never),
   };
 }

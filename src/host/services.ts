@@ -52,6 +52,12 @@ export class Services {
   private counter = 0;
   /** The last error shown to the user (for diagnostics and tests). */
   lastError: { message: string; code?: string; file?: string; line?: number } | undefined;
+  /** Aborts the runs in progress: what the notification's Cancel button does. */
+  private readonly running = new Set<AbortController>();
+  cancelRunning(): number {
+    for (const a of this.running) a.abort();
+    return this.running.size;
+  }
 
   constructor(
     readonly context: vscode.ExtensionContext,
@@ -73,6 +79,7 @@ export class Services {
       { location: vscode.ProgressLocation.Notification, title: t('Countercheck: {0}', label), cancellable: true },
       async (progress, token) => {
         const abort = new AbortController();
+        this.running.add(abort);
         const sub = token.onCancellationRequested(() => abort.abort());
         let reported = 0;
         try {
@@ -95,6 +102,7 @@ export class Services {
           throw e;
         } finally {
           sub.dispose();
+          this.running.delete(abort);
         }
       },
     );

@@ -93,6 +93,29 @@ describe('bad input', () => {
   });
 });
 
+describe('long reads', () => {
+  it('stops reading a large file when the run is cancelled, without an error or a panel', async function () {
+    this.timeout(120_000);
+    const a = await api();
+    const row = 'member,sunny,18.5,Harbour\n';
+    const file = dataUri('large-trips.csv');
+    await vscode.workspace.fs.writeFile(file, new TextEncoder().encode(`rider,weather,trip_minutes,dock\n${row.repeat(2_000_000)}`));
+    const panelsBefore = a.panels().length;
+    const errorBefore = a.lastError();
+    const running = vscode.commands.executeCommand('countercheck.runOnFile', file, { test: 'independence', columns: ['rider', 'dock'] });
+    let cancelled = 0;
+    for (let i = 0; i < 200 && cancelled === 0; i++) {
+      await new Promise((r) => setTimeout(r, 10));
+      cancelled = a.cancelRunning();
+    }
+    await running;
+    assert.equal(cancelled, 1, 'a run was in progress');
+    assert.equal(a.panels().length, panelsBefore, 'no panel for a cancelled run');
+    assert.equal(a.lastError(), errorBefore, 'cancelling is not an error');
+    await vscode.workspace.fs.delete(file);
+  });
+});
+
 describe('notebook cells', () => {
   afterEach(closeAllEditors);
 
