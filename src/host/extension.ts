@@ -41,9 +41,11 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
   trackEditors(context);
   const command = (id: string, run: (...args: never[]) => unknown) => context.subscriptions.push(vscode.commands.registerCommand(id, run as (...args: unknown[]) => unknown));
 
-  command(COMMANDS.runOnFile, (uri?: vscode.Uri, answers?: object) => runOnFile(services, uri, answers));
-  command(COMMANDS.runOnSelection, (answers?: object) => runOnSelection(services, answers instanceof vscode.Uri ? {} : answers));
-  command(COMMANDS.runOnCellOutput, (cell?: vscode.NotebookCell, answers?: object) => runOnCellOutput(services, cell, answers));
+  // From the explorer the second argument is the list of selected files, not answers.
+  const answersFrom = (value: unknown) => (value && typeof value === 'object' && !Array.isArray(value) && !(value instanceof vscode.Uri) ? value : {});
+  command(COMMANDS.runOnFile, (uri?: vscode.Uri, answers?: object) => runOnFile(services, uri, answersFrom(answers)));
+  command(COMMANDS.runOnSelection, (answers?: object) => runOnSelection(services, answersFrom(answers)));
+  command(COMMANDS.runOnCellOutput, (cell?: vscode.NotebookCell, answers?: object) => runOnCellOutput(services, cell, answersFrom(answers)));
   command(COMMANDS.distributionLookup, (args?: { df?: number; x?: number; p?: number }) => distributionLookup(services, args));
   command(COMMANDS.runSavedSpec, (uri?: vscode.Uri) => runSavedSpec(services, uri));
   command(COMMANDS.rerunAndCompare, (uri?: vscode.Uri) => rerunAndCompare(services, uri));
