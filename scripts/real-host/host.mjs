@@ -1,8 +1,8 @@
 // Starts and stops a real VS Code workbench (code-server from the npm registry) and a headless Chromium
 // that drives it. Shared by the integration run, the screenshot run and `npm run demo`.
 // Everything lives in one private temp folder; only the process group started here is ever killed.
-import { spawn } from 'node:child_process';
-import { cpSync, existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync, openSync, closeSync, readFileSync } from 'node:fs';
+import { execFileSync, spawn } from 'node:child_process';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync, openSync, closeSync, readFileSync, readdirSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { homedir, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
@@ -145,6 +145,19 @@ export async function startHost({ settings = {}, copyWorkspaceFrom = null, extra
   }
   log(`code-server ${url} (pid ${child.pid}, temp ${temp})`);
   return host;
+}
+
+/** Installs a .vsix into a throwaway extensions folder with code-server's own installer; returns the installed folder names. */
+export function installVsix(vsix) {
+  checkHostInstalled();
+  const temp = mkdtempSync(join(tmpdir(), 'countercheck-vsix-'));
+  try {
+    const env = { ...process.env, XDG_CONFIG_HOME: join(temp, 'xdg-config'), XDG_DATA_HOME: join(temp, 'xdg-data') };
+    const out = execFileSync(node24, [codeServerEntry, '--user-data-dir', join(temp, 'user-data'), '--extensions-dir', join(temp, 'extensions'), '--install-extension', vsix], { env, encoding: 'utf8' });
+    return { output: out, installed: readdirSync(join(temp, 'extensions')).filter((n) => !n.endsWith('.json')) };
+  } finally {
+    rmSync(temp, { recursive: true, force: true });
+  }
 }
 
 /** Headless Chromium with a fresh profile inside the host's temp folder. */

@@ -13,6 +13,17 @@ describe('activation', () => {
     }
   });
 
+  it('puts the commands in the explorer and editor menus where they apply, and the schema on spec files', () => {
+    const pkg = vscode.extensions.getExtension('countercheck.countercheck')!.packageJSON as {
+      contributes: { menus: Record<string, { command: string; when?: string }[]>; jsonValidation: { fileMatch: string; url: string }[] };
+    };
+    const menu = (where: string, id: string) => pkg.contributes.menus[where]?.find((m) => m.command === id);
+    assert.match(menu('explorer/context', 'countercheck.runOnFile')?.when ?? '', /csv\|tsv/);
+    assert.match(menu('editor/context', 'countercheck.runOnSelection')?.when ?? '', /editorHasSelection/);
+    assert.ok(menu('notebook/cell/title', 'countercheck.runOnCellOutput'));
+    assert.deepEqual(pkg.contributes.jsonValidation, [{ fileMatch: '*.countercheck.json', url: './schemas/countercheck.schema.json' }]);
+  });
+
   it('contributes every command with the Countercheck category', () => {
     const pkg = vscode.extensions.getExtension('countercheck.countercheck')!.packageJSON as { contributes: { commands: { category: string; title: string }[] } };
     for (const c of pkg.contributes.commands) assert.equal(c.category, 'Countercheck', c.title);
