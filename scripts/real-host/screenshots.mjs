@@ -122,6 +122,9 @@ async function session({ name, theme, scheme }) {
     context = await launchBrowser(host, { colorScheme: scheme, viewport: { width: 1500, height: 1000 } });
     const page = context.pages()[0] ?? (await context.newPage());
     currentPage = page;
+    // The panel's nonce CSP must not refuse anything the panel itself loads (scripts, styles, codicon font).
+    const refused = [];
+    page.on('console', (m) => { if (/Refused to|Content Security Policy/i.test(m.text()) && /webview|vscode-cdn|vscode-resource|codicon|nonce/i.test(m.text())) refused.push(m.text()); });
     await page.goto(testPayloadUrl(host));
     await page.waitForSelector('.monaco-workbench', { timeout: 60_000 });
     await page.waitForSelector('.statusbar', { timeout: 60_000 });
@@ -135,6 +138,10 @@ async function session({ name, theme, scheme }) {
       if (!/χ²\(4, N = 91\) = 13\.79/.test(apa ?? '')) throw new Error(`APA line "${apa}"`);
       await sleep(800);
       await maximized(page, () => page.screenshot({ path: join(media, `panel-table-${name}.png`) }));
+    });
+
+    await check(`${name}: the panel's content security policy refuses nothing it needs`, async () => {
+      if (refused.length) throw new Error(refused.slice(0, 3).join(' | '));
     });
 
     if (name === 'light') {
