@@ -8,4 +8,5 @@ export const COMMANDS = {
   rerunAndCompare: 'countercheck.rerunAndCompare',
   refreshAllBlocks: 'countercheck.refreshAllBlocks',
   refreshBlock: 'countercheck.refreshBlock',
+  openSpecResult: 'countercheck.openSpecResult',
 } as const;

@@ -7,7 +7,7 @@ import { refreshBlocks } from './commands/reportBlocks';
 import { runOnCellOutput } from './commands/runOnCellOutput';
 import { runOnFile } from './commands/runOnFile';
 import { runOnSelection } from './commands/runOnSelection';
-import { rerunAndCompare, runSavedSpec } from './commands/savedSpecs';
+import { openSpecResult, rerunAndCompare, runSavedSpec } from './commands/savedSpecs';
 import { BlockCodeLensProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
 import { PANEL_VIEW_TYPE } from './panel';
 import { handlePanelAction, saveSpec, trackEditors } from './panelActions';
@@ -51,6 +51,7 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
   command(COMMANDS.rerunAndCompare, (uri?: vscode.Uri) => rerunAndCompare(services, uri));
   command(COMMANDS.refreshAllBlocks, (uri?: vscode.Uri) => refreshBlocks(services, uri));
   command(COMMANDS.refreshBlock, (uri: vscode.Uri, index: number) => refreshBlocks(services, uri, index));
+  command(COMMANDS.openSpecResult, (uri: vscode.Uri) => openSpecResult(services, uri));
   registerSqlCommands(context, services);
 
   context.subscriptions.push(

@@ -12,7 +12,7 @@ export class SpecCodeLensProvider implements vscode.CodeLensProvider {
     return [
       new vscode.CodeLens(top, { title: `$(play) ${t('Run')}`, command: COMMANDS.runSavedSpec, arguments: [doc.uri] }),
       new vscode.CodeLens(top, { title: `$(history) ${t('Re-run and compare')}`, command: COMMANDS.rerunAndCompare, arguments: [doc.uri] }),
-      new vscode.CodeLens(top, { title: `$(preview) ${t('Open result')}`, command: COMMANDS.runSavedSpec, arguments: [doc.uri] }),
+      new vscode.CodeLens(top, { title: `$(preview) ${t('Open result')}`, command: COMMANDS.openSpecResult, arguments: [doc.uri] }),
     ];
   }
 }

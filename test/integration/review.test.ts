@@ -90,5 +90,12 @@ describe('saved tests and living reports', () => {
     const hovers = await vscode.commands.executeCommand<vscode.Hover[]>('vscode.executeHoverProvider', spec, new vscode.Position(line, character));
     const text = hovers.flatMap((h) => h.contents.map((c) => (typeof c === 'string' ? c : c.value))).join('\n');
     assert.match(text, /Which procedure to run/);
+    const open = lenses.find((l) => l.command?.command === 'countercheck.openSpecResult');
+    assert.ok(open?.command, 'an open-result lens');
+    const a = await api();
+    await vscode.commands.executeCommand(open.command.command, ...(open.command.arguments ?? []));
+    const count = a.panels().length;
+    await vscode.commands.executeCommand(open.command.command, ...(open.command.arguments ?? []));
+    assert.equal(a.panels().length, count, 'the second time reveals the panel already open');
   });
 });

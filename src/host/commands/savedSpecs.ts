@@ -94,3 +94,10 @@ export async function rerunAndCompare(services: Services, uri?: vscode.Uri): Pro
     return undefined;
   }
 }
+
+/** Shows the panel that already holds this spec's result, or runs the spec to make one. */
+export async function openSpecResult(services: Services, uri: vscode.Uri): Promise<void> {
+  const open = services.panels.all.find((p) => p.payload.origin?.saved && p.payload.origin.specPath === uri.fsPath);
+  if (open) open.panel.reveal(undefined, false);
+  else await runSavedSpec(services, uri);
+}
