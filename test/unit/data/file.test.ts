@@ -136,7 +136,7 @@ describe('data: files', () => {
     for (const engine of ['auto', 'csv-parse'] as const) {
       const controller = new AbortController();
       const started = Date.now();
-      const reading = aggregateFile(path, { kind: 'crosstab', rowColumn: 'a', columnColumn: 'b' }, {}, { signal: controller.signal, chunkSize: 4096, engine });
+      const reading = aggregateFile(path, { kind: 'crosstab', rowColumn: 'a', columnColumn: 'b' }, {}, { signal: controller.signal, chunkSize: 4096, engine, hashThreadFrom: 0 });
       setTimeout(() => controller.abort(), 20);
       let abortedAt = 0;
       controller.signal.addEventListener('abort', () => (abortedAt = Date.now()));
