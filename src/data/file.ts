@@ -6,7 +6,6 @@
 import { createHash, type Hash } from 'node:crypto';
 import { open, type FileHandle } from 'node:fs/promises';
 import { Readable } from 'node:stream';
-import { Worker } from 'node:worker_threads';
 import { parse } from 'csv-parse';
 import { Aggregator } from './aggregate';
 import { detectDialect } from './dialect';
@@ -29,8 +28,6 @@ export interface FileReadControl {
   readonly onProgress?: (progress: ReadProgress) => void;
   /** `auto` (default): the byte scanner where it applies; `csv-parse`: always the general reader. */
   readonly engine?: 'auto' | 'csv-parse';
-  /** Files of at least this many bytes are hashed on a second thread while the scanner counts (default 8 MiB). */
-  readonly hashThreadFrom?: number;
   /** Read size in bytes (default 1 MiB for the byte scanner, 64 KiB for csv-parse, whose memory grows with it). */
   readonly chunkSize?: number;
 }
@@ -125,73 +122,13 @@ async function openData(path: string, file: string, options: IntakeOptions): Pro
   }
 }
 
-/** Where the bytes read go to be hashed. */
-interface ByteSink {
-  update(bytes: Uint8Array): void;
-}
-
-const IGNORE_BYTES: ByteSink = { update: () => undefined };
-
-/**
- * SHA-256 of a file on a second thread, so the scanner's thread only counts. The worker reads the
- * file itself; the size and modification time checked after the scan make sure both saw the same bytes.
- */
-const HASH_WORKER = `
-const { parentPort, workerData } = require('node:worker_threads');
-const { createHash } = require('node:crypto');
-const { openSync, readSync, closeSync } = require('node:fs');
-const hash = createHash('sha256');
-const buffer = new Uint8Array(1 << 20);
-const fd = openSync(workerData.path, 'r');
-let bytes = 0;
-for (let n = readSync(fd, buffer, 0, buffer.length, null); n > 0; n = readSync(fd, buffer, 0, buffer.length, null)) {
-  hash.update(buffer.subarray(0, n));
-  bytes += n;
-}
-closeSync(fd);
-parentPort.postMessage({ sha256: hash.digest('hex'), bytes });
-`;
-
-interface ThreadDigest {
-  readonly result: Promise<{ sha256: string; bytes: number }>;
-  stop(): void;
-}
-
-function hashOnThread(path: string): ThreadDigest | undefined {
-  let worker: Worker;
-  try {
-    worker = new Worker(HASH_WORKER, { eval: true, workerData: { path } });
-  } catch {
-    return undefined;
-  }
-  const result = new Promise<{ sha256: string; bytes: number }>((resolve, reject) => {
-    worker.once('message', resolve);
-    worker.once('error', reject);
-    worker.once('exit', (code) => reject(new Error(`the hashing thread stopped (exit code ${code})`)));
-  });
-  result.catch(() => undefined);
-  return { result, stop: () => void worker.terminate() };
-}
-
-/** SHA-256 of the whole file on this thread (when a second thread could not give it). */
-async function hashHere(opened: Opened): Promise<string> {
-  const hash = createHash('sha256');
-  const buffer = new Uint8Array(1 << 20);
-  for (let position = 0; ; ) {
-    const { bytesRead } = await opened.handle.read(buffer, 0, buffer.length, position);
-    if (bytesRead === 0) return hash.digest('hex');
-    hash.update(buffer.subarray(0, bytesRead));
-    position += bytesRead;
-  }
-}
-
 /** The byte scanner; throws ScannerFallback for input it leaves to csv-parse. */
 async function scanBytes(
   opened: Opened,
   makeAggregators: (columns: string[]) => Aggregator[],
   file: string,
   control: FileReadControl,
-  hash: ByteSink,
+  hash: Hash,
 ): Promise<Aggregator[] | undefined> {
   const scanner = new ByteScanner({
     dialect: opened.dialect,
@@ -339,42 +276,25 @@ export async function aggregateFileMany(
       requests.every((r) => r.kind !== 'counted-table') &&
       (opened.encoding === 'utf-8' || opened.encoding === 'latin1');
     let reader: FileReader = 'csv-parse';
-    let hash: Hash | undefined;
-    let thread: ThreadDigest | undefined;
+    let hash = createHash('sha256');
     let aggregators: Aggregator[] | undefined;
-    try {
-      if (scannable) {
-        thread = opened.size >= (control.hashThreadFrom ?? 8 << 20) ? hashOnThread(path) : undefined;
-        if (thread === undefined) hash = createHash('sha256');
-        try {
-          aggregators = await scanBytes(opened, makeAggregators, file, control, hash ?? IGNORE_BYTES);
-          reader = 'byte-scanner';
-        } catch (e) {
-          if (!(e instanceof ScannerFallback)) throw e;
-          thread?.stop();
-          thread = undefined;
-        }
-      }
-      if (reader === 'csv-parse') {
+    if (scannable) {
+      try {
+        aggregators = await scanBytes(opened, makeAggregators, file, control, hash);
+        reader = 'byte-scanner';
+      } catch (e) {
+        if (!(e instanceof ScannerFallback)) throw e;
         hash = createHash('sha256');
-        aggregators = await parseStream(opened, makeAggregators, file, control, hash);
       }
-      if (aggregators === undefined) throw inputError({ file }, 'found no records; expected at least one line of data', 'empty-input');
-      // The hash must describe the bytes that were counted: a file written meanwhile is refused.
-      const after = await opened.handle.stat();
-      if (after.size !== opened.size || after.mtimeMs !== opened.modified)
-        fail({ file }, 'the file changed while it was being read; expected it unchanged (read it again once it is written)', 'file-changed');
-      let sha256: string;
-      if (hash) sha256 = hash.digest('hex');
-      else {
-        const hashed = await thread?.result.catch(() => undefined);
-        sha256 = hashed !== undefined && hashed.bytes === opened.size ? hashed.sha256 : await hashHere(opened);
-      }
-      const source = { description: options.description ?? file, sha256 };
-      return { aggregates: aggregators.map((a) => a.result(source)), reader };
-    } finally {
-      thread?.stop();
     }
+    if (reader === 'csv-parse') aggregators = await parseStream(opened, makeAggregators, file, control, hash);
+    if (aggregators === undefined) throw inputError({ file }, 'found no records; expected at least one line of data', 'empty-input');
+    // The hash must describe the bytes that were counted: a file written meanwhile is refused.
+    const after = await opened.handle.stat();
+    if (after.size !== opened.size || after.mtimeMs !== opened.modified)
+      fail({ file }, 'the file changed while it was being read; expected it unchanged (read it again once it is written)', 'file-changed');
+    const source = { description: options.description ?? file, sha256: hash.digest('hex') };
+    return { aggregates: aggregators.map((a) => a.result(source)), reader };
   } finally {
     await opened.handle.close();
   }

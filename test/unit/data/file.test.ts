@@ -72,16 +72,6 @@ describe('data: files', () => {
     assert.equal(b.provenance.sha256, a.provenance.sha256);
   });
 
-  it('gives the same SHA-256 when a second thread hashes (and after a fallback to csv-parse)', async () => {
-    const { createHash } = await import('node:crypto');
-    for (const name of ['ferry-tab.tsv', 'ferry-bom-crlf.csv']) {
-      const path = join(dialects, name);
-      const a = await aggregateFile(path, FERRY.records, {}, { hashThreadFrom: 0 });
-      assert.equal(a.reader, name === 'ferry-tab.tsv' ? 'byte-scanner' : 'csv-parse');
-      assert.equal(a.provenance.sha256, createHash('sha256').update(new Uint8Array(readFileSync(path))).digest('hex'), name);
-    }
-  });
-
   describe('against pandas (test/fixtures/pandas, written by scripts/fixtures/pandas_crosstab.py)', () => {
     const reference = JSON.parse(readFileSync(join(fixtures, 'pandas', 'parcels.json'), 'utf8'));
     const path = join(fixtures, 'pandas', 'parcels.csv');
@@ -136,7 +126,7 @@ describe('data: files', () => {
     for (const engine of ['auto', 'csv-parse'] as const) {
       const controller = new AbortController();
       const started = Date.now();
-      const reading = aggregateFile(path, { kind: 'crosstab', rowColumn: 'a', columnColumn: 'b' }, {}, { signal: controller.signal, chunkSize: 4096, engine, hashThreadFrom: 0 });
+      const reading = aggregateFile(path, { kind: 'crosstab', rowColumn: 'a', columnColumn: 'b' }, {}, { signal: controller.signal, chunkSize: 4096, engine });
       setTimeout(() => controller.abort(), 20);
       let abortedAt = 0;
       controller.signal.addEventListener('abort', () => (abortedAt = Date.now()));
