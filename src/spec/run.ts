@@ -21,6 +21,7 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   let provenance: Provenance | undefined;
   const ctx: RunContext = {
     signal: options.signal,
+    onProgress: options.onProgress,
     hasSource: spec.source !== undefined,
     async aggregate(request, levels) {
       if (!spec.source) throw new InputError('$.source: this spec has no source to read', { jsonPath: '$.source' }, 'no-source');

@@ -127,6 +127,8 @@ export interface SpecRun {
 /** What a procedure handler gets at run time. */
 export interface RunContext {
   readonly signal?: AbortSignal;
+  /** Reports the fraction done of long computations (Monte Carlo, exact enumeration). */
+  readonly onProgress?: (fraction: number) => void;
   /** True when the spec has a `source`. */
   readonly hasSource: boolean;
   /**

@@ -117,7 +117,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
         alpha: spec.alpha,
       }),
       spec,
-      { signal: ctx.signal },
+      { signal: ctx.signal, onProgress: ctx.onProgress },
     );
   },
 };

@@ -102,7 +102,7 @@ export const independenceProcedure: ProcedureHandler = {
         confidence: spec.confidence,
       }),
       spec,
-      { signal: ctx.signal },
+      { signal: ctx.signal, onProgress: ctx.onProgress },
     );
   },
 };
