@@ -237,7 +237,6 @@ export class ByteScanner {
   /** Per used field: the number the fast path read, and whether it read one. */
   private numbers = new Float64Array(0);
   private numbered = new Uint8Array(0);
-  private readonly codes = new Int32Array(2);
   private readonly classes = new Uint8Array(256);
   private readonly decimal: number;
   private readonly comment: number;
@@ -555,58 +554,61 @@ export class ByteScanner {
     const line = this.line;
     const parts = this.parts as Part[];
     for (let p = 0; p < parts.length; p++) {
-      const part = parts[p];
-      const aggregator = part.aggregator;
+      const { aggregator, kind, slots } = parts[p];
       aggregator.addRecord();
-      let weight = 1;
-      let value = 0;
-      let missing = false;
-      let c = 0;
-      const slots = part.slots;
-      for (let q = 0; q < slots.length; q++) {
-        const slot = slots[q];
-        const u = slot.field;
-        let a = this.starts[u];
-        let b = this.ends[u];
-        if (slot.role === CATEGORY_ROLE && this.hashed[u] === 1) {
-          // Raw bytes as the key: ` A` and `A` are two keys of one category (the coder trims).
-          const code = this.category(slot, buf, a, b, this.hashes[u], u, line);
-          if (code === MISSING) missing = true;
-          this.codes[c++] = code;
-          continue;
-        }
-        if (slot.role !== CATEGORY_ROLE && this.numbered[u] === 1) {
-          const x = this.numbers[u];
-          if (slot.role === WEIGHT_ROLE) {
-            weight = x >= 0 && Number.isInteger(x) ? x : aggregator.readWeight(this.text(buf, a, b, u), line);
-            if (weight < 0) missing = true;
-          } else value = x;
-          continue;
-        }
-        while (a < b && (buf[a] === SPACE || buf[a] === TAB)) a++;
-        while (b > a && (buf[b - 1] === SPACE || buf[b - 1] === TAB)) b--;
-        if (slot.role === CATEGORY_ROLE) {
-          let hash = FNV_OFFSET;
-          for (let k = a; k < b; k++) hash = Math.imul(hash ^ buf[k], FNV_PRIME);
-          const code = this.category(slot, buf, a, b, hash, u, line);
-          if (code === MISSING) missing = true;
-          this.codes[c++] = code;
-        } else {
-          const fast = parseNumberBytes(buf, a, b, this.decimal);
-          if (slot.role === WEIGHT_ROLE) {
-            weight =
-              fast >= 0 && Number.isInteger(fast) && fast <= Number.MAX_SAFE_INTEGER ? fast : aggregator.readWeight(this.text(buf, a, b, u), line);
-            if (weight < 0) missing = true;
-          } else {
-            value = Number.isNaN(fast) ? aggregator.readNumber(this.text(buf, a, b, u), line) : fast;
-            if (Number.isNaN(value)) missing = true;
-          }
-        }
+      // Slots come as the aggregator lists them: categories, then the weight, then the number.
+      if (kind === KIND_NUMERIC) {
+        const x = this.valueOf(slots[0], aggregator, buf, line);
+        if (Number.isNaN(x)) aggregator.drop();
+        else aggregator.addValue(x);
+        continue;
       }
-      if (missing) aggregator.drop();
-      else if (part.kind === KIND_NUMERIC) aggregator.addValue(value);
-      else aggregator.addCell(this.codes[0], part.kind === KIND_CROSSTAB ? this.codes[1] : 0, weight);
+      // The weight first, as Aggregator.push reads it, so both readers refuse the same thing first.
+      const weighted = slots.length > (kind === KIND_CROSSTAB ? 2 : 1);
+      const w = weighted ? this.weightOf(slots[slots.length - 1], aggregator, buf, line) : 1;
+      const r = this.codeOf(slots[0], buf, line);
+      const c = kind === KIND_CROSSTAB ? this.codeOf(slots[1], buf, line) : 0;
+      if (r === MISSING || c === MISSING || w < 0) aggregator.drop();
+      else aggregator.addCell(r, c, w);
     }
+  }
+
+  /** Trimmed bounds of a used field (for fields the fast path did not already read). */
+  private trimmed(buf: Uint8Array, u: number): [number, number] {
+    let a = this.starts[u];
+    let b = this.ends[u];
+    while (a < b && (buf[a] === SPACE || buf[a] === TAB)) a++;
+    while (b > a && (buf[b - 1] === SPACE || buf[b - 1] === TAB)) b--;
+    return [a, b];
+  }
+
+  private codeOf(slot: SlotState, buf: Uint8Array, line: number): number {
+    const u = slot.field;
+    // Raw bytes as the key when the scan loop hashed them: ` A` and `A` are two keys of one category (the coder trims).
+    if (this.hashed[u] === 1) return this.category(slot, buf, this.starts[u], this.ends[u], this.hashes[u], u, line);
+    const [a, b] = this.trimmed(buf, u);
+    let hash = FNV_OFFSET;
+    for (let k = a; k < b; k++) hash = Math.imul(hash ^ buf[k], FNV_PRIME);
+    return this.category(slot, buf, a, b, hash, u, line);
+  }
+
+  /** A number, or NaN when missing. */
+  private valueOf(slot: SlotState, aggregator: Aggregator, buf: Uint8Array, line: number): number {
+    const u = slot.field;
+    if (this.numbered[u] === 1) return this.numbers[u];
+    const [a, b] = this.trimmed(buf, u);
+    const fast = parseNumberBytes(buf, a, b, this.decimal);
+    return Number.isNaN(fast) ? aggregator.readNumber(this.text(buf, a, b, u), line) : fast;
+  }
+
+  /** A frequency weight, or -1 when missing. */
+  private weightOf(slot: SlotState, aggregator: Aggregator, buf: Uint8Array, line: number): number {
+    const u = slot.field;
+    const x = this.numbered[u] === 1 ? this.numbers[u] : NaN;
+    if (x >= 0 && Number.isInteger(x)) return x;
+    const [a, b] = this.trimmed(buf, u);
+    const fast = parseNumberBytes(buf, a, b, this.decimal);
+    return fast >= 0 && Number.isInteger(fast) && fast <= Number.MAX_SAFE_INTEGER ? fast : aggregator.readWeight(this.text(buf, a, b, u), line);
   }
 
   /** The category code of a field's bytes: a hash-table hit, or a new label decoded and coded once. */

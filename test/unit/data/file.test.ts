@@ -174,6 +174,15 @@ describe('data: files', () => {
         );
       });
     }
+    for (const engine of ['auto', 'csv-parse'] as const)
+      it(`names the weight first when a record has a bad weight and an unknown category (${engine})`, async () => {
+        const path = scratchFile('both.csv', 'route,class,passengers\nA,x,1\nB,z,-1\n');
+        await rejectsInput(
+          () => aggregateFile(path, FERRY.byPassengers, { file: 'both.csv', categories: { rowLevels: ['A', 'B'], columnLevels: ['x', 'y'] } }, { engine }),
+          'both.csv, line 3, column `passengers`: expected a frequency weight (a non-negative whole number), found `-1`',
+          'bad-count',
+        );
+      });
     it('refuses a file that changes while it is read', async () => {
       const path = scratchFile('growing.csv', 'route,class\nA,x\nB,y\n');
       const { appendFileSync } = await import('node:fs');
