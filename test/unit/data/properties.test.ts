@@ -167,6 +167,7 @@ describe('data: properties', () => {
       lastNewline: fc.boolean(),
       delimiter: fc.constantFrom(',', ';', '\t'),
       decimal: fc.constantFrom<'.' | ','>('.', ','),
+      givenLevels: fc.boolean(),
     });
     await fc.assert(
       fc.asyncProperty(file, fc.integer({ min: 4, max: 40 }), async (f, chunkSize) => {
@@ -178,7 +179,8 @@ describe('data: properties', () => {
           { kind: 'numeric', column: 'x' },
           { kind: 'categories', column: 'g', weight: 'x' },
         ];
-        const options = { dialect: { delimiter: f.delimiter as ',' | ';' | '\t', header: true, decimal: f.decimal } };
+        const levels = f.givenLevels ? { levels: ['A', 'b', 'c'], rowLevels: ['A', 'b', 'c'], columnLevels: ['A', 'B', 'c', 'é'] } : undefined;
+        const options = { dialect: { delimiter: f.delimiter as ',' | ';' | '\t', header: true, decimal: f.decimal }, ...(levels ? { categories: levels } : {}) };
         for (const request of requests) {
           const scanned = await neverCrashesAsync(() => aggregateFile(path, request, options, { chunkSize }).then(({ reader: _, ...a }) => a));
           const parsed = await neverCrashesAsync(() => aggregateFile(path, request, options, { chunkSize, engine: 'csv-parse' }).then(({ reader: _, ...a }) => a));
