@@ -59,7 +59,8 @@ async function quickOpen(page, file) {
     await sleep(1200 * attempt);
     await page.keyboard.press('Enter');
     try {
-      await page.waitForSelector(`.tab.active[aria-label*="${file}"]`, { timeout: 3000 });
+      // The window title names the active editor first; a panel titled "… — file.csv" is not the file.
+      await page.waitForFunction((name) => document.title.includes(`] ${name} - `) || document.title.startsWith(`${name} - `), file, { timeout: 3000 });
       return;
     } catch (e) {
       await page.keyboard.press('Escape');
