@@ -151,6 +151,10 @@ async function session({ name, theme, scheme }) {
         await maximized(page, () => page.screenshot({ path: join(media, `panel-variance-${name}.png`) }));
       });
 
+      await check(`${name}: the last answers for a file are offered first (Enter four times repeats the variance test)`, async () => {
+        await testFileByKeyboard(page, 'bike-trips.csv', ['', '', '', ''], /σ0 = 6/);
+      });
+
       await check(`${name}: goodness of fit with equal proportions`, async () => {
         await testFileByKeyboard(page, 'bike-trips.csv', ['Goodness of fit', 'dock', 'Equal proportions'], /proportions/i);
         const bars = await panelFrame(page).locator('figure.bars rect.bar-observed').count();
