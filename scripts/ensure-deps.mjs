@@ -1,0 +1,14 @@
+// Installs the npm packages from package-lock.json when they are missing or older than the lock file,
+// so `npm test` and `npm run demo` work on a fresh clone with nothing installed by hand.
+import { execFileSync } from 'node:child_process';
+import { existsSync, statSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+const installed = join(root, 'node_modules', '.package-lock.json');
+const lock = join(root, 'package-lock.json');
+if (!existsSync(installed) || statSync(installed).mtimeMs < statSync(lock).mtimeMs) {
+  console.log('installing npm packages (npm ci)…');
+  execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: root, stdio: 'inherit' });
+}

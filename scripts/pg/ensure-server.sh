@@ -1,0 +1,21 @@
+#!/usr/bin/env bash
+# Installs the PostgreSQL server from Debian's packages when it is missing, then starts a throwaway
+# cluster in DIR (scripts/pg/start.sh): scripts/pg/ensure-server.sh DIR
+set -euo pipefail
+here="$(cd "$(dirname "$0")" && pwd)"
+DIR="${1:?usage: ensure-server.sh DIR}"
+
+if ! ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1; then
+  echo "installing postgresql with apt-get"
+  SUDO=""; [ "$(id -u)" -eq 0 ] || SUDO="sudo"
+  $SUDO apt-get update -qq
+  DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq postgresql
+  # The package may start a default cluster of its own; the tests use a throwaway one, so stop it.
+  if command -v pg_lsclusters >/dev/null; then
+    pg_lsclusters -h | awk '$4 == "online" { print $1, $2 }' | while read -r version name; do
+      $SUDO pg_ctlcluster "$version" "$name" stop || true
+    done
+  fi
+fi
+
+bash "$here/start.sh" "$DIR"
