@@ -108,9 +108,9 @@ const REQUESTS = [
   { kind: 'numeric', column: 'weight_kg' },
 ] as const;
 
-async function ours(path: string, engine: 'auto' | 'csv-parse'): Promise<Outcome> {
-  const { aggregates, reader } = await aggregateFileMany(path, REQUESTS, {}, { engine });
-  return { ...fromAggregates(aggregates[0], aggregates[1]), note: reader };
+async function ours(path: string, engine: 'auto' | 'csv-parse', parallel: 'auto' | 'never' = 'auto'): Promise<Outcome> {
+  const { aggregates, reader } = await aggregateFileMany(path, REQUESTS, {}, { engine, parallel });
+  return { ...fromAggregates(aggregates[0], aggregates[1]), note: `${reader}, parallel: ${parallel}` };
 }
 
 function streamed(path: string, parser: NodeJS.ReadWriteStream, row: (r: unknown) => void): Promise<void> {
@@ -135,8 +135,10 @@ async function child(candidate: string, path: string): Promise<Outcome> {
     }
     case 'scanner':
       return ours(path, 'auto');
+    case 'scanner-1thread':
+      return ours(path, 'auto', 'never');
     case 'csv-parse':
-      return ours(path, 'csv-parse');
+      return ours(path, 'csv-parse', 'never');
     case 'csv-parse-bare': {
       const { parse } = await import('csv-parse');
       await streamed(path, parse({ from_line: 2 }), (r) => {
@@ -310,7 +312,7 @@ async function run(): Promise<void> {
   console.log('csv-parse-bare: csv-parse streaming into a Map; csv-parse: our general reader (csv-parse with line numbers, missing values, categories)');
   const times = Number(process.env.COUNTERCHECK_BENCH_REPEAT ?? 3);
   console.log(`each candidate: the fastest of ${times} runs (COUNTERCHECK_BENCH_REPEAT)`);
-  const results: Measured[] = [fastest(times, () => nodeCandidate('bare', full, 1)), fastest(times, () => nodeCandidate('scanner', full, 1))];
+  const results: Measured[] = [fastest(times, () => nodeCandidate('bare', full, 1)), fastest(times, () => nodeCandidate('scanner', full, 1)), fastest(times, () => nodeCandidate('scanner-1thread', full, 1))];
   for (const name of ['udsv', 'papaparse', 'csv-parser', 'fast-csv', 'csv-parse-bare', 'csv-parse']) results.push(fastest(times, () => nodeCandidate(name, prefix, scale)));
   const python = '/usr/bin/python3';
   if (existsSync(python)) results.push(fastest(times, () => measure('pandas+scipy', python, ['-c', PANDAS, full], process.env, 1)));

@@ -8,6 +8,8 @@ const common = { bundle: true, sourcemap: !production, minify: production, logLe
 const entries = [
   { entryPoints: ['src/host/extension.ts'], outfile: 'dist/extension.js', platform: 'node', format: 'cjs', external: ['vscode'] },
   { entryPoints: ['src/cli.ts'], outfile: 'dist/cli.js', platform: 'node', format: 'cjs' },
+  // The byte scanner's thread for big files (src/data/parallel.ts finds it beside the bundle that starts it).
+  { entryPoints: ['src/data/scanWorker.ts'], outfile: 'dist/scanWorker.js', platform: 'node', format: 'cjs' },
   { entryPoints: ['src/webview/main.ts'], outfile: 'dist/webview.js', platform: 'browser', format: 'iife', target: 'es2022' },
   { entryPoints: ['bench/index.ts'], outfile: 'dist/bench.js', platform: 'node', format: 'cjs', external: ['jstat', 'csv-parse', 'pg'] },
 ];

@@ -7,10 +7,12 @@ import { createHash, type Hash } from 'node:crypto';
 import { open, type FileHandle } from 'node:fs/promises';
 import { Readable } from 'node:stream';
 import { parse } from 'csv-parse';
-import { Aggregator } from './aggregate';
+import { Aggregator, type SourceInfo } from './aggregate';
 import { detectDialect } from './dialect';
 import { csvParseFailure, csvParseOptions, normaliseNewlines, recordStartLine, RecordSink } from './delimited';
 import type { Dialect, IntakeOptions } from './options';
+import { parallelWanted, scanParallel, type ParallelChoice } from './parallel';
+import { scanRange } from './rangeScan';
 import { ByteScanner, ScannerFallback } from './scanner';
 import type { Aggregate, AggregateRequest } from './types';
 import { fail, inputError } from './where';
@@ -21,7 +23,7 @@ export interface ReadProgress {
   readonly rows: number;
 }
 
-export interface FileReadControl {
+export interface FileReadControl extends ParallelChoice {
   /** Aborting stops the read within one chunk (a few milliseconds); the promise rejects with the signal's reason. */
   readonly signal?: AbortSignal;
   /** Called about every 100 ms and once at the end. */
@@ -63,6 +65,11 @@ class Progress {
     this.last = now;
     this.report({ bytesRead, totalBytes: this.total, rows });
   }
+}
+
+function progressOf(opened: Opened, control: FileReadControl): (bytes: number, rows: number, final: boolean) => void {
+  const progress = new Progress(opened.size, control.onProgress);
+  return (bytes, rows, final) => progress.tick(bytes, rows, final);
 }
 
 function fileFailure(e: unknown, file: string): never {
@@ -137,52 +144,15 @@ async function scanBytes(
     aggregatorsFor: makeAggregators,
   });
   const progress = new Progress(opened.size, control.onProgress);
-  // Two buffers, so the next read runs while this chunk is scanned. Each keeps `room` bytes in
-  // front of its chunk for the incomplete last line of the previous chunk, which makes the line
-  // contiguous without copying the chunk.
-  const chunk = control.chunkSize ?? 1 << 20;
-  let room = chunk;
-  let current = new Uint8Array(room + chunk);
-  let next = new Uint8Array(room + chunk);
-  let pending: Promise<{ bytesRead: number }> = opened.handle.read(current, room, chunk, 0);
-  let position = 0;
-  let leftover = 0;
-  let first = true;
-  try {
-    for (;;) {
-      const { bytesRead } = await pending;
-      control.signal?.throwIfAborted();
-      hash.update(current.subarray(room, room + bytesRead));
-      position += bytesRead;
-      const final = bytesRead === 0;
-      if (!final) pending = opened.handle.read(next, room, chunk, position);
-      const start = room - leftover + (first ? Math.min(opened.bomLength, bytesRead) : 0);
-      first = false;
-      const end = room + bytesRead;
-      const consumed = scanner.scan(current, start, end, final);
-      progress.tick(position, scanner.result()?.[0].recordCount ?? 0, final);
-      if (final) break;
-      leftover = end - consumed;
-      if (leftover <= room) {
-        next.set(current.subarray(consumed, end), room - leftover);
-        [current, next] = [next, current];
-      } else {
-        // A line longer than the room: wait for the read under way and move both parts to larger buffers.
-        const ahead = await pending;
-        const larger = 2 ** Math.ceil(Math.log2(leftover));
-        const grown = new Uint8Array(larger + Math.max(chunk, ahead.bytesRead));
-        grown.set(current.subarray(consumed, end), larger - leftover);
-        grown.set(next.subarray(room, room + ahead.bytesRead), larger);
-        room = larger;
-        current = grown;
-        next = new Uint8Array(room + chunk);
-        pending = Promise.resolve(ahead);
-      }
-    }
-  } finally {
-    // Never leave a read running on a handle that is about to close.
-    await pending.catch(() => undefined);
-  }
+  await scanRange(opened.handle, scanner, {
+    start: 0,
+    end: Infinity,
+    skip: opened.bomLength,
+    chunkSize: control.chunkSize,
+    signal: control.signal,
+    onBytes: (bytes) => hash.update(bytes),
+    onScanned: (position, final) => progress.tick(position, scanner.result()?.[0].recordCount ?? 0, final),
+  });
   return scanner.result();
 }
 
@@ -277,10 +247,14 @@ export async function aggregateFileMany(
       (opened.encoding === 'utf-8' || opened.encoding === 'latin1');
     let reader: FileReader = 'csv-parse';
     let hash = createHash('sha256');
-    let aggregators: Aggregator[] | undefined;
+    let aggregators: readonly { result(source: SourceInfo): Aggregate }[] | undefined;
     if (scannable) {
       try {
-        aggregators = await scanBytes(opened, makeAggregators, file, control, hash);
+        const parallel = parallelWanted(opened.size, opened.dialect, control)
+          ? await scanParallel({ ...opened, path, file, encoding: opened.encoding === 'latin1' ? 'latin1' : 'utf-8', intake, requests, makeAggregators, signal: control.signal, chunkSize: control.chunkSize, tick: progressOf(opened, control) }, control)
+          : undefined;
+        if (parallel) [aggregators, hash] = [parallel.results, parallel.hash];
+        else aggregators = await scanBytes(opened, makeAggregators, file, control, hash);
         reader = 'byte-scanner';
       } catch (e) {
         if (!(e instanceof ScannerFallback)) throw e;
