@@ -67,5 +67,3 @@ export const distributionBench = {
     if (sink === 42) console.log('');
   },
 };
-
-if (require.main === module) void distributionBench.run();
