@@ -3,7 +3,9 @@
 // in the real extension host (extensionTestsPath). Mocha's output is relayed to stdout so the
 // "N passing" / "N failing" lines reach CI, and the process exits with the suite's code.
 // A host that cannot start fails the run (exit 1) — it never skips silently.
-import { existsSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { existsSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { format } from 'node:util';
 import { buildIntegrationTests } from './build-tests.mjs';
@@ -21,11 +23,44 @@ function formatArgs(args) {
   return format(...args.map((a) => (typeof a === 'string' || typeof a === 'number' ? a : JSON.stringify(a))));
 }
 
+// The SQL tests (test/integration/sql.test.ts) need a live PostgreSQL server: the one COUNTERCHECK_PG_ENV
+// names (.ci/run starts it), else a throwaway cluster started here (PostgreSQL is installed from Debian's
+// packages when missing) and stopped at the end. Its PG* variables reach the extension host through
+// code-server's environment. When no server can be had, COUNTERCHECK_PG_ERROR says why and the SQL tests
+// fail with that message; the rest of the suite still runs.
+function postgresForTests() {
+  let file = process.env.COUNTERCHECK_PG_ENV;
+  let stop = () => {};
+  if (!file) {
+    const dir = join(tmpdir(), `countercheck-integration-pg-${process.pid}`);
+    stop = () => spawnSync('bash', [join(repoRoot, 'scripts', 'pg', 'stop.sh'), dir], { stdio: 'ignore' });
+    const setup = spawnSync('bash', [join(repoRoot, 'scripts', 'pg', 'ensure-server.sh'), dir], { stdio: ['ignore', 'inherit', 'inherit'] });
+    if (setup.status !== 0) {
+      stop();
+      return { env: { COUNTERCHECK_PG_ERROR: `scripts/pg/ensure-server.sh could not start a PostgreSQL server (exit ${setup.status ?? setup.signal}); see its output above` }, stop: () => {} };
+    }
+    file = join(dir, 'env');
+  }
+  if (!existsSync(file)) return { env: { COUNTERCHECK_PG_ERROR: `COUNTERCHECK_PG_ENV=${file}, but the file does not exist: was the server started?` }, stop };
+  const env = {};
+  for (const line of readFileSync(file, 'utf8').split('\n')) {
+    const m = /^(PG[A-Z]+)=(.*)$/.exec(line.trim());
+    if (m) env[m[1]] = m[2];
+  }
+  const missing = ['PGHOST', 'PGPORT', 'PGDATABASE', 'PGUSER', 'PGPASSWORD'].filter((k) => !env[k]);
+  if (missing.length) return { env: { COUNTERCHECK_PG_ERROR: `${file} has no ${missing.join(', ')}` }, stop };
+  return { env, stop };
+}
+
 async function main() {
   if (!existsSync(join(repoRoot, 'dist', 'extension.js'))) {
     throw new HostSetupError('dist/extension.js is missing: run `npm run build` first.');
   }
   const suite = await buildIntegrationTests();
+  const postgres = postgresForTests();
+  process.on('exit', postgres.stop);
+  for (const signal of ['SIGINT', 'SIGTERM']) process.once(signal, () => process.exit(signal === 'SIGINT' ? 130 : 143));
+  Object.assign(process.env, postgres.env);
   const host = await startHost({
     copyWorkspaceFrom: join(repoRoot, 'demo'),
     // Small inputs with known answers, beside the demo files, so command tests do not depend on demo data changing.
