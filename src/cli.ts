@@ -11,6 +11,7 @@ import { readFile, rename, writeFile } from 'node:fs/promises';
 import * as path from 'node:path';
 import { aggregateFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
+import { workspaceConnections } from './data/sql/settings';
 import { isInputError } from './errors';
 import { refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
@@ -59,6 +60,10 @@ Usage:
   --allow-outside                 let specs read files outside the current folder (absolute paths, ..)
   --help, --version
 
+Database sources: a connection name is looked up in "countercheck.connections" of the nearest
+.vscode/settings.json at or above the spec's folder, else in COUNTERCHECK_CONNECTION_<NAME> (a
+postgresql:// URL); the password comes from PGPASSWORD or ~/.pgpass.
+
 Exit codes:
   run, report: 0 success; 2 a bad spec or bad data (message on stderr with file:line:column and JSON path)
   run --record: 1 when an earlier record differs and --force was not given
@@ -104,7 +109,18 @@ function parseArgs(args: readonly string[]): { command?: string; files: string[]
   return { command, files, flags, help, version };
 }
 
-function defaultReaders(io: CliIo): SpecReaders {
+/** A file's text, or undefined when there is no such file. */
+async function readIfExists(file: string): Promise<string | undefined> {
+  try {
+    return await readFile(file, 'utf8');
+  } catch (e) {
+    if ((e as NodeJS.ErrnoException).code === 'ENOENT' || (e as NodeJS.ErrnoException).code === 'ENOTDIR') return undefined;
+    throw e;
+  }
+}
+
+/** `specFolder`: where a SQL source's named connections are looked for (.vscode/settings.json there or above). */
+function defaultReaders(io: CliIo, specFolder: string = io.cwd): SpecReaders {
   return {
     aggregateFile: (file, request, options, control) =>
       aggregateFile(file, request, options, {
@@ -117,7 +133,9 @@ function defaultReaders(io: CliIo): SpecReaders {
             }
           : undefined,
       }),
-    aggregateSql: sqlSpecReader({}),
+    // Connections as the editor names them (no passwords there: PGPASSWORD or ~/.pgpass), else environment variables.
+    aggregateSql: async (source, request, options, control) =>
+      sqlSpecReader({ connections: (await workspaceConnections(specFolder, readIfExists))?.connections })(source, request, options, control),
   };
 }
 
@@ -153,7 +171,7 @@ async function loadSpec(file: string, io: CliIo): Promise<Loaded> {
 async function runLoaded(loaded: Loaded, io: CliIo, flags: Flags): Promise<SpecRun> {
   try {
     return await runSpec(loaded.spec, {
-      readers: io.readers ?? defaultReaders(io),
+      readers: io.readers ?? defaultReaders(io, loaded.absolute ? path.dirname(loaded.absolute) : io.cwd),
       signal: io.signal,
       specPath: loaded.absolute,
       allowedRoot: allowedRootFor(loaded.absolute, io),
@@ -266,7 +284,7 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
     const outcome = await refreshReport(text, async (block) => {
       const { markdown } = await runReportBlock(block, {
         reportPath: absolute,
-        readers: io.readers ?? defaultReaders(io),
+        readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
         signal: io.signal,
         readText: (f) => readFile(f, 'utf8'),
         allowedRoot: allowedRootFor(absolute, io),

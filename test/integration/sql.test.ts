@@ -7,6 +7,7 @@ import { strict as assert } from 'node:assert';
 import { randomBytes } from 'node:crypto';
 import { Client } from 'pg';
 import * as vscode from 'vscode';
+import { main as cli } from '../../src/cli';
 import { previewSql } from '../../src/data/sql/index';
 import type { TestResult } from '../../src/stats/result';
 import { api, closeAllEditors, closeTo, panelFrom, workspacePath } from './api';
@@ -148,6 +149,31 @@ describe('database command on a live PostgreSQL server', function () {
     closeTo(r.pValue.value, 0.018660392207227896, 1e-12, 'p');
     assert.equal(r.df, 6);
     assert.deepEqual(await openSessions(), [], 'no session of the extension left open');
+  });
+
+  it('the saved result re-runs from the command line, with the connection the editor keeps in .vscode/settings.json', async () => {
+    const payload = await panelFrom(() => database({ test: 'independence', columns: ['route', 'outcome'] }));
+    const target = vscode.Uri.file(workspacePath('integration-data', 'van-log.countercheck.json'));
+    await (await api()).saveActive(target);
+    const settings = new TextDecoder().decode(await vscode.workspace.fs.readFile(vscode.Uri.file(workspacePath('.vscode', 'settings.json'))));
+    assert.match(settings, /"countercheck\.connections"/);
+    assert.ok(!settings.includes(pgEnv().password), 'no password in the settings file');
+    const run = async (args: string[]): Promise<{ code: number; stdout: string; stderr: string }> => {
+      let stdout = '';
+      let stderr = '';
+      const code = await cli(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), readStdin: async () => '', cwd: workspacePath() });
+      return { code, stdout, stderr };
+    };
+    const ran = await run(['run', '--json', target.fsPath]);
+    assert.equal(ran.code, 0, ran.stderr);
+    const json = JSON.parse(ran.stdout) as { statistic: number; observed: number[][]; rowLabels: string[] };
+    const r = payload.result as TestResult;
+    assert.deepEqual(json.observed, r.grid?.observed);
+    assert.deepEqual(json.rowLabels, r.grid?.rowLabels);
+    assert.equal(json.statistic, r.statistic);
+    const checked = await run(['check', '--json', target.fsPath]);
+    assert.equal(checked.code, 0, `${checked.stdout}${checked.stderr}`);
+    assert.equal((JSON.parse(checked.stdout) as { status: string }[])[0].status, 'reproduced');
   });
 
   it('tests the variance of a numeric column: the server’s moments equal the same values given inline', async () => {
