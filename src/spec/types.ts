@@ -46,6 +46,13 @@ export interface SpecV1 {
   readonly table?: readonly (readonly number[])[];
   readonly rowLabels?: readonly string[];
   readonly columnLabels?: readonly string[];
+  /** Names of what the rows and the columns classify, for the conclusion (default: the source's column names). */
+  readonly rowVariable?: string;
+  readonly columnVariable?: string;
+  /** Name of the variable counted or measured, for the conclusion (default: the source's column name). */
+  readonly variable?: string;
+  /** Unit of the measured values (variance test), e.g. "g". */
+  readonly unit?: string;
   readonly observed?: readonly number[];
   readonly categories?: readonly string[];
   readonly expected?: readonly number[];

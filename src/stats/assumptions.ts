@@ -93,6 +93,20 @@ export function describeP(p: Probability): string {
   return `${p.value >= 0.001 || (p.value === 0 && p.log10 === -Infinity) ? 'p =' : 'p ≈'} ${formatProbability(p)}`;
 }
 
+/**
+ * A variable's name as conclusion sentences write it (`oven`, in backticks like every label quoted from
+ * the data), or undefined when no name is known (blank counts as unknown).
+ */
+export function nameOf(name: string | undefined): string | undefined {
+  const trimmed = typeof name === 'string' ? name.trim() : '';
+  return trimmed === '' ? undefined : `\`${trimmed.replace(/`/g, "'")}\``;
+}
+
+/** The first letter in upper case, for a phrase that starts a sentence. */
+export function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
 /** "at the 5% level" for α = 0.05. */
 export function describeAlpha(alpha: number): string {
   return `at the ${Number((alpha * 100).toPrecision(6))}% level`;

@@ -4,7 +4,7 @@
  * (Cressie & Read 1984): Pearson X² (default), likelihood-ratio G², or Cressie–Read with a chosen λ.
  */
 import { InputError } from '../errors';
-import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, requireCount, requireLevel } from './assumptions';
+import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, nameOf, requireCount, requireLevel } from './assumptions';
 import { type DivergenceOptions, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { compensatedSum } from './moments';
 import type { CategoryRow, Notice, TestResult } from './result';
@@ -20,6 +20,8 @@ export interface GoodnessOfFitOptions extends DivergenceOptions {
   readonly ratios?: readonly number[];
   /** Parameters estimated from the same data (m): df = k − 1 − m. Default 0. */
   readonly estimatedParameters?: number;
+  /** What the categories classify (e.g. the column `nozzle` they were counted from); named in the conclusion. */
+  readonly variable?: string;
 }
 
 type ExpectedSource = 'counts' | 'proportions' | 'ratios' | 'uniform';
@@ -123,9 +125,11 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
   const pValue = main.line.pValue;
   const significant = pValue.value < alpha;
   const against = source === 'uniform' ? 'equal proportions in every category' : 'the expected proportions';
+  const named = nameOf(options.variable);
+  const counts = named ? `The observed counts of ${named}` : 'The observed counts';
   const conclusion = significant
-    ? `The observed counts differ from ${against} by more than chance would explain ${describeAlpha(alpha)} (${describeP(pValue)}).`
-    : `The observed counts are consistent with ${against}: the differences are within what chance would produce ${describeAlpha(alpha)} (${describeP(pValue)}).`;
+    ? `${counts} differ from ${against} by more than chance would explain ${describeAlpha(alpha)} (${describeP(pValue)}).`
+    : `${counts} are consistent with ${against}: the differences are within what chance would produce ${describeAlpha(alpha)} (${describeP(pValue)}).`;
 
   return {
     kind: 'test',

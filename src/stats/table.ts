@@ -6,7 +6,7 @@
  * log-scale intervals (Woolf 1955; Katz et al. 1978).
  */
 import { InputError } from '../errors';
-import { checkExpectedCounts, describeAlpha, describeP, formatNumber, independenceAssumption, requireCount, requireLevel } from './assumptions';
+import { capitalise, checkExpectedCounts, describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireCount, requireLevel } from './assumptions';
 import { chiSquareUpperProbability } from './chisquare';
 import { type DivergenceLine, type DivergenceOptions, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { fisherExact2x2 } from './fisher2x2';
@@ -21,6 +21,10 @@ export interface IndependenceOptions extends DivergenceOptions {
   readonly correction?: boolean;
   /** Confidence level of the odds-ratio and relative-risk intervals. Default 0.95. */
   readonly confidence?: number;
+  /** What the rows classify (e.g. the column `oven` the rows came from); named in the conclusion. */
+  readonly rowVariable?: string;
+  /** What the columns classify (e.g. `defect`); named in the conclusion. */
+  readonly columnVariable?: string;
 }
 
 interface Prepared {
@@ -124,9 +128,7 @@ export function independenceTest(table: readonly (readonly number[])[], options:
 
   const pValue = main.line.pValue;
   const significant = pValue.value < alpha;
-  const conclusion = significant
-    ? `The row and column variables are associated: how counts spread over the columns differs between rows by more than chance would explain ${describeAlpha(alpha)} (${describeP(pValue)}).`
-    : `The data do not show an association between the row and column variables ${describeAlpha(alpha)}: the differences between rows are within what chance would produce (${describeP(pValue)}).`;
+  const conclusion = independenceConclusion(significant, alpha, describeP(pValue), options.rowVariable, options.columnVariable);
 
   return {
     kind: 'test',
@@ -158,6 +160,28 @@ export function independenceTest(table: readonly (readonly number[])[], options:
       ...(fisherDetails ? { fisherExact: fisherDetails } : {}),
     },
   };
+}
+
+/**
+ * The conclusion in plain words. With the variables named (the columns a table was cross-tabulated
+ * from), the sentence uses their names; otherwise it speaks of the row and column variables.
+ */
+function independenceConclusion(significant: boolean, alpha: number, p: string, rowVariable?: string, columnVariable?: string): string {
+  const level = describeAlpha(alpha);
+  const row = nameOf(rowVariable);
+  const column = nameOf(columnVariable);
+  if (row === undefined && column === undefined) {
+    return significant
+      ? `The row and column variables are associated: how counts spread over the columns differs between rows by more than chance would explain ${level} (${p}).`
+      : `The data do not show an association between the row and column variables ${level}: the differences between rows are within what chance would produce (${p}).`;
+  }
+  const rows = row ?? 'the row variable';
+  const columns = column ?? 'the column variable';
+  const mix = column ? `the mix of ${column}` : 'the spread over the columns';
+  const groups = row ? `the ${row} groups` : 'the rows';
+  return significant
+    ? `${capitalise(rows)} and ${columns} are associated: ${mix} differs between ${groups} by more than chance would explain ${level} (${p}).`
+    : `The data do not show an association between ${rows} and ${columns} ${level}: the differences in ${mix} between ${groups} are within what chance would produce (${p}).`;
 }
 
 /**

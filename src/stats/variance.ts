@@ -10,7 +10,7 @@
  * kurtosis-adjusted interval as a robust alternative.
  */
 import { InputError } from '../errors';
-import { describeAlpha, describeP, formatNumber, independenceAssumption, requireLevel } from './assumptions';
+import { describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireLevel } from './assumptions';
 import { chiSquareLowerProbability, chiSquareQuantile, chiSquareUpperProbability, chiSquareUpperQuantile } from './chisquare';
 import { compensatedSum, MomentAccumulator, type MomentSummary, sampleExcessKurtosis, sampleSkewness } from './moments';
 import { normalUpperQuantile } from './normal';
@@ -28,6 +28,10 @@ export interface VarianceTestOptions {
   readonly confidence?: number;
   /** Significance level. Default 0.05. */
   readonly alpha?: number;
+  /** What was measured (e.g. the column `weight_g`); named in the conclusion. */
+  readonly variable?: string;
+  /** Unit of the values (e.g. "g"); σ and s are written in it, σ² and s² in its square. */
+  readonly unit?: string;
 }
 
 export type VarianceSummary = { readonly n: number; readonly sd: number } | { readonly n: number; readonly variance: number };
@@ -188,13 +192,16 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
   }
 
   const parameter = hypothesis.bySd ? 'standard deviation' : 'variance';
-  const null0 = hypothesis.bySd ? `σ0 = ${formatNumber(Math.sqrt(hypothesis.variance0))}` : `σ0² = ${formatNumber(hypothesis.variance0)}`;
-  const sample = hypothesis.bySd ? `s = ${formatNumber(Math.sqrt(variance))}` : `s² = ${formatNumber(variance)}`;
+  const named = nameOf(options.variable);
+  const of = named ? ` of ${named}` : '';
+  const inUnit = withUnit(options.unit, hypothesis.bySd);
+  const null0 = hypothesis.bySd ? `σ0 = ${inUnit(Math.sqrt(hypothesis.variance0))}` : `σ0² = ${inUnit(hypothesis.variance0)}`;
+  const sample = hypothesis.bySd ? `s = ${inUnit(Math.sqrt(variance))}` : `s² = ${inUnit(variance)}`;
   const direction = alternative === 'greater' ? 'is larger than' : alternative === 'less' ? 'is smaller than' : 'differs from';
   const directionNot = alternative === 'greater' ? 'exceeds' : alternative === 'less' ? 'falls below' : 'differs from';
   const conclusion = significant
-    ? `The population ${parameter} ${direction} ${null0} ${describeAlpha(alpha)} (${sample}, ${describeP(pValue)}).`
-    : `The data do not show that the population ${parameter} ${directionNot} ${null0} ${describeAlpha(alpha)} (${sample}, ${describeP(pValue)}).`;
+    ? `The population ${parameter}${of} ${direction} ${null0} ${describeAlpha(alpha)} (${sample}, ${describeP(pValue)}).`
+    : `The data do not show that the population ${parameter}${of} ${directionNot} ${null0} ${describeAlpha(alpha)} (${sample}, ${describeP(pValue)}).`;
 
   return {
     kind: 'test',
@@ -226,6 +233,14 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
     assumptions: [normalityAssumption(shape, source, n), independenceAssumption('value')],
     details: { variance0: hypothesis.variance0, sampleVariance: variance, source, lowerTail: lower, upperTail: upper },
   };
+}
+
+/** A number in the unit of the values ("12 g") or, for a variance, in its square ("144 g²"); bare without a unit. */
+function withUnit(unit: string | undefined, bySd: boolean): (x: number) => string {
+  const u = typeof unit === 'string' ? unit.trim() : '';
+  if (u === '') return formatNumber;
+  const shown = bySd ? u : /^\p{L}+$/u.test(u) ? `${u}²` : `(${u})²`;
+  return (x) => `${formatNumber(x)} ${shown}`;
 }
 
 /** A warning when the chi-square and Bonett intervals disagree about the hypothesised value. */

@@ -13,6 +13,7 @@ import { applyMethod } from './method';
 import {
   COUNT_ARRAY,
   COUNT_TEST_OPTIONS,
+  VARIABLE_NAME,
   aggregateOf,
   checkLambda,
   checkSourceColumns,
@@ -33,6 +34,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
     proportions: field(weightsByLevel, 'Expected proportions: an array in the order of the categories, or an object keyed by level. Rescaled with a note when they do not sum to 1.', true),
     ratios: field(weightsByLevel, 'Expected ratios such as 9:3:3:1: an array in the order of the categories, or an object keyed by level.', true),
     source: sourceField('The one categorical column whose levels are counted.', 1, 1),
+    variable: VARIABLE_NAME('what the categories classify'),
     estimatedParameters: field(num({ integer: true, min: 0 }), 'Number of parameters of the expected distribution estimated from these data; df = k − 1 − this. Default 0.'),
     ...COUNT_TEST_OPTIONS,
   },
@@ -115,6 +117,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
         statistic: spec.statistic,
         lambda: spec.lambda,
         alpha: spec.alpha,
+        variable: spec.variable ?? spec.source?.columns?.[0],
       }),
       spec,
       { signal: ctx.signal, onProgress: ctx.onProgress },

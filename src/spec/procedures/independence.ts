@@ -15,6 +15,7 @@ import {
   CONFIDENCE,
   COUNT_ARRAY,
   LABELS,
+  VARIABLE_NAME,
   COUNT_TEST_OPTIONS,
   aggregateOf,
   checkLambda,
@@ -31,6 +32,8 @@ export const independenceProcedure: ProcedureHandler = {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
     rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
     columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),
+    rowVariable: VARIABLE_NAME('what the rows classify'),
+    columnVariable: VARIABLE_NAME('what the columns classify'),
     source: sourceField(
       'Two categorical columns to cross-tabulate (rows, then columns); leave out for a file that already holds the table (first column row labels, header column labels).',
       0,
@@ -67,8 +70,8 @@ export const independenceProcedure: ProcedureHandler = {
     let counts: readonly (readonly number[])[];
     let rowLabels = spec.rowLabels;
     let columnLabels = spec.columnLabels;
+    const columns = spec.source?.columns ?? [];
     if (spec.source) {
-      const columns = spec.source.columns ?? [];
       const request =
         columns.length === 2
           ? ({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight: spec.source.weight } as const)
@@ -100,6 +103,8 @@ export const independenceProcedure: ProcedureHandler = {
         lambda: spec.lambda,
         alpha: spec.alpha,
         confidence: spec.confidence,
+        rowVariable: spec.rowVariable ?? columns[0],
+        columnVariable: spec.columnVariable ?? columns[1],
       }),
       spec,
       { signal: ctx.signal, onProgress: ctx.onProgress },

@@ -23,6 +23,9 @@ export const METHOD = field(
 export const RESAMPLES = field(num({ integer: true, min: 1 }), 'Number of Monte Carlo resamples (with "method": "monte-carlo").');
 export const SEED = field(num({ integer: true, min: 0 }), 'Seed of the Monte Carlo random stream, so that the p-value is reproducible.');
 export const LABELS = (what: string): Field => field(arr(str()), `Labels of the ${what}, in order.`, true);
+/** A variable's name for the conclusion sentence; with a source it defaults to the column's name. */
+export const VARIABLE_NAME = (what: string): Field =>
+  field(str(), `Name of ${what}, used in the conclusion (e.g. "oven"). Default: the name of the source column, if any; otherwise the wording stays generic.`);
 export const COUNT_ARRAY = arr(num({ min: 0 }));
 
 /** The statistic and p-value method options shared by the count tests (goodness of fit, r×c tables). */

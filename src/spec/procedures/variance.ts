@@ -4,11 +4,11 @@
  */
 import { varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValues } from '../../stats/variance';
 import type { TestResult } from '../../stats/result';
-import { arr, field, num, obj, type SpecProblem } from '../fields';
+import { arr, field, num, obj, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { ALTERNATIVE, CONFIDENCE, aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
+import { ALTERNATIVE, CONFIDENCE, VARIABLE_NAME, aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
 
 export const varianceProcedure: ProcedureHandler = {
   test: 'variance',
@@ -28,6 +28,8 @@ export const varianceProcedure: ProcedureHandler = {
       true,
     ),
     source: sourceField('The one numeric column.', 1, 1),
+    variable: VARIABLE_NAME('what was measured'),
+    unit: field(str(), 'Unit of the values, e.g. "g": σ and s are written in it in the conclusion, σ² and s² in its square.'),
     sigma0: field(num({ exclusiveMin: 0 }), 'Hypothesised standard deviation σ0 (give this or "variance0").'),
     variance0: field(num({ exclusiveMin: 0 }), 'Hypothesised variance σ0² (give this or "sigma0").'),
     alternative: ALTERNATIVE,
@@ -56,6 +58,8 @@ export const varianceProcedure: ProcedureHandler = {
       alternative: spec.alternative,
       confidence: spec.confidence,
       alpha: spec.alpha,
+      variable: spec.variable ?? spec.source?.columns?.[0],
+      unit: spec.unit,
     };
     if (spec.values) return varianceTestFromValues(spec.values, options);
     if (spec.summary) {

@@ -84,6 +84,29 @@ describe('runSpec', () => {
     assert.deepEqual(grid.rowLabels, ['day', 'night']);
   });
 
+  it('names the source columns in the conclusion, or the names the spec gives', async () => {
+    const table: Aggregate = {
+      kind: 'table',
+      table: { rowLabels: ['night', 'day'], columnLabels: ['late', 'on time'], counts: [[30, 70], [10, 90]] },
+      provenance: { ...provenance, columns: ['shift', 'arrival'] },
+    };
+    const fromColumns = await runSpec({ test: 'independence', source: { path: 'x.csv', columns: ['shift', 'arrival'] } }, { readers: reader(table), specPath: '/w/s.json' });
+    assert.match((fromColumns.result as TestResult).conclusion, /^`shift` and `arrival` are associated: the mix of `arrival` differs between the `shift` groups/);
+    const inline = await runSpec(
+      { test: 'independence', table: [[30, 70], [10, 90]], rowVariable: 'work shift', columnVariable: 'delivery' },
+      { readers: reader(table), specPath: '/w/s.json' },
+    );
+    assert.match((inline.result as TestResult).conclusion, /^`work shift` and `delivery` are associated/);
+    const generic = await runSpec({ test: 'independence', table: [[30, 70], [10, 90]] }, { readers: reader(table), specPath: '/w/s.json' });
+    assert.match((generic.result as TestResult).conclusion, /^The row and column variables are associated/);
+    const fit = await runSpec({ test: 'goodness-of-fit', source: { path: 'data/peas.csv', columns: ['shape'] }, ratios: { 'round yellow': 9, 'round green': 3, 'wrinkled yellow': 3, 'wrinkled green': 1 } }, { readers: reader(peas), specPath: '/w/s.json' });
+    assert.match((fit.result as TestResult).conclusion, /^The observed counts of `shape` are consistent/);
+    const fitInline = await runSpec({ test: 'goodness-of-fit', observed: [30, 50], variable: 'lane' }, { readers: reader(peas), specPath: '/w/s.json' });
+    assert.match((fitInline.result as TestResult).conclusion, /^The observed counts of `lane` /);
+    const variance = await runSpec({ test: 'variance', summary: { n: 20, variance: 0.0153 }, variance0: 0.01, variable: 'fill', unit: 'L' }, { readers: reader(peas), specPath: '/w/s.json' });
+    assert.match((variance.result as TestResult).conclusion, /population variance of `fill` .*σ0² = 0\.01 L²/);
+  });
+
   it('never half-runs: an invalid spec is refused before any read', async () => {
     const calls: { path: string; request: AggregateRequest; options: IntakeOptions }[] = [];
     const e = await inputError(runSpec({ test: 'goodness-of-fit', source: { path: 'x.csv', columns: ['c'] }, statistic: 'chi' }, { readers: reader(peas, calls), specPath: '/w/s.json' }));

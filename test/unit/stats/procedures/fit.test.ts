@@ -104,6 +104,16 @@ describe('goodness of fit', () => {
     assert.equal(result.details!.expectedFrom, 'uniform');
   });
 
+  it('names the counted variable in the conclusion when it is known', () => {
+    // Mendel's dihybrid cross against 9:3:3:1 (published: p = 0.925), so the counts are consistent with the ratios.
+    const named = goodnessOfFit([315, 108, 101, 32], { ratios: [9, 3, 3, 1], variable: 'seed type' });
+    assert.match(named.conclusion, /^The observed counts of `seed type` are consistent with the expected proportions:.*\(p = 0\.925\)\.$/);
+    const unnamed = goodnessOfFit([315, 108, 101, 32], { ratios: [9, 3, 3, 1] });
+    assert.match(unnamed.conclusion, /^The observed counts are consistent with the expected proportions:/);
+    const differs = goodnessOfFit([10, 20, 60], { variable: 'nozzle' });
+    assert.match(differs.conclusion, /^The observed counts of `nozzle` differ from equal proportions in every category by more than chance/);
+  });
+
   it('rescales expected counts whose total differs from the observed total, with a notice', () => {
     const result = goodnessOfFit([30, 50, 20], { expected: [35, 45, 25] });
     assertClose(result.categories![0].expected, (35 * 100) / 105, { rel: 1e-15 }, 'rescaled expected');

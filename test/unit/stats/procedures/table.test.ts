@@ -152,6 +152,26 @@ describe('independence test on r×c tables', () => {
     assert.ok(result.grid!.adjustedResiduals.flat().every(Number.isFinite));
   });
 
+  it('names the row and column variables in the conclusion when they are known, and stays generic otherwise', () => {
+    // Agresti's aspirin table (X² = 25.01, p < .001): associated at any usual level.
+    const aspirin = [[189, 10845], [104, 10933]];
+    const named = independenceTest(aspirin, { rowVariable: 'treatment', columnVariable: 'outcome' });
+    assert.match(named.conclusion, /^`treatment` and `outcome` are associated: the mix of `outcome` differs between the `treatment` groups by more than chance would explain at the 5% level \(p ≈ [\d.]+ × 10\^-7\)\.$/);
+    assert.doesNotMatch(named.conclusion, /row and column variables/);
+    const rowOnly = independenceTest(aspirin, { rowVariable: 'treatment' });
+    assert.match(rowOnly.conclusion, /^`treatment` and the column variable are associated: the spread over the columns differs between the `treatment` groups/);
+    const columnOnly = independenceTest(aspirin, { columnVariable: 'outcome' });
+    assert.match(columnOnly.conclusion, /^The row variable and `outcome` are associated: the mix of `outcome` differs between the rows/);
+    assert.match(independenceTest(aspirin, { rowVariable: ' ' }).conclusion, /^The row and column variables are associated: how counts spread over the columns differs between rows/);
+    // Not significant: X² = N(ad − bc)²/(r1·r2·c1·c2) = 36·75²/(17·19·21·15) = 1.990 by hand, below the 5% critical
+    // value 3.841 for df 1 (NIST/SEMATECH e-Handbook §1.3.6.7.4).
+    const none = independenceTest([[12, 5], [9, 10]], { rowVariable: 'oven', columnVariable: 'defect' });
+    assert.equal(none.statistic.toFixed(3), '1.990');
+    assert.equal(none.significant, false);
+    assert.match(none.conclusion, /^The data do not show an association between `oven` and `defect` at the 5% level: the differences in the mix of `defect` between the `oven` groups are within what chance would produce \(p = 0\.\d{3}\)\.$/);
+    assert.match(independenceTest([[12, 5], [9, 10]]).conclusion, /^The data do not show an association between the row and column variables at the 5% level: the differences between rows are within/);
+  });
+
   it('reports the sampling design as an assumption that cannot be checked', () => {
     assert.equal(independenceTest([[12, 5], [3, 9]]).assumptions.find((a) => a.id === 'sampling-design')!.status, 'unchecked');
   });

@@ -156,6 +156,19 @@ describe('chi-square test for one variance', () => {
     assert.match(not.conclusion, /^The data do not show that the population variance exceeds/);
   });
 
+  it('names the measured variable and its unit in the conclusion, squaring the unit for a variance', () => {
+    // Montgomery & Runger bottle fill (n = 20, s² = 0.0153, σ0² = 0.01): significant at 10%, one-sided (p = 0.065).
+    const byVariance = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater', alpha: 0.1, variable: 'fill volume', unit: 'L' });
+    assert.match(byVariance.conclusion, /^The population variance of `fill volume` is larger than σ0² = 0\.01 L² at the 10% level \(s² = 0\.0153 L², p = 0\.065\)/);
+    const bySd = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { sigma0: 0.1, alternative: 'greater', variable: 'fill volume', unit: 'L' });
+    assert.match(bySd.conclusion, /^The data do not show that the population standard deviation of `fill volume` exceeds σ0 = 0\.1 L at the 5% level \(s = 0\.1237 L,/);
+    const compound = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, unit: 'g/cm' });
+    assert.match(compound.conclusion, /σ0² = 0\.01 \(g\/cm\)²/);
+    // Blank names and units leave the generic wording.
+    const generic = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, variable: '  ', unit: '' });
+    assert.match(generic.conclusion, /^The data do not show that the population variance differs from σ0² = 0\.01 at the 5% level \(s² = 0\.0153,/);
+  });
+
   it('refuses bad input with the field named', () => {
     assert.match(errorOf(() => varianceTestFromValues([1, 2, NaN], { sigma0: 1 })).message, /value 3: expected a finite number, found NaN/);
     assert.equal(errorOf(() => varianceTestFromValues([1], { sigma0: 1 })).code, 'too-few-values');
