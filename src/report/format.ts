@@ -95,14 +95,25 @@ export function formatPercent(level: number): string {
  * significant digits below 1 (so σ² = 0.0153 is not shown as 0.02).
  */
 export function formatEstimate(x: number, format: FormatOptions = DEFAULT_FORMAT): string {
-  if (!Number.isFinite(x) || x === 0 || Math.abs(x) >= 1) return formatNumber(x, format.decimals);
+  if (x === 0) return '0';
+  if (!Number.isFinite(x) || Math.abs(x) >= 1) return formatNumber(x, format.decimals);
   if (Math.abs(x) < 1e-4) return formatScientific(x, format.decimals + 1);
   return x.toPrecision(format.decimals + 1);
 }
 
+/**
+ * A positive quantity that may underflow (a density, a critical value): as an estimate, except that a value
+ * that underflowed to 0 while its base-10 logarithm is known is written as that power of ten
+ * ("5.0 × 10^-437"); a value that is truly 0 (no finite logarithm) prints 0.
+ */
+export function formatEstimateWithLog(x: number, log10: number | undefined, format: FormatOptions = DEFAULT_FORMAT): string {
+  if (x === 0 && log10 !== undefined && Number.isFinite(log10)) return scientificFromLog10(log10, format.decimals + 1);
+  return formatEstimate(x, format);
+}
+
 /** An interval with its ends formatted as estimates: "[0.00885, 0.0326]", "[0, 0.0287]", "[1.44, ∞)". */
-export function formatEstimateInterval(lower: number, upper: number, format: FormatOptions = DEFAULT_FORMAT): string {
+export function formatEstimateInterval(lower: number, upper: number, format: FormatOptions = DEFAULT_FORMAT, logs: { readonly lowerLog10?: number; readonly upperLog10?: number } = {}): string {
   const close = upper === Infinity ? ')' : ']';
   const open = lower === -Infinity ? '(' : '[';
-  return `${open}${formatEstimate(lower, format)}, ${formatEstimate(upper, format)}${close}`;
+  return `${open}${formatEstimateWithLog(lower, logs.lowerLog10, format)}, ${formatEstimateWithLog(upper, logs.upperLog10, format)}${close}`;
 }

@@ -99,6 +99,7 @@ export function distributionJson(r: DistributionResult): JsonOutput {
       lower: p.lower.value,
       lowerLog10: log10Of(p.lower),
       density: p.density,
+      ...(p.densityLog10 !== undefined ? { densityLog10: p.densityLog10 } : {}),
     })),
     critical: r.critical,
     warnings: r.notices.filter((n) => n.severity === 'warning').map((n) => n.message),

@@ -4,8 +4,8 @@
  * Deterministic (no dates, no versions) so that a refreshed report only changes when the result does. Pure.
  */
 import type { CellGrid, CategoryRow, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
-import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateInterval, formatNumber, formatPExact, formatProbability } from './format';
-import { CAUTION, apaLine, estimateText, intervalText, statisticLineText, type ReportOptions } from './text';
+import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPExact, formatProbability } from './format';
+import { CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
 
 /** Escapes text for a markdown table cell or inline text. */
 export function escapeMarkdown(text: string): string {
@@ -68,12 +68,14 @@ export function testMarkdown(result: TestResult, options: ReportOptions = DEFAUL
   parts.push(escapeMarkdown(result.conclusion));
   const exact = formatPExact(result.pValue);
   const details = [apaLine(result, options) + (exact ? ` (${exact})` : ''), ...result.effectSizes.map((e) => estimateText(e, options))];
-  if (result.confidenceInterval) details.push(intervalText(result.confidenceInterval, options));
+  const { main, interval, rest } = mainIntervalAndEstimates(result);
+  if (main) details.push(estimateText(main, options, true));
+  if (interval) details.push(intervalText(interval, options));
   parts.push(details.map(escapeMarkdown).join('; '));
   if (result.categories) parts.push(categoryTable(result.categories, options));
   if (result.grid) parts.push(gridTables(result.grid, options));
   const extra = [
-    ...result.estimates.map((e) => `- ${escapeMarkdown(estimateText(e, options))}`),
+    ...rest.map((e) => `- ${escapeMarkdown(estimateText(e, options))}`),
     ...result.otherStatistics.map((s) => `- ${escapeMarkdown(statisticLineText(s, result.n, options))}${s.note ? ` (${escapeMarkdown(s.note)})` : ''}`),
   ];
   if (extra.length) parts.push(extra.join('\n'));
@@ -92,7 +94,7 @@ export function distributionMarkdown(result: DistributionResult, options: Report
     parts.push(
       markdownTable(
         ['x', 'P(X > x)', 'P(X ≤ x)', 'Density'],
-        result.points.map((p) => [formatNumber(p.x, options.decimals), formatProbability(p.upper, 3), formatProbability(p.lower, 3), formatEstimate(p.density, options)]),
+        result.points.map((p) => [formatNumber(p.x, options.decimals), formatProbability(p.upper, 3), formatProbability(p.lower, 3), formatEstimateWithLog(p.density, p.densityLog10, options)]),
         0,
       ),
     );
@@ -102,7 +104,12 @@ export function distributionMarkdown(result: DistributionResult, options: Report
     parts.push(
       markdownTable(
         ['p', 'Upper critical value', 'Lower critical value', 'Two-sided'],
-        result.critical.map((c) => [String(c.p), formatEstimate(c.upper, d), formatEstimate(c.lower, d), formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, d)]),
+        result.critical.map((c) => [
+          String(c.p),
+          formatEstimateWithLog(c.upper, c.upperLog10, d),
+          formatEstimateWithLog(c.lower, c.lowerLog10, d),
+          formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, d, c.twoSided),
+        ]),
         0,
       ),
     );

@@ -11,6 +11,7 @@ import {
   formatDf,
   formatEstimate,
   formatEstimateInterval,
+  formatEstimateWithLog,
   formatNumber,
   formatPExact,
   formatPercent,
@@ -42,10 +43,30 @@ export function statisticLineText(line: StatisticLine, n: number | null, format:
   return `${line.name}: ${formatApaLine(line.symbol, line.statistic, line.df, n, line.pValue, format)}`;
 }
 
-/** "Cramér's V = 0.123, 95% CI [0.05, 0.19]" */
-export function estimateText(e: Estimate, format: FormatOptions = DEFAULT_FORMAT): string {
-  const interval = e.interval ? `, ${intervalText(e.interval, format, false)}` : '';
+/**
+ * "Cramér's V = 0.123, 95% CI [0.05, 0.19]". `withParameter` names what the interval is for
+ * ("95% CI for σ² […]"), for the estimate that carries the result's main interval.
+ */
+export function estimateText(e: Estimate, format: FormatOptions = DEFAULT_FORMAT, withParameter = false): string {
+  const interval = e.interval ? `, ${intervalText(e.interval, format, withParameter)}` : '';
   return `${e.name} = ${formatEstimate(e.value, format)}${interval}`;
+}
+
+/**
+ * The result's main interval and the estimates, arranged so the interval is written once: when an estimate
+ * carries exactly the main interval (the variance test's s² and its interval for σ²), that estimate comes
+ * first and names the parameter, and no separate interval line repeats the same numbers.
+ */
+export function mainIntervalAndEstimates(result: TestResult): { readonly main?: Estimate; readonly interval?: Interval; readonly rest: readonly Estimate[] } {
+  const ci = result.confidenceInterval;
+  if (!ci) return { rest: result.estimates };
+  const main = result.estimates.find((e) => e.interval !== undefined && sameInterval(e.interval, ci));
+  if (!main) return { interval: ci, rest: result.estimates };
+  return { main, rest: result.estimates.filter((e) => e !== main) };
+}
+
+function sameInterval(a: Interval, b: Interval): boolean {
+  return a.lower === b.lower && a.upper === b.upper && a.level === b.level && a.parameter === b.parameter && a.method === b.method;
 }
 
 /** "95% CI for σ² [0.00885, 0.0326] (equal-tail chi-square)"; one-sided bounds say so. */
@@ -74,8 +95,10 @@ export function testText(result: TestResult, options: ReportOptions = DEFAULT_FO
   if (exact) lines.push(`        ${exact}`);
   if (result.alternative && result.alternative !== 'two-sided') lines.push(`Alternative: ${result.alternative} (one-sided)`);
   for (const e of result.effectSizes) lines.push(`Effect size: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
-  if (result.confidenceInterval) lines.push(`Interval: ${intervalText(result.confidenceInterval, options)}`);
-  for (const e of result.estimates) lines.push(`Estimate: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
+  const { main, interval, rest } = mainIntervalAndEstimates(result);
+  if (interval) lines.push(`Interval: ${intervalText(interval, options)}`);
+  if (main) lines.push(`Estimate: ${estimateText(main, options, true)}${main.note ? ` (${main.note})` : ''}`);
+  for (const e of rest) lines.push(`Estimate: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
   for (const s of result.otherStatistics) lines.push(`Also: ${statisticLineText(s, result.n, options)}${s.note ? ` (${s.note})` : ''}`);
   lines.push(...noticeLines(result.notices));
   const failed = result.assumptions.filter((a) => a.status === 'failed');
@@ -94,14 +117,14 @@ export function distributionText(result: DistributionResult, options: ReportOpti
   lines.push(`Chi-square distribution with ${formatDf(result.df, options.decimals)} degree${result.df === 1 ? '' : 's'} of freedom${result.noncentrality ? `, noncentrality ${formatNumber(result.noncentrality, options.decimals)}` : ''}`);
   for (const pt of result.points) {
     lines.push(
-      `x = ${formatNumber(pt.x, options.decimals)}: P(X > x) = ${formatProbability(pt.upper, 3)}, P(X ≤ x) = ${formatProbability(pt.lower, 3)}, density ${formatEstimate(pt.density, options)}`,
+      `x = ${formatNumber(pt.x, options.decimals)}: P(X > x) = ${formatProbability(pt.upper, 3)}, P(X ≤ x) = ${formatProbability(pt.lower, 3)}, density ${formatEstimateWithLog(pt.density, pt.densityLog10, options)}`,
     );
   }
   const critical = { decimals: options.decimals + 1 };
   for (const c of result.critical) {
     const p = String(c.p);
     lines.push(
-      `p = ${p}: upper critical value ${formatEstimate(c.upper, critical)} (P(X > c) = ${p}), lower ${formatEstimate(c.lower, critical)} (P(X ≤ c) = ${p}), two-sided ${formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, critical)}`,
+      `p = ${p}: upper critical value ${formatEstimateWithLog(c.upper, c.upperLog10, critical)} (P(X > c) = ${p}), lower ${formatEstimateWithLog(c.lower, c.lowerLog10, critical)} (P(X ≤ c) = ${p}), two-sided ${formatEstimateInterval(c.twoSided.lower, c.twoSided.upper, critical, c.twoSided)}`,
     );
   }
   lines.push(...noticeLines(result.notices));

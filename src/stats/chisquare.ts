@@ -11,6 +11,7 @@
 import {
   gammaDensity,
   lastSlope,
+  logGamma,
   logTailWithSlope,
   logGamma1p,
   logRegularizedGammaLower,
@@ -35,6 +36,18 @@ export function chiSquareDensity(x: number, df: number): number {
   if (x === 0) return a < 1 ? Infinity : a === 1 ? 0.5 : 0;
   // f(x) = ½ g(x/2), g the gamma(a, 1) density.
   return 0.5 * gammaDensity(a, x / 2);
+}
+
+/**
+ * log10 of the density, finite where the density itself underflows to 0 (x = 2000, df = 1: about −436.3).
+ * From ln f = (a − 1)·ln(x/2) − x/2 − lnΓ(a) − ln 2 with a = df/2 when the double density is 0; otherwise
+ * log10 of the density. −∞ where the density is truly 0 (x < 0, x = ∞).
+ */
+export function chiSquareLog10Density(x: number, df: number): number {
+  const density = chiSquareDensity(x, df);
+  if (!(density === 0) || !(x > 0 && x < Infinity && df > 0)) return Math.log10(density);
+  const a = df / 2;
+  return ((a - 1) * Math.log(x / 2) - x / 2 - logGamma(a) - Math.LN2) / Math.LN10;
 }
 
 /** P(X ≤ x) for X ~ χ²(df). */
@@ -164,6 +177,27 @@ export function chiSquareQuantile(p: number, df: number): number {
   if (p === 1) return Infinity;
   const a = df / 2;
   return 2 * (p <= 0.5 ? gammaQuantile(a, Math.log(p), false, p) : gammaQuantile(a, Math.log1p(-p), true, 1 - p));
+}
+
+/**
+ * log10 of a quantile whose lower tail is exp(lnLower), for quantiles below the double range (a lower
+ * critical value at p = 1e-300, df = 1 is about 1.6 × 10^-600). There P(X ≤ x) = (x/2)^a/Γ(a + 1)·(1 + O(x)),
+ * so ln(x/2) = (lnLower + lnΓ(a + 1))/a with a relative error of order x itself. −∞ for a lower tail of 0.
+ */
+function log10QuantileFromLower(quantile: number, lnLower: number, df: number): number {
+  if (!(quantile === 0) || !(df > 0) || lnLower === -Infinity || Number.isNaN(lnLower)) return Math.log10(quantile);
+  const a = df / 2;
+  return (Math.LN2 + (lnLower + logGamma1p(a)) / a) / Math.LN10;
+}
+
+/** log10 of chiSquareQuantile(p, df), finite where the quantile underflows to 0 but p > 0. */
+export function chiSquareLog10Quantile(p: number, df: number): number {
+  return log10QuantileFromLower(chiSquareQuantile(p, df), Math.log(p), df);
+}
+
+/** log10 of chiSquareUpperQuantile(q, df), finite where the quantile underflows to 0 but q < 1 (tiny df). */
+export function chiSquareLog10UpperQuantile(q: number, df: number): number {
+  return log10QuantileFromLower(chiSquareUpperQuantile(q, df), Math.log1p(-q), df);
 }
 
 /** x with P(X > x) = q, solved on the upper tail itself for q ≤ ½ (so q = 1e-300 works). q = 1 → 0, q = 0 → ∞. */

@@ -147,10 +147,23 @@ export interface DistributionResult {
   readonly test: 'distribution';
   readonly df: number;
   readonly noncentrality: number;
-  /** For each x asked: lower and upper tail probabilities and density. */
-  readonly points: readonly { readonly x: number; readonly lower: Probability; readonly upper: Probability; readonly density: number }[];
-  /** For each p asked: critical values. `lower` has P(X ≤ c) = p, `upper` has P(X > c) = p, two-sided splits p in halves. */
-  readonly critical: readonly { readonly p: number; readonly lower: number; readonly upper: number; readonly twoSided: { readonly lower: number; readonly upper: number } }[];
+  /**
+   * For each x asked: lower and upper tail probabilities and density. `densityLog10` is present only when
+   * the density underflowed to 0 although it is positive (then it gives the power of ten).
+   */
+  readonly points: readonly { readonly x: number; readonly lower: Probability; readonly upper: Probability; readonly density: number; readonly densityLog10?: number }[];
+  /**
+   * For each p asked: critical values. `lower` has P(X ≤ c) = p, `upper` has P(X > c) = p, two-sided splits p in halves.
+   * `lowerLog10` / `upperLog10` are present only when that value underflowed to 0 although it is positive.
+   */
+  readonly critical: readonly {
+    readonly p: number;
+    readonly lower: number;
+    readonly upper: number;
+    readonly lowerLog10?: number;
+    readonly upperLog10?: number;
+    readonly twoSided: { readonly lower: number; readonly upper: number; readonly lowerLog10?: number; readonly upperLog10?: number };
+  }[];
   readonly notices: readonly Notice[];
 }
 

@@ -2,11 +2,27 @@
  * `"test": "distribution"`: questions about the chi-square distribution itself — the tail probabilities
  * of an observed statistic, and the critical values for a given probability.
  */
-import { chiSquareDensity, chiSquareLowerProbability, chiSquareQuantile, chiSquareUpperProbability, chiSquareUpperQuantile } from '../../stats/chisquare';
+import {
+  chiSquareDensity,
+  chiSquareLog10Density,
+  chiSquareLog10Quantile,
+  chiSquareLog10UpperQuantile,
+  chiSquareLowerProbability,
+  chiSquareQuantile,
+  chiSquareUpperProbability,
+  chiSquareUpperQuantile,
+} from '../../stats/chisquare';
 import type { DistributionResult } from '../../stats/result';
 import { arr, field, num, oneOf, type SpecProblem } from '../fields';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
+
+/** `{ [key]: log10 }` when a positive value underflowed to 0 and its logarithm is finite; otherwise nothing. */
+function underflowLog<K extends string>(key: K, value: number, log10: () => number): Partial<Record<K, number>> {
+  if (value !== 0) return {};
+  const l = log10();
+  return Number.isFinite(l) ? ({ [key]: l } as Partial<Record<K, number>>) : {};
+}
 
 const asList = (v: number | readonly number[] | undefined): readonly number[] => (v === undefined ? [] : typeof v === 'number' ? [v] : v);
 
@@ -35,18 +51,29 @@ export const distributionProcedure: ProcedureHandler = {
       test: 'distribution',
       df,
       noncentrality: 0,
-      points: asList(spec.x).map((x) => ({
-        x,
-        lower: chiSquareLowerProbability(x, df),
-        upper: chiSquareUpperProbability(x, df),
-        density: chiSquareDensity(x, df),
-      })),
-      critical: asList(spec.p).map((p) => ({
-        p,
-        lower: chiSquareQuantile(p, df),
-        upper: chiSquareUpperQuantile(p, df),
-        twoSided: { lower: chiSquareQuantile(p / 2, df), upper: chiSquareUpperQuantile(p / 2, df) },
-      })),
+      points: asList(spec.x).map((x) => {
+        const density = chiSquareDensity(x, df);
+        return {
+          x,
+          lower: chiSquareLowerProbability(x, df),
+          upper: chiSquareUpperProbability(x, df),
+          density,
+          ...underflowLog('densityLog10', density, () => chiSquareLog10Density(x, df)),
+        };
+      }),
+      critical: asList(spec.p).map((p) => {
+        const quantiles = (q: number) => {
+          const lower = chiSquareQuantile(q, df);
+          const upper = chiSquareUpperQuantile(q, df);
+          return {
+            lower,
+            upper,
+            ...underflowLog('lowerLog10', lower, () => chiSquareLog10Quantile(q, df)),
+            ...underflowLog('upperLog10', upper, () => chiSquareLog10UpperQuantile(q, df)),
+          };
+        };
+        return { p, ...quantiles(p), twoSided: quantiles(p / 2) };
+      }),
       notices: [],
     };
   },

@@ -4,6 +4,8 @@ import {
   formatApaLine,
   formatCount,
   formatEstimate,
+  formatEstimateInterval,
+  formatEstimateWithLog,
   formatNumber,
   formatPApa,
   formatPExact,
@@ -47,6 +49,18 @@ describe('report number formatting', () => {
     assert.equal(formatNumber(0.000123, 2), '1.2 × 10^-4');
     assert.equal(formatNumber(0, 2), '0.00');
     assert.equal(formatProbability(p(0.0004)), '4.0 × 10^-4');
+  });
+
+  it('writes tiny estimates as powers of ten, an underflowed value from its logarithm, and a true 0 as 0', () => {
+    assert.equal(formatEstimate(3.2e-9), '3.20 × 10^-9');
+    assert.equal(formatEstimate(0), '0');
+    // The χ²(1) density at x = 2000 underflows; its log10 (−436.344, closed form) still gives the value.
+    assert.equal(formatEstimateWithLog(0, -436.344086), '4.53 × 10^-437');
+    assert.equal(formatEstimateWithLog(0, -Infinity), '0');
+    assert.equal(formatEstimateWithLog(0, undefined), '0');
+    assert.equal(formatEstimateWithLog(0.162, undefined), '0.162');
+    assert.equal(formatEstimateInterval(0, 1373.873, { decimals: 3 }, { lowerLog10: -599.80388 }), '[1.571 × 10^-600, 1,373.873]');
+    assert.equal(formatEstimateInterval(0, 0.0287), '[0, 0.0287]');
   });
 
   it('formats counts, estimates and special values', () => {

@@ -66,6 +66,35 @@ describe('report content', () => {
     assert.match(text, /upper critical value 18\.307/); // NIST/SEMATECH e-Handbook §1.3.6.7.4: df 10, upper 0.05 → 18.307
   });
 
+  it('text and markdown: a density or critical value below the double range is a power of ten, never 0.00', async () => {
+    const result = (await distributionProcedure.run({ test: 'distribution', df: 1, x: [2000, 0], p: 1e-300 }, { hasSource: false, aggregate: () => Promise.reject(new Error('no source')) })) as DistributionResult;
+    const text = resultText(result);
+    // Closed forms for χ²(1): density e^(−x/2)/sqrt(2πx) = 10^-436.344 at x = 2000; lower quantile πp²/2 = 1.571e-600 at p = 1e-300.
+    assert.match(text, /x = 2,000\.00: .*density 4\.53 × 10\^-437\n/);
+    assert.match(text, /lower 1\.571 × 10\^-600 \(P\(X ≤ c\) = 1e-300\), two-sided \[3\.927 × 10\^-601, /);
+    assert.doesNotMatch(text, /0\.00(?!\d)(?!: )/);
+    const md = resultMarkdown(result);
+    assert.match(md, /\| 2,000\.00 \| 9\.05 × 10\^-437 \| 1\.000 \| 4\.53 × 10\^-437 \|/);
+    assert.match(md, /\| 1e-300 \| 1,373\.873 \| 1\.571 × 10\^-600 \| \[3\.927 × 10\^-601, 1,375\.258\] \|/);
+    // At x = 0 with df = 3 the density is truly 0, and prints as 0.
+    const zero = (await distributionProcedure.run({ test: 'distribution', df: 3, x: 0 }, { hasSource: false, aggregate: () => Promise.reject(new Error('no source')) })) as DistributionResult;
+    assert.match(resultText(zero), /density 0\n/);
+  });
+
+  it('text and markdown: the variance test states its σ² interval once, with the sample variance', () => {
+    const text = resultText(bottles);
+    assert.match(text, /Estimate: Sample variance s² = 0\.0153, 95% bound for σ² \[0\.00\d+, ∞\)/);
+    assert.doesNotMatch(text, /^Interval:/m);
+    const bound = /\[0\.00\d+, ∞\)/.exec(text)![0];
+    assert.equal(text.split(bound).length - 1, 1, text);
+    const md = resultMarkdown(bottles);
+    assert.match(md, /p = \.065; .*Sample variance s² = 0\.0153, 95% bound for σ² \\\[0\.00\d+, ∞\)/);
+    assert.equal(md.split(bound.replace('[', '\\[')).length - 1, 1, md);
+    // A result whose main interval belongs to no estimate still prints it on its own line.
+    const bare = resultText({ ...bottles, estimates: [] });
+    assert.match(bare, /\nInterval: 95% bound for σ² \[/);
+  });
+
   it('markdown: category table with residuals, escaped labels, and the caution', () => {
     const md = resultMarkdown(mendel);
     assert.match(md, /\| Category \| Observed \| Expected \| Residual \| Std\. residual \| Contribution \|/);
