@@ -69,7 +69,7 @@ export function testMarkdown(result: TestResult, options: ReportOptions = DEFAUL
   const exact = formatPExact(result.pValue);
   const details = [apaLine(result, options) + (exact ? ` (${exact})` : ''), ...result.effectSizes.map((e) => estimateText(e, options))];
   const { main, interval, rest } = mainIntervalAndEstimates(result);
-  if (main) details.push(estimateText(main, options, true));
+  if (main) details.push(estimateText(main, options));
   if (interval) details.push(intervalText(interval, options));
   parts.push(details.map(escapeMarkdown).join('; '));
   if (result.categories) parts.push(categoryTable(result.categories, options));

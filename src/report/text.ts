@@ -44,18 +44,19 @@ export function statisticLineText(line: StatisticLine, n: number | null, format:
 }
 
 /**
- * "Cramér's V = 0.123, 95% CI [0.05, 0.19]". `withParameter` names what the interval is for
- * ("95% CI for σ² […]"), for the estimate that carries the result's main interval.
+ * "Odds ratio = 1.83, 95% CI [1.44, 2.33]". When the interval is for a population quantity the name does not
+ * already say, it is named: "Sample variance s² = 0.0153, 95% CI for σ² […]".
  */
-export function estimateText(e: Estimate, format: FormatOptions = DEFAULT_FORMAT, withParameter = false): string {
-  const interval = e.interval ? `, ${intervalText(e.interval, format, withParameter)}` : '';
+export function estimateText(e: Estimate, format: FormatOptions = DEFAULT_FORMAT): string {
+  const named = e.interval !== undefined && !e.name.toLowerCase().includes(e.interval.parameter.toLowerCase());
+  const interval = e.interval ? `, ${intervalText(e.interval, format, named)}` : '';
   return `${e.name} = ${formatEstimate(e.value, format)}${interval}`;
 }
 
 /**
  * The result's main interval and the estimates, arranged so the interval is written once: when an estimate
  * carries exactly the main interval (the variance test's s² and its interval for σ²), that estimate comes
- * first and names the parameter, and no separate interval line repeats the same numbers.
+ * first, and no separate interval line repeats the same numbers.
  */
 export function mainIntervalAndEstimates(result: TestResult): { readonly main?: Estimate; readonly interval?: Interval; readonly rest: readonly Estimate[] } {
   const ci = result.confidenceInterval;
@@ -97,7 +98,7 @@ export function testText(result: TestResult, options: ReportOptions = DEFAULT_FO
   for (const e of result.effectSizes) lines.push(`Effect size: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
   const { main, interval, rest } = mainIntervalAndEstimates(result);
   if (interval) lines.push(`Interval: ${intervalText(interval, options)}`);
-  if (main) lines.push(`Estimate: ${estimateText(main, options, true)}${main.note ? ` (${main.note})` : ''}`);
+  if (main) lines.push(`Estimate: ${estimateText(main, options)}${main.note ? ` (${main.note})` : ''}`);
   for (const e of rest) lines.push(`Estimate: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
   for (const s of result.otherStatistics) lines.push(`Also: ${statisticLineText(s, result.n, options)}${s.note ? ` (${s.note})` : ''}`);
   lines.push(...noticeLines(result.notices));

@@ -85,6 +85,9 @@ describe('report content', () => {
     const text = resultText(bottles);
     assert.match(text, /Estimate: Sample variance s² = 0\.0153, 95% bound for σ² \[0\.00\d+, ∞\)/);
     assert.doesNotMatch(text, /^Interval:/m);
+    // Every interval for a population quantity says which one; the odds ratio's needs no such note (see below).
+    assert.match(text, /Estimate: Sample standard deviation s = 0\.124, 95% bound for σ \[/);
+    assert.match(text, /Variance ratio s²\/σ0² = 1\.53, 95% bound for σ²\/σ0² \[/);
     const bound = /\[0\.00\d+, ∞\)/.exec(text)![0];
     assert.equal(text.split(bound).length - 1, 1, text);
     const md = resultMarkdown(bottles);
