@@ -4,14 +4,32 @@
 // spawn to exit, peak RSS from /usr/bin/time). `COUNTERCHECK_BENCH_ROWS=1000000 npm run bench -- csv`
 // runs a quick 1M-row version. Slow parsers run on the first 1,000,000 rows and are scaled (said so).
 //
-// Recorded 2026-12-01 on the shared 2-core machine (load average 3.9; fastest of 3 runs; 278 MB):
+// `scanner` is the product default (`parallel: 'auto'`: two scanning threads from 64 MB, see
+// src/data/parallel.ts); `scanner-1thread` is the same scanner on one thread (`parallel: 'never'`).
+//
+// Before (one thread), 2026-12-01, load average 3.9, fastest of 3, 278 MB:
 //   bare read 0.45 s · byte scanner 2.00 s, 139 MB/s, 65 MB RSS, 2.08 CPU s · uDSV 5.5 s · Papa Parse 10.6 s
 //   csv-parser 13.9 s · fast-csv 40.8 s · csv-parse into a Map 19.5 s · our csv-parse reader 25.2 s (78 MB)
 //   pandas + scipy 5.50 s, 1,247 MB · data.table (2 threads) 2.85 s, 616 MB, 3.62 CPU s
-// Chosen: the byte scanner, falling back to csv-parse for quoting it leaves alone. Targets: 100 MB/s and
-// < 100 MB met; 1.42× data.table (1.74× by CPU time) and 2.75× pandas, short of 1.5× and 4×. On this
-// machine pandas is twice as fast as the 11.9 s the targets were set from; against those figures the
-// scanner is 6× pandas and 2.3× data.table. Wall times vary ±50% between runs here as others' work comes and goes.
+//   → 1.42× data.table, 2.75× pandas.
+// After (two threads), 2026-12-01, same machine, fastest of 3 (two full runs, load average 4.1–4.7 from
+// others' work):
+//   run 1: scanner 2.01 s, 138 MB/s, 91 MB RSS, 2.47 CPU s · one thread 2.10 s, 69 MB · data.table 3.22 s
+//          · pandas 7.65 s → 1.60× data.table, 3.80× pandas
+//   run 2: scanner 1.81 s, 154 MB/s, 92 MB RSS, 2.08 CPU s · one thread 3.04 s (2.00 CPU s) · data.table
+//          3.09 s, 3.31 CPU s · pandas 5.80 s, 5.82 CPU s → 1.71× data.table, 3.21× pandas (2.80× by CPU)
+//   Alone between those runs (load 2.9–3.6, 4 runs each): two threads 1.17–1.39 s when a core is free
+//   (2.0–2.5 CPU s, 82 MB), 2.3–5.5 s when the others' jobs take both cores; one thread 2.1–2.3 s.
+//   Hashing: the SHA-256 runs on the main thread over a third read while the two threads scan
+//   (SHA-256 alone is 0.17 s for 278 MB here, with SHA extensions). Measured against no hashing at
+//   all: 1.31 s against 1.26 s wall, +0.3 CPU s; hashing inside the first thread would put the same
+//   work after its scan, on the critical path, so the main thread it is.
+// Chosen: the byte scanner, on two threads above 64 MB, falling back to one thread (level limits,
+// a thread that cannot start) and to csv-parse for quoting it leaves alone. Targets: 100 MB/s and
+// < 100 MB met (the second thread costs ~23 MB, not growing with the file); 1.5× data.table met in
+// both runs; 4× pandas NOT met in the same run (3.2× and 3.8×). With a free core the two threads take
+// 1.2–1.4 s, which would be 4.1–4.8× pandas' 5.8 s, but that is not a same-run figure. Wall times vary
+// ±50% between runs here as others' work comes and goes.
 import { spawnSync } from 'node:child_process';
 import { createReadStream, existsSync, mkdirSync, openSync, statSync, writeSync, closeSync, renameSync } from 'node:fs';
 import { cpus, loadavg } from 'node:os';

@@ -194,8 +194,8 @@ function relocated(outcome: Extract<Outcome, { type: 'input-error' }>, firstLine
 }
 
 /**
- * Scans the file on several threads. Returns undefined when a parallel read does not apply (the
- * caller scans on one thread); throws ScannerFallback (read with csv-parse), an InputError (the
+ * Scans the file on several threads. Returns undefined when a parallel read does not apply or a
+ * thread could not run (the caller scans on one thread); throws ScannerFallback (read with csv-parse), an InputError (the
  * first in the file, with its true line) or the abort reason.
  */
 export async function scanParallel(input: ParallelInput, choice: ParallelChoice): Promise<ParallelResult | undefined> {
@@ -266,7 +266,8 @@ async function planAndScan(input: ParallelInput, choice: ParallelChoice): Promis
     for (let k = 0; k < outcomes.length; k++) {
       const outcome = await Promise.race([outcomes[k], abortion]);
       if (outcome.type === 'fallback') throw new ScannerFallback(firstLine, outcome.reason);
-      if (outcome.type === 'failed') throw new Error(`scanning thread: ${outcome.message}`, { cause: outcome.stack });
+      // A thread that could not run (no memory for it, a missing loader) is no reason to refuse the file.
+      if (outcome.type === 'failed') return undefined;
       if (outcome.type === 'input-error') {
         // The level limit counts the levels of the whole file: only one thread knows where it is passed.
         if (outcome.code === 'too-many-levels') return undefined;
