@@ -12,24 +12,28 @@
 //   csv-parser 13.9 s · fast-csv 40.8 s · csv-parse into a Map 19.5 s · our csv-parse reader 25.2 s (78 MB)
 //   pandas + scipy 5.50 s, 1,247 MB · data.table (2 threads) 2.85 s, 616 MB, 3.62 CPU s
 //   → 1.42× data.table, 2.75× pandas.
-// After (two threads), 2026-12-01, same machine, fastest of 3 (two full runs, load average 4.1–4.7 from
-// others' work):
-//   run 1: scanner 2.01 s, 138 MB/s, 91 MB RSS, 2.47 CPU s · one thread 2.10 s, 69 MB · data.table 3.22 s
-//          · pandas 7.65 s → 1.60× data.table, 3.80× pandas
-//   run 2: scanner 1.81 s, 154 MB/s, 92 MB RSS, 2.08 CPU s · one thread 3.04 s (2.00 CPU s) · data.table
-//          3.09 s, 3.31 CPU s · pandas 5.80 s, 5.82 CPU s → 1.71× data.table, 3.21× pandas (2.80× by CPU)
+// After (two threads), 2026-12-01, same machine, fastest of 3, three full runs:
+//   run 3 (load average 2.3 at its start): scanner 1.12 s, 248 MB/s, 91 MB RSS, 2.03 CPU s · one thread
+//          2.24 s, 69 MB · data.table 2.17 s, 2.72 CPU s · pandas 5.06 s, 5.14 CPU s
+//          → 1.93× data.table, 4.50× pandas by wall time (1.34× and 2.53× by CPU time)
+//   run 1 (load 4.1): scanner 2.01 s, 138 MB/s, 91 MB RSS, 2.47 CPU s · one thread 2.10 s · data.table
+//          3.22 s · pandas 7.65 s → 1.60× data.table, 3.80× pandas
+//   run 2 (load 4.7): scanner 1.81 s, 154 MB/s, 92 MB, 2.08 CPU s · one thread 3.04 s (2.00 CPU s)
+//          · data.table 3.09 s · pandas 5.80 s → 1.71× data.table, 3.21× pandas
 //   Alone between those runs (load 2.9–3.6, 4 runs each): two threads 1.17–1.39 s when a core is free
 //   (2.0–2.5 CPU s, 82 MB), 2.3–5.5 s when the others' jobs take both cores; one thread 2.1–2.3 s.
 //   Hashing: the SHA-256 runs on the main thread over a third read while the two threads scan
 //   (SHA-256 alone is 0.17 s for 278 MB here, with SHA extensions). Measured against no hashing at
-//   all: 1.31 s against 1.26 s wall, +0.3 CPU s; hashing inside the first thread would put the same
-//   work after its scan, on the critical path, so the main thread it is.
+//   all (a build with the hash switched off, quietest of 4 pairs): 1.31 s against 1.26 s wall, about
+//   +0.3 CPU s. Hashing inside the first thread (not built, reasoned) would put that work after its
+//   scan, on the critical path, instead of beside the scans; so the main thread it is.
 // Chosen: the byte scanner, on two threads above 64 MB, falling back to one thread (level limits,
 // a thread that cannot start) and to csv-parse for quoting it leaves alone. Targets: 100 MB/s and
 // < 100 MB met (the second thread costs ~23 MB, not growing with the file); 1.5× data.table met in
-// both runs; 4× pandas NOT met in the same run (3.2× and 3.8×). With a free core the two threads take
-// 1.2–1.4 s, which would be 4.1–4.8× pandas' 5.8 s, but that is not a same-run figure. Wall times vary
-// ±50% between runs here as others' work comes and goes.
+// all three runs; 4× pandas met in the same run when the machine had a core to spare (run 3: 4.5×),
+// not when others' jobs took both cores (runs 1–2: 3.8× and 3.2×). By CPU time two threads cost
+// ~0.2 CPU s more than one (thread start-up, the hash's own read), so on a machine with no idle
+// core the gain is small. Wall times vary ±50% between runs here as others' work comes and goes.
 import { spawnSync } from 'node:child_process';
 import { createReadStream, existsSync, mkdirSync, openSync, statSync, writeSync, closeSync, renameSync } from 'node:fs';
 import { cpus, loadavg } from 'node:os';
