@@ -13,8 +13,8 @@ import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable,
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { binomialLowerTail, logBinomialPmf } from './discrete';
 import { normalUpperQuantile } from './normal';
-import { probabilityFromValue } from './probability';
-import type { Estimate, Interval, Notice, StatisticLine, TestResult } from './result';
+import { probabilityFromValue, twoSidedFromTails } from './probability';
+import type { Estimate, Interval, Notice, Probability, StatisticLine, TestResult } from './result';
 
 export type PairedMethod = 'asymptotic' | 'exact' | 'mid-p';
 
@@ -62,17 +62,16 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
     discordant: [b, c],
     uncorrected: chiSquareLine('mcnemar', 'McNemar chi-square', 'X²', uncorrected, 1),
     corrected: chiSquareLine('mcnemar-corrected', 'McNemar chi-square with continuity correction', 'X²', corrected, 1),
-    exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(low, m), `b = ${b} of ${m} discordant pairs, tested against ½`, b, 'b'),
+    exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(b, c), `b = ${b} of ${m} discordant pairs, tested against ½`, b, 'b'),
     midP: pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', probabilityFromValue(midP), 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b, 'b'),
   };
 }
 
-function exactBinomialProbability(low: number, m: number): ReturnType<typeof probabilityFromValue> {
+/** Exact two-sided p-value of b given b + c, p = ½: P(X ≤ b) and P(X ≥ b) = P(X ≤ c) by symmetry. */
+function exactBinomialProbability(b: number, c: number): Probability {
+  const m = b + c;
   if (m === 0) return probabilityFromValue(1);
-  const lower = binomialLowerTail(low, m, 0.5);
-  // Doubling the smaller tail: add log10(2) so that tails below the double range keep their size.
-  const log10 = Math.min(0, lower.log10 + Math.LOG10E * Math.LN2);
-  return { value: Math.min(1, 2 * lower.value), log10 };
+  return twoSidedFromTails(binomialLowerTail(b, m, 0.5), binomialLowerTail(c, m, 0.5));
 }
 
 export function mcnemarTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {

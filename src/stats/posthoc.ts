@@ -10,8 +10,8 @@
 import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, columnSums, dropEmptyMargins, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, requireLevel } from './assumptions';
-import { normalUpperProbability } from './normal';
-import { probabilityFromLog, probabilityFromValue } from './probability';
+import { normalLowerProbability, normalUpperProbability } from './normal';
+import { probabilityFromValue, twoSidedFromTails } from './probability';
 import type { Notice, Probability, StatisticLine, TestResult } from './result';
 
 export type Adjustment = 'bonferroni' | 'holm' | 'benjamini-hochberg';
@@ -118,8 +118,7 @@ export function cellTests(table: readonly (readonly number[])[], rowLabels: read
 }
 
 function twoSidedNormal(z: number): Probability {
-  const upper = normalUpperProbability(Math.abs(z));
-  return probabilityFromLog(Math.min(0, upper.log10 * Math.LN10 + Math.LN2));
+  return twoSidedFromTails(normalLowerProbability(z), normalUpperProbability(z));
 }
 
 const ADJUSTMENT_NAMES: Record<Adjustment, string> = {

@@ -14,7 +14,7 @@ import { InputError } from '../errors';
 import { chiSquareLine, columnSums, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from './normal';
-import { probabilityFromLog } from './probability';
+import { twoSidedFromTails } from './probability';
 import type { Alternative, Probability, StatisticLine, TestResult } from './result';
 
 export interface TrendOptions {
@@ -43,9 +43,7 @@ function requireScores(scores: readonly number[] | undefined, count: number, jso
 function normalSides(z: number): { greater: Probability; less: Probability; twoSided: Probability } {
   const greater = normalUpperProbability(z);
   const less = normalLowerProbability(z);
-  const smaller = greater.value < less.value ? greater : less;
-  const twoSidedLog = Math.min(0, smaller.log10 * Math.LN10 + Math.LN2);
-  return { greater, less, twoSided: probabilityFromLog(twoSidedLog) };
+  return { greater, less, twoSided: twoSidedFromTails(less, greater) };
 }
 
 export function cochranArmitageTest(table: readonly (readonly number[])[], options: TrendOptions = {}): TestResult {
