@@ -26,15 +26,6 @@ export function requireCountTable(table: unknown, jsonPath: string, what = 'tabl
   });
 }
 
-export function requireShape(table: readonly (readonly number[])[], rows: number | null, columns: number | null, jsonPath: string, what: string): void {
-  const r = table.length;
-  const c = table[0]?.length ?? 0;
-  if ((rows !== null && r !== rows) || (columns !== null && c !== columns)) {
-    const expected = `${rows ?? 'any number of'}×${columns ?? 'any number of'}`;
-    throw new InputError(`${what}: expected a ${expected} table, found ${r}×${c}`, { jsonPath }, 'wrong-shape');
-  }
-}
-
 export function sum(values: readonly number[]): number {
   let s = 0;
   let compensation = 0;

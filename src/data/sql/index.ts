@@ -43,11 +43,6 @@ export interface SqlReaderContext {
   readonly onTraffic?: (traffic: WireTraffic) => void;
 }
 
-/** Is `value` a spec source of the SQL kind? */
-export function isSqlSource(value: unknown): value is SqlSource {
-  return typeof value === 'object' && value !== null && typeof (value as { sql?: unknown }).sql === 'object' && (value as { sql?: unknown }).sql !== null;
-}
-
 /** What would be sent, for a preview in an untrusted workspace or a dry run. Checks the source first. */
 export function previewSql(source: SqlSource, request: AggregateRequest, options?: SqlAggregateOptions): string {
   const plan = planAggregate(source, request, options);

@@ -99,13 +99,6 @@ export function requireOneOf(
   }
 }
 
-/** Reports a problem when `key` is present without `needs`. */
-export function requireWith(spec: SpecV1, path: string, key: string, needs: string, problems: SpecProblem[], why: string): void {
-  if (spec[key] !== undefined && spec[needs] === undefined) {
-    problems.push({ path: childPath(path, key), message: `"${key}" needs "${needs}" (${why})` });
-  }
-}
-
 /** Checks that an array field has the length another one implies. */
 export function requireLength(spec: SpecV1, path: string, key: string, length: number, ofWhat: string, problems: SpecProblem[]): void {
   const v = spec[key];
@@ -130,17 +123,6 @@ export function checkSourceColumns(spec: SpecV1, path: string, allowed: readonly
   }
   if (source.sql && (source.sql.table === undefined) === (source.sql.query === undefined)) {
     problems.push({ path: childPath(childPath(path, 'source'), 'sql'), message: 'give exactly one of "table" or "query"' });
-  }
-}
-
-/** Refuses a method this build of the procedure does not implement (no silent fallback). */
-export function requireAsymptotic(spec: SpecV1): void {
-  if (spec.method !== undefined && spec.method !== 'asymptotic') {
-    throw new InputError(
-      `$.method: "${spec.method}" is not available for the ${spec.test} test in this version; use "asymptotic" or remove "method"`,
-      { jsonPath: '$.method' },
-      'method-unavailable',
-    );
   }
 }
 
