@@ -155,10 +155,11 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
       {
         id: 'fixed-categories',
         title: 'Categories and expected proportions fixed in advance',
-        status: m > 0 ? 'met' : 'unchecked',
+        // Declaring m adjusts df; whether the categories were chosen before seeing the data stays a design question.
+        status: 'unchecked',
         explanation:
           m > 0
-            ? `${m} parameter(s) were estimated from the data, and the degrees of freedom were reduced by ${m}.`
+            ? `${m} parameter(s) were estimated from the data, and the degrees of freedom were reduced by ${m}. The categories must still have been chosen before looking at the data.`
             : 'The categories and the expected proportions must be chosen before looking at the data. If parameters of the expected distribution were estimated from these data, give their number as estimatedParameters so the degrees of freedom are reduced.',
       },
     ],
