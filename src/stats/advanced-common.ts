@@ -4,6 +4,7 @@
  */
 import { InputError } from '../errors';
 import { chiSquareUpperProbability } from './chisquare';
+import { compensatedSum } from './moments';
 import type { Notice, Probability, StatisticLine, TestResult } from './result';
 
 /** A count table checked cell by cell; the message names the row, the column and the JSON path. */
@@ -26,16 +27,8 @@ export function requireCountTable(table: unknown, jsonPath: string, what = 'tabl
   });
 }
 
-export function sum(values: readonly number[]): number {
-  let s = 0;
-  let compensation = 0;
-  for (const v of values) {
-    const t = s + v;
-    compensation += Math.abs(s) >= Math.abs(v) ? s - t + v : v - t + s;
-    s = t;
-  }
-  return s + compensation;
-}
+/** Neumaier-compensated sum; the one in moments.ts, under the short name these procedures use. */
+export const sum: (values: readonly number[]) => number = compensatedSum;
 
 export function rowSums(table: readonly (readonly number[])[]): number[] {
   return table.map((row) => sum(row));
