@@ -14,7 +14,7 @@
  */
 import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult } from './advanced-common';
-import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
+import { describeAlpha, describeP, independenceAssumption, nameOf, requireLevel } from './assumptions';
 import { hypergeometricSupport, logHypergeometricPmf, logSumExp, pointProbabilityTwoSided } from './discrete';
 import { normalUpperQuantile } from './normal';
 import type { Estimate, Interval, Notice, StatisticLine, TestResult } from './result';
@@ -32,6 +32,10 @@ export interface StratifiedOptions {
   /** Scores for the correlation and row-mean-score statistics (R×C×K). Default 1, 2, … */
   readonly rowScores?: readonly number[];
   readonly columnScores?: readonly number[];
+  /** What the rows classify (e.g. `shift`); named in the conclusion. */
+  readonly rowVariable?: string;
+  /** What the columns classify (e.g. `defect`); named in the conclusion. */
+  readonly columnVariable?: string;
 }
 
 export interface Stratum {
@@ -202,6 +206,19 @@ function conditionalInterval(lo: number, logPmf: readonly number[], observed: nu
   };
 }
 
+/**
+ * The conclusion in plain words, naming the row and column variables when they are known
+ * ("Within strata, `shift` and `defect` are associated …"), generic otherwise.
+ */
+function stratifiedConclusion(significant: boolean, alpha: number, p: string, options: StratifiedOptions, extra = ''): string {
+  const row = nameOf(options.rowVariable);
+  const column = nameOf(options.columnVariable);
+  const pair = row === undefined && column === undefined ? 'the row and column variables' : `${row ?? 'the row variable'} and ${column ?? 'the column variable'}`;
+  return significant
+    ? `Within strata, ${pair} are associated ${describeAlpha(alpha)} (${p})${extra}.`
+    : `The data do not show an association between ${pair} within strata ${describeAlpha(alpha)} (${p}).`;
+}
+
 function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: StratifiedOptions): TestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
@@ -292,9 +309,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
       alternative: 'two-sided',
       reference: method === 'exact' ? { kind: 'none' } : { kind: 'chi-square', df: 1 },
       alpha,
-      conclusion: significant
-        ? `Within strata, the row and column variables are associated ${describeAlpha(alpha)} (${describeP(pValue)})${finiteRatio ? `; the common odds ratio is about ${oddsRatio.toPrecision(3)}` : ''}.`
-        : `The data do not show an association within strata ${describeAlpha(alpha)} (${describeP(pValue)}).`,
+      conclusion: stratifiedConclusion(significant, alpha, describeP(pValue), options, finiteRatio ? `; the common odds ratio is about ${oddsRatio.toPrecision(3)}` : ''),
     },
     {
       otherStatistics: others,
@@ -439,9 +454,7 @@ function generalizedCmh(strata: readonly Stratum[], notices: Notice[], r: number
   return testResult(
     {
       ...chiSquareCore('stratified', 'Generalized Cochran–Mantel–Haenszel test', main, sum(strata.map((x) => x.n)), alpha),
-      conclusion: significant
-        ? `Within strata, the row and column variables are associated ${describeAlpha(alpha)} (${describeP(main.pValue)}).`
-        : `The data do not show an association within strata ${describeAlpha(alpha)} (${describeP(main.pValue)}).`,
+      conclusion: stratifiedConclusion(significant, alpha, describeP(main.pValue), options),
     },
     {
       otherStatistics: [s.rowMeans, s.correlation],

@@ -9,7 +9,7 @@ import { arr, bool, field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength } from './shared';
+import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength, VARIABLE_NAME } from './shared';
 
 type Table = readonly (readonly number[])[];
 
@@ -21,6 +21,8 @@ export const stratifiedProcedure: ProcedureHandler = {
     stratumLabels: LABELS('strata'),
     rowLabels: LABELS('rows (the same in every stratum)'),
     columnLabels: LABELS('columns (the same in every stratum)'),
+    rowVariable: VARIABLE_NAME('what the rows classify'),
+    columnVariable: VARIABLE_NAME('what the columns classify'),
     correction: field(bool, 'Continuity correction of the 2×2×K CMH statistic. Default false; both are reported.'),
     method: field(str({ enum: ['asymptotic', 'exact'] }), 'Main p-value for 2×2 strata: "asymptotic" CMH (default) or the "exact" conditional test. Both are reported.'),
     rowScores: field(arr(num()), 'Row scores for the generalized CMH correlation statistic (R×C strata). Default 1, 2, …'),
@@ -59,6 +61,8 @@ export const stratifiedProcedure: ProcedureHandler = {
       columnLabels: spec.columnLabels,
       rowScores: spec.rowScores as readonly number[] | undefined,
       columnScores: spec.columnScores as readonly number[] | undefined,
+      rowVariable: spec.rowVariable,
+      columnVariable: spec.columnVariable,
     });
   },
 };

@@ -43,6 +43,8 @@ describe('specs for the advanced procedures', () => {
     assert.ok(r.details && 'homogeneity' in r.details);
     const exact = (await run({ test: 'stratified', strata: c.strata, method: 'exact' })) as TestResult;
     closeTo(exact.pValue.value, c.exactP, 1e-9, 'exact conditional p', c.strata);
+    const named = (await run({ test: 'stratified', strata: c.strata, rowVariable: 'delay', columnVariable: 'response' })) as TestResult;
+    assert.match(named.conclusion, /`delay` and `response`/, named.conclusion);
   });
 
   it('"trend" runs Cochran–Armitage for 2×k and linear-by-linear for r×c (R prop.trend.test, cor)', async () => {

@@ -69,6 +69,22 @@ describe('Cochran–Mantel–Haenszel test (2×2×K)', () => {
     });
   }
 
+  it('names the row and column variables in the conclusion when they are known, and stays generic otherwise', () => {
+    // Rabbits data: R 4.2.2 example(mantelhaen.test) gives corrected p = 0.04747, below 0.05 and above 0.01.
+    const c = R.cmh.find((x) => x.name === 'rabbits')!;
+    const named = { correction: true, rowVariable: 'delay', columnVariable: 'response' };
+    const r = stratifiedTest(c.strata, named);
+    assert.match(r.conclusion, /^Within strata, `delay` and `response` are associated at the 5% level \(p = 0\.047\); the common odds ratio is about 7\.00\.$/, r.conclusion);
+    const strict = stratifiedTest(c.strata, { ...named, alpha: 0.01 });
+    assert.match(strict.conclusion, /^The data do not show an association between `delay` and `response` within strata at the 1% level/, strict.conclusion);
+    assert.match(stratifiedTest(c.strata, { correction: true }).conclusion, /^Within strata, the row and column variables are associated/);
+    assert.match(stratifiedTest(c.strata, { correction: true, columnVariable: ' ' }).conclusion, /the row and column variables/);
+    const general = R.generalizedCmh[0];
+    const rc = stratifiedTest(general.strata, { rowVariable: 'shift', columnVariable: 'defect' });
+    assert.match(rc.conclusion, /`shift` and `defect`/, rc.conclusion);
+    assert.doesNotMatch(rc.conclusion, /row and column variables/);
+  });
+
   it('warns when the odds ratios differ between strata', () => {
     const c = SM.stratified.find((x) => x.name === 'heterogeneous')!;
     assert.ok(stratifiedTest(c.strata).notices.some((n) => n.code === 'heterogeneous-odds-ratios'));
