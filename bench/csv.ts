@@ -49,7 +49,7 @@ const DEPOTS = ['harbor', 'airport', 'uptown', 'rivers', 'meadow', 'quarry'];
 const SIZES = ['small', 'medium', 'large', 'bulky'];
 const PREFIX_ROWS = 1_000_000;
 
-function dataPath(rows: number): string {
+export function dataPath(rows: number): string {
   return join(process.cwd(), 'bench', '.data', `parcels-${rows}.csv`);
 }
 
