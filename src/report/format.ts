@@ -40,9 +40,18 @@ export function formatCount(x: number, decimals = DEFAULT_FORMAT.decimals): stri
   return Number.isInteger(x) ? `${x < 0 ? '-' : ''}${groupThousands(String(Math.abs(x)))}` : formatNumber(x, decimals);
 }
 
-/** Degrees of freedom: whole numbers as they are, fractional ones with up to the given decimals. */
+/**
+ * Degrees of freedom: whole numbers as they are, fractional ones from 1 upward with up to the given decimals
+ * ("2.5", "3.14"), and fractional ones below 1 with `decimals + 1` significant digits ("0.0153",
+ * "1.00 × 10^-10"), so a tiny df is never written as 0.
+ */
 export function formatDf(df: number, decimals = DEFAULT_FORMAT.decimals): string {
-  return Number.isInteger(df) ? formatCount(df) : String(Number(df.toFixed(decimals)));
+  if (Number.isInteger(df)) return formatCount(df);
+  if (!Number.isFinite(df)) return formatNumber(df);
+  const magnitude = Math.abs(df);
+  if (magnitude >= 1) return String(Number(df.toFixed(decimals)));
+  if (magnitude < 1e-4) return formatScientific(df, decimals + 1);
+  return String(Number(df.toPrecision(decimals + 1)));
 }
 
 /** "3.2 × 10^-5" with `significant` significant digits. */

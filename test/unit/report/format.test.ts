@@ -3,6 +3,7 @@ import { strict as assert } from 'node:assert';
 import {
   formatApaLine,
   formatCount,
+  formatDf,
   formatEstimate,
   formatEstimateInterval,
   formatEstimateWithLog,
@@ -43,6 +44,20 @@ describe('report number formatting', () => {
     assert.equal(scientificFromLog10(-3274.3), '5.0 × 10^-3275');
     assert.equal(scientificFromLog10(-2.00000001, 2), '1.0 × 10^-2');
     assert.equal(scientificFromLog10(Math.log10(9.996e-5), 3), '1.00 × 10^-4');
+  });
+
+  it('writes degrees of freedom: whole as they are, fractional with decimals, tiny fractional with significant digits', () => {
+    assert.equal(formatDf(3), '3');
+    assert.equal(formatDf(3999999), '3,999,999');
+    assert.equal(formatDf(2.5), '2.5');
+    assert.equal(formatDf(3.14159), '3.14');
+    assert.equal(formatDf(3.14159, 4), '3.1416');
+    assert.equal(formatDf(0.5), '0.5');
+    assert.equal(formatDf(0.0153), '0.0153');
+    assert.equal(formatDf(0.123456), '0.123');
+    assert.equal(formatDf(1e-10), '1.00 × 10^-10');
+    assert.equal(formatDf(2.345e-7, 1), '2.3 × 10^-7');
+    assert.equal(formatApaLine('X²', 0.5, 1e-10, null, p(0.48)), 'χ²(1.00 × 10^-10) = 0.50, p = .480');
   });
 
   it('never prints a small nonzero number as zero', () => {
