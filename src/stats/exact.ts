@@ -16,7 +16,8 @@
 import { InputError } from '../errors';
 import { dropEmptyMargins, requireCountTable } from './advanced-common';
 import { LogSumAccumulator, logFactorialTable } from './discrete';
-import { MAX_RESAMPLING_TOTAL, checkFitInput, monteCarloFit, monteCarloIndependence, type MonteCarloOptions, type ResamplingResult, type ResamplingStatistic } from './montecarlo';
+import { divergenceTerm } from './divergence';
+import { MAX_RESAMPLING_TOTAL, checkFitInput, monteCarloFit, monteCarloIndependence, tieTolerance, type MonteCarloOptions, type ResamplingResult, type ResamplingStatistic } from './montecarlo';
 import { probabilityFromLog } from './probability';
 import type { Notice, Probability, StatisticLine } from './result';
 
@@ -405,13 +406,13 @@ export function exactMultinomialFit(observed: readonly number[], probabilities: 
   const term = (i: number, v: number): number => {
     if (options.statistic === 'probability') return lf[v] - v * logP[i];
     if (lambda === 1) return (v * v) / e[i];
-    if (v === 0) return 0;
-    if (lambda === 0) return 2 * v * Math.log(v / e[i]);
-    return (2 / (lambda * (lambda + 1))) * v * (Math.pow(v / e[i], lambda) - 1);
+    if (lambda === 0) return v === 0 ? 0 : 2 * v * Math.log(v / e[i]);
+    // Other λ (Cressie–Read): the shared term, which has the λ = −1 limit and the infinite empty cell for λ ≤ −1.
+    return divergenceTerm(v, e[i], lambda);
   };
   let observedStatistic = 0;
   x.forEach((v, i) => (observedStatistic += term(i, v)));
-  const cutoff = observedStatistic - 1e-7 * Math.max(1, Math.abs(observedStatistic));
+  const cutoff = observedStatistic - tieTolerance(observedStatistic);
   const total = new LogSumAccumulator();
   const visit = (i: number, left: number, stat: number, logProb: number): void => {
     if (i === k - 1) {

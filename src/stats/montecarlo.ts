@@ -14,6 +14,7 @@
 import { InputError } from '../errors';
 import { dropEmptyMargins, requireCountTable } from './advanced-common';
 import { logFactorialTable } from './discrete';
+import { divergenceTerm } from './divergence';
 import { probabilityFromValue } from './probability';
 import { DEFAULT_SEED, Xoshiro128, type UniformSource } from './random';
 import type { Notice, StatisticLine } from './result';
@@ -91,11 +92,12 @@ export function statisticEvaluator(
     };
   }
   if (statistic === 'cressie-read') {
-    const factor = 2 / (lambda * (lambda + 1));
+    // divergenceTerm carries the limits at λ = 0 and λ = −1 and the infinite term of an empty cell for λ ≤ −1,
+    // where the closed form 2/(λ(λ+1)) · Σ o[(o/e)^λ − 1] gives NaN or ∞ for every table.
     return (x) => {
       let s = 0;
-      for (let i = 0; i < k; i++) if (x[i] > 0) s += x[i] * (Math.pow(x[i] / expected[i], lambda) - 1);
-      return factor * s;
+      for (let i = 0; i < k; i++) s += divergenceTerm(x[i], expected[i], lambda);
+      return s;
     };
   }
   // Probability ordering: −ln P(x) up to a constant, Σ (ln x! − x ln e). Given fixed margins the x ln e part is
@@ -221,7 +223,10 @@ export function randomTable(
   for (let j = 0; j < c; j++) out[(r - 1) * c + j] = columnWork[j];
 }
 
-function tieTolerance(observed: number): number {
+/** How far below the observed statistic a resample still counts as a tie (as extreme). */
+export function tieTolerance(observed: number): number {
+  // An infinite observed statistic (an empty cell with λ ≤ −1) is matched only by infinite ones.
+  if (!Number.isFinite(observed)) return 0;
   return 1e-7 * Math.max(1, Math.abs(observed));
 }
 

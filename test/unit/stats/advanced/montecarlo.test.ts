@@ -116,6 +116,16 @@ describe('exact multinomial goodness of fit', () => {
     }
   }
 
+  for (const c of R.multinomial) {
+    it(`${JSON.stringify(c.observed)} Cressie–Read with λ = 0 is the likelihood-ratio test (Cressie & Read 1984 define λ = 0 as G²): R's enumeration, exact and Monte Carlo`, () => {
+      const exact = exactMultinomialFit(c.observed, c.probabilities, { statistic: 'cressie-read', lambda: 0 });
+      const expected = c.likelihoodRatio;
+      assert.ok(Math.abs(exact.line.pValue.value - expected) <= 1e-10 * Math.max(expected, 1e-300), `input ${JSON.stringify(c)}\n expected ${expected}\n got ${exact.line.pValue.value}`);
+      const mc = monteCarloFit(c.observed, c.probabilities, { statistic: 'cressie-read', lambda: 0, resamples: 20000, seed: 5 });
+      withinFourSe(mc.line.pValue.value, mc.line.standardError!, expected, 'MC Cressie–Read λ = 0 vs exact G²', c);
+    });
+  }
+
   it('switches to Monte Carlo when there are too many outcomes', () => {
     const out = exactMultinomialFit([30, 40, 50, 60, 70, 80], [1, 1, 1, 1, 1, 1], { statistic: 'pearson', outcomeLimit: 1000, fallback: { resamples: 2000, seed: 1 } });
     assert.equal(out.details.method, 'monte-carlo');
