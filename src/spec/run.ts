@@ -4,8 +4,8 @@
  * module reads nothing itself; it resolves and checks source paths, validates the whole spec before
  * anything runs, and returns the data fingerprint beside the result for recording and review.
  */
-import { createHash } from 'node:crypto';
 import * as path from 'node:path';
+import { sha256Hex } from '../data/delimited';
 import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/options';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
@@ -104,10 +104,6 @@ export function canonicalJson(value: unknown): string {
     return `{${entries.join(',')}}`;
   }
   return JSON.stringify(value);
-}
-
-export function sha256Hex(text: string): string {
-  return createHash('sha256').update(text, 'utf8').digest('hex');
 }
 
 /** Fingerprint of inline data: the canonical JSON of the fields the handler marks as data. */
