@@ -1,6 +1,7 @@
 /**
  * Assumption and notice builders shared by the procedures, so the same rule is worded and
- * applied the same way in every result (goodness of fit, r×c tables, and later the exact tests).
+ * applied the same way in every result that rests on the chi-square approximation (goodness of fit, r×c tables,
+ * post-hoc comparisons).
  */
 import { formatProbability } from './probabilityText';
 import { InputError } from '../errors';

@@ -9,7 +9,7 @@
  */
 import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, columnSums, dropEmptyMargins, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
-import { describeAlpha, describeP, requireLevel } from './assumptions';
+import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from './normal';
 import { probabilityFromValue, twoSidedFromTails } from './probability';
 import type { Notice, Probability, StatisticLine, TestResult } from './result';
@@ -148,6 +148,14 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   const overall = pearson(counts);
   const overallLine = chiSquareLine('pearson', 'Pearson chi-square (overall)', 'X²', overall.statistic, overall.df);
   const notices: Notice[] = [];
+  const n = sum(rows);
+  const expectedCheck = checkExpectedCounts(
+    counts.flatMap((row, i) => row.map((_, j) => (rows[i] * cols[j]) / n)),
+    counts.flatMap((row, i) => row.map((_, j) => `${rowLabels[i]} × ${columnLabels[j]}`)),
+    'cells',
+    'an exact test of the overall table, and caution with the cell-wise z approximations',
+  );
+  if (expectedCheck.notice) notices.push(expectedCheck.notice);
   if (overallLine.pValue.value >= alpha) {
     notices.push({ code: 'overall-not-significant', severity: 'info', message: `The overall test is not significant ${describeAlpha(alpha)} (${describeP(overallLine.pValue)}); post-hoc comparisons are usually read only after a significant overall test.` });
   }
@@ -188,7 +196,7 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   const subject = compare === 'cells' ? 'cells' : `pairs of ${compare}`;
   return testResult(
     {
-      ...chiSquareCore('post-hoc', `Post-hoc ${compare === 'cells' ? 'cell-wise adjusted residual tests' : `pairwise comparisons of ${compare}`} (${adjustName})`, overallLine, sum(rows), alpha),
+      ...chiSquareCore('post-hoc', `Post-hoc ${compare === 'cells' ? 'cell-wise adjusted residual tests' : `pairwise comparisons of ${compare}`} (${adjustName})`, overallLine, n, alpha),
       conclusion:
         flagged.length > 0
           ? `After ${adjustName} adjustment, ${flagged.length} ${subject} differ ${describeAlpha(alpha)}: ${flagged.slice(0, 10).join('; ')}${flagged.length > 10 ? '; …' : ''}.`
@@ -197,6 +205,7 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
     {
       otherStatistics: lines,
       notices,
+      assumptions: [expectedCheck.assumption, independenceAssumption('counted unit')],
       details: { compare, adjustment, ...detail },
     },
   );

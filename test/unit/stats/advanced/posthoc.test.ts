@@ -42,6 +42,15 @@ describe('post-hoc comparisons on an r×c table', () => {
     assert.equal(r.otherStatistics[0].id, 'cell-1-1');
   });
 
+  it('checks the expected counts of the overall table and names the small cells (common practice rule)', () => {
+    // Row totals 6, 30 and column totals 18, 18 of 36: the first row's expected counts are 3 (2 of 4 cells below 5).
+    const small = postHocTest([[1, 5], [17, 13]], { rowLabels: ['night', 'day'], columnLabels: ['late', 'on time'] });
+    assert.equal(small.assumptions.find((a) => a.id === 'expected-counts')?.status, 'failed');
+    assert.ok(small.notices.some((n) => n.code === 'small-expected' && n.message.includes('night × late')));
+    const large = postHocTest([[20, 25], [30, 15]]);
+    assert.equal(large.assumptions.find((a) => a.id === 'expected-counts')?.status, 'met');
+  });
+
   it('refuses an empty row with its label', () => {
     assert.throws(() => postHocTest([[1, 2], [0, 0], [3, 4]], { rowLabels: ['a', 'b', 'c'] }), (e: unknown) => e instanceof InputError && /"b"/.test(e.message));
   });
