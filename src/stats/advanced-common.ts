@@ -91,3 +91,17 @@ export function dropEmptyMargins(table: readonly (readonly number[])[]): number[
   const columnKeep = table[0].map((_, j) => table.some((row) => row[j] > 0));
   return table.filter((row) => row.some((x) => x > 0)).map((row) => row.filter((_, j) => columnKeep[j]));
 }
+
+/** Pearson X² of independence and its df (r − 1)(c − 1), after leaving out rows and columns whose total is 0. */
+export function pearsonTable(table: readonly (readonly number[])[]): { statistic: number; df: number } {
+  const t = dropEmptyMargins(table);
+  const rows = rowSums(t);
+  const cols = columnSums(t);
+  const n = sum(rows);
+  let x2 = 0;
+  t.forEach((row, i) => row.forEach((o, j) => {
+    const e = (rows[i] * cols[j]) / n;
+    x2 += ((o - e) * (o - e)) / e;
+  }));
+  return { statistic: x2, df: (t.length - 1) * ((t[0]?.length ?? 1) - 1) };
+}

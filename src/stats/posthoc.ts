@@ -8,7 +8,7 @@
  * Benjamini–Hochberg (1995) step-up false discovery rate. Every line names the rows, columns or cell it is about.
  */
 import { InputError } from '../errors';
-import { chiSquareCore, chiSquareLine, columnSums, dropEmptyMargins, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { chiSquareCore, chiSquareLine, columnSums, labelsOr, pearsonTable, requireCountTable, rowSums, sum, testResult } from './advanced-common';
 import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from './normal';
 import { probabilityFromValue, twoSidedFromTails } from './probability';
@@ -73,25 +73,12 @@ export interface CellTest {
   readonly significant: boolean;
 }
 
-function pearson(table: readonly (readonly number[])[]): { statistic: number; df: number } {
-  const t = dropEmptyMargins(table);
-  const rows = rowSums(t);
-  const cols = columnSums(t);
-  const n = sum(rows);
-  let x2 = 0;
-  t.forEach((row, i) => row.forEach((o, j) => {
-    const e = (rows[i] * cols[j]) / n;
-    x2 += ((o - e) * (o - e)) / e;
-  }));
-  return { statistic: x2, df: (t.length - 1) * ((t[0]?.length ?? 1) - 1) };
-}
-
 /** Pairwise homogeneity tests between rows (transpose the table for columns). */
 export function pairwiseRows(table: readonly (readonly number[])[], labels: readonly string[], adjustment: Adjustment, alpha: number): PairwiseComparison[] {
   const raw: Omit<PairwiseComparison, 'adjustedPValue' | 'significant'>[] = [];
   for (let i = 0; i < table.length; i++) {
     for (let j = i + 1; j < table.length; j++) {
-      const { statistic, df } = pearson([table[i], table[j]]);
+      const { statistic, df } = pearsonTable([table[i], table[j]]);
       const p = df > 0 ? chiSquareLine('pair', '', 'X²', statistic, df).pValue.value : 1;
       raw.push({ first: labels[i], second: labels[j], indices: [i, j], statistic, df, pValue: p });
     }
@@ -145,7 +132,7 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
     throw new InputError(`table: ${what} has no counts; remove it before post-hoc comparisons`, { jsonPath: '$.table' }, 'empty-margin');
   }
   if (counts.length < 2 || counts[0].length < 2) throw new InputError(`table: expected at least a 2×2 table, found ${counts.length}×${counts[0].length}`, { jsonPath: '$.table' }, 'wrong-shape');
-  const overall = pearson(counts);
+  const overall = pearsonTable(counts);
   const overallLine = chiSquareLine('pearson', 'Pearson chi-square (overall)', 'X²', overall.statistic, overall.df);
   const notices: Notice[] = [];
   const n = sum(rows);

@@ -11,7 +11,7 @@
  *   the Pearson correlation of the row and column scores over the N units; df 1.
  */
 import { InputError } from '../errors';
-import { chiSquareLine, columnSums, labelsOr, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { chiSquareLine, columnSums, labelsOr, pearsonTable, requireCountTable, rowSums, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from './normal';
 import { twoSidedFromTails } from './probability';
@@ -75,12 +75,7 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
   const sides = normalSides(z);
 
   // Pearson X² of the 2×k table, for the departure from linearity.
-  const rows = rowSums(counts);
-  let pearson = 0;
-  for (let i = 0; i < 2; i++) for (let j = 0; j < k; j++) {
-    const e = (rows[i] * totals[j]) / n;
-    if (e > 0) pearson += (counts[i][j] - e) ** 2 / e;
-  }
+  const pearson = pearsonTable(counts).statistic;
   const trendLine = chiSquareLine('cochran-armitage', 'Cochran–Armitage trend chi-square', 'X²', trend, 1);
   const zLine: StatisticLine = { id: 'cochran-armitage-z', name: 'Cochran–Armitage z (positive: first-row proportion rises with the score)', symbol: 'z', statistic: z, df: null, pValue: alternative === 'less' ? sides.less : alternative === 'greater' ? sides.greater : sides.twoSided };
   const departure = k > 2 ? chiSquareLine('departure-from-trend', 'Departure from a linear trend (X² − trend)', 'X²', Math.max(0, pearson - trend), k - 2) : null;
