@@ -10,6 +10,7 @@ import { wholeCount } from './counts';
 import { parseDecimal } from './numbers';
 import type { DecimalMark, IntakeOptions } from './options';
 import type { Records } from './records';
+import { InputError } from '../errors';
 import { fail, inputError, shown, type PositionUnit, type Where } from './where';
 
 /** Where the aggregate came from, apart from what the aggregator counts itself. */
@@ -89,7 +90,9 @@ function columnIndex(columns: readonly string[], name: string, where: Where): nu
   if (first < 0) {
     const trimmed = columns.findIndex((c) => c.trim().toLowerCase() === name.trim().toLowerCase());
     const hint = trimmed >= 0 ? ` (did you mean \`${columns[trimmed]}\`?)` : '';
-    fail(where, `found no column \`${name}\`${hint}; the columns are ${columns.map((c) => `\`${c}\``).join(', ')}`, 'unknown-column');
+    const error = inputError(where, `found no column \`${name}\`${hint}; the columns are ${columns.map((c) => `\`${c}\``).join(', ')}`, 'unknown-column');
+    // The missing name goes in the location (not the message prefix) so a spec runner can point at where it is asked for.
+    throw new InputError(error.message, { ...error.location, column: name }, error.code);
   }
   const second = columns.indexOf(name, first + 1);
   if (second >= 0) fail(where, `the header names column \`${name}\` twice (fields ${first + 1} and ${second + 1}); expected unique names`, 'duplicate-column');

@@ -32,7 +32,7 @@ export interface BlockRun {
 export function describeRunError(e: unknown, file: string, located?: LocatedJson): string {
   if (e instanceof SpecError) return e.message;
   if (isInputError(e)) {
-    const jsonPath = e.location.jsonPath ?? sourceColumnPath(e.code, e.location.column ?? /found no column `([^`]+)`/.exec(e.message)?.[1], located);
+    const jsonPath = e.location.jsonPath ?? sourceColumnPath(e.code, e.location.column, located);
     const at = located && jsonPath ? locatePath(located, jsonPath) : undefined;
     // A data error names its own file, line and column in the message; the spec file goes in front.
     const where = at ? `${file}:${at.line}:${at.column}` : file;
