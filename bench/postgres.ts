@@ -1,8 +1,8 @@
 // PostgreSQL against the streaming CSV path on the same 10,000,000 rows, in the same run: a 6×4
 // cross-tabulation and the variance of a float column, with the bytes that crossed the connection.
-// Needs a server: COUNTERCHECK_PG_ENV=<file of PG* lines> (scripts/pg/start.sh writes one);
-// without it the part says so and measures nothing.
-import { execFile } from 'node:child_process';
+// Uses the server named by COUNTERCHECK_PG_ENV=<file of PG* lines> (scripts/pg/start.sh writes one);
+// without it, starts a throwaway cluster with scripts/pg/ensure-server.sh and stops it afterwards.
+import { execFile, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -31,8 +31,7 @@ export const tripRequests: readonly AggregateRequest[] = [
   { kind: 'numeric', column: 'minutes' },
 ];
 
-function envFile(): Record<string, string> | undefined {
-  const file = process.env.COUNTERCHECK_PG_ENV ?? (existsSync('/tmp/countercheck-ci-pg/env') ? '/tmp/countercheck-ci-pg/env' : undefined);
+function envFile(file = process.env.COUNTERCHECK_PG_ENV ?? (existsSync('/tmp/countercheck-ci-pg/env') ? '/tmp/countercheck-ci-pg/env' : undefined)): Record<string, string> | undefined {
   if (!file || !existsSync(file)) return undefined;
   return Object.fromEntries(
     readFileSync(file, 'utf8')
@@ -75,12 +74,33 @@ async function timed<T>(f: () => Promise<T>): Promise<{ value: T; seconds: numbe
   return { value, seconds: Number(process.hrtime.bigint() - start) / 1e9 };
 }
 
+/** With no server configured, starts a throwaway one (installing PostgreSQL from Debian when missing), as the tests do. */
+function startThrowawayServer(): { env: Record<string, string>; stop(): void } | undefined {
+  const dir = '/tmp/countercheck-bench-pg';
+  const script = (name: string) => join(process.cwd(), 'scripts', 'pg', name);
+  if (spawnSync('bash', [script('ensure-server.sh'), dir], { stdio: 'inherit' }).status !== 0) return undefined;
+  const env = envFile(join(dir, 'env'));
+  const stop = () => void spawnSync('bash', [script('stop.sh'), dir], { stdio: 'ignore' });
+  if (!env) stop();
+  return env ? { env, stop } : undefined;
+}
+
 export async function run(): Promise<void> {
-  const env = envFile();
+  const configured = envFile();
+  const started = configured ? undefined : startThrowawayServer();
+  const env = configured ?? started?.env;
   if (!env) {
-    console.log('PostgreSQL not available: set COUNTERCHECK_PG_ENV to the env file of scripts/pg/start.sh to run this part.');
+    console.log('PostgreSQL not available (no COUNTERCHECK_PG_ENV, and scripts/pg/ensure-server.sh could not start one): part skipped.');
     return;
   }
+  try {
+    await measure(env);
+  } finally {
+    started?.stop();
+  }
+}
+
+async function measure(env: Record<string, string>): Promise<void> {
   const rows = Number(process.env.COUNTERCHECK_BENCH_ROWS ?? 10_000_000);
   const table = `bench_trips_${rows}`;
   const folder = mkdtempSync(join(tmpdir(), 'countercheck-bench-pg-'));
