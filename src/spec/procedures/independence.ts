@@ -10,7 +10,6 @@ import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
 import { applyMethod } from './method';
-import { alignToLevels } from './goodness-of-fit';
 import {
   CONFIDENCE,
   COUNT_ARRAY,
@@ -20,6 +19,7 @@ import {
   aggregateOf,
   checkLambda,
   checkSourceColumns,
+  placeCounts,
   requireLength,
   requireOneOf,
   sourceField,
@@ -79,7 +79,10 @@ export const independenceProcedure: ProcedureHandler = {
       const { table } = await aggregateOf(ctx, request, 'table', { rowLevels: rowLabels, columnLevels: columnLabels });
       counts = table.counts;
       if (columns.length === 2) {
-        ({ counts, rowLabels, columnLabels } = alignTable(table.rowLabels, table.columnLabels, table.counts, rowLabels, columnLabels, columns));
+        // Listed levels give the order (a listed level the data lacks counts 0); without a list, the data's order.
+        rowLabels = rowLabels ?? table.rowLabels;
+        columnLabels = columnLabels ?? table.columnLabels;
+        counts = placeCounts(table, rowLabels, columnLabels, [columns[0], columns[1]], ['rowLabels', 'columnLabels']);
       } else {
         rowLabels = table.rowLabels;
         columnLabels = table.columnLabels;
@@ -111,28 +114,3 @@ export const independenceProcedure: ProcedureHandler = {
     );
   },
 };
-
-/** Orders a cross-tabulation by the levels the spec lists (rows and columns separately). */
-function alignTable(
-  rows: readonly string[],
-  columns: readonly string[],
-  counts: readonly (readonly number[])[],
-  rowLevels: readonly string[] | undefined,
-  columnLevels: readonly string[] | undefined,
-  names: readonly string[],
-): { counts: number[][]; rowLabels: string[]; columnLabels: string[] } {
-  const rowTotals = counts.map((r) => r.reduce((a, b) => a + b, 0));
-  const columnTotals = columns.map((_, j) => counts.reduce((a, r) => a + r[j], 0));
-  const rowOrder = alignToLevels(rows, rowTotals, rowLevels, names[0]).labels;
-  const columnOrder = alignToLevels(columns, columnTotals, columnLevels, names[1]).labels;
-  const cell = (r: string, c: string): number => {
-    const i = rows.indexOf(r);
-    const j = columns.indexOf(c);
-    return i < 0 || j < 0 ? 0 : counts[i][j];
-  };
-  return {
-    counts: rowOrder.map((r) => columnOrder.map((c) => cell(r, c))),
-    rowLabels: rowOrder,
-    columnLabels: columnOrder,
-  };
-}

@@ -2,15 +2,13 @@
  * `"test": "paired"`: the same units classified twice. A 2×2 `"table"` gives McNemar's test (with the
  * continuity-corrected, exact binomial and mid-p versions beside it); a k×k table gives Bowker's test of symmetry.
  */
-import { InputError } from '../../errors';
 import { pairedTest } from '../../stats/paired';
 import type { TestResult } from '../../stats/result';
 import { arr, bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { CountTable } from '../../data/types';
 import type { RunContext, SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { CONFIDENCE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, requireLength, requireOneOf, sourceField } from './shared';
+import { CONFIDENCE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 
 export const pairedProcedure: ProcedureHandler = {
   test: 'paired',
@@ -67,32 +65,4 @@ async function squareFromSource(spec: SpecV1, ctx: RunContext): Promise<{ counts
   const { table } = await aggregateOf(ctx, { kind: 'crosstab', rowColumn: first, columnColumn: second, weight: spec.source!.weight }, 'table', given ? { rowLevels: given, columnLevels: given } : undefined);
   const labels = given ? [...given] : [...table.rowLabels, ...table.columnLabels.filter((l) => !table.rowLabels.includes(l))];
   return { counts: placeCounts(table, labels, labels, [first, second], given ? ['rowLabels', 'rowLabels'] : ['rowLabels', 'columnLabels']), labels };
-}
-
-/**
- * The counts of a cross-tabulation placed in the row and column order given; a level with counts that the order
- * does not list is an error naming the column and the spec field.
- */
-export function placeCounts(
-  table: CountTable,
-  rows: readonly string[],
-  columns: readonly string[],
-  names: readonly [string, string],
-  fields: readonly [string, string],
-): number[][] {
-  const counts = rows.map(() => columns.map(() => 0));
-  table.rowLabels.forEach((r, i) =>
-    table.columnLabels.forEach((c, j) => {
-      const n = table.counts[i][j];
-      if (n === 0) return;
-      const ri = rows.indexOf(r);
-      const ci = columns.indexOf(c);
-      if (ri < 0 || ci < 0) {
-        const [column, level, key] = ri < 0 ? [names[0], r, fields[0]] : [names[1], c, fields[1]];
-        throw new InputError(`column \`${column}\` has the level "${level}", which "${key}" does not list; add it in its place or fix the data`, { jsonPath: `$.${key}`, column }, 'unknown-level');
-      }
-      counts[ri][ci] += n;
-    }),
-  );
-  return counts;
 }

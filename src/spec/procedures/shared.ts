@@ -3,7 +3,7 @@
  * same thing (and is described the same way in the schema) in every test.
  */
 import { InputError } from '../../errors';
-import type { Aggregate } from '../../data/types';
+import type { Aggregate, CountTable } from '../../data/types';
 import { arr, bool, field, nul, num, obj, oneOf, str, type Field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext, SpecV1 } from '../types';
@@ -144,3 +144,30 @@ function list(keys: readonly string[]): string {
   return keys.map((k) => `"${k}"`).join(', ');
 }
 
+/**
+ * The counts of a cross-tabulation placed in the row and column order given; a level with counts that the order
+ * does not list is an error naming the column and the spec field.
+ */
+export function placeCounts(
+  table: CountTable,
+  rows: readonly string[],
+  columns: readonly string[],
+  names: readonly [string, string],
+  fields: readonly [string, string],
+): number[][] {
+  const counts = rows.map(() => columns.map(() => 0));
+  table.rowLabels.forEach((r, i) =>
+    table.columnLabels.forEach((c, j) => {
+      const n = table.counts[i][j];
+      if (n === 0) return;
+      const ri = rows.indexOf(r);
+      const ci = columns.indexOf(c);
+      if (ri < 0 || ci < 0) {
+        const [column, level, key] = ri < 0 ? [names[0], r, fields[0]] : [names[1], c, fields[1]];
+        throw new InputError(`column \`${column}\` has the level "${level}", which "${key}" does not list; add it in its place or fix the data`, { jsonPath: `$.${key}`, column }, 'unknown-level');
+      }
+      counts[ri][ci] += n;
+    }),
+  );
+  return counts;
+}

@@ -9,8 +9,7 @@ import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext, SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { placeCounts } from './paired';
-import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, requireLength, requireOneOf, sourceField } from './shared';
+import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 
 export const trendProcedure: ProcedureHandler = {
   test: 'trend',
