@@ -82,6 +82,12 @@ describe('runSpec', () => {
     const grid = (run.result as TestResult).grid!;
     assert.deepEqual(grid.observed, [[90, 10], [70, 30]]);
     assert.deepEqual(grid.rowLabels, ['day', 'night']);
+    const e = await inputError(
+      runSpec({ test: 'independence', source: { path: 'x.csv', columns: ['shift', 'arrival'] }, rowLabels: ['day'] }, { readers: reader(table), specPath: '/w/s.json' }),
+    );
+    assert.equal(e.code, 'unknown-level');
+    assert.equal(e.location.jsonPath, '$.rowLabels');
+    assert.match(e.message, /column `shift` has the level "night", which "rowLabels" does not list/);
   });
 
   it('names the source columns in the conclusion, or the names the spec gives', async () => {
