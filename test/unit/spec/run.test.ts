@@ -86,7 +86,7 @@ describe('runSpec', () => {
       runSpec({ test: 'independence', source: { path: 'x.csv', columns: ['shift', 'arrival'] }, rowLabels: ['day'] }, { readers: reader(table), specPath: '/w/s.json' }),
     );
     assert.equal(e.code, 'unknown-level');
-    assert.equal(e.location.jsonPath, '$.rowLabels');
+    assert.equal(e.jsonPath, '$.rowLabels');
     assert.match(e.message, /column `shift` has the level "night", which "rowLabels" does not list/);
   });
 
