@@ -87,8 +87,17 @@ export function densityPlot(result: TestResult, samples = 161, decimals = 2): De
   if (reference.kind === 'none' || !Number.isFinite(statistic)) return null;
   if (reference.kind === 'chi-square' && !(reference.df > 0)) return null;
   const ref = reference.kind === 'chi-square' ? chiSquareReference(reference.df) : normalReference;
-  // The chi-square statistic is one-tailed (upper) unless the procedure says otherwise (the variance test).
-  const alternative: Alternative = result.alternative ?? (reference.kind === 'chi-square' ? 'greater' : 'two-sided');
+  const details = result.details ?? {};
+  const tailValue = (key: string) => {
+    const t = details[key] as { value?: number } | undefined;
+    return typeof t?.value === 'number' ? t.value : NaN;
+  };
+  // A chi-square statistic is read in its upper tail, even for a two-sided hypothesis tested by a squared
+  // statistic (McNemar, CMH, the two-sided trend test). Only a test that records both tail probabilities (the
+  // variance test) counts both tails; a stated one-sided alternative is drawn as stated.
+  const stated: Alternative = result.alternative ?? (reference.kind === 'chi-square' ? 'greater' : 'two-sided');
+  const bothTailsCounted = Number.isFinite(tailValue('lowerTail')) && Number.isFinite(tailValue('upperTail'));
+  const alternative: Alternative = reference.kind === 'chi-square' && stated === 'two-sided' && !bothTailsCounted ? 'greater' : stated;
 
   let xMin: number;
   let xMax: number;
@@ -115,11 +124,6 @@ export function densityPlot(result: TestResult, samples = 161, decimals = 2): De
   if (start > xMin) yMax = Math.min(yMax, ref.density(xMax * 0.04) * 1.25);
   const capped = curve.map((p) => ({ x: p.x, y: Math.min(p.y, yMax) }));
 
-  const details = result.details ?? {};
-  const tailValue = (key: string) => {
-    const t = details[key] as { value?: number } | undefined;
-    return typeof t?.value === 'number' ? t.value : NaN;
-  };
   const shaded = testedTails(ref, statistic, alternative, tailValue('lowerTail'), tailValue('upperTail'), start, xMax)
     .filter(([a, b]) => b > a)
     .map(([a, b]) => tailPolygon(ref, a, b, yMax));

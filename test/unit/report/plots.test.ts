@@ -87,6 +87,16 @@ describe('plot geometry', () => {
     close(plot.critical[1], 34.170, 5e-4, 'upper critical');
   });
 
+  it('reads a two-sided hypothesis tested by a squared statistic (McNemar) in the upper tail of χ²(1)', () => {
+    const plot = densityPlot(result({ test: 'paired', statistic: 4.5, df: 1, reference: { kind: 'chi-square', df: 1 }, alternative: 'two-sided' }));
+    assert.ok(plot);
+    assert.equal(plot.shaded.length, 1);
+    close(plot.shaded[0][0].x, 4.5, 1e-12, 'tail starts at the statistic');
+    // χ²(1) upper 5 % point 3.841: NIST/SEMATECH e-Handbook §1.3.6.7.4.
+    assert.equal(plot.critical.length, 1);
+    close(plot.critical[0], 3.841, 5e-4, 'critical value df 1, α 0.05');
+  });
+
   it('shades the lower tail only for a "less" alternative', () => {
     const plot = densityPlot(result({ statistic: 4, df: 10, reference: { kind: 'chi-square', df: 10 }, alternative: 'less' }));
     assert.ok(plot);
