@@ -18,7 +18,7 @@ import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { logBinomialPmf } from './discrete';
-import { logFactorial } from './gamma';
+import { logFactorial, regularizedGammaLower } from './gamma';
 import { normalLowerTail, normalQuantile, normalUpperTail } from './normal';
 import type { CategoryRow, Notice, TestResult } from './result';
 
@@ -60,15 +60,15 @@ function requireValues(values: readonly number[], integer: boolean, family: FitF
   });
 }
 
-function discreteBins(values: readonly number[], top: number, logPmf: (k: number) => number, openTop: boolean): Bin[] {
+/**
+ * Bins 0, 1, …, top. With `upperTail` (P(X ≥ k) of an unbounded family) the last bin is open and takes that
+ * tail, computed directly rather than as 1 − P(X < top), which loses the digits of a small tail.
+ */
+function discreteBins(values: readonly number[], top: number, logPmf: (k: number) => number, upperTail?: (k: number) => number): Bin[] {
   const counts = new Array<number>(top + 1).fill(0);
   for (const v of values) counts[Math.min(v, top)]++;
-  const probabilities = counts.map((_, k) => Math.exp(logPmf(k)));
-  if (openTop) {
-    // The last bin takes the whole upper tail: 1 − P(X < top), summed from the small side for accuracy.
-    probabilities[top] = Math.max(0, 1 - sum(probabilities.slice(0, top)));
-  }
-  return counts.map((o, k) => ({ label: k === top && openTop ? `≥ ${k}` : String(k), observed: o, probability: probabilities[k] }));
+  const probabilities = counts.map((_, k) => (k === top && upperTail ? upperTail(k) : Math.exp(logPmf(k))));
+  return counts.map((o, k) => ({ label: k === top && upperTail ? `≥ ${k}` : String(k), observed: o, probability: probabilities[k] }));
 }
 
 /** Pools adjacent bins left to right until every group's expected count reaches `minimum`. */
@@ -163,7 +163,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     if (m === undefined || !Number.isInteger(m) || m < 1) throw new InputError(`trials: the binomial fit needs the number of trials, a whole number ≥ 1, found ${String(m)}`, { jsonPath: '$.trials' }, 'invalid-trials');
     requireValues(values, true, family, m);
     const p = sum(values) / (n * m);
-    bins = discreteBins(values, m, (k) => logBinomialPmf(k, m, p), false);
+    bins = discreteBins(values, m, (k) => logBinomialPmf(k, m, p));
     estimated = [{ id: 'p', name: `p (success probability, ${m} trials)`, value: p }];
   } else {
     requireValues(values, true, family);
@@ -171,12 +171,13 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     const top = Math.max(...values);
     if (family === 'poisson') {
       if (mean === 0) throw new InputError('values: all values are 0, so a Poisson distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
-      bins = discreteBins(values, Math.max(top, 1), (k) => k * Math.log(mean) - mean - logFactorial(k), true);
+      // P(X ≥ k) for the Poisson is the regularised lower incomplete gamma P(k, λ).
+      bins = discreteBins(values, Math.max(top, 1), (k) => k * Math.log(mean) - mean - logFactorial(k), (k) => regularizedGammaLower(k, mean));
       estimated = [{ id: 'lambda', name: 'λ (mean)', value: mean }];
     } else {
       const p = 1 / (1 + mean);
       if (p === 1) throw new InputError('values: all values are 0, so a geometric distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
-      bins = discreteBins(values, Math.max(top, 1), (k) => Math.log(p) + k * Math.log1p(-p), true);
+      bins = discreteBins(values, Math.max(top, 1), (k) => Math.log(p) + k * Math.log1p(-p), (k) => Math.exp(k * Math.log1p(-p)));
       estimated = [{ id: 'p', name: 'p (success probability; support 0, 1, 2, … failures before the first success)', value: p }];
     }
   }
