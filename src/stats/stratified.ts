@@ -106,7 +106,11 @@ function expectedUnderOddsRatio(table: readonly (readonly number[])[], psi: numb
   return inside.length > 0 ? Math.min(hi, Math.max(lo, inside[0])) : roots[0];
 }
 
-export function breslowDay(tables: readonly (readonly (readonly number[])[])[], psi: number): BreslowDay {
+/**
+ * Breslow–Day (and Tarone) on K* − 1 df, K* the strata whose a_k can vary given their margins. With fewer than two
+ * such strata there is nothing to compare, so there is no test: the result is null.
+ */
+export function breslowDay(tables: readonly (readonly (readonly number[])[])[], psi: number): BreslowDay | null {
   let bd = 0;
   let sumA = 0;
   let sumE = 0;
@@ -126,7 +130,8 @@ export function breslowDay(tables: readonly (readonly (readonly number[])[])[], 
     sumE += e;
     sumV += v;
   }
-  const df = Math.max(1, informative - 1);
+  if (informative < 2) return null;
+  const df = informative - 1;
   const tarone = bd - ((sumA - sumE) * (sumA - sumE)) / sumV;
   return {
     breslowDay: chiSquareLine('breslow-day', 'Breslow–Day test of homogeneous odds ratios', 'X²', bd, df),
@@ -281,20 +286,23 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
     parameter: 'common odds ratio',
     method: 'Robins–Breslow–Greenland variance of the log Mantel–Haenszel estimate',
   };
-  const homogeneity = breslowDay(tables, oddsRatio);
+  const homogeneity = finiteRatio ? breslowDay(tables, oddsRatio) : null;
   if (strata.length < 2) notices.push(info('single-stratum', 'Only one stratum: the homogeneity test of odds ratios needs at least two.'));
+  else if (finiteRatio && homogeneity === null) {
+    notices.push(info('homogeneity-not-tested', 'Fewer than two strata have a count that can vary given their margins (the others have a zero row or column total), so there is no Breslow–Day test of homogeneous odds ratios.'));
+  }
   const estimates: Estimate[] = [
     finiteRatio ? { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio, interval } : { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio },
     { id: 'conditionalOddsRatio', name: 'Common odds ratio, conditional maximum likelihood', value: conditionalOr, interval: conditionalInterval(lo, logPmf, sumA, confidence), note: 'The estimate and interval that go with the exact conditional test.' },
   ];
   const main = method === 'exact' ? exactLine : options.correction ? correctedLine : uncorrectedLine;
   const others = [uncorrectedLine, correctedLine, exactLine].filter((l) => l !== main);
-  const homogeneityTested = strata.length >= 2 && finiteRatio;
-  if (homogeneityTested) others.push(homogeneity.breslowDay, homogeneity.tarone);
+  const homogeneityTested = homogeneity !== null;
+  if (homogeneity !== null) others.push(homogeneity.breslowDay, homogeneity.tarone);
   const pValue = main.pValue;
   const significant = pValue.value < alpha;
-  const heterogeneous = homogeneityTested && homogeneity.tarone.pValue.value < alpha;
-  if (heterogeneous) {
+  const heterogeneous = homogeneity !== null && homogeneity.tarone.pValue.value < alpha;
+  if (heterogeneous && homogeneity !== null) {
     notices.push({ code: 'heterogeneous-odds-ratios', severity: 'warning', message: `The odds ratios differ between strata (Breslow–Day with Tarone's adjustment, ${describeP(homogeneity.tarone.pValue)}): a single common odds ratio summarises them poorly; look at the strata one by one.` });
   }
   return testResult(
@@ -330,7 +338,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
       details: {
         strata: perStratum,
         commonOddsRatio: finiteRatio ? { value: oddsRatio, logStandardError: se, interval } : { value: oddsRatio },
-        homogeneity: homogeneityTested ? { breslowDay: homogeneity.breslowDay, tarone: homogeneity.tarone } : null,
+        homogeneity: homogeneity !== null ? { breslowDay: homogeneity.breslowDay, tarone: homogeneity.tarone } : null,
         exact: { pValue: exactP, conditionalOddsRatio: conditionalOr },
         correctionApplied: method === 'asymptotic' && options.correction === true,
       },

@@ -98,6 +98,16 @@ describe('Cochran–Mantel–Haenszel test (2×2×K)', () => {
     assert.ok(!r.otherStatistics.some((l) => l.id.startsWith('breslow-day')));
   });
 
+  it('has no Breslow–Day test when only one stratum has a count that can vary, and says so', () => {
+    // Hand-derived: the second stratum has a zero column total, so a_2 = 3 is fixed by its margins; one informative
+    // stratum leaves K* − 1 = 0 degrees of freedom, i.e. nothing to test (the old code reported it on df 1).
+    const r = stratifiedTest([[[5, 2], [3, 6]], [[3, 0], [2, 0]]]);
+    assert.equal(r.estimates[0].value, 5); // (5·6/16) / (2·3/16), the second stratum adds 0 to both sums
+    assert.ok(!r.otherStatistics.some((l) => l.id.startsWith('breslow-day')), JSON.stringify(r.otherStatistics.map((l) => [l.id, l.df])));
+    assert.ok(r.notices.some((n) => n.code === 'homogeneity-not-tested'));
+    assert.equal(r.assumptions.find((a) => a.id === 'common-odds-ratio')!.status, 'unchecked');
+  });
+
   it('names the stratum with a bad count', () => {
     assert.throws(
       () => stratifiedTest([[[1, 2], [3, 4]], [[1, -2], [3, 4]]], { stratumLabels: ['north', 'south'] }),
