@@ -81,9 +81,16 @@ export function warning(code: string, message: string): Notice {
   return { code, severity: 'warning', message };
 }
 
-/** Labels of the given length: the user's, or "1", "2", … */
-export function labelsOr(labels: readonly string[] | undefined, count: number, prefix: string): string[] {
-  return labels && labels.length === count ? labels.slice() : Array.from({ length: count }, (_, i) => `${prefix}${i + 1}`);
+/**
+ * Labels of the given length: the user's, or "<prefix>1", "<prefix>2", … when none were given. Labels of another
+ * length are refused, naming the field, rather than quietly replaced.
+ */
+export function labelsOr(labels: readonly string[] | undefined, count: number, prefix: string, field: string): string[] {
+  if (labels === undefined) return Array.from({ length: count }, (_, i) => `${prefix}${i + 1}`);
+  if (labels.length !== count) {
+    throw new InputError(`${field}: expected ${count} labels (one per ${prefix.trim()}), found ${labels.length}`, { jsonPath: `$.${field}` }, 'length-mismatch');
+  }
+  return labels.map(String);
 }
 
 /** Removes rows and columns whose total is zero; they carry no information about association. */

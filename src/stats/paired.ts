@@ -82,7 +82,7 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
   const method = options.method ?? 'asymptotic';
-  const labels = labelsOr(options.labels, 2, 'category ');
+  const labels = labelsOr(options.labels, 2, 'category ', 'labels');
   const [[a, b], [c, d]] = counts;
   const n = a + b + c + d;
   const s = mcnemarStatistics(b, c);
@@ -156,7 +156,7 @@ export function bowkerTest(table: readonly (readonly number[])[], options: Paire
     throw new InputError(`table: Bowker's test of symmetry needs a square table, found ${k}×${counts[0].length}`, { jsonPath: '$.table' }, 'not-square');
   }
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
-  const labels = labelsOr(options.labels, k, 'category ');
+  const labels = labelsOr(options.labels, k, 'category ', 'labels');
   const terms: number[] = [];
   const skipped: string[] = [];
   const pairs: { first: string; second: string; forward: number; backward: number; contribution: number }[] = [];

@@ -121,8 +121,8 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   const compare = options.compare ?? 'cells';
   const adjustment = options.adjustment ?? 'holm';
   if (!(adjustment in ADJUSTMENT_NAMES)) throw new InputError(`adjustment: expected one of ${Object.keys(ADJUSTMENT_NAMES).join(', ')}, found ${String(adjustment)}`, { jsonPath: '$.adjustment' }, 'invalid-adjustment');
-  const rowLabels = labelsOr(options.rowLabels, counts.length, 'row ');
-  const columnLabels = labelsOr(options.columnLabels, counts[0].length, 'column ');
+  const rowLabels = labelsOr(options.rowLabels, counts.length, 'row ', 'rowLabels');
+  const columnLabels = labelsOr(options.columnLabels, counts[0].length, 'column ', 'columnLabels');
   const rows = rowSums(counts);
   const cols = columnSums(counts);
   const emptyRow = rows.findIndex((x) => x === 0);

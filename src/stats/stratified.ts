@@ -48,7 +48,7 @@ function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stra
   if (!Array.isArray(strata) || strata.length === 0) {
     throw new InputError('strata: expected an array of tables (one per stratum), found none', { jsonPath: '$.strata' }, 'no-strata');
   }
-  const labels = labelsOr(options.stratumLabels, strata.length, 'stratum ');
+  const labels = labelsOr(options.stratumLabels, strata.length, 'stratum ', 'stratumLabels');
   const tables = strata.map((t, k) => requireCountTable(t, `$.strata[${k}]`, `stratum ${k + 1} (${labels[k]})`));
   const r = tables[0].length;
   const c = tables[0][0].length;

@@ -56,8 +56,8 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const alternative = options.alternative ?? 'two-sided';
   const scores = requireScores(options.scores, k, '$.scores', 'scores');
-  const rowLabels = labelsOr(options.rowLabels, 2, 'row ');
-  const columnLabels = labelsOr(options.columnLabels, k, 'group ');
+  const rowLabels = labelsOr(options.rowLabels, 2, 'row ', 'rowLabels');
+  const columnLabels = labelsOr(options.columnLabels, k, 'group ', 'columnLabels');
   const events = counts[0];
   const totals = columnSums(counts);
   const n = sum(totals);
