@@ -81,6 +81,15 @@ export function warning(code: string, message: string): Notice {
   return { code, severity: 'warning', message };
 }
 
+/** An option that must be one of a fixed set of words; anything else is refused, naming the field and the choices. */
+export function requireChoice<T extends string>(value: T | undefined, allowed: readonly T[], fallback: T, field: string): T {
+  if (value === undefined) return fallback;
+  if (!allowed.includes(value)) {
+    throw new InputError(`${field}: expected one of ${allowed.map((a) => `"${a}"`).join(', ')}, found ${JSON.stringify(value)}`, { jsonPath: `$.${field}` }, `invalid-${field}`);
+  }
+  return value;
+}
+
 /**
  * Labels of the given length: the user's, or "<prefix>1", "<prefix>2", … when none were given. Labels of another
  * length are refused, naming the field, rather than quietly replaced.

@@ -8,7 +8,7 @@
  * Benjamini–Hochberg (1995) step-up false discovery rate. Every line names the rows, columns or cell it is about.
  */
 import { InputError } from '../errors';
-import { chiSquareCore, chiSquareLine, columnSums, labelsOr, pearsonTable, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { chiSquareCore, chiSquareLine, columnSums, labelsOr, pearsonTable, requireChoice, requireCountTable, rowSums, sum, testResult } from './advanced-common';
 import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from './normal';
 import { probabilityFromValue, twoSidedFromTails } from './probability';
@@ -118,7 +118,7 @@ const ADJUSTMENT_NAMES: Record<Adjustment, string> = {
 export function postHocTest(table: readonly (readonly number[])[], options: PostHocOptions = {}): TestResult {
   const counts = requireCountTable(table, '$.table');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
-  const compare = options.compare ?? 'cells';
+  const compare = requireChoice<Comparison>(options.compare, ['rows', 'columns', 'cells'], 'cells', 'compare');
   const adjustment = options.adjustment ?? 'holm';
   if (!(adjustment in ADJUSTMENT_NAMES)) throw new InputError(`adjustment: expected one of ${Object.keys(ADJUSTMENT_NAMES).join(', ')}, found ${String(adjustment)}`, { jsonPath: '$.adjustment' }, 'invalid-adjustment');
   const rowLabels = labelsOr(options.rowLabels, counts.length, 'row ', 'rowLabels');

@@ -11,11 +11,13 @@
  *   the Pearson correlation of the row and column scores over the N units; df 1.
  */
 import { InputError } from '../errors';
-import { chiSquareLine, columnSums, labelsOr, pearsonTable, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { chiSquareLine, columnSums, labelsOr, pearsonTable, requireChoice, requireCountTable, rowSums, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from './normal';
 import { twoSidedFromTails } from './probability';
 import type { Alternative, Probability, StatisticLine, TestResult } from './result';
+
+const ALTERNATIVES: readonly Alternative[] = ['two-sided', 'greater', 'less'];
 
 export interface TrendOptions {
   readonly alpha?: number;
@@ -54,7 +56,7 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
   const k = counts[0].length;
   if (k < 2) throw new InputError(`table: the trend test needs at least 2 ordered groups, found ${k}`, { jsonPath: '$.table' }, 'wrong-shape');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
-  const alternative = options.alternative ?? 'two-sided';
+  const alternative = requireChoice<Alternative>(options.alternative, ALTERNATIVES, 'two-sided', 'alternative');
   const scores = requireScores(options.scores, k, '$.scores', 'scores');
   const rowLabels = labelsOr(options.rowLabels, 2, 'row ', 'rowLabels');
   const columnLabels = labelsOr(options.columnLabels, k, 'group ', 'columnLabels');
@@ -137,7 +139,7 @@ export function linearByLinearTest(table: readonly (readonly number[])[], option
   const c = counts[0].length;
   if (r < 2 || c < 2) throw new InputError(`table: expected at least a 2×2 table, found ${r}×${c}`, { jsonPath: '$.table' }, 'wrong-shape');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
-  const alternative = options.alternative ?? 'two-sided';
+  const alternative = requireChoice<Alternative>(options.alternative, ALTERNATIVES, 'two-sided', 'alternative');
   const u = requireScores(options.rowScores, r, '$.rowScores', 'rowScores');
   const v = requireScores(options.columnScores, c, '$.columnScores', 'columnScores');
   const rows = rowSums(counts);
