@@ -7,9 +7,11 @@
  *   walks outwards by the ratio of neighbouring probabilities.
  * - goodness of fit: multinomial samples drawn as a chain of binomials, each by the same kind of search.
  *
- * The p-value is (1 + number of resamples at least as extreme) / (resamples + 1), which is never 0 and is a
- * valid p-value (Davison & Hinkley 1997, §4.2). Its Monte Carlo standard error is √(p̂(1 − p̂)/B) and the
- * 99% interval is the Wilson score interval for the proportion of extreme resamples.
+ * The p-value is p = (1 + x) / (B + 1), x the resamples at least as extreme out of B, which is never 0 and is a
+ * valid p-value (Davison & Hinkley 1997, §4.2). Its Monte Carlo standard error is √(p(1 − p)/B) with that same
+ * p, not with p̂ = x/B: it is the error of the number reported, and it stays above 0 when x = 0 (with p̂ it would be
+ * 0 and claim an exact p); the two differ only by O(1/B). The 99% interval is the Wilson score interval for the
+ * proportion x/B of extreme resamples.
  */
 import { InputError } from '../errors';
 import { dropEmptyMargins, requireCountTable } from './advanced-common';
@@ -246,7 +248,7 @@ function summarise(
   return {
     statistic,
     pValue: Math.min(1, p),
-    standardError: Math.sqrt((p * (1 - p)) / Math.max(done, 1)),
+    standardError: Math.sqrt((p * (1 - p)) / Math.max(done, 1)), // with p = (1 + x)/(B + 1), see the file comment
     interval99: { lower: Math.max(0, centre - half), upper: Math.min(1, centre + half) },
     resamples: done,
     requestedResamples: requested,

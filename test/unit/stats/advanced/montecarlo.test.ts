@@ -1,9 +1,9 @@
 import { strict as assert } from 'node:assert';
 import { InputError } from '../../../../src/errors';
 import { exactIndependence, exactMultinomialFit } from '../../../../src/stats/exact';
-import { monteCarloFit, monteCarloIndependence, monteCarloIndependenceInSlices, type ResamplingStatistic } from '../../../../src/stats/montecarlo';
+import { monteCarloFit, monteCarloIndependence, monteCarloIndependenceInSlices, monteCarloTable, type ResamplingStatistic } from '../../../../src/stats/montecarlo';
 import { Xoshiro128 } from '../../../../src/stats/random';
-import { fixture } from './check';
+import { closeTo, fixture } from './check';
 
 interface Perm { name: string; table: number[][]; pearson: number; likelihoodRatio: number; probability: number }
 interface Multi { observed: number[]; probabilities: number[]; pearson: number; likelihoodRatio: number; probability: number }
@@ -52,6 +52,15 @@ describe('Monte Carlo p-values', () => {
     assert.equal(i.level, 0.99);
     assert.ok(i.lower < mc.line.pValue.value && mc.line.pValue.value < i.upper);
     assert.ok(mc.line.standardError! > 0);
+  });
+
+  it('gives the standard error of the reported p = (1 + x)/(B + 1): 1/(B + 1) when no resample is as extreme', () => {
+    // Hand-derived: with x = 0, p = 1/(B + 1) and √(p(1 − p)/B) = 1/(B + 1) exactly; p̂ = x/B would give 0.
+    // The observed table is the most extreme with these margins; drawing it (or its mirror) has chance 2/C(100, 50).
+    const out = monteCarloTable([[50, 0], [0, 50]], { statistic: 'pearson', resamples: 999, seed: 3 });
+    assert.equal(out.extremeCount, 0);
+    assert.equal(out.pValue, 1 / 1000);
+    closeTo(out.standardError, 1 / 1000, 1e-15, 'SE with x = 0', { B: 999 });
   });
 
   it('stops when cancelled and says so', () => {
