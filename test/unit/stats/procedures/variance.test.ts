@@ -179,5 +179,9 @@ describe('chi-square test for one variance', () => {
     assert.equal(errorOf(() => varianceTestFromSummary({ n: 2.5, sd: 2 }, { sigma0: 1 })).code, 'too-few-values');
     assert.equal(errorOf(() => varianceTestFromValues([1, 2, 3], { sigma0: 1, confidence: 95 })).code, 'invalid-confidence');
     assert.equal(errorOf(() => varianceTestFromValues([1, 2, 3], { sigma0: 1, alternative: 'up' as Alternative })).code, 'invalid-alternative');
+    const moments = errorOf(() => varianceTestFromMoments({ ...MomentAccumulator.of([1, 2, 3]).summary(), m2: NaN }, { sigma0: 1, variable: 'fill_ml' }));
+    assert.equal(moments.code, 'invalid-moments');
+    assert.equal(moments.message, 'moments of fill_ml: expected a finite sum of squared deviations ≥ 0, found NaN');
+    assert.equal(moments.location.jsonPath, '$.source.columns[0]');
   });
 });
