@@ -290,6 +290,7 @@ async function planAndScan(input: ParallelInput, choice: ParallelChoice): Promis
   }
 }
 
+// Sums byte offsets and row counts only: integers below 2^53, which add exactly, so no compensation is needed.
 function sum(values: readonly number[]): number {
   return values.reduce((a, b) => a + b, 0);
 }
