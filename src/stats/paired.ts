@@ -11,9 +11,9 @@
 import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult, warning } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
-import { binomialLowerTail, logBinomialPmf } from './discrete';
+import { binomialLowerTail, logBinomialPmf, logSumExp } from './discrete';
 import { normalUpperQuantile } from './normal';
-import { probabilityFromValue, twoSidedFromTails } from './probability';
+import { probabilityFromBoth, probabilityFromValue, twoSidedFromTails } from './probability';
 import type { Estimate, Interval, Notice, Probability, StatisticLine, TestResult } from './result';
 
 export type PairedMethod = 'asymptotic' | 'exact' | 'mid-p';
@@ -53,17 +53,22 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
   const uncorrected = m === 0 ? NaN : ((b - c) * (b - c)) / m;
   const corrected = m === 0 ? NaN : Math.max(0, Math.abs(b - c) - 1) ** 2 / m;
   const low = Math.min(b, c);
-  let midP = 1;
+  let midP = probabilityFromValue(1);
   if (m > 0) {
+    // mid-p = 2·P(X ≤ low) − P(X = low) = 2·P(X ≤ low − 1) + P(X = low), X ~ Bin(m, ½). The value comes from the
+    // first form; its log from the second, summed in logs, so it survives where the value underflows (about 1e-308).
     const lower = binomialLowerTail(low, m, 0.5).value;
-    midP = Math.min(1, 2 * (lower - 0.5 * Math.exp(logBinomialPmf(low, m, 0.5))));
+    const value = Math.min(1, 2 * (lower - 0.5 * Math.exp(logBinomialPmf(low, m, 0.5))));
+    const logTerms = [logBinomialPmf(low, m, 0.5)];
+    for (let i = 0; i < low; i++) logTerms.push(Math.LN2 + logBinomialPmf(i, m, 0.5));
+    midP = probabilityFromBoth(value, logSumExp(logTerms));
   }
   return {
     discordant: [b, c],
     uncorrected: chiSquareLine('mcnemar', 'McNemar chi-square', 'X²', uncorrected, 1),
     corrected: chiSquareLine('mcnemar-corrected', 'McNemar chi-square with continuity correction', 'X²', corrected, 1),
     exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(b, c), `b = ${b} of ${m} discordant pairs, tested against ½`, b, 'b'),
-    midP: pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', probabilityFromValue(midP), 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b, 'b'),
+    midP: pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', midP, 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b, 'b'),
   };
 }
 

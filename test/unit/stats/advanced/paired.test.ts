@@ -60,6 +60,23 @@ describe("McNemar's test", () => {
     closeTo(r.pValue.log10, (1 - 2000) * Math.log10(2), 1e-12, 'log10 p = log10(2) − 2000·log10(2)', 'b = 0, c = 2000');
   });
 
+  const MID = fixture<{ rVersion: string; cases: { b: number; c: number; log10MidP: number; midP: number }[] }>('R', 'mcnemar-midp-log');
+  for (const c of MID.cases) {
+    it(`keeps log10 of the mid-p value for b = ${c.b}, c = ${c.c} (R ${MID.rVersion} pbinom/dbinom with log.p, summed in logs)`, () => {
+      const r = mcnemarTest([[15, c.b], [c.c, 9]], { method: 'mid-p' });
+      // R ${MID.rVersion}: ln(2·pbinom(low − 1, m, ½) + dbinom(low, m, ½)) from log.p = TRUE / log = TRUE terms.
+      // Absolute 1e-11 as well: each ln pmf term carries about ulp(ln m!) ≈ 1e-12 of error for m in the thousands.
+      closeTo(r.pValue.log10, c.log10MidP, 1e-12, 'log10 mid-p', c, 1e-11);
+      closeTo(r.pValue.value, c.midP, 1e-10, 'mid-p value', c);
+    });
+  }
+
+  it('the mid-p for b = 0 is P(X = 0) = 2^−3000 (closed form), log10 = −3000·log10 2', () => {
+    const r = mcnemarTest([[15, 0], [3000, 9]], { method: 'mid-p' });
+    assert.equal(r.pValue.value, 0);
+    closeTo(r.pValue.log10, -3000 * Math.log10(2), 1e-13, 'log10 mid-p', 'b = 0, c = 3000');
+  });
+
   it('reports p = 1 with a warning when no pair changed', () => {
     const r = mcnemarTest([[5, 0], [0, 7]]);
     assert.equal(r.pValue.value, 1);
