@@ -3,6 +3,7 @@
 import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { InputError } from '../../../src/errors';
 import { aggregateRecords } from '../../../src/data/aggregate';
 import type { Records } from '../../../src/data/records';
 import { parseNotebookOutput, parseSelection, type Selection } from '../../../src/data/selection';
@@ -104,12 +105,26 @@ describe('data: selections', () => {
       const r = records(parseSelection('[["oven", "grams"], ["A", 512]]'));
       assert.deepEqual([r.columns, r.rows], [['oven', 'grams'], [['A', '512']]]);
     });
-    it('refuses JSON that does not parse, naming the line', () => {
+    it('refuses JSON that does not parse, naming the line and column', () => {
+      // Hand-counted: the selection starts on line 10; `4` is on its third line, 7th character.
       throwsInput(
         () => parseSelection('{\n "table": [[1, 2],\n   [3 4]]\n}', { firstLine: 10 }),
-        "line 12: the JSON does not parse at character 7 (Expected ',' or ']' after array element); expected valid JSON",
+        'line 12, column 7: the JSON does not parse (expected `,` or `]`, found `4`); expected valid JSON',
         'bad-json',
       );
+    });
+    it('names the line and column even where the engine\'s own message has no position (a trailing comma)', () => {
+      // Node 20's JSON.parse says only: Unexpected token ']', "…" is not valid JSON. Hand-counted: `]` is on
+      // the selection's second line (line 5 + 1), 9th character (two spaces, then `[1, 2,`).
+      let caught: unknown;
+      try {
+        parseSelection('{"values":\n  [1, 2,]}', { firstLine: 5 });
+      } catch (e) {
+        caught = e;
+      }
+      assert.ok(caught instanceof InputError, String(caught));
+      assert.equal(caught.message, 'line 6, column 9: the JSON does not parse (expected a value, found `]`); expected valid JSON');
+      assert.deepEqual([caught.code, caught.location.line, caught.location.column], ['bad-json', 6, '9']);
     });
     it('refuses bad counts, ragged rows and wrong lengths by JSON path', () => {
       throwsInput(() => parseSelection('{"table": [[1, 2.5]]}'), '$.table[0][1]: expected a whole number, found `2.5`; count tests need frequency weights (how many times each record occurred)', 'non-integer-weight');
