@@ -40,3 +40,13 @@ export function closeTo(got: number, expected: number, tol: number, what: string
 export async function closeAllEditors(): Promise<void> {
   await vscode.commands.executeCommand('workbench.action.closeAllEditors');
 }
+
+/** Waits (up to `ms`) until `condition` holds; the workbench applies focus changes and edits asynchronously. */
+export async function until(condition: () => boolean, ms = 5000): Promise<boolean> {
+  const end = Date.now() + ms;
+  while (!condition()) {
+    if (Date.now() > end) return false;
+    await new Promise((r) => setTimeout(r, 50));
+  }
+  return true;
+}

@@ -1,7 +1,7 @@
 import { strict as assert } from 'node:assert';
 import * as vscode from 'vscode';
 import { PANEL_VIEW_TYPE } from '../../src/host/panel';
-import { api, closeAllEditors, dataUri, panelFrom } from './api';
+import { api, closeAllEditors, dataUri, panelFrom, until } from './api';
 
 describe('results panel', () => {
   afterEach(closeAllEditors);
@@ -27,8 +27,11 @@ describe('results panel', () => {
     await a.panelAction('insert');
     assert.ok(doc.getText().includes(payload.markdown.trim()), 'markdown inserted');
     assert.ok(doc.getText().startsWith('# Notes\n'), 'text before the cursor kept');
+    // 'undo' acts on the focused editor: wait until the markdown document has focus, then for the edit to be undone.
     await vscode.window.showTextDocument(doc, { viewColumn: editor.viewColumn, preserveFocus: false });
+    assert.ok(await until(() => vscode.window.activeTextEditor?.document === doc), 'markdown editor focused');
     await vscode.commands.executeCommand('undo');
+    await until(() => doc.getText() === '# Notes\n\nEnd.\n');
     assert.equal(doc.getText(), '# Notes\n\nEnd.\n');
     await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
   });
