@@ -97,7 +97,7 @@ export function powerDivergence(
 }
 
 /** The options fit and table share for choosing the statistic. */
-export interface DivergenceOptions {
+export interface DivergenceSettings {
   /** Main statistic. Default 'pearson'. */
   readonly statistic?: DivergenceStatistic;
   /** λ for 'cressie-read'. Default 2/3. */
@@ -109,7 +109,7 @@ export interface DivergenceOptions {
 export const DIVERGENCE_STATISTICS: readonly DivergenceStatistic[] = ['pearson', 'likelihood-ratio', 'cressie-read'];
 
 /** Validates the choice of statistic and λ, naming the field on error. */
-export function resolveStatistic(options: DivergenceOptions): { statistic: DivergenceStatistic; lambda: number; cressieReadLambda: number } {
+export function resolveStatistic(options: DivergenceSettings): { statistic: DivergenceStatistic; lambda: number; cressieReadLambda: number } {
   const statistic = options.statistic ?? 'pearson';
   if (!DIVERGENCE_STATISTICS.includes(statistic)) {
     throw new InputError(`statistic: expected one of ${DIVERGENCE_STATISTICS.join(', ')}, found ${String(statistic)}`, { jsonPath: '$.statistic' }, 'invalid-statistic');

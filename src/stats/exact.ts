@@ -319,7 +319,7 @@ function greedySplit(amount: number, caps: readonly number[], lf: Float64Array):
   return value;
 }
 
-export interface ExactIndependenceOptions {
+export interface ExactIndependenceTestOptions {
   readonly workLimit?: number;
   /** Monte Carlo settings used when the table is too large for the exact computation. */
   readonly fallback?: Omit<MonteCarloOptions, 'statistic'>;
@@ -329,7 +329,7 @@ export interface ExactIndependenceOptions {
  * Fisher's exact test (Fisher–Freeman–Halton for r×c) as a line beside the asymptotic result. When the exact
  * computation would exceed its work limit it switches to a Monte Carlo p-value of the same test and says so.
  */
-export function exactIndependence(table: readonly (readonly number[])[], options: ExactIndependenceOptions = {}): ResamplingResult {
+export function exactIndependence(table: readonly (readonly number[])[], options: ExactIndependenceTestOptions = {}): ResamplingResult {
   const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
   const exact = tryExactIndependence(counts, options.workLimit);
   if (exact !== null) return exact;

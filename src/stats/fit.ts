@@ -5,11 +5,11 @@
  */
 import { InputError } from '../errors';
 import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, nameOf, requireCount, requireLevel } from './assumptions';
-import { type DivergenceOptions, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
+import { type DivergenceSettings, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { compensatedSum } from './moments';
 import type { CategoryRow, Notice, TestResult } from './result';
 
-export interface GoodnessOfFitOptions extends DivergenceOptions {
+export interface GoodnessOfFitOptions extends DivergenceSettings {
   /** Category labels, in the order of `observed`. Default "category 1", "category 2", … */
   readonly labels?: readonly string[];
   /** Expected counts; rescaled to the observed total when their total differs. */

@@ -8,13 +8,13 @@
 import { InputError } from '../errors';
 import { capitalise, checkExpectedCounts, describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireCount, requireLevel } from './assumptions';
 import { chiSquareUpperProbability } from './chisquare';
-import { type DivergenceLine, type DivergenceOptions, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
+import { type DivergenceLine, type DivergenceSettings, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { fisherExact2x2 } from './fisher2x2';
 import { compensatedSum } from './moments';
 import { normalUpperQuantile } from './normal';
 import type { CellGrid, Estimate, Notice, StatisticLine, TestResult } from './result';
 
-export interface IndependenceOptions extends DivergenceOptions {
+export interface IndependenceTestOptions extends DivergenceSettings {
   readonly rowLabels?: readonly string[];
   readonly columnLabels?: readonly string[];
   /** Yates' continuity correction (2×2 Pearson only). Default false. */
@@ -34,7 +34,7 @@ interface Prepared {
   readonly notices: Notice[];
 }
 
-export function independenceTest(table: readonly (readonly number[])[], options: IndependenceOptions = {}): TestResult {
+export function independenceTest(table: readonly (readonly number[])[], options: IndependenceTestOptions = {}): TestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
   const { statistic, lambda, cressieReadLambda } = resolveStatistic(options);
@@ -196,7 +196,7 @@ function exactDifference(o: number, rowTotal: number, columnTotal: number, total
   return Number(BigInt(o) * BigInt(total) - BigInt(rowTotal) * BigInt(columnTotal)) / total;
 }
 
-function prepare(table: readonly (readonly number[])[], options: IndependenceOptions): Prepared {
+function prepare(table: readonly (readonly number[])[], options: IndependenceTestOptions): Prepared {
   if (!Array.isArray(table as unknown) || table.length === 0) {
     throw new InputError('table: expected an array of rows of counts, found an empty table', { jsonPath: '$.table' }, 'table-too-small');
   }
