@@ -19,7 +19,7 @@ try {
     launchArgs: [workspace, '--disable-extensions', '--disable-workspace-trust'],
   });
 } catch (e) {
-  console.error(e instanceof Error ? e.message : e);
+  console.error(e?.message ?? e);
   process.exitCode = 1;
 } finally {
   rmSync(workspace, { recursive: true, force: true });

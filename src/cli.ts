@@ -12,7 +12,7 @@ import * as path from 'node:path';
 import { aggregateFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
-import { isInputError } from './errors';
+import { isInputError, isInstance } from './errors';
 import { refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultText } from './report/text';
@@ -184,7 +184,7 @@ async function runLoaded(loaded: Loaded, io: CliIo, flags: Flags): Promise<SpecR
 
 function errorText(e: unknown, file: string): string {
   if (isInputError(e)) return describeRunError(e, file);
-  return e instanceof Error ? e.message : String(e);
+  return isInstance(e, Error) ? e.message : String(e);
 }
 
 /** Writes a file by renaming a sibling temporary file over it, so a crash never leaves half a spec. */
@@ -377,7 +377,7 @@ if (require.main === module || /[\\/]bin[\\/]countercheck(\.js)?$/.test(require.
       process.exitCode = code;
     },
     (e: unknown) => {
-      process.stderr.write(`countercheck: unexpected error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+      process.stderr.write(`countercheck: unexpected error: ${isInstance(e, Error) ? (e.stack ?? e.message) : String(e)}\n`);
       process.exitCode = 2;
     },
   );

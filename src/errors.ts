@@ -25,6 +25,19 @@ export class InputError extends Error {
   }
 }
 
+/**
+ * Whether `value` was made by `kind` or a subclass of it (its prototype chain holds `kind.prototype`),
+ * as a type guard. Primitives, null and undefined answer false.
+ */
+export function isInstance<T>(value: unknown, kind: { readonly prototype: T }): value is T {
+  return Object.prototype.isPrototypeOf.call(kind.prototype, value as object);
+}
+
 export function isInputError(e: unknown): e is InputError {
-  return e instanceof InputError;
+  return isInstance(e, InputError);
+}
+
+/** The message of an error, or the thrown value as text when it is not an error. */
+export function errorMessage(e: unknown): string {
+  return isInstance(e, Error) ? e.message : String(e);
 }

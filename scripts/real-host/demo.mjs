@@ -3,13 +3,13 @@
 // the URL. Ctrl+C stops it (only the process group started here).
 import { execFileSync } from 'node:child_process';
 import { join } from 'node:path';
-import { HostSetupError, checkHostInstalled, repoRoot, startHost, testPayloadUrl } from './host.mjs';
+import { checkHostInstalled, isHostSetupError, repoRoot, startHost, testPayloadUrl } from './host.mjs';
 
 function ensureHost() {
   try {
     checkHostInstalled();
   } catch (e) {
-    if (!(e instanceof HostSetupError)) throw e;
+    if (!isHostSetupError(e)) throw e;
     console.log('Installing the VS Code host (Chromium is not needed for the demo; code-server and Node 24 are; a few minutes, once)…');
     execFileSync('bash', [join(repoRoot, 'scripts', 'ci', 'host.setup.sh')], { stdio: 'inherit' });
   }

@@ -17,6 +17,11 @@ const codeServerEntry = join(cacheDir, 'host', 'node_modules', 'code-server', 'o
 
 export class HostSetupError extends Error {}
 
+/** Whether a thrown value is a HostSetupError (or a subclass). */
+export function isHostSetupError(e) {
+  return HostSetupError.prototype.isPrototypeOf(e);
+}
+
 /** Throws (never skips) when the host is not installed: a missing host must fail the run loudly. */
 export function checkHostInstalled() {
   const missing = [

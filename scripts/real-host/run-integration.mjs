@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { format } from 'node:util';
 import { buildIntegrationTests } from './build-tests.mjs';
-import { HostSetupError, launchBrowser, repoRoot, sleep, startHost, testPayloadUrl } from './host.mjs';
+import { HostSetupError, isHostSetupError, launchBrowser, repoRoot, sleep, startHost, testPayloadUrl } from './host.mjs';
 
 const timeoutMs = Number(process.env.COUNTERCHECK_INTEGRATION_TIMEOUT ?? 240_000);
 const verbose = process.argv.includes('--verbose');
@@ -104,7 +104,7 @@ async function main() {
 main().then(
   (code) => process.exit(code),
   (e) => {
-    console.error(e instanceof HostSetupError ? `\nREAL HOST NOT AVAILABLE — integration tests cannot run.\n${e.message}` : e);
+    console.error(isHostSetupError(e) ? `\nREAL HOST NOT AVAILABLE — integration tests cannot run.\n${e.message}` : e);
     // Counted by .ci/run: a missing host is a failure, not a skip.
     console.log('  0 passing\n  1 failing');
     process.exit(1);

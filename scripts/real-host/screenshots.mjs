@@ -31,7 +31,7 @@ async function check(name, fn) {
     const shot = join(tmpdir(), `countercheck-ui-failure-${failures.length}.png`);
     await currentPage?.screenshot({ path: shot }).catch(() => {});
     console.log(`      (screen at failure: ${shot})`);
-    console.log(`    ✗ ${name}: ${e instanceof Error ? e.message.split('\n')[0] : e}`);
+    console.log(`    ✗ ${name}: ${String(e?.message ?? e).split('\n')[0]}`);
   }
 }
 
@@ -64,7 +64,7 @@ async function quickOpen(page, file) {
       return;
     } catch (e) {
       await page.keyboard.press('Escape');
-      if (attempt === 4) throw new Error(`Quick Open did not open ${file}: ${e instanceof Error ? e.message : e}`);
+      if (attempt === 4) throw new Error(`Quick Open did not open ${file}: ${e?.message ?? e}`);
     }
   }
 }
@@ -193,6 +193,6 @@ try {
 console.log(`\n  ${passing} passing`);
 if (failures.length) {
   console.log(`  ${failures.length} failing`);
-  for (const [name, e] of failures) console.log(`  - ${name}: ${e instanceof Error ? e.stack : e}`);
+  for (const [name, e] of failures) console.log(`  - ${name}: ${e?.stack ?? e}`);
 }
 process.exit(failures.length ? 1 : 0);

@@ -8,6 +8,7 @@ import { detectDialect } from './dialect';
 import type { Dialect, DialectOptions } from './options';
 import type { Records } from './records';
 import { fail, inputError, shown, type Where } from './where';
+import { isInstance } from '../errors';
 
 export interface DelimitedOptions {
   readonly dialect?: DialectOptions;
@@ -62,7 +63,7 @@ function unclosedQuoteLine(text: string): number | undefined {
 /** Turns a csv-parse failure into a positioned InputError; `text` (when in memory) finds where an unclosed quote opened. */
 export function csvParseFailure(e: unknown, where: Where, lineOffset: number, text?: string): never {
   // The sync and stream entry points each carry their own CsvError class, so test by shape.
-  if (!(e instanceof CsvError) && !(e instanceof Error && typeof (e as { code?: unknown }).code === 'string' && 'lines' in e)) throw e;
+  if (!(isInstance(e, CsvError)) && !(isInstance(e, Error) && typeof (e as { code?: unknown }).code === 'string' && 'lines' in e)) throw e;
   const code = (e as { code: string }).code;
   const line = (typeof (e as unknown as { lines?: unknown }).lines === 'number' ? (e as unknown as { lines: number }).lines : 1) + lineOffset;
   const at = { ...where, line };

@@ -16,6 +16,7 @@ import { scanRange } from './rangeScan';
 import { ByteScanner, ScannerFallback } from './scanner';
 import type { Aggregate, AggregateRequest } from './types';
 import { fail, inputError } from './where';
+import { isInstance } from '../errors';
 
 export interface ReadProgress {
   readonly bytesRead: number;
@@ -257,7 +258,7 @@ export async function aggregateFileMany(
         else aggregators = await scanBytes(opened, makeAggregators, file, control, hash);
         reader = 'byte-scanner';
       } catch (e) {
-        if (!(e instanceof ScannerFallback)) throw e;
+        if (!(isInstance(e, ScannerFallback))) throw e;
         hash = createHash('sha256');
       }
     }

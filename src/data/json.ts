@@ -2,7 +2,7 @@
  * JSON blocks: `{"table": …}`, `{"observed": …}`, `{"values": …}`, an array of records or an array
  * of arrays. Every refusal names the JSON path (and the line when the text does not parse).
  */
-import { InputError } from '../errors';
+import { InputError, isInstance } from '../errors';
 import { wholeCount } from './counts';
 import { numberedColumns } from './delimited';
 import { JsonSyntaxError, parseJsonWithLocations } from './jsonText';
@@ -55,7 +55,7 @@ export function parseJsonText(text: string, options: JsonOptions = {}): Json {
     try {
       return parseJsonWithLocations(text, options.file).value;
     } catch (located) {
-      if (!(located instanceof JsonSyntaxError)) throw located;
+      if (!(isInstance(located, JsonSyntaxError))) throw located;
       const line = located.at.line + (options.firstLine ?? 1) - 1;
       const where = `${options.file ? `${options.file}, ` : ''}line ${line}, column ${located.at.column}`;
       throw new InputError(

@@ -16,7 +16,7 @@ import type { FileHandle } from 'node:fs/promises';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
-import { InputError } from '../errors';
+import { InputError, isInstance } from '../errors';
 import { MomentAccumulator } from '../stats/moments';
 import type { Aggregator, SourceInfo } from './aggregate';
 import { missingTokens } from './categories';
@@ -204,7 +204,7 @@ export async function scanParallel(input: ParallelInput, choice: ParallelChoice)
     parallelCounts[result ? 'merged' : 'declined']++;
     return result;
   } catch (e) {
-    if (e instanceof ScannerFallback) parallelCounts.fellBack++;
+    if (isInstance(e, ScannerFallback)) parallelCounts.fellBack++;
     throw e;
   }
 }
@@ -349,7 +349,7 @@ function merge(done: readonly Extract<Outcome, { type: 'done' }>[], input: Paral
       };
     });
   } catch (e) {
-    if (e instanceof MergeRefused || e instanceof InputError) return undefined;
+    if (isInstance(e, MergeRefused) || isInstance(e, InputError)) return undefined;
     throw e;
   }
 }

@@ -5,7 +5,7 @@
  */
 import { open } from 'node:fs/promises';
 import { parentPort, workerData } from 'node:worker_threads';
-import { InputError } from '../errors';
+import { InputError, isInstance } from '../errors';
 import { Aggregator } from './aggregate';
 import { missingTokens } from './categories';
 import type { PartSnapshot, WorkerMessage, WorkerTask } from './parallel';
@@ -62,9 +62,9 @@ async function scan(task: WorkerTask, post: (m: WorkerMessage) => void): Promise
 }
 
 function failure(e: unknown): WorkerMessage {
-  if (e instanceof ScannerFallback) return { type: 'fallback', reason: e.message };
-  if (e instanceof InputError) return { type: 'input-error', message: e.message, location: e.location, code: e.code };
-  const error = e instanceof Error ? e : new Error(String(e));
+  if (isInstance(e, ScannerFallback)) return { type: 'fallback', reason: e.message };
+  if (isInstance(e, InputError)) return { type: 'input-error', message: e.message, location: e.location, code: e.code };
+  const error = isInstance(e, Error) ? e : new Error(String(e));
   return { type: 'failed', message: error.message, stack: error.stack };
 }
 

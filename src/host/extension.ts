@@ -14,6 +14,7 @@ import { handlePanelAction, saveSpec, trackEditors } from './panelActions';
 import { Services } from './services';
 import { registerSqlCommands } from './sqlCommand';
 import { registerTesting, type SavedTests } from './testing';
+import { isInstance } from '../errors';
 
 /** What activate returns: used by the integration tests and by other extensions. */
 export interface CountercheckApi {
@@ -42,7 +43,7 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
   const command = (id: string, run: (...args: never[]) => unknown) => context.subscriptions.push(vscode.commands.registerCommand(id, run as (...args: unknown[]) => unknown));
 
   // From the explorer the second argument is the list of selected files, not answers.
-  const answersFrom = (value: unknown) => (value && typeof value === 'object' && !Array.isArray(value) && !(value instanceof vscode.Uri) ? value : {});
+  const answersFrom = (value: unknown) => (value && typeof value === 'object' && !Array.isArray(value) && !(isInstance(value, vscode.Uri)) ? value : {});
   command(COMMANDS.runOnFile, (uri?: vscode.Uri, answers?: object) => runOnFile(services, uri, answersFrom(answers)));
   command(COMMANDS.runOnSelection, (answers?: object) => runOnSelection(services, answersFrom(answers)));
   command(COMMANDS.runOnCellOutput, (cell?: vscode.NotebookCell, answers?: object) => runOnCellOutput(services, cell, answersFrom(answers)));

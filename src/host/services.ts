@@ -3,7 +3,7 @@
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { aggregateFile } from '../data/file';
-import { isInputError, type InputError } from '../errors';
+import { isInputError, type InputError, isInstance } from '../errors';
 import type { PanelOrigin } from '../protocol';
 import { runSpec } from '../spec/run';
 import type { SpecReaders, SpecRun } from '../spec/types';
@@ -125,14 +125,14 @@ export class Services {
 
   /** Shows any failure as a notification; an InputError gets a button that opens its file at the line. Never rethrows. */
   async reportError(e: unknown, baseFolder?: string): Promise<void> {
-    if (e instanceof Cancelled) {
+    if (isInstance(e, Cancelled)) {
       this.output.info('cancelled by the user');
       return;
     }
-    const message = e instanceof Error ? e.message : String(e);
+    const message = isInstance(e, Error) ? e.message : String(e);
     this.lastError = isInputError(e) ? { message, code: e.code, file: e.location.file, line: e.location.line } : { message };
     this.output.error(message);
-    if (e instanceof Error && e.stack && !isInputError(e)) this.output.debug(e.stack);
+    if (isInstance(e, Error) && e.stack && !isInputError(e)) this.output.debug(e.stack);
     if (!isInputError(e)) {
       void vscode.window.showErrorMessage(t('Countercheck: {0}', message));
       return;

@@ -3,7 +3,7 @@
 // (with their server types) and an optional filter; the engine counts, the panel shows the result.
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { isInputError } from '../errors';
+import { isInputError, isInstance } from '../errors';
 import { listColumns, listTables, resolveConnection, type ResolvedConnection, type SqlSource } from '../data/sql/index';
 import { Cancelled, settings, type Services } from './services';
 import { askPassword, configuredConnections, storedPassword, useSecretStorage } from './sqlSource';
@@ -160,5 +160,5 @@ export async function runOnDatabase(services: Services, given: DatabaseAnswers =
 /** The one line activate() calls: the command, and where passwords are kept. */
 export function registerSqlCommands(context: vscode.ExtensionContext, services: Services): void {
   useSecretStorage(context.secrets);
-  context.subscriptions.push(vscode.commands.registerCommand(RUN_ON_DATABASE, (answers?: DatabaseAnswers) => runOnDatabase(services, answers instanceof vscode.Uri ? {} : answers ?? {})));
+  context.subscriptions.push(vscode.commands.registerCommand(RUN_ON_DATABASE, (answers?: DatabaseAnswers) => runOnDatabase(services, isInstance(answers, vscode.Uri) ? {} : answers ?? {})));
 }

@@ -4,7 +4,7 @@
  * `countercheck report` and the editor's CodeLens, with file access injected.
  */
 import * as path from 'node:path';
-import { InputError, isInputError } from '../errors';
+import { InputError, isInputError, isInstance } from '../errors';
 import type { ReportBlock } from '../report/blocks';
 import type { FormatOptions } from '../report/format';
 import { resultMarkdown } from '../report/markdown';
@@ -30,7 +30,7 @@ export interface BlockRun {
 
 /** The message of an error, with `file:line:column:` in front when its JSON path can be located. */
 export function describeRunError(e: unknown, file: string, located?: LocatedJson): string {
-  if (e instanceof SpecError) return e.message;
+  if (isInstance(e, SpecError)) return e.message;
   if (isInputError(e)) {
     const jsonPath = e.location.jsonPath ?? sourceColumnPath(e.code, e.location.column, located);
     const at = located && jsonPath ? locatePath(located, jsonPath) : undefined;
@@ -39,8 +39,8 @@ export function describeRunError(e: unknown, file: string, located?: LocatedJson
     const prefix = jsonPath && !e.message.startsWith(jsonPath) ? `${jsonPath}: ` : '';
     return `${where}: ${prefix}${e.message}`;
   }
-  if (e instanceof Error && e.name === 'AbortError') return `${file}: cancelled`;
-  return `${file}: ${e instanceof Error ? e.message : String(e)}`;
+  if (isInstance(e, Error) && e.name === 'AbortError') return `${file}: cancelled`;
+  return `${file}: ${isInstance(e, Error) ? e.message : String(e)}`;
 }
 
 /** For a column the data lacks, the place in the spec that names it ($.source.columns[i] or $.source.weight). */
@@ -78,7 +78,7 @@ export async function runReportBlock(block: ReportBlock, options: BlockRunOption
       text = await options.readText(specFile);
     } catch (e) {
       const at = locatePath(located, '$.spec');
-      throw new InputError(`${reportFile}:${at?.line}:${at?.column}: cannot read the spec ${shown}: ${e instanceof Error ? e.message : String(e)}`, { file: reportFile, line: at?.line }, 'missing-spec');
+      throw new InputError(`${reportFile}:${at?.line}:${at?.column}: cannot read the spec ${shown}: ${isInstance(e, Error) ? e.message : String(e)}`, { file: reportFile, line: at?.line }, 'missing-spec');
     }
     const loaded = loadSpecText(text, shown);
     spec = loaded.spec;

@@ -2,7 +2,7 @@
 // session of the reader is left on the server (pg_stat_activity) and no transaction is left open.
 import { strict as assert } from 'node:assert';
 import { createServer } from 'node:net';
-import { InputError } from '../../src/errors';
+import { InputError, isInstance } from '../../src/errors';
 import { aggregateSql, type SqlReaderContext, type SqlSource } from '../../src/data/sql/index';
 import type { AggregateRequest } from '../../src/data/types';
 import { leftoverSessions, liveServer } from './server';
@@ -21,7 +21,7 @@ async function refusal(source: SqlSource, request: AggregateRequest, context: Sq
 }
 
 function expectInput(e: Error, code: string, pattern: RegExp): void {
-  assert.ok(e instanceof InputError, `expected InputError, got ${e.name}: ${e.message}`);
+  assert.ok(isInstance(e, InputError), `expected InputError, got ${e.name}: ${e.message}`);
   assert.equal(e.code, code, e.message);
   assert.match(e.message, pattern);
   assert.doesNotMatch(e.message, new RegExp(server.env().PGPASSWORD), 'the password never appears in a message');

@@ -8,7 +8,7 @@
 import { readFileSync } from 'node:fs';
 import type { Client, ClientConfig, FieldDef, QueryConfig } from 'pg';
 import type { ConnectionOptions } from 'node:tls';
-import { InputError } from '../../errors';
+import { InputError, isInstance } from '../../errors';
 import { describeConnection, type ResolvedConnection } from './connection';
 
 export const applicationName = 'countercheck';
@@ -195,7 +195,7 @@ interface PgErrorLike {
 
 /** Turns what pg or the server reports into one clear sentence naming the connection. */
 export function explainError(e: unknown, c: ResolvedConnection, timeoutMs: number, lostConnection?: Error): Error {
-  if (e instanceof InputError || e instanceof SqlCancelledError) return e;
+  if (isInstance(e, InputError) || isInstance(e, SqlCancelledError)) return e;
   const err = (e ?? {}) as PgErrorLike;
   const code = err.code ?? '';
   const server = err.message ?? String(e);

@@ -4,6 +4,7 @@ import * as vscode from 'vscode';
 import { errorMarkdown, parseReportBlocks, refreshReport, rewriteReport, type ReportBlock } from '../../report/blocks';
 import { runReportBlock } from '../../spec/living';
 import { extensionReaders, settings, type Services } from '../services';
+import { isInstance } from '../../errors';
 
 async function renderBlock(services: Services, doc: vscode.TextDocument, block: ReportBlock, signal: AbortSignal): Promise<string> {
   const s = settings(doc.uri);
@@ -22,7 +23,7 @@ async function renderBlock(services: Services, doc: vscode.TextDocument, block: 
 /** Refreshes the blocks of a markdown document (all, or the one at `only`); returns the indexes that changed. */
 export async function refreshBlocks(services: Services, uri?: vscode.Uri, only?: number): Promise<{ changed: number[]; errors: string[] } | undefined> {
   try {
-    const doc = uri instanceof vscode.Uri ? await vscode.workspace.openTextDocument(uri) : vscode.window.activeTextEditor?.document;
+    const doc = isInstance(uri, vscode.Uri) ? await vscode.workspace.openTextDocument(uri) : vscode.window.activeTextEditor?.document;
     if (!doc || doc.languageId !== 'markdown') {
       void vscode.window.showWarningMessage(vscode.l10n.t('Countercheck: open a markdown report with countercheck blocks first.'));
       return undefined;
@@ -42,7 +43,7 @@ export async function refreshBlocks(services: Services, uri?: vscode.Uri, only?:
         try {
           markdown = await renderBlock(services, doc, block, abort.signal);
         } catch (e) {
-          error = e instanceof Error ? e.message : String(e);
+          error = isInstance(e, Error) ? e.message : String(e);
           markdown = errorMarkdown(error);
         }
         const rewritten = rewriteReport(original, [{ block, markdown }]);

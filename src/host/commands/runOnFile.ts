@@ -6,6 +6,7 @@ import type { Answers } from '../flow';
 import { runOnTable } from '../flow';
 import type { Services } from '../services';
 import { sourceFromText } from '../selectionRecords';
+import { isInstance } from '../../errors';
 
 const PREVIEW_BYTES = 64 * 1024;
 
@@ -25,7 +26,7 @@ async function preview(file: string) {
 }
 
 export async function runOnFile(services: Services, uri?: vscode.Uri, answers: Answers = {}): Promise<void> {
-  const target = uri instanceof vscode.Uri ? uri : vscode.window.activeTextEditor?.document.uri;
+  const target = isInstance(uri, vscode.Uri) ? uri : vscode.window.activeTextEditor?.document.uri;
   if (!target || target.scheme !== 'file') {
     void vscode.window.showWarningMessage(vscode.l10n.t('Countercheck: open or select a CSV, TSV or JSON file first.'));
     return;

@@ -1,12 +1,12 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../src/errors';
+import { InputError, isInstance } from '../../../src/errors';
 
 /** Asserts that `run` throws an InputError with exactly this message (and code, when given). */
 export function throwsInput(run: () => unknown, message: string, code?: string): InputError {
   try {
     run();
   } catch (e) {
-    assert.ok(e instanceof InputError, `expected an InputError, got ${String(e)}`);
+    assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
     assert.equal(e.message, message);
     if (code !== undefined) assert.equal(e.code, code);
     return e;
@@ -18,7 +18,7 @@ export async function rejectsInput(run: () => Promise<unknown>, message: string,
   try {
     await run();
   } catch (e) {
-    assert.ok(e instanceof InputError, `expected an InputError, got ${String(e)}`);
+    assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
     assert.equal(e.message, message);
     if (code !== undefined) assert.equal(e.code, code);
     return e;

@@ -12,7 +12,7 @@ import { aggregateFileMany, type FileReadControl } from '../../../src/data/file'
 import type { IntakeOptions } from '../../../src/data/options';
 import { parallelCounts, type WorkerMessage, type WorkerTask } from '../../../src/data/parallel';
 import type { Aggregate, AggregateRequest } from '../../../src/data/types';
-import { InputError } from '../../../src/errors';
+import { InputError, isInstance } from '../../../src/errors';
 
 const scratch = mkdtempSync(join(tmpdir(), 'countercheck-parallel-'));
 after(() => rmSync(scratch, { recursive: true, force: true }));
@@ -84,7 +84,7 @@ async function inputErrorOf(run: () => Promise<unknown>): Promise<InputError> {
   try {
     await run();
   } catch (e) {
-    assert.ok(e instanceof InputError, `expected an InputError, got ${String(e)}`);
+    assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
     return e;
   }
   assert.fail('expected an InputError');

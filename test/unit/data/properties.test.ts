@@ -15,7 +15,7 @@ import { DEFAULT_MISSING_TOKENS } from '../../../src/data/options';
 import { parseNumberBytes } from '../../../src/data/scanner';
 import { parseSelection } from '../../../src/data/selection';
 import type { Aggregate, AggregateRequest, CountTable } from '../../../src/data/types';
-import { InputError } from '../../../src/errors';
+import { InputError, isInstance } from '../../../src/errors';
 
 const scratch = mkdtempSync(join(tmpdir(), 'countercheck-props-'));
 let fileNumber = 0;
@@ -68,7 +68,7 @@ function neverCrashes(run: () => unknown): void {
   try {
     run();
   } catch (e) {
-    if (!(e instanceof InputError)) throw e;
+    if (!(isInstance(e, InputError))) throw e;
     assert.ok(e.message.length > 0);
   }
 }
@@ -77,7 +77,7 @@ async function neverCrashesAsync(run: () => Promise<unknown>): Promise<string> {
   try {
     return JSON.stringify(await run());
   } catch (e) {
-    if (!(e instanceof InputError)) throw e;
+    if (!(isInstance(e, InputError))) throw e;
     return `error: ${e.message}`;
   }
 }

@@ -3,7 +3,7 @@
 import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { InputError } from '../../../src/errors';
+import { InputError, isInstance } from '../../../src/errors';
 import { aggregateRecords } from '../../../src/data/aggregate';
 import type { Records } from '../../../src/data/records';
 import { parseNotebookOutput, parseSelection, type Selection } from '../../../src/data/selection';
@@ -122,7 +122,7 @@ describe('data: selections', () => {
       } catch (e) {
         caught = e;
       }
-      assert.ok(caught instanceof InputError, String(caught));
+      assert.ok(isInstance(caught, InputError), String(caught));
       assert.equal(caught.message, 'line 6, column 9: the JSON does not parse (expected a value, found `]`); expected valid JSON');
       assert.deepEqual([caught.code, caught.location.line, caught.location.column], ['bad-json', 6, '9']);
     });

@@ -1,7 +1,7 @@
 // Spec validation: every problem carries its JSON path (and its line and column in the file),
 // all problems are reported at once, and nothing runs until the whole spec is valid.
 import { strict as assert } from 'node:assert';
-import { isInputError } from '../../../src/errors';
+import { isInputError, isInstance } from '../../../src/errors';
 import { parseJsonWithLocations, locatePath } from '../../../src/spec/json-text';
 import { SpecError, loadSpecText, validateSpec } from '../../../src/spec/validate';
 
@@ -9,7 +9,7 @@ function problemsOf(text: string): { path: string; message: string; line?: numbe
   try {
     loadSpecText(text, 'bad.countercheck.json');
   } catch (e) {
-    if (e instanceof SpecError) return [...e.problems];
+    if (isInstance(e, SpecError)) return [...e.problems];
     throw e;
   }
   return [];

@@ -1,6 +1,6 @@
 // Named connections: settings, environment connection strings and the standard PG* variables.
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { clientConfig } from '../../../../src/data/sql/client';
 import { connectionEnvName, describeConnection, resolveConnection } from '../../../../src/data/sql/connection';
 
@@ -28,14 +28,14 @@ describe('SQL connections', () => {
   it('refuses a password written in settings', () => {
     assert.throws(
       () => resolveConnection('w', { w: { host: 'h', password: 'x' } as never }, {}),
-      (e: unknown) => e instanceof InputError && e.code === 'sql-password-in-settings' && /does not belong in settings/.test(e.message),
+      (e: unknown) => isInstance(e, InputError) && e.code === 'sql-password-in-settings' && /does not belong in settings/.test(e.message),
     );
   });
 
   it('names the known connections when one is missing', () => {
     assert.throws(
       () => resolveConnection('nope', { a: {}, b: {} }, {}),
-      (e: unknown) => e instanceof InputError && /no connection named "nope".*known: a, b.*COUNTERCHECK_CONNECTION_NOPE/.test(e.message),
+      (e: unknown) => isInstance(e, InputError) && /no connection named "nope".*known: a, b.*COUNTERCHECK_CONNECTION_NOPE/.test(e.message),
     );
   });
 
@@ -49,7 +49,7 @@ describe('SQL connections', () => {
 describe('SQL client configuration', () => {
   it('refuses an unreadable sslrootcert with the connection and the file named', () => {
     const c = resolveConnection('vault', { vault: { host: 'db.example', sslmode: 'verify-full', sslrootcert: '/nonexistent/ca.pem' } }, {});
-    assert.throws(() => clientConfig(c), (e: unknown) => e instanceof InputError && e.code === 'sql-connection-tls' && /connection "vault": cannot read sslrootcert \/nonexistent\/ca\.pem/.test(e.message));
+    assert.throws(() => clientConfig(c), (e: unknown) => isInstance(e, InputError) && e.code === 'sql-connection-tls' && /connection "vault": cannot read sslrootcert \/nonexistent\/ca\.pem/.test(e.message));
   });
 
   it('verifies the server certificate by default, and skips only the host name for verify-ca', () => {

@@ -1,7 +1,7 @@
 // Query generation for the SQL source: what is sent, what is refused before sending, and how the
 // aggregate rows the server returns become the reader's Aggregate. No server here (see test/pg/).
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import {
   canonicalAggregate,
   checkSelectQuery,
@@ -18,7 +18,7 @@ import { tokenizeSql } from '../../../../src/data/sql/lexer';
 
 function refuses(f: () => unknown, code: string, pattern: RegExp): void {
   assert.throws(f, (e: unknown) => {
-    assert.ok(e instanceof InputError, `expected InputError, got ${String(e)}`);
+    assert.ok(isInstance(e, InputError), `expected InputError, got ${String(e)}`);
     assert.equal(e.code, code, e.message);
     assert.match(e.message, pattern);
     return true;

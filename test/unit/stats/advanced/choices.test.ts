@@ -1,5 +1,5 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { postHocTest, type Comparison } from '../../../../src/stats/posthoc';
 import type { Alternative } from '../../../../src/stats/result';
 import { cochranArmitageTest, linearByLinearTest } from '../../../../src/stats/trend';
@@ -7,7 +7,7 @@ import { cochranArmitageTest, linearByLinearTest } from '../../../../src/stats/t
 /** Expects an InputError with exactly this message, at this JSON path. */
 function refuses(run: () => unknown, message: string, jsonPath: string): void {
   assert.throws(run, (e: unknown) => {
-    assert.ok(e instanceof InputError, String(e));
+    assert.ok(isInstance(e, InputError), String(e));
     assert.equal(e.message, message);
     assert.equal(e.location.jsonPath, jsonPath);
     return true;

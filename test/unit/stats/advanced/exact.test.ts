@@ -1,5 +1,5 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { fisherExactRxC } from '../../../../src/stats/exact';
 import { closeTo, fixture } from './check';
 
@@ -50,11 +50,11 @@ describe('Fisher exact test for r×c tables', () => {
   });
 
   it('refuses negative or fractional counts with the cell named', () => {
-    assert.throws(() => fisherExactRxC([[1, 2], [3, -1]]), (e: unknown) => e instanceof InputError && /row 2, column 2/.test(e.message));
-    assert.throws(() => fisherExactRxC([[1, 2.5], [3, 1]]), (e: unknown) => e instanceof InputError && /row 1, column 2/.test(e.message));
+    assert.throws(() => fisherExactRxC([[1, 2], [3, -1]]), (e: unknown) => isInstance(e, InputError) && /row 2, column 2/.test(e.message));
+    assert.throws(() => fisherExactRxC([[1, 2.5], [3, 1]]), (e: unknown) => isInstance(e, InputError) && /row 1, column 2/.test(e.message));
   });
 
   it('refuses a table with fewer than two non-empty rows', () => {
-    assert.throws(() => fisherExactRxC([[1, 2, 3], [0, 0, 0]]), (e: unknown) => e instanceof InputError && e.code === 'table-too-small');
+    assert.throws(() => fisherExactRxC([[1, 2, 3], [0, 0, 0]]), (e: unknown) => isInstance(e, InputError) && e.code === 'table-too-small');
   });
 });

@@ -1,5 +1,5 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { mcnemarTest } from '../../../../src/stats/paired';
 import { postHocTest } from '../../../../src/stats/posthoc';
 import { stratifiedTest } from '../../../../src/stats/stratified';
@@ -8,7 +8,7 @@ import { cochranArmitageTest } from '../../../../src/stats/trend';
 /** Expects an InputError with exactly this message, at this JSON path. */
 function refuses(run: () => unknown, message: string, jsonPath: string): void {
   assert.throws(run, (e: unknown) => {
-    assert.ok(e instanceof InputError, String(e));
+    assert.ok(isInstance(e, InputError), String(e));
     assert.equal(e.message, message);
     assert.equal(e.location.jsonPath, jsonPath);
     assert.equal(e.code, 'length-mismatch');

@@ -1,5 +1,5 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { bowkerTest, mcnemarTest, pairedTest } from '../../../../src/stats/paired';
 import { closeTo, fixture } from './check';
 
@@ -84,7 +84,7 @@ describe("McNemar's test", () => {
   });
 
   it('refuses a non-square table and names the shape', () => {
-    assert.throws(() => pairedTest([[1, 2, 3], [4, 5, 6]]), (e: unknown) => e instanceof InputError && /2×3/.test(e.message));
+    assert.throws(() => pairedTest([[1, 2, 3], [4, 5, 6]]), (e: unknown) => isInstance(e, InputError) && /2×3/.test(e.message));
   });
 });
 

@@ -1,5 +1,5 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { adjustPValues, postHocTest, type CellTest, type PairwiseComparison } from '../../../../src/stats/posthoc';
 import { closeTo, fixture } from './check';
 
@@ -52,6 +52,6 @@ describe('post-hoc comparisons on an r×c table', () => {
   });
 
   it('refuses an empty row with its label', () => {
-    assert.throws(() => postHocTest([[1, 2], [0, 0], [3, 4]], { rowLabels: ['a', 'b', 'c'] }), (e: unknown) => e instanceof InputError && /"b"/.test(e.message));
+    assert.throws(() => postHocTest([[1, 2], [0, 0], [3, 4]], { rowLabels: ['a', 'b', 'c'] }), (e: unknown) => isInstance(e, InputError) && /"b"/.test(e.message));
   });
 });

@@ -3,7 +3,7 @@
 import { strict as assert } from 'node:assert';
 import { join } from 'node:path';
 import { aggregateFile } from '../../../../src/data/file';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { runSpec } from '../../../../src/spec/run';
 import type { SpecReaders } from '../../../../src/spec/types';
 import { SpecError } from '../../../../src/spec/validate';
@@ -98,7 +98,7 @@ describe('specs for the advanced procedures', () => {
     const r = (await run({ test: 'distribution-fit', values: c.values, family: 'poisson' })) as TestResult;
     const bins = r.details!.bins as { expected: number }[];
     bins.forEach((b, k) => closeTo(b.expected, c.binExpected[k], 1e-10, `bin ${k}`, c.values));
-    await assert.rejects(run({ test: 'distribution-fit', values: c.values, family: 'binomial' }), (e: unknown) => e instanceof SpecError && /trials/.test(e.message));
+    await assert.rejects(run({ test: 'distribution-fit', values: c.values, family: 'binomial' }), (e: unknown) => isInstance(e, SpecError) && /trials/.test(e.message));
   });
 
   it('"post-hoc" compares pairs of rows with Holm adjustment (R chisq.test per pair, p.adjust)', async () => {
@@ -113,13 +113,13 @@ describe('specs for the advanced procedures', () => {
     const spec = { test: 'paired', source: { path: 'data/cafe-panel.csv', columns: ['before', 'after'] }, rowLabels: ['recommend', 'undecided'] };
     await assert.rejects(
       runSpec(spec, { readers: fileReaders, specPath: join(folder, 'x.countercheck.json'), allowedRoot: folder }),
-      (e: unknown) => e instanceof InputError && /`before`/.test(e.message) && /would not/.test(e.message),
+      (e: unknown) => isInstance(e, InputError) && /`before`/.test(e.message) && /would not/.test(e.message),
     );
   });
 
   it('rejects a non-square paired table and a power spec with both n and power, naming the field', async () => {
-    await assert.rejects(run({ test: 'paired', table: [[1, 2, 3], [4, 5, 6]] }), (e: unknown) => e instanceof SpecError && /square/.test(e.message));
-    await assert.rejects(run({ test: 'power', effectSize: 0.3, df: 2, n: 10, power: 0.8 }), (e: unknown) => e instanceof SpecError && /exactly one of "n"/.test(e.message));
-    await assert.rejects(run({ test: 'stratified', strata: [[[1, 2], [3, 4]]], method: 'exact', rowScores: [1] }), (e: unknown) => e instanceof SpecError && /rowScores/.test(e.message));
+    await assert.rejects(run({ test: 'paired', table: [[1, 2, 3], [4, 5, 6]] }), (e: unknown) => isInstance(e, SpecError) && /square/.test(e.message));
+    await assert.rejects(run({ test: 'power', effectSize: 0.3, df: 2, n: 10, power: 0.8 }), (e: unknown) => isInstance(e, SpecError) && /exactly one of "n"/.test(e.message));
+    await assert.rejects(run({ test: 'stratified', strata: [[[1, 2], [3, 4]]], method: 'exact', rowScores: [1] }), (e: unknown) => isInstance(e, SpecError) && /rowScores/.test(e.message));
   });
 });

@@ -1,5 +1,5 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { stratifiedTest } from '../../../../src/stats/stratified';
 import { closeTo, fixture } from './check';
 
@@ -111,12 +111,12 @@ describe('Cochran–Mantel–Haenszel test (2×2×K)', () => {
   it('names the stratum with a bad count', () => {
     assert.throws(
       () => stratifiedTest([[[1, 2], [3, 4]], [[1, -2], [3, 4]]], { stratumLabels: ['north', 'south'] }),
-      (e: unknown) => e instanceof InputError && /south/.test(e.message) && e.location.jsonPath === '$.strata[1][0][1]',
+      (e: unknown) => isInstance(e, InputError) && /south/.test(e.message) && e.location.jsonPath === '$.strata[1][0][1]',
     );
   });
 
   it('refuses strata of different shapes', () => {
-    assert.throws(() => stratifiedTest([[[1, 2], [3, 4]], [[1, 2, 3], [3, 4, 5]]]), (e: unknown) => e instanceof InputError && e.code === 'wrong-shape');
+    assert.throws(() => stratifiedTest([[[1, 2], [3, 4]], [[1, 2, 3], [3, 4, 5]]]), (e: unknown) => isInstance(e, InputError) && e.code === 'wrong-shape');
   });
 });
 

@@ -1,5 +1,5 @@
 import { strict as assert } from 'node:assert';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 import { cochranArmitageTest, linearByLinearTest } from '../../../../src/stats/trend';
 import { closeTo, fixture } from './check';
 
@@ -44,8 +44,8 @@ describe('Cochran–Armitage trend test', () => {
   });
 
   it('refuses a table that is not 2×k, and scores of the wrong length', () => {
-    assert.throws(() => cochranArmitageTest([[1, 2], [3, 4], [5, 6]]), (e: unknown) => e instanceof InputError && e.code === 'wrong-shape');
-    assert.throws(() => cochranArmitageTest([[1, 2, 3], [3, 4, 5]], { scores: [1, 2] }), (e: unknown) => e instanceof InputError && e.location.jsonPath === '$.scores');
+    assert.throws(() => cochranArmitageTest([[1, 2], [3, 4], [5, 6]]), (e: unknown) => isInstance(e, InputError) && e.code === 'wrong-shape');
+    assert.throws(() => cochranArmitageTest([[1, 2, 3], [3, 4, 5]], { scores: [1, 2] }), (e: unknown) => isInstance(e, InputError) && e.location.jsonPath === '$.scores');
   });
 });
 

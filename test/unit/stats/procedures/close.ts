@@ -2,7 +2,7 @@
 import { AssertionError, strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { InputError } from '../../../../src/errors';
+import { InputError, isInstance } from '../../../../src/errors';
 
 /** A fixture number: JSON has no Infinity or NaN, so the fixture scripts write them as strings. */
 export type FixtureNumber = number | 'Infinity' | '-Infinity' | 'NaN';
@@ -45,7 +45,7 @@ export function errorOf(fn: () => unknown): InputError {
   try {
     fn();
   } catch (e) {
-    assert.ok(e instanceof InputError, `expected an InputError, got ${String(e)}`);
+    assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
     return e;
   }
   assert.fail('expected an InputError, but nothing was thrown');
