@@ -12,7 +12,7 @@ import * as path from 'node:path';
 import { aggregateFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
-import { isInputError, isInstance } from './errors';
+import { errorMessage, isInputError, isInstance } from './errors';
 import { refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultText } from './report/text';
@@ -184,7 +184,7 @@ async function runLoaded(loaded: Loaded, io: CliIo, flags: Flags): Promise<SpecR
 
 function errorText(e: unknown, file: string): string {
   if (isInputError(e)) return describeRunError(e, file);
-  return isInstance(e, Error) ? e.message : String(e);
+  return errorMessage(e);
 }
 
 /** Writes a file by renaming a sibling temporary file over it, so a crash never leaves half a spec. */

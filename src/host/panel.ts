@@ -3,7 +3,7 @@
 import * as vscode from 'vscode';
 import { isWebviewToHost, type HostToWebview, type PanelAction, type PanelPayload, type PanelState } from '../protocol';
 import { panelHtml } from './panelHtml';
-import { isInstance } from '../errors';
+import { errorMessage } from '../errors';
 
 export const PANEL_VIEW_TYPE = 'countercheck.result';
 
@@ -55,7 +55,7 @@ export class ResultPanel {
     try {
       await this.actions.onAction(message.action, this);
     } catch (e) {
-      this.post({ type: 'status', text: isInstance(e, Error) ? e.message : String(e), level: 'error' });
+      this.post({ type: 'status', text: errorMessage(e), level: 'error' });
     }
   }
 

@@ -3,7 +3,7 @@
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { aggregateFile } from '../data/file';
-import { isInputError, type InputError, isInstance } from '../errors';
+import { errorMessage, isInputError, isInstance, type InputError } from '../errors';
 import type { PanelOrigin } from '../protocol';
 import { runSpec } from '../spec/run';
 import type { SpecReaders, SpecRun } from '../spec/types';
@@ -129,7 +129,7 @@ export class Services {
       this.output.info('cancelled by the user');
       return;
     }
-    const message = isInstance(e, Error) ? e.message : String(e);
+    const message = errorMessage(e);
     this.lastError = isInputError(e) ? { message, code: e.code, file: e.location.file, line: e.location.line } : { message };
     this.output.error(message);
     if (isInstance(e, Error) && e.stack && !isInputError(e)) this.output.debug(e.stack);

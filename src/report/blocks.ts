@@ -1,4 +1,4 @@
-import { isInstance } from '../errors';
+import { errorMessage } from '../errors';
 /**
  * Living report blocks in markdown. A fenced block whose info string is `countercheck` holds a spec
  * (inline JSON, or {"spec": "path/to/test.countercheck.json"}); its result is written right below it
@@ -166,7 +166,7 @@ export async function refreshReport(text: string, render: (block: ReportBlock) =
     try {
       updates.push({ block, markdown: await render(block) });
     } catch (e) {
-      const message = isInstance(e, Error) ? e.message : String(e);
+      const message = errorMessage(e);
       errors.set(block.index, message);
       updates.push({ block, markdown: errorMarkdown(message) });
     }

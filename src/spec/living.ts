@@ -4,7 +4,7 @@
  * `countercheck report` and the editor's CodeLens, with file access injected.
  */
 import * as path from 'node:path';
-import { InputError, isInputError, isInstance } from '../errors';
+import { errorMessage, InputError, isInputError, isInstance } from '../errors';
 import type { ReportBlock } from '../report/blocks';
 import type { FormatOptions } from '../report/format';
 import { resultMarkdown } from '../report/markdown';
@@ -40,7 +40,7 @@ export function describeRunError(e: unknown, file: string, located?: LocatedJson
     return `${where}: ${prefix}${e.message}`;
   }
   if (isInstance(e, Error) && e.name === 'AbortError') return `${file}: cancelled`;
-  return `${file}: ${isInstance(e, Error) ? e.message : String(e)}`;
+  return `${file}: ${errorMessage(e)}`;
 }
 
 /** For a column the data lacks, the place in the spec that names it ($.source.columns[i] or $.source.weight). */
@@ -78,7 +78,7 @@ export async function runReportBlock(block: ReportBlock, options: BlockRunOption
       text = await options.readText(specFile);
     } catch (e) {
       const at = locatePath(located, '$.spec');
-      throw new InputError(`${reportFile}:${at?.line}:${at?.column}: cannot read the spec ${shown}: ${isInstance(e, Error) ? e.message : String(e)}`, { file: reportFile, line: at?.line }, 'missing-spec');
+      throw new InputError(`${reportFile}:${at?.line}:${at?.column}: cannot read the spec ${shown}: ${errorMessage(e)}`, { file: reportFile, line: at?.line }, 'missing-spec');
     }
     const loaded = loadSpecText(text, shown);
     spec = loaded.spec;

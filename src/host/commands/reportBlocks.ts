@@ -4,7 +4,7 @@ import * as vscode from 'vscode';
 import { errorMarkdown, parseReportBlocks, refreshReport, rewriteReport, type ReportBlock } from '../../report/blocks';
 import { runReportBlock } from '../../spec/living';
 import { extensionReaders, settings, type Services } from '../services';
-import { isInstance } from '../../errors';
+import { errorMessage, isInstance } from '../../errors';
 
 async function renderBlock(services: Services, doc: vscode.TextDocument, block: ReportBlock, signal: AbortSignal): Promise<string> {
   const s = settings(doc.uri);
@@ -43,7 +43,7 @@ export async function refreshBlocks(services: Services, uri?: vscode.Uri, only?:
         try {
           markdown = await renderBlock(services, doc, block, abort.signal);
         } catch (e) {
-          error = isInstance(e, Error) ? e.message : String(e);
+          error = errorMessage(e);
           markdown = errorMarkdown(error);
         }
         const rewritten = rewriteReport(original, [{ block, markdown }]);

@@ -5,7 +5,7 @@ import { compareWithRecord, describeReview, type Review } from '../../spec/revie
 import { loadSpecText } from '../../spec/validate';
 import { runSpec } from '../../spec/run';
 import { extensionReaders, settings, type Services } from '../services';
-import { isInstance } from '../../errors';
+import { errorMessage, isInstance } from '../../errors';
 
 export const SPEC_GLOB = '**/*.countercheck.json';
 
@@ -61,13 +61,13 @@ export async function reviewSpec(services: Services, uri: vscode.Uri, signal?: A
   try {
     spec = loadSpecText(await readText(uri), vscode.workspace.asRelativePath(uri)).spec as Record<string, unknown>;
   } catch (e) {
-    return { status: 'cannot-run', reason: isInstance(e, Error) ? e.message : String(e), differences: [], tolerance: '' };
+    return { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' };
   }
   try {
     const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: settings(uri).allowPathsOutsideWorkspace, signal });
     return compareWithRecord(spec.recorded, run, toolName(services.context), new Date());
   } catch (e) {
-    return { status: 'cannot-run', reason: isInstance(e, Error) ? e.message : String(e), differences: [], tolerance: '' };
+    return { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' };
   }
 }
 
