@@ -12,6 +12,7 @@ import { chiSquareCore, chiSquareLine, columnSums, labelsOr, pearsonTable, requi
 import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from './normal';
 import { probabilityFromValue, twoSidedFromTails } from './probability';
+import { adjustedResidual } from './table';
 import type { Notice, Probability, StatisticLine, TestResult } from './result';
 
 export type Adjustment = 'bonferroni' | 'holm' | 'benjamini-hochberg';
@@ -95,7 +96,7 @@ export function cellTests(table: readonly (readonly number[])[], rowLabels: read
   const raw = table.flatMap((row, i) =>
     row.map((o, j) => {
       const e = (rows[i] * cols[j]) / n;
-      const z = (o - e) / Math.sqrt(e * (1 - rows[i] / n) * (1 - cols[j] / n));
+      const z = adjustedResidual(o, rows[i], cols[j], n);
       const p = twoSidedNormal(z).value;
       return { row: i, column: j, rowLabel: rowLabels[i], columnLabel: columnLabels[j], observed: o, expected: e, adjustedResidual: z, pValue: p };
     }),

@@ -117,9 +117,7 @@ export function independenceTest(table: readonly (readonly number[])[], options:
     observed: counts,
     expected,
     pearsonResiduals: differences.map((row, i) => row.map((diff, j) => diff / Math.sqrt(expected[i][j]))),
-    adjustedResiduals: differences.map((row, i) =>
-      row.map((diff, j) => diff / Math.sqrt(expected[i][j] * (1 - rowTotals[i] / total) * (1 - columnTotals[j] / total))),
-    ),
+    adjustedResiduals: counts.map((row, i) => row.map((o, j) => adjustedResidual(o, rowTotals[i], columnTotals[j], total))),
     contributions: counts.map((row, i) => row.map((_, j) => main.contributions[i * c + j])),
     rowTotals,
     columnTotals,
@@ -189,11 +187,20 @@ function independenceConclusion(significant: boolean, alpha: number, p: string, 
  * in BigInt beyond 2^53. Subtracting a rounded expected count of 1e9 would leave an error of 1e-7, which
  * matters when o and e agree to a few parts in a million.
  */
-function exactDifference(o: number, rowTotal: number, columnTotal: number, total: number): number {
+export function exactDifference(o: number, rowTotal: number, columnTotal: number, total: number): number {
   const a = o * total;
   const b = rowTotal * columnTotal;
   if (a <= Number.MAX_SAFE_INTEGER && b <= Number.MAX_SAFE_INTEGER) return (a - b) / total;
   return Number(BigInt(o) * BigInt(total) - BigInt(rowTotal) * BigInt(columnTotal)) / total;
+}
+
+/**
+ * Adjusted standardized residual (Haberman 1973) of one cell: (o − e) / √(e·(1 − R/N)·(1 − C/N)) with e = R·C/N
+ * and o − e taken exactly (exactDifference), so it stays accurate for counts near 1e9.
+ */
+export function adjustedResidual(o: number, rowTotal: number, columnTotal: number, total: number): number {
+  const expected = (rowTotal * columnTotal) / total;
+  return exactDifference(o, rowTotal, columnTotal, total) / Math.sqrt(expected * (1 - rowTotal / total) * (1 - columnTotal / total));
 }
 
 function prepare(table: readonly (readonly number[])[], options: IndependenceTestOptions): Prepared {
