@@ -18,6 +18,7 @@ import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, sum, testResult } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { logBinomialPmf } from './discrete';
+import { powerDivergence } from './divergence';
 import { logFactorial, regularizedGammaLower } from './gamma';
 import { normalLowerTail, normalQuantile, normalUpperTail } from './normal';
 import type { CategoryRow, Notice, TestResult } from './result';
@@ -193,7 +194,9 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     notices.push({ code: 'bins-pooled', severity: 'info', message: `Adjacent bins were pooled until every expected count reached ${minimum} (common practice): ${pooled.map((g) => `${g.bins.join(' + ')} → ${g.label}`).join('; ')}.` });
   }
   notices.push({ code: 'estimated-parameters', severity: 'info', message: `df = ${groups.length} bins − 1 − ${m} estimated parameter${m > 1 ? 's' : ''} = ${df}. The parameters were estimated from the ungrouped values, so the true p-value lies between this one and the one with ${groups.length - 1} df (Chernoff & Lehmann 1954).` });
-  const categories: CategoryRow[] = groups.map((g) => {
+  // Pearson X² is the power divergence with λ = 1 (Cressie & Read 1984); one implementation serves fit, table and here.
+  const pearson = powerDivergence(groups.map((g) => g.observed), groups.map((g) => g.expected), 1);
+  const categories: CategoryRow[] = groups.map((g, k) => {
     const share = g.expected / n;
     return {
       label: g.label,
@@ -201,10 +204,10 @@ export function distributionFitTest(values: readonly number[], options: Distribu
       expected: g.expected,
       pearsonResidual: (g.observed - g.expected) / Math.sqrt(g.expected),
       standardizedResidual: (g.observed - g.expected) / Math.sqrt(g.expected * (1 - share)),
-      contribution: ((g.observed - g.expected) * (g.observed - g.expected)) / g.expected,
+      contribution: pearson.contributions[k],
     };
   });
-  const line = chiSquareLine('pearson', 'Pearson chi-square', 'X²', sum(categories.map((c) => c.contribution)), df);
+  const line = chiSquareLine('pearson', 'Pearson chi-square', 'X²', pearson.statistic, df);
   const significant = line.pValue.value < alpha;
   const name = FAMILY_NAMES[family];
   return testResult(
