@@ -3,16 +3,27 @@
  * conditional CMH, exact multinomial goodness of fit). Tails are sums of point probabilities,
  * summed relative to their largest term so that tails far below the double range keep a log10.
  */
-import { logChoose } from './gamma';
+import { deviance, logChoose, stirlingError } from './gamma';
 import { probabilityFromLog } from './probability';
 import type { Probability } from './result';
 
-/** Natural log of P(X = k) for X ~ Binomial(n, p). -Infinity outside the support. */
-export function logBinomialPmf(k: number, n: number, p: number): number {
+const LN_2PI = Math.log(2 * Math.PI);
+
+/**
+ * Natural log of P(X = k) for X ~ Binomial(n, p); -Infinity outside the support. `q` = 1 − p may be passed when
+ * the caller knows it more precisely than 1 − p rounds (e.g. (N − C)/N).
+ * Loader's (2000) saddle-point form: Stirling errors and the deviance terms bd0(k, np) and bd0(n − k, nq), which
+ * keep full relative precision for n up to 1e9 and beyond, where ln C(n, k) + k ln p + (n − k) ln q cancels
+ * terms of size n ln n (about ulp(ln n!) of error: 1e-12 at n = 2500, 1e-6 at n = 1e9).
+ */
+export function logBinomialPmf(k: number, n: number, p: number, q = 1 - p): number {
   if (!Number.isInteger(k) || k < 0 || k > n) return -Infinity;
   if (p === 0) return k === 0 ? 0 : -Infinity;
-  if (p === 1) return k === n ? 0 : -Infinity;
-  return logChoose(n, k) + k * Math.log(p) + (n - k) * Math.log1p(-p);
+  if (q === 0) return k === n ? 0 : -Infinity;
+  if (k === 0) return n === 0 ? 0 : p < 0.1 ? -deviance(n, n * q) - n * p : n * Math.log(q);
+  if (k === n) return q < 0.1 ? -deviance(n, n * p) - n * q : n * Math.log(p);
+  const lc = stirlingError(n) - stirlingError(k) - stirlingError(n - k) - deviance(k, n * p) - deviance(n - k, n * q);
+  return lc - 0.5 * (LN_2PI + Math.log(k) + Math.log1p(-k / n));
 }
 
 /**

@@ -4,13 +4,12 @@
  * observed (with a relative tolerance of 1e-7 for ties), as in Fisher's and most later treatments; one-sided
  * p-values are the tails P(X ≥ a) ("greater": odds ratio > 1) and P(X ≤ a) ("less").
  *
- * Hypergeometric probabilities use Loader's (2000) saddle-point form (Stirling-series errors and the deviance
- * term bd0), which keeps full relative precision for counts up to 1e9 and beyond, where a difference of
+ * Hypergeometric probabilities are ratios of binomial ones (logBinomialPmf in discrete.ts: Loader's (2000)
+ * saddle-point form with Stirling-series errors and the deviance term bd0), which keeps full relative precision for counts up to 1e9 and beyond, where a difference of
  * log-binomial coefficients of size 1e10 would lose five digits. Tails are summed outwards from their start
  * until the terms no longer matter, so a table with margins of 1e9 costs about 10·sqrt(N) terms at most.
  */
-import { divergenceTerm } from './divergence';
-import { logFactorial } from './gamma';
+import { logBinomialPmf } from './discrete';
 import { probabilityFromLog, probabilityFromValue } from './probability';
 import type { Probability } from './result';
 
@@ -23,39 +22,6 @@ export interface FisherExact2x2 {
   readonly less: Probability;
   /** Conditional maximum-likelihood estimate of the odds ratio (0 or Infinity at the edge of the support). */
   readonly conditionalOddsRatio: number;
-}
-
-const LN_2PI = Math.log(2 * Math.PI);
-
-/** Stirling-series error ln(n!) − [(n + ½) ln n − n + ½ ln 2π], n ≥ 1 (Loader 2000, sec. 3). */
-function stirlingError(n: number): number {
-  if (n <= 15) return logFactorial(n) - (n + 0.5) * Math.log(n) + n - 0.5 * LN_2PI;
-  const n2 = n * n;
-  const s0 = 1 / 12;
-  const s1 = 1 / 360;
-  const s2 = 1 / 1260;
-  const s3 = 1 / 1680;
-  const s4 = 1 / 1188;
-  if (n > 500) return (s0 - s1 / n2) / n;
-  if (n > 80) return (s0 - (s1 - s2 / n2) / n2) / n;
-  if (n > 35) return (s0 - (s1 - (s2 - s3 / n2) / n2) / n2) / n;
-  return (s0 - (s1 - (s2 - (s3 - s4 / n2) / n2) / n2) / n2) / n;
-}
-
-/** Loader's deviance term bd0(x, m) = x ln(x/m) + m − x, accurate when x is close to m. */
-function deviance(x: number, m: number): number {
-  return divergenceTerm(x, m, 0) / 2;
-}
-
-/** ln of the binomial probability of x successes in n trials, with p and q = 1 − p given separately. */
-function logBinomialProbability(x: number, n: number, p: number, q: number): number {
-  if (x < 0 || x > n) return -Infinity;
-  if (p === 0) return x === 0 ? 0 : -Infinity;
-  if (q === 0) return x === n ? 0 : -Infinity;
-  if (x === 0) return n === 0 ? 0 : p < 0.1 ? -deviance(n, n * q) - n * p : n * Math.log(q);
-  if (x === n) return q < 0.1 ? -deviance(n, n * p) - n * q : n * Math.log(p);
-  const lc = stirlingError(n) - stirlingError(x) - stirlingError(n - x) - deviance(x, n * p) - deviance(n - x, n * q);
-  return lc - 0.5 * (LN_2PI + Math.log(x) + Math.log1p(-x / n));
 }
 
 /** The hypergeometric distribution of a given the margins of [[a, b], [c, d]]. */
@@ -78,15 +44,15 @@ class Hypergeometric {
     this.mode = Math.min(this.hi, Math.max(this.lo, Math.floor(((column1 + 1) * (row1 + 1)) / (total + 2))));
     this.p = column1 / total;
     this.q = (total - column1) / total;
-    this.logDenominator = logBinomialProbability(column1, total, this.p, this.q);
+    this.logDenominator = logBinomialPmf(column1, total, this.p, this.q);
   }
 
   /** ln P(X = x) (Loader 2000: the ratio of three binomial probabilities with p = column1 / N). */
   logProbability(x: number): number {
     if (x < this.lo || x > this.hi) return -Infinity;
     return (
-      logBinomialProbability(x, this.row1, this.p, this.q) +
-      logBinomialProbability(this.column1 - x, this.row2, this.p, this.q) -
+      logBinomialPmf(x, this.row1, this.p, this.q) +
+      logBinomialPmf(this.column1 - x, this.row2, this.p, this.q) -
       this.logDenominator
     );
   }
