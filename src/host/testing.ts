@@ -41,21 +41,32 @@ export function registerTesting(services: Services): SavedTests {
     controller.items.forEach((folder) => folder.children.forEach((item) => { if (!keep.has(item.id)) folder.children.delete(item.id); }));
     for (const uri of found) add(uri);
   };
-  // Listed right away so the Testing view and the spec files' gutter show them; not awaited by activation.
-  void discover();
-  controller.resolveHandler = async (item) => { if (!item) await discover(); };
-  controller.refreshHandler = async () => { controller.items.replace([]); await discover(); };
-
-  const watcher = vscode.workspace.createFileSystemWatcher(SPEC_GLOB);
-  watcher.onDidCreate(add);
-  watcher.onDidDelete(remove);
+  // Nothing is searched at activation (markdown documents activate the extension too): the workbench asks for
+  // the root items through resolveHandler(undefined) when the Testing view first needs them, and from then on a
+  // file watcher keeps the list current. A spec opened in an editor is listed at once for its gutter.
+  let watcher: vscode.FileSystemWatcher | undefined;
+  let resolved: Promise<void> | undefined;
+  const watch = () => {
+    if (watcher) return;
+    watcher = vscode.workspace.createFileSystemWatcher(SPEC_GLOB);
+    watcher.onDidCreate(add);
+    watcher.onDidDelete(remove);
+    services.context.subscriptions.push(watcher);
+  };
+  const resolveAll = () => (resolved ??= (async () => { watch(); await discover(); })().catch((e: unknown) => { resolved = undefined; throw e; }));
+  controller.resolveHandler = async (item) => { if (!item) await resolveAll(); };
+  controller.refreshHandler = async () => { watch(); controller.items.replace([]); await discover(); };
+  const isSpec = (doc: vscode.TextDocument) => doc.uri.scheme === 'file' && doc.uri.path.endsWith('.countercheck.json');
+  const listOpened = (doc: vscode.TextDocument) => { if (isSpec(doc)) add(doc.uri); };
+  vscode.workspace.textDocuments.forEach(listOpened);
+  services.context.subscriptions.push(vscode.workspace.onDidOpenTextDocument(listOpened));
 
   const leaves = (items: readonly vscode.TestItem[]): vscode.TestItem[] =>
     items.flatMap((i) => (i.uri ? [i] : (() => { const kids: vscode.TestItem[] = []; i.children.forEach((c) => kids.push(c)); return leaves(kids); })()));
 
   const profile = controller.createRunProfile(vscode.l10n.t('Re-run and compare'), vscode.TestRunProfileKind.Run, async (request, token) => {
     // Run-all re-discovers, so specs created or deleted since the last look are included.
-    if (!request.include) await discover();
+    if (!request.include) { watch(); await discover(); }
     const all: vscode.TestItem[] = [];
     controller.items.forEach((i) => all.push(i));
     const queue = leaves(request.include ? [...request.include] : all).filter((i) => !request.exclude?.includes(i));
@@ -82,6 +93,6 @@ export function registerTesting(services: Services): SavedTests {
     run.end();
   }, true);
 
-  services.context.subscriptions.push(controller, watcher);
+  services.context.subscriptions.push(controller);
   return { controller, profile, outcomes };
 }

@@ -24,6 +24,11 @@ describe('activation', () => {
     assert.deepEqual(pkg.contributes.jsonValidation, [{ fileMatch: '*.countercheck.json', url: './schemas/countercheck.schema.json' }]);
   });
 
+  it('activates on markdown documents, so report blocks get their lenses in a folder without saved tests', () => {
+    const pkg = vscode.extensions.getExtension('countercheck.countercheck')!.packageJSON as { activationEvents: string[] };
+    assert.ok(pkg.activationEvents.includes('onLanguage:markdown'), JSON.stringify(pkg.activationEvents));
+  });
+
   it('contributes every command with the Countercheck category', () => {
     const pkg = vscode.extensions.getExtension('countercheck.countercheck')!.packageJSON as { contributes: { commands: { category: string; title: string }[] } };
     for (const c of pkg.contributes.commands) assert.equal(c.category, 'Countercheck', c.title);

@@ -44,6 +44,16 @@ describe('saved tests and living reports', () => {
     await vscode.workspace.fs.writeFile(dataUri('oven-defects.csv'), new TextEncoder().encode('oven,cracked,burnt,misshapen\nOven A,12,5,9\nOven B,7,14,6\nOven C,9,8,21\n'));
   });
 
+  it('lists the saved tests when the Testing view first asks for its root items', async () => {
+    const a = await api();
+    const [spec] = await vscode.workspace.findFiles('*.countercheck.json', undefined, 1);
+    assert.ok(spec, 'a spec at the top of the demo workspace');
+    await a.savedTests.controller.resolveHandler?.(undefined);
+    const ids: string[] = [];
+    a.savedTests.controller.items.forEach((folder) => folder.children.forEach((item) => ids.push(item.id)));
+    assert.ok(ids.includes(spec.toString()), `${spec.toString()} not among ${JSON.stringify(ids)}`);
+  });
+
   it('every saved test of the demo workspace reproduces', async () => {
     const a = await api();
     const specs = (await vscode.workspace.findFiles('**/*.countercheck.json', '{**/node_modules/**,integration-data/**}')).filter((u) => !u.fsPath.includes('integration-data'));
