@@ -28,6 +28,8 @@ export interface DensityPlot {
   /** Critical value(s) at α, for a dashed marker. */
   readonly critical: readonly number[];
   readonly ticks: readonly number[];
+  /** The text under each tick, formatted by the host (same length as `ticks`). */
+  readonly tickLabels: readonly string[];
 }
 
 /** Observed against expected counts per category (goodness of fit). */
@@ -36,7 +38,9 @@ export interface BarsPlot {
   readonly title: string;
   readonly yMax: number;
   readonly ticks: readonly number[];
-  readonly bars: readonly { readonly label: string; readonly observed: number; readonly expected: number; readonly residual: number }[];
+  readonly tickLabels: readonly string[];
+  /** Counts in data units for drawing, and as the host formats them for the description. */
+  readonly bars: readonly { readonly label: string; readonly observed: number; readonly expected: number; readonly residual: number; readonly observedText: string; readonly expectedText: string }[];
 }
 
 /** Shading level of one cell: the sign of the adjusted residual and a magnitude band 0–3. */
@@ -56,6 +60,8 @@ export interface ResidualGridPlot {
   readonly columnLabels: readonly string[];
   readonly residuals: readonly (readonly number[])[];
   readonly shades: readonly (readonly ResidualShade[])[];
+  /** The text of each cell: sign and |r| with the decimals setting ("+2.31", "−0.40"), "–" when undefined. */
+  readonly labels: readonly (readonly string[])[];
 }
 
 /** Confidence interval for σ (or σ²) against the hypothesised value. */
@@ -74,6 +80,9 @@ export interface IntervalPlot {
   readonly referenceInside: boolean;
   readonly level: number;
   readonly ticks: readonly number[];
+  readonly tickLabels: readonly string[];
+  /** Host-formatted ends, estimate and the reference marker's label ("σ0 = 1.5"). */
+  readonly texts: { readonly lower: string; readonly upper: string; readonly estimate: string; readonly reference: string };
 }
 
 export type Plot = DensityPlot | BarsPlot | ResidualGridPlot | IntervalPlot;

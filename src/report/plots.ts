@@ -7,7 +7,7 @@ import type { BarsPlot, DensityPlot, IntervalPlot, Plot, PlotPoint, ResidualGrid
 import { chiSquareDensity, chiSquareQuantile, chiSquareUpperQuantile } from '../stats/chisquare';
 import { normalDensity, normalQuantile, normalUpperQuantile } from '../stats/normal';
 import type { Alternative, CategoryRow, CellGrid, TestResult } from '../stats/result';
-import { formatNumber } from './format';
+import { formatCount, formatEstimate, formatNumber } from './format';
 
 /** Two-sided 5 %, 1 % and 0.1 % points of the standard normal (|z| bands for residual shading). */
 export const RESIDUAL_BANDS: readonly number[] = [normalUpperQuantile(0.025), normalUpperQuantile(0.005), normalUpperQuantile(0.0005)];
@@ -21,6 +21,25 @@ export function niceTicks(min: number, max: number, count = 5): number[] {
   const ticks: number[] = [];
   for (let t = Math.ceil(min / step) * step; t <= max + step * 1e-9; t += step) ticks.push(Number(t.toPrecision(12)));
   return ticks;
+}
+
+/**
+ * Labels for ticks from niceTicks: each with the decimals its step needs (steps of 0.05 show "0.05", "0.10";
+ * steps of 5 show "5", "10"), so neighbouring labels differ and none carries digits the step does not have.
+ * A tick within rounding of zero is written as 0.
+ */
+export function tickLabels(ticks: readonly number[]): string[] {
+  const step = ticks.length > 1 ? Math.abs(ticks[1] - ticks[0]) : 0;
+  const decimals = step > 0 ? Math.min(12, Math.max(0, -Math.floor(Math.log10(step) + 1e-9))) : 0;
+  return ticks.map((t) => formatNumber(step > 0 && Math.abs(t) < step * 1e-6 ? 0 : t, decimals));
+}
+
+/** The text in a residual-grid cell: "+" or "−" and |r| with the decimals setting; "–" when r is not a number. */
+export function residualLabel(residual: number, decimals = 2): string {
+  if (!Number.isFinite(residual)) return '–';
+  const shade = residualShade(residual);
+  const mark = shade.sign === 'above' ? '+' : shade.sign === 'below' ? '−' : '';
+  return `${mark}${formatNumber(Math.abs(residual), decimals)}`;
 }
 
 /** Upper end of a count axis: the next "nice" value at or above the largest value. */
@@ -139,7 +158,7 @@ export function densityPlot(result: TestResult, samples = 161, decimals = 2): De
     shaded,
     observed: { x: Math.min(xMax, Math.max(xMin, statistic)), label: `${result.statisticSymbol} = ${formatNumber(statistic, decimals)}`, clipped },
     critical: criticalValues(ref, alternative, result.alpha).filter((c) => c >= xMin && c <= xMax),
-    ticks: niceTicks(xMin, xMax, 6),
+    ...withTickLabels(niceTicks(xMin, xMax, 6)),
   };
 }
 
@@ -154,8 +173,12 @@ function tailPolygon(ref: Reference, a: number, b: number, yMax: number): PlotPo
   return points;
 }
 
+function withTickLabels(ticks: number[]): { ticks: number[]; tickLabels: string[] } {
+  return { ticks, tickLabels: tickLabels(ticks) };
+}
+
 /** Observed and expected counts side by side, one pair per category. */
-export function barsPlot(categories: readonly CategoryRow[]): BarsPlot {
+export function barsPlot(categories: readonly CategoryRow[], decimals = 2): BarsPlot {
   const largest = Math.max(0, ...categories.flatMap((c) => [c.observed, c.expected]));
   const first = niceTicks(0, niceCeiling(largest), 4);
   const step = first.length > 1 ? first[1] - first[0] : 1;
@@ -166,12 +189,15 @@ export function barsPlot(categories: readonly CategoryRow[]): BarsPlot {
     kind: 'bars',
     title: 'Observed and expected counts',
     yMax,
-    ticks,
-    bars: categories.map((c) => ({ label: c.label, observed: c.observed, expected: c.expected, residual: c.standardizedResidual })),
+    ...withTickLabels(ticks),
+    bars: categories.map((c) => ({
+      label: c.label, observed: c.observed, expected: c.expected, residual: c.standardizedResidual,
+      observedText: formatCount(c.observed, decimals), expectedText: formatNumber(c.expected, decimals),
+    })),
   };
 }
 
-export function residualGridPlot(grid: CellGrid): ResidualGridPlot {
+export function residualGridPlot(grid: CellGrid, decimals = 2): ResidualGridPlot {
   return {
     kind: 'residual-grid',
     title: 'Adjusted residuals',
@@ -179,6 +205,7 @@ export function residualGridPlot(grid: CellGrid): ResidualGridPlot {
     columnLabels: grid.columnLabels,
     residuals: grid.adjustedResiduals,
     shades: grid.adjustedResiduals.map((row) => row.map(residualShade)),
+    labels: grid.adjustedResiduals.map((row) => row.map((r) => residualLabel(r, decimals))),
   };
 }
 
@@ -186,7 +213,7 @@ export function residualGridPlot(grid: CellGrid): ResidualGridPlot {
  * The confidence interval for σ against σ0 (the scale people read; σ² in the result is converted by square root).
  * A one-sided bound keeps its open side at the axis edge.
  */
-export function intervalPlot(result: TestResult): IntervalPlot | null {
+export function intervalPlot(result: TestResult, decimals = 2): IntervalPlot | null {
   const ci = result.confidenceInterval;
   const variance0 = Number(result.details?.variance0);
   const sampleVariance = Number(result.details?.sampleVariance);
@@ -195,6 +222,7 @@ export function intervalPlot(result: TestResult): IntervalPlot | null {
   const lower = onSd ? Math.sqrt(ci.lower) : ci.lower;
   const upper = onSd ? Math.sqrt(ci.upper) : ci.upper;
   const reference = Math.sqrt(variance0);
+  const estimateText = (x: number) => formatEstimate(x, { decimals });
   const estimate = Math.sqrt(sampleVariance);
   const finite = [lower, upper, reference, estimate].filter(Number.isFinite);
   const lo = Math.min(...finite);
@@ -214,7 +242,9 @@ export function intervalPlot(result: TestResult): IntervalPlot | null {
     reference,
     referenceInside: reference >= lower && reference <= upper,
     level: ci.level,
-    ticks: niceTicks(xMin, xMax, 5),
+    ...withTickLabels(niceTicks(xMin, xMax, 5)),
+    // The ends as computed (an open side reads ∞), with the estimate rules the result table uses.
+    texts: { lower: estimateText(lower), upper: estimateText(upper), estimate: estimateText(estimate), reference: `σ0 = ${estimateText(reference)}` },
   };
 }
 
@@ -223,9 +253,9 @@ export function plotsFor(result: TestResult, decimals = 2): Plot[] {
   const plots: Plot[] = [];
   const density = densityPlot(result, 161, decimals);
   if (density) plots.push(density);
-  if (result.categories && result.categories.length > 0) plots.push(barsPlot(result.categories));
-  if (result.grid) plots.push(residualGridPlot(result.grid));
-  const interval = intervalPlot(result);
+  if (result.categories && result.categories.length > 0) plots.push(barsPlot(result.categories, decimals));
+  if (result.grid) plots.push(residualGridPlot(result.grid, decimals));
+  const interval = intervalPlot(result, decimals);
   if (interval) plots.push(interval);
   return plots;
 }

@@ -31,13 +31,6 @@ function icon(name: string): HTMLElement {
   return el('span', { class: `codicon codicon-${name}`, 'aria-hidden': 'true' });
 }
 
-function fmt(x: number): string {
-  if (!Number.isFinite(x)) return String(x);
-  const a = Math.abs(x);
-  if (a !== 0 && (a >= 1e6 || a < 1e-3)) return x.toExponential(2);
-  return Number(x.toPrecision(4)).toString();
-}
-
 let s: (key: string, fallback: string) => string = (_k, f) => f;
 
 function render(payload: PanelPayload): void {
@@ -140,7 +133,8 @@ function renderAssumptions(payload: PanelPayload): HTMLElement {
   return section;
 }
 
-// ---- plots: geometry comes from src/report/plots.ts; here it is only mapped to pixels.
+// ---- plots: geometry and every label come from src/report/plots.ts; here numbers are only mapped to pixels.
+// A panel saved by an older version has no label strings: its plots are drawn without them (`?.`).
 
 const W = 520;
 const H = 200;
@@ -165,12 +159,12 @@ function frame(width = W, height = H): SVGElement {
   return svg('svg', { viewBox: `0 0 ${width} ${height}`, width: '100%', preserveAspectRatio: 'xMidYMid meet' });
 }
 
-function xAxis(g: SVGElement, ticks: readonly number[], sx: (x: number) => number, y: number, label?: string): void {
+function xAxis(g: SVGElement, plot: { readonly ticks: readonly number[]; readonly tickLabels: readonly string[] }, sx: (x: number) => number, y: number, label?: string): void {
   g.append(svg('line', { x1: M.l, x2: W - M.r, y1: y, y2: y, class: 'axis' }));
-  for (const t of ticks) {
+  plot.ticks.forEach((t, i) => {
     g.append(svg('line', { x1: sx(t), x2: sx(t), y1: y, y2: y + 4, class: 'axis' }));
-    g.append(svg('text', { x: sx(t), y: y + 15, class: 'tick', 'text-anchor': 'middle' }, fmt(t)));
-  }
+    g.append(svg('text', { x: sx(t), y: y + 15, class: 'tick', 'text-anchor': 'middle' }, plot.tickLabels?.[i] ?? ''));
+  });
   if (label) g.append(svg('text', { x: W - M.r, y: y + 28, class: 'tick', 'text-anchor': 'end' }, label));
 }
 
@@ -181,7 +175,7 @@ function densityFigure(plot: DensityPlot): HTMLElement {
   for (const poly of plot.shaded) root.append(svg('polygon', { points: poly.map((p) => `${sx(p.x)},${sy(p.y)}`).join(' '), class: 'tail' }));
   root.append(svg('polyline', { points: plot.curve.map((p) => `${sx(p.x)},${sy(p.y)}`).join(' '), class: 'curve' }));
   for (const c of plot.critical) root.append(svg('line', { x1: sx(c), x2: sx(c), y1: M.t, y2: H - M.b, class: 'critical' }));
-  xAxis(root, plot.ticks, sx, H - M.b, plot.xLabel);
+  xAxis(root, plot, sx, H - M.b, plot.xLabel);
   const ox = sx(plot.observed.x);
   root.append(svg('line', { x1: ox, x2: ox, y1: M.t - 4, y2: H - M.b, class: 'observed' }));
   // The label sits above the plot area, so it never crosses the curve.
@@ -198,10 +192,10 @@ function barsFigure(plot: BarsPlot): HTMLElement {
   const n = plot.bars.length;
   const band = (W - M.l - M.r) / Math.max(1, n);
   const sy = (y: number) => H - M.b - (y / plot.yMax) * (H - M.t - M.b);
-  for (const t of plot.ticks) {
+  plot.ticks.forEach((t, i) => {
     root.append(svg('line', { x1: M.l, x2: W - M.r, y1: sy(t), y2: sy(t), class: 'grid' }));
-    root.append(svg('text', { x: M.l - 6, y: sy(t) + 4, class: 'tick', 'text-anchor': 'end' }, fmt(t)));
-  }
+    root.append(svg('text', { x: M.l - 6, y: sy(t) + 4, class: 'tick', 'text-anchor': 'end' }, plot.tickLabels?.[i] ?? ''));
+  });
   plot.bars.forEach((b, i) => {
     const x0 = M.l + i * band + band * 0.15;
     const w = band * 0.34;
@@ -214,7 +208,7 @@ function barsFigure(plot: BarsPlot): HTMLElement {
   legend.append(svg('rect', { x: W - 190, y: 4, width: 10, height: 10, class: 'bar-observed' }), svg('text', { x: W - 176, y: 13, class: 'tick' }, s('observed', 'observed')));
   legend.append(svg('rect', { x: W - 100, y: 4, width: 10, height: 10, class: 'bar-expected' }), svg('text', { x: W - 86, y: 13, class: 'tick' }, s('expected', 'expected')));
   root.append(legend);
-  return figure(plot, root, `${plot.title}: ${plot.bars.map((b) => `${b.label} ${fmt(b.observed)} / ${fmt(b.expected)}`).join(', ')}`);
+  return figure(plot, root, `${plot.title}: ${plot.bars.map((b) => `${b.label} ${b.observedText ?? ''} / ${b.expectedText ?? ''}`).join(', ')}`);
 }
 
 function gridFigure(plot: ResidualGridPlot): HTMLElement {
@@ -228,13 +222,11 @@ function gridFigure(plot: ResidualGridPlot): HTMLElement {
   plot.rowLabels.forEach((r, i) => {
     const y = 26 + i * 30;
     root.append(svg('text', { x: 112, y: y + 19, class: 'tick', 'text-anchor': 'end' }, r.length > 16 ? `${r.slice(0, 15)}…` : r));
-    plot.residuals[i].forEach((value, j) => {
-      const shade = plot.shades[i][j];
+    plot.shades[i].forEach((shade, j) => {
       const rect = svg('rect', { x: 120 + j * cell + 1, y: y + 1, width: cell - 2, height: 28, class: `cell tint-${shade.sign}` });
       (rect as SVGElement & ElementCSSInlineStyle).style.setProperty('--tint', `${Math.round(shade.strength * 100)}%`);
       root.append(rect);
-      const mark = shade.sign === 'above' ? '+' : shade.sign === 'below' ? '−' : '';
-      root.append(svg('text', { x: 120 + j * cell + cell / 2, y: y + 19, class: `cell-label band-${shade.level}`, 'text-anchor': 'middle' }, `${mark}${Number.isFinite(value) ? Math.abs(value).toFixed(2) : '–'}`));
+      root.append(svg('text', { x: 120 + j * cell + cell / 2, y: y + 19, class: `cell-label band-${shade.level}`, 'text-anchor': 'middle' }, plot.labels?.[i]?.[j] ?? ''));
     });
   });
   return figure(plot, root, `${plot.title}, ${rows} × ${cols}`);
@@ -249,10 +241,10 @@ function intervalFigure(plot: IntervalPlot): HTMLElement {
   for (const end of [plot.lower, plot.upper]) root.append(svg('line', { x1: sx(end), x2: sx(end), y1: y - 8, y2: y + 8, class: 'interval' }));
   root.append(svg('circle', { cx: sx(plot.estimate), cy: y, r: 5, class: 'estimate' }));
   root.append(svg('line', { x1: sx(plot.reference), x2: sx(plot.reference), y1: 10, y2: y + 18, class: 'reference' }));
-  root.append(svg('text', { x: sx(plot.reference) + 5, y: 16, class: 'marker-label' }, `σ0 = ${fmt(plot.reference)}`));
-  xAxis(root, plot.ticks, sx, height - 34, plot.parameter);
+  root.append(svg('text', { x: sx(plot.reference) + 5, y: 16, class: 'marker-label' }, plot.texts?.reference ?? ''));
+  xAxis(root, plot, sx, height - 34, plot.parameter);
   const where = plot.referenceInside ? s('insideInterval', 'inside the interval') : s('outsideInterval', 'outside the interval');
-  return figure(plot, root, `${plot.title}: ${fmt(plot.lower)} to ${fmt(plot.upper)}; s = ${fmt(plot.estimate)}; σ0 = ${fmt(plot.reference)} ${where}`);
+  return figure(plot, root, plot.texts ? `${plot.title}: ${plot.texts.lower} to ${plot.texts.upper}; s = ${plot.texts.estimate}; ${plot.texts.reference} ${where}` : plot.title);
 }
 
 // ---- messages

@@ -1,5 +1,7 @@
 import { strict as assert } from 'node:assert';
-import { barsPlot, densityPlot, intervalPlot, niceTicks, plotsFor, residualGridPlot, residualShade, RESIDUAL_BANDS } from '../../../src/report/plots';
+import { readFileSync } from 'node:fs';
+import * as path from 'node:path';
+import { barsPlot, densityPlot, intervalPlot, niceTicks, plotsFor, residualGridPlot, residualLabel, residualShade, RESIDUAL_BANDS, tickLabels } from '../../../src/report/plots';
 import type { TestResult } from '../../../src/stats/result';
 
 function close(got: number, expected: number, tol: number, what: string): void {
@@ -155,5 +157,80 @@ describe('plot geometry', () => {
   it('lists the plots that fit a result', () => {
     const kinds = plotsFor(result({})).map((p) => p.kind);
     assert.deepEqual(kinds, ['density']);
+  });
+
+  describe('labels (the webview prints these strings and formats nothing)', () => {
+    it('writes each tick with the decimals its step needs', () => {
+      assert.deepEqual(tickLabels([0, 5, 10, 15]), ['0', '5', '10', '15']);
+      assert.deepEqual(tickLabels([0.2, 0.4, 0.6]), ['0.2', '0.4', '0.6']);
+      assert.deepEqual(tickLabels([0.05, 0.1, 0.15]), ['0.05', '0.10', '0.15']);
+      assert.deepEqual(tickLabels([0, 2000, 4000]), ['0', '2,000', '4,000']);
+      assert.deepEqual(tickLabels([-4, -2, 0, 2, 4]), ['-4', '-2', '0', '2', '4']);
+      // A tick reached by adding 0.2 three times to −0.6 is 5.6e-17, not 0: it is still labelled 0.
+      assert.deepEqual(tickLabels([-0.6 + 0.2 + 0.2, -0.6 + 0.2 + 0.2 + 0.2, 0.2]), ['-0.2', '0.0', '0.2']);
+      assert.deepEqual(tickLabels([3]), ['3']);
+      assert.deepEqual(tickLabels([]), []);
+    });
+
+    it('gives every plot one label per tick', () => {
+      const density = densityPlot(result({ statistic: 9.2 }));
+      assert.ok(density);
+      assert.equal(density.tickLabels.length, density.ticks.length);
+      assert.deepEqual(density.tickLabels, tickLabels(density.ticks));
+      const bars = barsPlot([{ label: 'a', observed: 48, expected: 40.5, pearsonResidual: 1.2, standardizedResidual: 1.6, contribution: 1.5 }], 3);
+      assert.deepEqual(bars.tickLabels, bars.ticks.map(String), `ticks ${JSON.stringify(bars.ticks)}`);
+      assert.equal(bars.bars[0].observedText, '48');
+      assert.equal(bars.bars[0].expectedText, '40.500');
+    });
+
+    it('writes residual-grid cells with their sign and the decimals setting', () => {
+      const grid = {
+        rowLabels: ['r1', 'r2'], columnLabels: ['c1', 'c2'], observed: [[1, 2], [3, 4]], expected: [[1, 2], [3, 4]],
+        pearsonResiduals: [[0, 0], [0, 0]], adjustedResiduals: [[2.5, -2.456], [0, Number.NaN]], contributions: [[0, 0], [0, 0]],
+        rowTotals: [3, 7], columnTotals: [4, 6], total: 10,
+      };
+      assert.deepEqual(residualGridPlot(grid).labels, [['+2.50', '−2.46'], ['0.00', '–']]);
+      assert.deepEqual(residualGridPlot(grid, 0).labels, [['+3', '−2'], ['0', '–']]);
+      assert.deepEqual(residualGridPlot(grid, 4).labels[0], ['+2.5000', '−2.4560']);
+      assert.equal(residualLabel(-1234.5, 1), '−1,234.5');
+    });
+
+    it('writes the interval ends, the estimate and σ0 with the decimals setting; an open end reads ∞', () => {
+      const variance = (decimals: number, upper = 16) => intervalPlot(result({
+        test: 'variance', confidenceInterval: { lower: 4, upper, level: 0.95, parameter: 'σ²', method: 'equal-tail chi-square' },
+        details: { variance0: 2.25, sampleVariance: 9 },
+      }), decimals);
+      const two = variance(2);
+      assert.ok(two);
+      assert.deepEqual(two.texts, { lower: '2.00', upper: '4.00', estimate: '3.00', reference: 'σ0 = 1.50' });
+      assert.deepEqual(two.tickLabels, tickLabels(two.ticks));
+      assert.equal(variance(0)?.texts.reference, 'σ0 = 2');
+      assert.equal(variance(3, Infinity)?.texts.upper, '∞');
+      // Below 1 an estimate keeps decimals + 1 significant digits, as in the result table.
+      const small = intervalPlot(result({
+        test: 'variance', confidenceInterval: { lower: 0.0001, upper: 0.0009, level: 0.9, parameter: 'σ²', method: 'equal-tail chi-square' },
+        details: { variance0: 0.0004, sampleVariance: 0.0004 },
+      }), 2);
+      assert.deepEqual(small?.texts, { lower: '0.0100', upper: '0.0300', estimate: '0.0200', reference: 'σ0 = 0.0200' });
+    });
+
+    it('leaves no number formatting in the webview', () => {
+      const source = readFileSync(path.join(__dirname, '../../../src/webview/main.ts'), 'utf8');
+      const found = source.match(/\.(toFixed|toPrecision|toExponential|toLocaleString)\(|Intl\.NumberFormat/g) ?? [];
+      assert.deepEqual(found, [], 'src/webview/main.ts formats numbers itself');
+    });
+
+    it('passes the decimals setting from plotsFor to every plot', () => {
+      const plots = plotsFor(result({
+        test: 'variance', confidenceInterval: { lower: 4, upper: 16, level: 0.95, parameter: 'σ²', method: 'equal-tail chi-square' },
+        details: { variance0: 2.25, sampleVariance: 9 },
+      }), 1);
+      const interval = plots.find((p) => p.kind === 'interval');
+      assert.ok(interval && interval.kind === 'interval');
+      assert.equal(interval.texts.reference, 'σ0 = 1.5');
+      const density = plots.find((p) => p.kind === 'density');
+      assert.ok(density && density.kind === 'density');
+      assert.equal(density.observed.label, 'X² = 5.0');
+    });
   });
 });
