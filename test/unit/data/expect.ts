@@ -6,10 +6,7 @@ export function throwsInput(run: () => unknown, message: string, code?: string):
   try {
     run();
   } catch (e) {
-    assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
-    assert.equal(e.message, message);
-    if (code !== undefined) assert.equal(e.code, code);
-    return e;
+    return expectInputError(e, message, code);
   }
   assert.fail(`expected an InputError with message: ${message}`);
 }
@@ -18,10 +15,14 @@ export async function rejectsInput(run: () => Promise<unknown>, message: string,
   try {
     await run();
   } catch (e) {
-    assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
-    assert.equal(e.message, message);
-    if (code !== undefined) assert.equal(e.code, code);
-    return e;
+    return expectInputError(e, message, code);
   }
   assert.fail(`expected an InputError with message: ${message}`);
+}
+
+function expectInputError(e: unknown, message: string, code: string | undefined): InputError {
+  assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
+  assert.equal(e.message, message);
+  if (code !== undefined) assert.equal(e.code, code);
+  return e;
 }
