@@ -6,10 +6,8 @@ here="$(cd "$(dirname "$0")" && pwd)"
 DIR="${1:?usage: ensure-server.sh DIR}"
 
 if ! ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1; then
-  echo "installing postgresql with apt-get"
-  SUDO=""; [ "$(id -u)" -eq 0 ] || SUDO="sudo"
-  $SUDO apt-get update -qq
-  DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq postgresql
+  bash "$here/../lib/apt-install.sh" "the PostgreSQL tests" postgresql || exit 1
+  SUDO=""; [ "$(id -u)" -eq 0 ] || SUDO="sudo -n"
   # The package may start a default cluster of its own; the tests use a throwaway one, so stop it.
   if command -v pg_lsclusters >/dev/null; then
     pg_lsclusters -h | awk '$4 == "online" { print $1, $2 }' | while read -r version name; do
