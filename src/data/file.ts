@@ -332,3 +332,29 @@ export async function aggregateFile(
   const { aggregates, reader } = await aggregateFileMany(path, [request], options, control);
   return { ...aggregates[0], reader };
 }
+
+/**
+ * Reads a small text file (a saved test, a report) whole, as UTF-8: only a regular file (a FIFO or a device
+ * such as /dev/zero would block or never end) of at most `maxBytes` bytes, refused before its content is read.
+ */
+export async function readTextFile(path: string, file: string, maxBytes: number, allowedRoot?: string): Promise<string> {
+  const { handle, stat } = await openRegularFile(path, file, allowedRoot);
+  try {
+    if (stat.size > maxBytes) {
+      fail({ file }, `the file has ${stat.size} bytes, more than the ${maxBytes} this reader accepts; expected a saved test or report of ordinary size`, 'file-too-large');
+    }
+    const bytes = new Uint8Array(stat.size);
+    let at = 0;
+    while (at < bytes.length) {
+      const { bytesRead } = await handle.read(bytes, at, bytes.length - at, at);
+      if (bytesRead === 0) break;
+      at += bytesRead;
+    }
+    return new TextDecoder('utf-8').decode(bytes.subarray(0, at));
+  } finally {
+    await handle.close();
+  }
+}
+
+/** Largest saved test or report read whole: 16 MiB. */
+export const MAX_TEXT_FILE_BYTES = 16 * 1024 * 1024;

@@ -4,7 +4,7 @@
  */
 import { InputError } from '../errors';
 import { checkValue, describeFound, unknownFieldMessage, type SpecProblem } from './fields';
-import { childPath, locatePath, parseJsonWithLocations, type LocatedJson } from './json-text';
+import { childPath, lineColumnOf, locatePath, parseJsonWithLocations, type LocatedJson } from './json-text';
 import { COMMON_FIELDS, PROCEDURES, TEST_NAMES, procedureFor } from './procedures/index';
 import type { SpecV1 } from './types';
 
@@ -92,6 +92,7 @@ export interface LoadedSpec {
  * (every problem with its JSON path, line and column).
  */
 export function loadSpecText(text: string, file?: string): LoadedSpec {
+  checkJsonNesting(text, file);
   const located = parseJsonWithLocations(text, file);
   const problems = validateSpec(located.value);
   if (problems.length > 0) throw new SpecError(locateProblems(problems, located), file);
@@ -103,4 +104,28 @@ export function assertValidSpec(value: unknown, file?: string, path = '$'): Spec
   const problems = validateSpec(value, path);
   if (problems.length > 0) throw new SpecError(problems, file);
   return value as SpecV1;
+}
+
+/** Deepest nesting of arrays and objects a spec may have (the deepest field, "strata", needs 4 with the spec itself). */
+export const MAX_SPEC_NESTING = 64;
+
+/**
+ * Refuses text nested deeper than MAX_SPEC_NESTING before it is parsed, with the line and column where the limit
+ * is passed: one linear scan (strings skipped), so 100,000 opening brackets end in milliseconds, not in a stack overflow.
+ */
+export function checkJsonNesting(text: string, file?: string, maxDepth = MAX_SPEC_NESTING): void {
+  let depth = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 34) {
+      // Skip a string, with its escapes.
+      for (i++; i < text.length && text.charCodeAt(i) !== 34; i++) if (text.charCodeAt(i) === 92) i++;
+    } else if (c === 91 || c === 123) {
+      if (++depth > maxDepth) {
+        const { line, column } = lineColumnOf(text, i);
+        const where = file ? `${file}:${line}:${column}` : `line ${line}, column ${column}`;
+        throw new InputError(`${where}: the JSON is nested more than ${maxDepth} levels deep; a spec needs at most a few`, { file, line, column: String(column) }, 'too-deep');
+      }
+    } else if (c === 93 || c === 125) depth--;
+  }
 }
