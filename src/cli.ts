@@ -163,8 +163,9 @@ async function loadSpec(file: string, io: CliIo): Promise<Loaded> {
   try {
     text = await readTextFile(absolute, file, MAX_TEXT_FILE_BYTES);
   } catch (e) {
-    if (isInputError(e)) throw e;
-    throw new Error(`${file}: cannot read the spec: ${(e as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
+    const missing = isInputError(e) ? e.code === 'file-not-found' : (e as NodeJS.ErrnoException).code === 'ENOENT';
+    if (isInputError(e) && !missing) throw e;
+    throw new Error(`${file}: cannot read the spec: ${missing ? 'no such file' : (e as Error).message}`);
   }
   return { name: file, absolute, ...loadSpecText(text, file) };
 }
