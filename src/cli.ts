@@ -9,7 +9,7 @@
  */
 import { readFile, rename, writeFile } from 'node:fs/promises';
 import * as path from 'node:path';
-import { aggregateFile } from './data/file';
+import { aggregateFile, MAX_TEXT_FILE_BYTES, readTextFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
 import { errorMessage, isInputError, isInstance } from './errors';
@@ -161,9 +161,11 @@ async function loadSpec(file: string, io: CliIo): Promise<Loaded> {
   const absolute = path.resolve(io.cwd, file);
   let text: string;
   try {
-    text = await readFile(absolute, 'utf8');
+    text = await readTextFile(absolute, file, MAX_TEXT_FILE_BYTES);
   } catch (e) {
-    throw new Error(`${file}: cannot read the spec: ${(e as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
+    const missing = isInputError(e) ? e.code === 'file-not-found' : (e as NodeJS.ErrnoException).code === 'ENOENT';
+    if (isInputError(e) && !missing) throw e;
+    throw new Error(`${file}: cannot read the spec: ${missing ? 'no such file' : (e as Error).message}`);
   }
   return { name: file, absolute, ...loadSpecText(text, file) };
 }
@@ -275,7 +277,7 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
     const absolute = path.resolve(io.cwd, file);
     let text: string;
     try {
-      text = await readFile(absolute, 'utf8');
+      text = await readTextFile(absolute, file, MAX_TEXT_FILE_BYTES);
     } catch (e) {
       io.stderr(`${file}: cannot read the report: ${(e as Error).message}\n`);
       exit = 2;
@@ -286,7 +288,7 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
         reportPath: absolute,
         readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
         signal: io.signal,
-        readText: (f) => readFile(f, 'utf8'),
+        readText: (f) => readTextFile(f, path.relative(path.dirname(absolute), f), MAX_TEXT_FILE_BYTES),
         allowedRoot: allowedRootFor(absolute, io),
         allowOutsideRoot: flags.allowOutside,
         format: { decimals: flags.decimals },

@@ -158,13 +158,13 @@ export function checkValue(type: FieldType, value: unknown, path: string, proble
       if (typeof value !== 'object' || value === null || Array.isArray(value)) return bad();
       const record = value as Record<string, unknown>;
       for (const [key, member] of Object.entries(record)) {
-        const known = type.properties[key];
+        const known = ownMember(type.properties, key);
         if (known) checkValue(known.type, member, childPath(path, key), problems);
         else if (type.additional) checkValue(type.additional, member, childPath(path, key), problems);
         else problems.push({ path: childPath(path, key), message: unknownFieldMessage(key, Object.keys(type.properties)) });
       }
       for (const key of type.required ?? []) {
-        if (!(key in record)) problems.push({ path, message: `missing required field "${key}"` });
+        if (!Object.prototype.hasOwnProperty.call(record, key)) problems.push({ path, message: `missing required field "${key}"` });
       }
       return;
     }
@@ -260,4 +260,9 @@ export function toJsonSchema(type: FieldType, description?: string): Record<stri
     case 'any':
       return withDescription({});
   }
+}
+
+/** `table[key]` when it is the table's own member: never a name every object inherits (constructor, toString…). */
+export function ownMember<T>(table: Readonly<Record<string, T>>, key: string): T | undefined {
+  return Object.prototype.hasOwnProperty.call(table, key) ? table[key] : undefined;
 }

@@ -90,8 +90,10 @@ async function readSource(
       'no-base-folder',
     );
   }
-  const file = resolveSourcePath(specFolder, source.path!, { allowedRoot: options.allowedRoot ?? specFolder, allowOutsideRoot: options.allowOutsideRoot });
-  return options.readers.aggregateFile(file, request, intake, control);
+  const allowedRoot = options.allowedRoot ?? specFolder;
+  const file = resolveSourcePath(specFolder, source.path!, { allowedRoot, allowOutsideRoot: options.allowOutsideRoot });
+  // The textual check above cannot see symbolic links: the reader checks the real path before it opens the file.
+  return options.readers.aggregateFile(file, request, options.allowOutsideRoot ? intake : { ...intake, allowedRoot }, control);
 }
 
 /** JSON with object keys sorted at every level: the same data always gives the same bytes. */

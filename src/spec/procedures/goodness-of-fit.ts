@@ -5,7 +5,7 @@
 import { InputError } from '../../errors';
 import { goodnessOfFit } from '../../stats/fit';
 import type { TestResult } from '../../stats/result';
-import { arr, field, num, obj, oneOf, str, type SpecProblem } from '../fields';
+import { arr, field, num, obj, oneOf, ownMember, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1, WeightsByLevel } from '../types';
 import type { ProcedureHandler } from './index';
@@ -105,7 +105,8 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
         }
         return w;
       }
-      return labels!.map((l) => (w as Readonly<Record<string, number>>)[l]);
+      // Own members only: a level named like an inherited property ("constructor") is a missing weight, not a function.
+      return labels!.map((l) => ownMember(w as Readonly<Record<string, number>>, l) as number);
     };
     return applyMethod(
       goodnessOfFit(observed, {

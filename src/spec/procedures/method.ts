@@ -100,6 +100,14 @@ function withExactBeside(result: TestResult, spec: SpecV1): TestResult {
   let exact: ResamplingResult | null = null;
   if (result.grid && !(result.grid.observed.length === 2 && result.grid.observed[0].length === 2)) {
     exact = tryExactIndependence(result.grid.observed, BESIDE_WORK);
+    if (exact === null) {
+      const notice = {
+        code: 'exact-beside-skipped',
+        severity: 'info' as const,
+        message: `Expected counts are small, but the exact p-value for this ${result.grid.observed.length}×${result.grid.observed[0].length} table would exceed its work limit (${BESIDE_WORK.toLocaleString('en-US')} steps, under a second), so it is not shown; set "method": "monte-carlo" for a resampled p-value.`,
+      };
+      return { ...result, notices: [...result.notices, notice] };
+    }
   } else if (result.categories) {
     const observed = result.categories.map((c) => c.observed);
     const n = observed.reduce((a, b) => a + b, 0);
