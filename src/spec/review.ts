@@ -209,10 +209,28 @@ export function reviewJson(review: Review, file: string): Record<string, unknown
   };
 }
 
-/** Exit code for a pipeline: 0 all reproduced, 1 some changed or differ, 2 some cannot run. */
-export function reviewExitCode(reviews: readonly Review[]): number {
+/** The kinds of change a pipeline may choose to fail on (`check --fail-on`). */
+export type ChangeKind = 'result' | 'conclusion' | 'data';
+export const ALL_CHANGES: ReadonlySet<ChangeKind> = new Set<ChangeKind>(['result', 'conclusion', 'data']);
+
+/** What changed since the record: the data's fingerprint, the numbers on the same data, the conclusion at α. */
+export function changesOf(review: Review): ChangeKind[] {
+  const kinds: ChangeKind[] = [];
+  if (review.status === 'data-changed') kinds.push('data');
+  if (review.status === 'result-differs') kinds.push('result');
+  if (review.conclusionFlipped === true && review.status !== 'reproduced') kinds.push('conclusion');
+  return kinds;
+}
+
+/** Whether a review fails a check that fails on `failOn` (a test that cannot run always fails). */
+export function reviewFails(review: Review, failOn: ReadonlySet<ChangeKind> = ALL_CHANGES): boolean {
+  return review.status === 'cannot-run' || changesOf(review).some((k) => failOn.has(k));
+}
+
+/** Exit code for a pipeline: 0 nothing failing, 1 some change named in `failOn`, 2 some cannot run. */
+export function reviewExitCode(reviews: readonly Review[], failOn: ReadonlySet<ChangeKind> = ALL_CHANGES): number {
   if (reviews.some((r) => r.status === 'cannot-run')) return 2;
-  if (reviews.some((r) => r.status !== 'reproduced')) return 1;
+  if (reviews.some((r) => reviewFails(r, failOn))) return 1;
   return 0;
 }
 
