@@ -4,9 +4,10 @@
 // opening a markdown file activates the extension without parsing the database client.
 import { build } from 'esbuild';
 import { existsSync, mkdirSync, copyFileSync } from 'node:fs';
+import { alias } from './bundle-options.mjs';
 
 const production = process.argv.includes('--production');
-const common = { bundle: true, sourcemap: !production, minify: production, logLevel: 'warning', target: 'node20' };
+const common = { alias, bundle: true, sourcemap: !production, minify: production, logLevel: 'warning', target: 'node20' };
 
 /** Resolves `require('pg')` to the separate chunk beside the bundle instead of inlining it. */
 const pgChunk = {

@@ -2,6 +2,7 @@
 // metafile, so the list cannot drift from the build) and the bundled icon font, each with its licence text.
 // `node scripts/notices.mjs --check` exits 1 when the file is stale (run by `npm run test:pack`).
 import { build } from 'esbuild';
+import { alias } from './bundle-options.mjs';
 import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -17,7 +18,7 @@ const shipped = [
 
 const packages = new Map();
 for (const entry of shipped) {
-  const { metafile } = await build({ ...entry, absWorkingDir: root, bundle: true, write: false, metafile: true, logLevel: 'silent', outdir: 'out-notices', format: 'cjs' });
+  const { metafile } = await build({ ...entry, alias, absWorkingDir: root, bundle: true, write: false, metafile: true, logLevel: 'silent', outdir: 'out-notices', format: 'cjs' });
   for (const input of Object.keys(metafile.inputs)) {
     const m = /^(.*node_modules\/((?:@[^/]+\/)?[^/]+))\//.exec(input);
     if (m) packages.set(m[2], join(root, m[1]));
