@@ -11,7 +11,8 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const shipped = [
   { entryPoints: ['src/host/extension.ts'], external: ['vscode'], platform: 'node' },
   { entryPoints: ['src/cli.ts'], platform: 'node' },
-  { entryPoints: ['scripts/pg-chunk.cjs'], external: ['pg-native'], platform: 'node' },
+  { entryPoints: ['scripts/chunks/pg.cjs'], external: ['pg-native'], platform: 'node' },
+  { entryPoints: ['scripts/chunks/htmlparser2.mjs'], platform: 'node' },
   { entryPoints: ['src/data/scanWorker.ts'], platform: 'node' },
   { entryPoints: ['src/webview/main.ts'], platform: 'browser' },
 ];
