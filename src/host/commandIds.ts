@@ -9,4 +9,5 @@ export const COMMANDS = {
   refreshAllBlocks: 'countercheck.refreshAllBlocks',
   refreshBlock: 'countercheck.refreshBlock',
   openSpecResult: 'countercheck.openSpecResult',
+  openSampleData: 'countercheck.openSampleData',
 } as const;

@@ -53,6 +53,8 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
   command(COMMANDS.refreshAllBlocks, (uri?: vscode.Uri) => refreshBlocks(services, uri));
   command(COMMANDS.refreshBlock, (uri: vscode.Uri, index: number) => refreshBlocks(services, uri, index));
   command(COMMANDS.openSpecResult, (uri: vscode.Uri) => openSpecResult(services, uri));
+  // The Getting Started walkthrough's sample: the demo bakery log shipped in the extension.
+  command(COMMANDS.openSampleData, () => vscode.window.showTextDocument(vscode.Uri.joinPath(context.extensionUri, 'media', 'walkthrough', 'bakery-defects.csv')));
   registerSqlCommands(context, services);
 
   context.subscriptions.push(
