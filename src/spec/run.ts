@@ -11,7 +11,7 @@ import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
 import { resolveSourcePath } from './paths';
 import { procedureFor } from './procedures/index';
-import type { DataFingerprint, RunContext, RunOptions, SourceSpec, SpecRun, SpecV1 } from './types';
+import type { DataFingerprint, RunContext, RunOptions, SourceNeeds, SourceSpec, SpecRun, SpecV1 } from './types';
 import { assertValidSpec } from './validate';
 
 export async function runSpec(value: unknown, options: RunOptions): Promise<SpecRun> {
@@ -23,9 +23,9 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
     signal: options.signal,
     onProgress: options.onProgress,
     hasSource: spec.source !== undefined,
-    async aggregate(request, levels) {
+    async aggregate(request, levels, needs) {
       if (!spec.source) throw new InputError('$.source: this spec has no source to read', { jsonPath: '$.source' }, 'no-source');
-      const aggregate = await readSource(spec.source, request, levels, options);
+      const aggregate = await readSource(spec.source, request, levels, options, needs);
       provenance = aggregate.provenance;
       return aggregate;
     },
@@ -73,8 +73,9 @@ async function readSource(
   request: AggregateRequest,
   levels: Pick<CategoryOptions, 'levels' | 'rowLevels' | 'columnLevels'> | undefined,
   options: RunOptions,
+  needs: SourceNeeds = {},
 ): Promise<Aggregate> {
-  const intake = intakeOptionsOf(source, levels);
+  const intake = { ...intakeOptionsOf(source, levels), ...(needs.values ? { keepValues: true } : {}) };
   const control = { signal: options.signal, onProgress: options.onProgress };
   if (source.sql) {
     if (!options.readers.aggregateSql) {

@@ -131,6 +131,12 @@ export interface SpecRun {
   readonly provenance?: Provenance;
 }
 
+/** What a procedure needs from a reader beyond the aggregate itself. */
+export interface SourceNeeds {
+  /** The raw values of a numeric column, not only their moments (a distribution fit bins them). */
+  readonly values?: boolean;
+}
+
 /** What a procedure handler gets at run time. */
 export interface RunContext {
   readonly signal?: AbortSignal;
@@ -142,5 +148,5 @@ export interface RunContext {
    * Reads the spec's `source` with this request (its path resolved and checked first). `levels` gives the
    * order and full set of levels when the spec names them (a level never seen still counts, with 0).
    */
-  aggregate(request: AggregateRequest, levels?: Pick<CategoryOptions, 'levels' | 'rowLevels' | 'columnLevels'>): Promise<Aggregate>;
+  aggregate(request: AggregateRequest, levels?: Pick<CategoryOptions, 'levels' | 'rowLevels' | 'columnLevels'>, needs?: SourceNeeds): Promise<Aggregate>;
 }

@@ -35,7 +35,7 @@ export const distributionFitProcedure: ProcedureHandler = {
   async run(spec: SpecV1, ctx): Promise<TestResult> {
     let values = spec.values;
     if (!values) {
-      const aggregate = await aggregateOf(ctx, { kind: 'numeric', column: spec.source!.columns![0] }, 'moments');
+      const aggregate = await aggregateOf(ctx, { kind: 'numeric', column: spec.source!.columns![0] }, 'moments', undefined, { values: true });
       if (!aggregate.values) throw new InputError('$.source: this reader summarised the column without keeping the values, which a distribution fit needs', { jsonPath: '$.source' }, 'values-unavailable');
       values = aggregate.values;
     }

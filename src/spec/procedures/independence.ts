@@ -16,10 +16,9 @@ import {
   LABELS,
   VARIABLE_NAME,
   COUNT_TEST_OPTIONS,
-  aggregateOf,
   checkLambda,
   checkSourceColumns,
-  placeCounts,
+  tableFromSource,
   requireLength,
   requireOneOf,
   sourceField,
@@ -67,29 +66,8 @@ export const independenceProcedure: ProcedureHandler = {
     return problems;
   },
   async run(spec, ctx): Promise<TestResult> {
-    let counts: readonly (readonly number[])[];
-    let rowLabels = spec.rowLabels;
-    let columnLabels = spec.columnLabels;
     const columns = spec.source?.columns ?? [];
-    if (spec.source) {
-      const request =
-        columns.length === 2
-          ? ({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight: spec.source.weight } as const)
-          : ({ kind: 'counted-table' } as const);
-      const { table } = await aggregateOf(ctx, request, 'table', { rowLevels: rowLabels, columnLevels: columnLabels });
-      counts = table.counts;
-      if (columns.length === 2) {
-        // Listed levels give the order (a listed level the data lacks counts 0); without a list, the data's order.
-        rowLabels = rowLabels ?? table.rowLabels;
-        columnLabels = columnLabels ?? table.columnLabels;
-        counts = placeCounts(table, rowLabels, columnLabels, [columns[0], columns[1]], ['rowLabels', 'columnLabels']);
-      } else {
-        rowLabels = table.rowLabels;
-        columnLabels = table.columnLabels;
-      }
-    } else {
-      counts = spec.table!;
-    }
+    const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
     if (spec.correction && (counts.length !== 2 || counts[0].length !== 2)) {
       throw new InputError(
         `$.correction: Yates' continuity correction applies to 2×2 tables only; this table is ${counts.length}×${counts[0]?.length ?? 0}`,

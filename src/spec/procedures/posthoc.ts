@@ -8,24 +8,24 @@ import { arr, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { COUNT_ARRAY, LABELS, requireLength } from './shared';
+import { COUNT_ARRAY, LABELS, checkSourceColumns, requireLength, requireOneOf, sourceField, tableFromSource } from './shared';
 
 export const postHocProcedure: ProcedureHandler = {
   test: 'post-hoc',
   summary: 'Post-hoc comparisons on an r×c table: pairs of rows or columns, or cell-wise adjusted residuals, with Bonferroni, Holm or Benjamini–Hochberg adjustment.',
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
-    rowLabels: LABELS('rows'),
-    columnLabels: LABELS('columns'),
+    source: sourceField('Two categorical columns to cross-tabulate (rows, then columns); leave out for a file that already holds the table.', 0, 2),
+    rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
+    columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),
     compare: field(str({ enum: ['cells', 'rows', 'columns'] }), 'What to compare: "cells" (adjusted residual per cell, default), "rows" or "columns" (each pair by a chi-square test).'),
     adjustment: field(str({ enum: ['holm', 'bonferroni', 'benjamini-hochberg'] }), 'Multiplicity adjustment of the p-values. Default "holm".'),
   },
   validate(spec: SpecV1, path: string): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
-    if (!spec.table) {
-      problems.push({ path, message: 'missing data: give "table"' });
-      return problems;
-    }
+    requireOneOf(spec, path, ['table', 'source'], problems);
+    checkSourceColumns(spec, path, [0, 2], 'two columns (rows, columns), or none for an already-counted table', problems);
+    if (!spec.table) return problems;
     const width = spec.table[0].length;
     spec.table.forEach((row, i) => {
       if (row.length !== width) problems.push({ path: childPath(childPath(path, 'table'), i), message: `row ${i + 1} has ${row.length} counts but row 1 has ${width}` });
@@ -34,13 +34,14 @@ export const postHocProcedure: ProcedureHandler = {
     requireLength(spec, path, 'columnLabels', width, 'one per column', problems);
     return problems;
   },
-  async run(spec: SpecV1): Promise<TestResult> {
-    return postHocTest(spec.table!, {
+  async run(spec: SpecV1, ctx): Promise<TestResult> {
+    const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
+    return postHocTest(counts, {
       compare: spec.compare as Comparison | undefined,
       adjustment: spec.adjustment as Adjustment | undefined,
       alpha: spec.alpha,
-      rowLabels: spec.rowLabels,
-      columnLabels: spec.columnLabels,
+      rowLabels,
+      columnLabels,
     });
   },
 };

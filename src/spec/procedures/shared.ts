@@ -132,8 +132,9 @@ export async function aggregateOf<K extends Aggregate['kind']>(
   request: Parameters<RunContext['aggregate']>[0],
   kind: K,
   levels?: Parameters<RunContext['aggregate']>[1],
+  needs?: Parameters<RunContext['aggregate']>[2],
 ): Promise<Extract<Aggregate, { kind: K }>> {
-  const aggregate = await ctx.aggregate(request, levels);
+  const aggregate = await ctx.aggregate(request, levels, needs);
   if (aggregate.kind !== kind) {
     throw new InputError(`$.source: expected the reader to produce ${kind}, got ${aggregate.kind}`, { jsonPath: '$.source' }, 'unexpected-aggregate');
   }
@@ -170,4 +171,19 @@ export function placeCounts(
     }),
   );
   return counts;
+}
+
+/**
+ * The table of counts a spec's `source` gives: two columns cross-tabulated in the order of "rowLabels" and
+ * "columnLabels" (a listed level the data lacks counts 0), or no columns for a file that is already a counted table.
+ */
+export async function tableFromSource(spec: SpecV1, ctx: RunContext): Promise<{ counts: readonly (readonly number[])[]; rowLabels?: readonly string[]; columnLabels?: readonly string[] }> {
+  const source = spec.source!;
+  const columns = source.columns ?? [];
+  const request = columns.length === 2 ? ({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight: source.weight } as const) : ({ kind: 'counted-table' } as const);
+  const { table } = await aggregateOf(ctx, request, 'table', { rowLevels: spec.rowLabels, columnLevels: spec.columnLabels });
+  if (columns.length !== 2) return { counts: table.counts, rowLabels: table.rowLabels, columnLabels: table.columnLabels };
+  const rowLabels = spec.rowLabels ?? table.rowLabels;
+  const columnLabels = spec.columnLabels ?? table.columnLabels;
+  return { counts: placeCounts(table, rowLabels, columnLabels, [columns[0], columns[1]], ['rowLabels', 'columnLabels']), rowLabels, columnLabels };
 }
