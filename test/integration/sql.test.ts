@@ -177,7 +177,7 @@ describe('database command on a live PostgreSQL server', function () {
   });
 
   it('tests the variance of a numeric column: the server’s moments equal the same values given inline', async () => {
-    const payload = await panelFrom(() => database({ test: 'variance', columns: ['minutes'], sigma0: 1.5 }));
+    const payload = await panelFrom(() => database({ test: 'variance', columns: ['minutes'], sigma0: 1.5, alternative: 'two-sided' }));
     const r = payload.result as TestResult;
     const values = data.map((d) => d.minutes).filter((m): m is number => m !== null);
     assert.equal(r.test, 'variance');
