@@ -7,6 +7,7 @@
 import * as path from 'node:path';
 import { sha256Hex } from '../data/delimited';
 import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/options';
+import { deliveryNeeded, fileReaderFor, SQL_READER } from '../data/readers';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
 import { resolveSourcePath } from './paths';
@@ -77,6 +78,11 @@ async function readSource(
 ): Promise<Aggregate> {
   const intake = { ...intakeOptionsOf(source, levels), ...(needs.values ? { keepValues: true } : {}) };
   const control = { signal: options.signal, onProgress: options.onProgress };
+  const reader = source.sql ? SQL_READER : fileReaderFor(source.path!);
+  const needed = deliveryNeeded(request, intake);
+  if (!reader.delivers.includes(needed)) {
+    throw new InputError(`$.source: the ${reader.name} reader cannot deliver ${needed}, which this test needs`, { jsonPath: '$.source' }, 'reader-cannot-deliver');
+  }
   if (source.sql) {
     if (!options.readers.aggregateSql) {
       throw new InputError('$.source.sql: database sources are not available here', { jsonPath: '$.source.sql' }, 'sql-unavailable');
@@ -92,7 +98,9 @@ async function readSource(
     );
   }
   const file = resolveSourcePath(specFolder, source.path!, { allowedRoot: options.allowedRoot ?? specFolder, allowOutsideRoot: options.allowOutsideRoot });
-  return options.readers.aggregateFile(file, request, intake, control);
+  // The streaming delimited reader comes from the host (its progress display); the others read small files whole.
+  const fileReader = fileReaderFor(file);
+  return fileReader.hostInjected ? options.readers.aggregateFile(file, request, intake, control) : fileReader.read(file, request, intake, control);
 }
 
 /** JSON with object keys sorted at every level: the same data always gives the same bytes. */
