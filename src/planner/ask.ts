@@ -7,25 +7,6 @@ import { checkValue, type Field, type FieldType, type SpecProblem } from '../spe
 import { procedureFor } from '../spec/procedures/index';
 import type { Questions } from './questions';
 
-/** Short titles for the fields the planner asks about (the prompt is the field's description). */
-const TITLES: Readonly<Record<string, string>> = {
-  sigma0: 'Hypothesised standard deviation σ0',
-  alternative: 'Alternative hypothesis',
-  family: 'Distribution family',
-  trials: 'Number of trials of the binomial',
-  compare: 'What to compare',
-  adjustment: 'Multiplicity adjustment',
-  effectSize: "Effect size (Cohen's w)",
-  sigmaRatio: 'Ratio σ1/σ0',
-  n: 'Sample size',
-  power: 'Target power',
-  df: 'Degrees of freedom',
-  x: 'Value of the statistic',
-  p: 'Probability',
-  target: 'Which test the power is for',
-  seed: 'Seed of the random stream',
-};
-
 export function fieldOf(test: string, name: string): Field {
   const f = procedureFor(test)?.fields[name];
   if (!f) throw new Error(`procedure "${test}" has no field "${name}"`);
@@ -44,9 +25,8 @@ export function parseNumberList(text: string): number[] {
 }
 
 /** Asks for one field of a procedure, in the terms its field table gives. */
-export async function askField(questions: Questions, test: string, name: string, options: { remembered?: unknown; extraPrompt?: string; choiceLabels?: Readonly<Record<string, string>> } = {}): Promise<unknown> {
+export async function askField(questions: Questions, test: string, name: string, title: string, options: { remembered?: unknown; extraPrompt?: string; choiceLabels?: Readonly<Record<string, string>> } = {}): Promise<unknown> {
   const f = fieldOf(test, name);
-  const title = TITLES[name] ?? name;
   const prompt = options.extraPrompt ? `${f.description} ${options.extraPrompt}` : f.description;
   const type = f.type.kind === 'oneOf' ? (f.type.options.find((o) => o.kind === 'number') ?? f.type.options[0]) : f.type;
   if (type.kind === 'string' && type.enum) {

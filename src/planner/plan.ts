@@ -13,6 +13,7 @@ import { askField, parseNumberList } from './ask';
 import type { Offer } from './offer';
 import { describeColumn, inferShape, isCategorical, isMeasurement, profileColumns, type ColumnProfile, type Shape } from './profile';
 import type { Choice, Questions } from './questions';
+import { PROCEDURES, procedureFor, type DataShape } from '../spec/procedures/index';
 
 /** Answers given beforehand (keybindings, tests) or remembered from the last run on the same source. */
 export interface Answers {
@@ -84,61 +85,57 @@ interface Proposal {
   readonly preset?: Readonly<Record<string, unknown>>;
   /** Columns to choose, for data given as columns. */
   readonly roles?: readonly Role[];
+  /** The procedure needs no data (power, the distribution). */
+  readonly anything?: boolean;
 }
 
-const CAT = (name: string): Role => ({ name, kind: 'categorical' });
-const NUM = (name: string): Role => ({ name, kind: 'measurement' });
-
-/** The procedures, in the order they are offered, with the data forms each accepts. */
-function proposalsFor(view: View, offer: Offer, settings: PlanSettings): Proposal[] {
-  const mc = { method: 'monte-carlo', resamples: settings.monteCarloResamples, seed: 1 };
-  const canInline = offer.kind !== 'catalogue';
-  const list: Proposal[] = [];
-  const countTests = (roles?: Role[]) => [
-    { test: 'independence', label: 'Independence of two categorical variables', detail: 'Pearson χ² on their cross-tabulation', roles },
-    { test: 'independence', label: 'Independence, Monte Carlo p-value', detail: 'The same test with a p-value from random tables with these margins (small expected counts)', preset: mc, roles },
-    { test: 'independence', label: 'Independence, exact p-value', detail: 'Fisher–Freeman–Halton exact conditional test (small tables)', preset: { method: 'exact' }, roles },
-    { test: 'post-hoc', label: 'Post-hoc comparisons', detail: 'Which cells, rows or columns differ, with adjusted p-values', roles },
-    { test: 'trend', label: 'Trend across ordered groups', detail: 'Cochran–Armitage (2×k) or linear-by-linear association', roles: roles ? [CAT('the outcome (rows)'), CAT('the ordered groups (columns)')] : undefined },
-    { test: 'paired', label: 'Paired classifications', detail: "McNemar's test (2×2) or Bowker's symmetry test: the same units classified twice", roles: roles ? [CAT('the first classification'), CAT('the second classification')] : undefined },
-  ];
-  const fitTests = (roles?: Role[]) => [
-    { test: 'goodness-of-fit', label: 'Goodness of fit of one categorical variable', detail: 'Observed level counts against expected proportions', roles },
-    { test: 'goodness-of-fit', label: 'Goodness of fit, Monte Carlo p-value', detail: 'The same test with a p-value from random samples (small expected counts)', preset: mc, roles },
-    { test: 'goodness-of-fit', label: 'Goodness of fit, exact p-value', detail: 'Exact multinomial p-value (small samples)', preset: { method: 'exact' }, roles },
-  ];
-  const valueTests = (roles?: Role[]) => [
-    { test: 'variance', label: 'Variance of one numeric variable', detail: 'χ² test of σ against a hypothesised σ0, with a confidence interval', roles },
-    { test: 'distribution-fit', label: 'Fit of a distribution to the values', detail: 'Poisson, binomial, geometric or normal, parameters estimated from the values', roles },
-  ];
-  const general = [
-    { test: 'power', label: 'Power or sample size', detail: 'Power of a χ² test for an effect size, or the sample size for a power' },
-    { test: 'distribution', label: 'Chi-square distribution', detail: 'Tail probabilities and critical values for some degrees of freedom' },
-  ];
+/** Which shapes a view offers: a procedure is proposed when it accepts one of them. */
+function shapesOf(view: View): DataShape[] {
   switch (view.form) {
     case 'table':
-      list.push(...countTests().filter((p) => p.test !== 'paired' || view.table.rowLabels.length === view.table.columnLabels.length));
-      break;
+      return view.table.rowLabels.length === view.table.columnLabels.length ? ['counted-table', 'square-table', 'anything'] : ['counted-table', 'anything'];
     case 'categories':
-      list.push(...fitTests());
-      break;
+      return ['category-counts', 'anything'];
     case 'values':
-      list.push(...valueTests());
-      break;
-    case 'columns': {
-      const categorical = view.columns.filter((c) => c.categorical).length;
-      const measurement = view.columns.filter((c) => c.measurement).length;
-      if (categorical >= 2) list.push(...countTests([CAT('the rows'), CAT('the columns')]));
-      if (categorical >= 3 && canInline) list.push({ test: 'stratified', label: 'Stratified tables (Cochran–Mantel–Haenszel)', detail: 'The same cross-classification in each stratum of a third variable', roles: [CAT('the strata'), CAT('the rows'), CAT('the columns')] });
-      if (categorical >= 1) list.push(...fitTests([CAT('the column')]));
-      if (measurement >= 1) list.push(...valueTests([NUM('the column')]));
-      break;
-    }
+      return ['values', 'anything'];
+    case 'columns':
+      return ['categorical-columns', 'numeric-column', 'anything'];
     case 'nothing':
-      break;
+      return ['anything'];
   }
-  list.push(...general);
-  return list;
+}
+
+/** The procedures that fit the view, from each procedure's own planning declaration, in registry order of data first. */
+function proposalsFor(view: View, offer: Offer, settings: PlanSettings): Proposal[] {
+  const shapes = shapesOf(view);
+  const categorical = view.form === 'columns' ? view.columns.filter((c) => c.categorical).length : 0;
+  const measurement = view.form === 'columns' ? view.columns.filter((c) => c.measurement).length : 0;
+  const list: Proposal[] = [];
+  for (const handler of PROCEDURES) {
+    const planning = handler.planning;
+    if (!planning) continue;
+    const accepted = planning.accepts.filter((a) => shapes.includes(a));
+    if (accepted.length === 0) continue;
+    const shape = accepted[0];
+    let roles: Role[] | undefined;
+    if (view.form === 'columns' && shape === 'categorical-columns') {
+      const names = planning.roles ?? [];
+      // Counts written inline (a procedure without a `source` field) cannot come from a database.
+      if (names.length > categorical || (!handler.fields.source && offer.kind === 'catalogue')) continue;
+      roles = names.map((name) => ({ name, kind: 'categorical' }));
+    } else if (view.form === 'columns' && shape === 'numeric-column') {
+      if (measurement === 0) continue;
+      roles = [{ name: 'the column', kind: 'measurement' }];
+    }
+    const base = { test: handler.test, roles, anything: shape === 'anything' };
+    list.push({ ...base, label: planning.label, detail: planning.detail });
+    for (const v of planning.variants ?? []) {
+      const preset = v.preset.method === 'monte-carlo' ? { ...v.preset, resamples: settings.monteCarloResamples } : v.preset;
+      list.push({ ...base, label: v.label, detail: v.detail, preset });
+    }
+  }
+  // Procedures on the data first; those that need none (power, the distribution) last.
+  return [...list.filter((p) => !p.anything), ...list.filter((p) => p.anything)];
 }
 
 function relativePath(specFolder: string, file: string): string {
@@ -214,6 +211,7 @@ export async function plan(request: PlanRequest): Promise<Plan> {
   const fields: Record<string, unknown> = { version: 1, test };
   if (test !== 'distribution' && test !== 'power') fields.alpha = settings.alpha;
   Object.assign(fields, proposal.preset);
+  if (proposal.preset?.method !== undefined) answers.method = proposal.preset.method;
   for (const k of Object.keys(proposal.preset ?? {})) if (given[k] !== undefined) fields[k] = given[k];
 
   // The data part of the spec.
@@ -234,9 +232,6 @@ export async function plan(request: PlanRequest): Promise<Plan> {
 
   // The options each procedure needs, asked in the terms of its field table.
   await askOptions(test, fields, data, answers, given, remember, questions, settings);
-  for (const [k, v] of Object.entries(given)) {
-    if (!['test', 'columns', 'weight', 'proportions', 'where'].includes(k) && v !== undefined) fields[k] = v;
-  }
   const label = proposal.label;
   return { spec: fields, test, title: `${label} — ${offer.description}`, answers, notes };
 }
@@ -500,69 +495,50 @@ function checkNotOnePerRow(records: Records, columns: readonly string[], weight:
   );
 }
 
-/** Options each procedure needs, asked through its field table unless given or fixed by the data. */
+/**
+ * Options each procedure needs: fixed by the data where it can be (df of a table, n), then the questions its
+ * planning declaration lists, asked through its field table unless given. Goodness of fit asks for its expected
+ * proportions with the levels in view; independence takes the Yates default from the settings.
+ */
 async function askOptions(test: string, fields: Record<string, unknown>, data: DataFacts, answers: Record<string, unknown>, given: Answers, remembered: Answers, questions: Questions, settings: PlanSettings): Promise<void> {
-  const ask = async (name: string, extra: { extraPrompt?: string; choiceLabels?: Record<string, string> } = {}) => {
-    if (given[name] !== undefined) return given[name];
-    const value = await askField(questions, test, name, { remembered: remembered[name], ...extra });
-    answers[name] = value;
-    return value;
-  };
-  switch (test) {
-    case 'independence': {
-      const twoByTwo = data.rows === 2 && data.columns === 2;
-      if (given.correction !== undefined) fields.correction = given.correction;
-      else if (settings.correction && twoByTwo && fields.method === undefined) fields.correction = true;
-      return;
+  if (test === 'independence') {
+    const twoByTwo = data.rows === 2 && data.columns === 2;
+    if (given.correction !== undefined) fields.correction = given.correction;
+    else if (settings.correction && twoByTwo && fields.method === undefined) fields.correction = true;
+  }
+  if (test === 'goodness-of-fit' && !data.hasExpectation) {
+    const proportions = given.proportions ?? (await askProportions(questions, data.levels, remembered.proportions));
+    answers.proportions = proportions;
+    if (Array.isArray(proportions)) fields.proportions = proportions;
+  }
+  if (test === 'power' || test === 'distribution') {
+    // What the data fixes: the df of its table or categories, its size, and which test the power is for.
+    const df = data.levels ? data.levels.length - 1 : data.rows && data.columns ? (data.rows - 1) * (data.columns - 1) : undefined;
+    if (df !== undefined && given.df === undefined) fields.df = df;
+    if (test === 'power') {
+      const target = data.levels ? 'goodness-of-fit' : data.rows ? 'independence' : data.n !== undefined ? 'variance' : undefined;
+      if (target && given.target === undefined) fields.target = target;
+      if (data.n !== undefined && given.n === undefined && given.power === undefined) fields.n = data.n;
     }
-    case 'goodness-of-fit': {
-      if (data.hasExpectation) return;
-      const proportions = given.proportions ?? (await askProportions(questions, data.levels, remembered.proportions));
-      answers.proportions = proportions;
-      if (Array.isArray(proportions)) fields.proportions = proportions;
-      return;
+  }
+  for (const [k, v] of Object.entries(given)) if (!NOT_FIELDS.includes(k) && v !== undefined) fields[k] = v;
+  for (const q of procedureFor(test)?.planning?.questions ?? []) {
+    if (fields[q.field] !== undefined || (q.when && !q.when(fields))) continue;
+    const all = procedureFor(test)?.planning?.questions ?? [];
+    const rival = q.orElse !== undefined && fields[q.orElse] === undefined ? all.find((r) => r.field === q.orElse) : undefined;
+    if (rival) {
+      // Two fields that exclude each other (n or power, x or p): which one first.
+      const which = await questions.choose({ title: 'What to give', placeholder: `${q.title}, or ${rival.title.toLowerCase()}?`, choices: [q, rival].map((x) => ({ label: x.title, value: x })), remembered: (x) => remembered[x.field] !== undefined });
+      fields[which.field] = answers[which.field] = await askField(questions, test, which.field, which.title, { remembered: remembered[which.field], choiceLabels: which.choiceLabels });
+      continue;
     }
-    case 'variance':
-      fields.sigma0 = await ask('sigma0', { extraPrompt: data.variable ? `(in the units of "${data.variable}")` : undefined });
-      fields.alternative = await ask('alternative', { choiceLabels: { 'two-sided': 'σ differs from σ0', greater: 'σ is larger than σ0', less: 'σ is smaller than σ0' } });
-      return;
-    case 'distribution-fit':
-      fields.family = await ask('family');
-      if (fields.family === 'binomial') fields.trials = await ask('trials');
-      return;
-    case 'post-hoc':
-      fields.compare = await ask('compare', { choiceLabels: { cells: 'Cells (adjusted residuals)', rows: 'Pairs of rows', columns: 'Pairs of columns' } });
-      fields.adjustment = await ask('adjustment', { choiceLabels: { holm: 'Holm', bonferroni: 'Bonferroni', 'benjamini-hochberg': 'Benjamini–Hochberg (false discovery rate)' } });
-      return;
-    case 'power': {
-      const suggested = data.levels ? 'goodness-of-fit' : data.rows ? 'independence' : data.n !== undefined && data.columns === undefined && data.rows === undefined ? 'variance' : undefined;
-      const target = given.target ?? suggested ?? (await ask('target'));
-      fields.target = target;
-      if (target === 'variance') fields.sigmaRatio = await ask('sigmaRatio');
-      else {
-        fields.effectSize = await ask('effectSize');
-        fields.df = given.df ?? (data.levels ? data.levels.length - 1 : data.rows && data.columns ? (data.rows - 1) * (data.columns - 1) : await ask('df'));
-      }
-      if (given.power !== undefined) fields.power = given.power;
-      else if (given.n !== undefined || data.n !== undefined) fields.n = given.n ?? data.n;
-      else {
-        const which = await questions.choose({ title: 'What to compute', placeholder: 'Power for a sample size, or the sample size for a power', choices: [{ label: 'The power for a sample size', value: 'n' }, { label: 'The sample size for a power', value: 'power' }], remembered: (v) => remembered[v] !== undefined });
-        fields[which] = await ask(which);
-      }
-      return;
-    }
-    case 'distribution': {
-      fields.df = given.df ?? (data.levels ? data.levels.length - 1 : data.rows && data.columns ? (data.rows - 1) * (data.columns - 1) : await ask('df'));
-      if (given.x === undefined && given.p === undefined) {
-        const which = await questions.choose({ title: 'What to look up', placeholder: 'Tail probabilities of a value, or critical values of a probability', choices: [{ label: 'Tail probabilities of a value of the statistic', value: 'x' }, { label: 'Critical values for a probability', value: 'p' }], remembered: (v) => remembered[v] !== undefined });
-        fields[which] = await ask(which);
-      }
-      return;
-    }
-    default:
-      return;
+    const extraPrompt = q.field === 'sigma0' && data.variable ? `(in the units of "${data.variable}")` : undefined;
+    fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field], choiceLabels: q.choiceLabels, extraPrompt });
   }
 }
+
+/** Answers that are not fields of the saved test. */
+const NOT_FIELDS = ['test', 'columns', 'weight', 'proportions', 'where'];
 
 async function askProportions(questions: Questions, levels: readonly string[] | undefined, remembered: unknown): Promise<'equal' | number[]> {
   const k = levels?.length;

@@ -14,6 +14,15 @@ import { aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './sh
 export const distributionFitProcedure: ProcedureHandler = {
   test: 'distribution-fit',
   summary: 'Goodness of fit of raw values to a Poisson, binomial, geometric or normal distribution with parameters estimated from the data (df reduced, sparse bins pooled).',
+  planning: {
+    label: 'Fit of a distribution to the values',
+    detail: 'Poisson, binomial, geometric or normal, parameters estimated from the values',
+    accepts: ['values', 'numeric-column'],
+    questions: [
+      { field: 'family', title: 'Distribution family' },
+      { field: 'trials', title: 'Number of trials of the binomial', when: (spec) => spec.family === 'binomial' },
+    ],
+  },
   fields: {
     values: field(arr(num(), { minItems: 2 }), 'Raw values: counts (whole numbers ≥ 0) for the discrete families, measurements for the normal.', true),
     source: sourceField('The one numeric column.', 1, 1),

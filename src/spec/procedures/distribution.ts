@@ -29,6 +29,16 @@ const asList = (v: number | readonly number[] | undefined): readonly number[] =>
 export const distributionProcedure: ProcedureHandler = {
   test: 'distribution',
   summary: 'Tail probabilities of observed values and critical values of the chi-square distribution with "df" degrees of freedom.',
+  planning: {
+    label: 'Chi-square distribution',
+    detail: 'Tail probabilities and critical values for some degrees of freedom',
+    accepts: ['anything'],
+    questions: [
+      { field: 'df', title: 'Degrees of freedom' },
+      { field: 'x', title: 'Value of the statistic', orElse: 'p', when: (spec) => spec.p === undefined },
+      { field: 'p', title: 'Probability', when: (spec) => spec.x === undefined },
+    ],
+  },
   fields: {
     df: field(num({ exclusiveMin: 0 }), 'Degrees of freedom (any real number > 0).', true),
     x: field(oneOf(num({ min: 0 }), arr(num({ min: 0 }), { minItems: 1 })), 'Observed value(s) of the statistic: gives the lower and upper tail probabilities.', true),

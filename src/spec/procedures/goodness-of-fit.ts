@@ -20,6 +20,7 @@ import {
   requireLength,
   requireOneOf,
   sourceField,
+  MONTE_CARLO,
 } from './shared';
 
 const weightsByLevel = oneOf(arr(num({ min: 0 }), { minItems: 2 }), obj({}, { additional: num({ min: 0 }) }));
@@ -27,6 +28,16 @@ const weightsByLevel = oneOf(arr(num({ min: 0 }), { minItems: 2 }), obj({}, { ad
 export const goodnessOfFitProcedure: ProcedureHandler = {
   test: 'goodness-of-fit',
   summary: 'Chi-square goodness of fit: do the observed counts of k categories match expected counts, proportions or ratios?',
+  planning: {
+    label: 'Goodness of fit of one categorical variable',
+    detail: 'Observed level counts against expected proportions',
+    accepts: ['category-counts', 'categorical-columns'],
+    roles: ['the column'],
+    variants: [
+      { label: 'Goodness of fit, Monte Carlo p-value', detail: 'The same test with a p-value from random samples (small expected counts)', preset: MONTE_CARLO },
+      { label: 'Goodness of fit, exact p-value', detail: 'Exact multinomial p-value (small samples)', preset: { method: 'exact' } },
+    ],
+  },
   fields: {
     observed: field(COUNT_ARRAY, 'Observed counts, one per category.', true),
     categories: field(arr(str(), { minItems: 2 }), 'The category labels in order: the full set of levels (a level never observed still counts, with 0).', true),

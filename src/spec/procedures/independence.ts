@@ -22,11 +22,22 @@ import {
   requireLength,
   requireOneOf,
   sourceField,
+  MONTE_CARLO,
 } from './shared';
 
 export const independenceProcedure: ProcedureHandler = {
   test: 'independence',
   summary: 'Chi-square test of independence (or homogeneity) on an r×c table of counts.',
+  planning: {
+    label: 'Independence of two categorical variables',
+    detail: 'Pearson χ² on their cross-tabulation',
+    accepts: ['counted-table', 'categorical-columns'],
+    roles: ['the rows', 'the columns'],
+    variants: [
+      { label: 'Independence, Monte Carlo p-value', detail: 'The same test with a p-value from random tables with these margins (small expected counts)', preset: MONTE_CARLO },
+      { label: 'Independence, exact p-value', detail: 'Fisher–Freeman–Halton exact conditional test (small tables)', preset: { method: 'exact' } },
+    ],
+  },
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
     rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),

@@ -13,6 +13,12 @@ import { CONFIDENCE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, place
 export const pairedProcedure: ProcedureHandler = {
   test: 'paired',
   summary: "Paired classifications: McNemar's test for a 2×2 table, Bowker's test of symmetry for k×k (rows: first classification, columns: second).",
+  planning: {
+    label: 'Paired classifications',
+    detail: "McNemar's test (2×2) or Bowker's symmetry test: the same units classified twice",
+    accepts: ['square-table', 'categorical-columns'],
+    roles: ['the first classification', 'the second classification'],
+  },
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
     source: sourceField('Two categorical columns: the first classification and the second, one record per unit.', 2, 2),

@@ -13,6 +13,16 @@ import { COUNT_ARRAY, LABELS, checkSourceColumns, requireLength, requireOneOf, s
 export const postHocProcedure: ProcedureHandler = {
   test: 'post-hoc',
   summary: 'Post-hoc comparisons on an r×c table: pairs of rows or columns, or cell-wise adjusted residuals, with Bonferroni, Holm or Benjamini–Hochberg adjustment.',
+  planning: {
+    label: 'Post-hoc comparisons',
+    detail: 'Which cells, rows or columns differ, with adjusted p-values',
+    accepts: ['counted-table', 'categorical-columns'],
+    roles: ['the rows', 'the columns'],
+    questions: [
+      { field: 'compare', title: 'What to compare', choiceLabels: { cells: 'Cells (adjusted residuals)', rows: 'Pairs of rows', columns: 'Pairs of columns' } },
+      { field: 'adjustment', title: 'Multiplicity adjustment', choiceLabels: { holm: 'Holm', bonferroni: 'Bonferroni', 'benjamini-hochberg': 'Benjamini–Hochberg (false discovery rate)' } },
+    ],
+  },
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
     source: sourceField('Two categorical columns to cross-tabulate (rows, then columns); leave out for a file that already holds the table.', 0, 2),

@@ -13,6 +13,19 @@ import { ALTERNATIVE } from './shared';
 export const powerProcedure: ProcedureHandler = {
   test: 'power',
   summary: 'Power for a sample size, or the smallest sample size for a power, for chi-square goodness of fit, independence, or the test for one variance.',
+  planning: {
+    label: 'Power or sample size',
+    detail: 'Power of a χ² test for an effect size, or the sample size for a power',
+    accepts: ['anything'],
+    questions: [
+      { field: 'target', title: 'Which test the power is for' },
+      { field: 'sigmaRatio', title: 'Ratio σ1/σ0', when: (spec) => spec.target === 'variance' },
+      { field: 'effectSize', title: "Effect size (Cohen's w)", when: (spec) => spec.target !== 'variance' },
+      { field: 'df', title: 'Degrees of freedom', when: (spec) => spec.target !== 'variance' },
+      { field: 'n', title: 'Sample size', orElse: 'power', when: (spec) => spec.power === undefined },
+      { field: 'power', title: 'Target power', when: (spec) => spec.n === undefined },
+    ],
+  },
   fields: {
     target: field(str({ enum: ['goodness-of-fit', 'independence', 'variance'] }), 'Which test the power is for. Default "goodness-of-fit" with "effectSize", "variance" with "sigmaRatio".'),
     effectSize: field(num({ exclusiveMin: 0 }), "Cohen's w (0.1 small, 0.3 medium, 0.5 large by Cohen's convention)."),

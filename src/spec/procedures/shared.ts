@@ -28,6 +28,9 @@ export const VARIABLE_NAME = (what: string): Field =>
   field(str(), `Name of ${what}, used in the conclusion (e.g. "oven"). Default: the name of the source column, if any; otherwise the wording stays generic.`);
 export const COUNT_ARRAY = arr(num({ min: 0 }));
 
+/** The Monte Carlo variant of a count test, as the editor offers it (10,000 resamples, seed 1: reproducible). */
+export const MONTE_CARLO = { method: 'monte-carlo', resamples: 10000, seed: 1 } as const;
+
 /** The statistic and p-value method options shared by the count tests (goodness of fit, r×c tables). */
 export const COUNT_TEST_OPTIONS = { statistic: STATISTIC, lambda: LAMBDA, method: METHOD, resamples: RESAMPLES, seed: SEED } as const;
 

@@ -16,6 +16,12 @@ type Table = readonly (readonly number[])[];
 export const stratifiedProcedure: ProcedureHandler = {
   test: 'stratified',
   summary: 'Stratified tables: Cochran–Mantel–Haenszel test across strata of 2×2 tables (with the common odds ratio and Breslow–Day), or generalized CMH for R×C strata.',
+  planning: {
+    label: 'Stratified tables (Cochran–Mantel–Haenszel)',
+    detail: 'The same cross-classification in each stratum of a third variable',
+    accepts: ['categorical-columns'],
+    roles: ['the strata', 'the rows', 'the columns'],
+  },
   fields: {
     strata: field(arr(arr(COUNT_ARRAY, { minItems: 2 }), { minItems: 1 }), 'One table of counts per stratum, all of the same size (2×2 for CMH).', true),
     stratumLabels: LABELS('strata'),

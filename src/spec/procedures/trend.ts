@@ -14,6 +14,12 @@ import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, plac
 export const trendProcedure: ProcedureHandler = {
   test: 'trend',
   summary: 'Trend across ordered groups: Cochran–Armitage for a 2×k table (first row: events), or linear-by-linear association for two ordinal variables.',
+  planning: {
+    label: 'Trend across ordered groups',
+    detail: 'Cochran–Armitage (2×k) or linear-by-linear association',
+    accepts: ['counted-table', 'categorical-columns'],
+    roles: ['the outcome (rows)', 'the ordered groups (columns)'],
+  },
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Counts: 2 rows (events, non-events) by ordered groups, or an r×c table of two ordinal variables.', true),
     scores: field(arr(num()), 'Scores of the ordered groups (columns) for Cochran–Armitage. Default 1, 2, …, k (equally spaced).'),

@@ -13,6 +13,15 @@ import { ALTERNATIVE, CONFIDENCE, VARIABLE_NAME, aggregateOf, checkSourceColumns
 export const varianceProcedure: ProcedureHandler = {
   test: 'variance',
   summary: 'Chi-square test for one variance: is the spread σ (or σ²) equal to a target, with its confidence interval?',
+  planning: {
+    label: 'Variance of one numeric variable',
+    detail: 'χ² test of σ against a hypothesised σ0, with a confidence interval',
+    accepts: ['values', 'numeric-column'],
+    questions: [
+      { field: 'sigma0', title: 'Hypothesised standard deviation σ0' },
+      { field: 'alternative', title: 'Alternative hypothesis', choiceLabels: { 'two-sided': 'σ differs from σ0', greater: 'σ is larger than σ0', less: 'σ is smaller than σ0' } },
+    ],
+  },
   fields: {
     values: field(arr(num(), { minItems: 2 }), 'Raw measurements.', true),
     summary: field(

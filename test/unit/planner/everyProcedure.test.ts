@@ -5,7 +5,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { offerFromText, type Offer } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
-import { TEST_NAMES } from '../../../src/spec/procedures/index';
+import { PROCEDURES, TEST_NAMES } from '../../../src/spec/procedures/index';
 import { assertValidSpec } from '../../../src/spec/validate';
 import { ScriptedQuestions } from './fakeQuestions';
 import { demo, fileOffer, planAndRun, settings } from './helpers';
@@ -20,8 +20,8 @@ const SCRIPTS: Record<string, Record<string, string | boolean | readonly string[
   trend: { 'Which test?': 'Trend across ordered groups', 'Choose the outcome (rows)': 'shift', 'Choose the ordered groups (columns)': 'oven', 'Outcome levels of `shift`, the event first': '#1', 'Order of the groups of `oven`': '#1' },
   paired: { 'Which test?': 'Paired classifications', 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' },
   stratified: { 'Which test?': 'Stratified tables (Cochran–Mantel–Haenszel)', 'Choose the strata': 'oven', 'Choose the rows': 'shift', 'Choose the columns': 'defect' },
-  power: { 'Which test?': 'Power or sample size', 'Which test the power is for': 'independence', "Effect size (Cohen's w)": '0.3', 'Degrees of freedom': '4', 'What to compute': 'The sample size for a power', 'Target power': '0.8' },
-  distribution: { 'Which test?': 'Chi-square distribution', 'Degrees of freedom': '3', 'What to look up': 'Critical values for a probability', Probability: '0.05' },
+  power: { 'Which test?': 'Power or sample size', 'Which test the power is for': 'independence', "Effect size (Cohen's w)": '0.3', 'Degrees of freedom': '4', 'What to give': 'Target power', 'Target power': '0.8' },
+  distribution: { 'Which test?': 'Chi-square distribution', 'Degrees of freedom': '3', 'What to give': 'Probability', Probability: '0.05' },
 };
 
 function selectionOffer(): Offer {
@@ -30,6 +30,13 @@ function selectionOffer(): Offer {
 }
 
 describe('the planner reaches every procedure', () => {
+  it('every registered procedure declares how the editor offers it, and its questions name its own fields', () => {
+    for (const h of PROCEDURES) {
+      assert.ok(h.planning, `${h.test} has no planning declaration`);
+      for (const q of h.planning.questions ?? []) assert.ok(h.fields[q.field], `${h.test} asks for "${q.field}", which is not one of its fields`);
+    }
+  });
+
   it('has a script for every procedure in the registry', () => {
     assert.deepEqual(Object.keys(SCRIPTS).sort(), [...TEST_NAMES].sort());
   });
