@@ -14,8 +14,7 @@ import {
 } from '../../stats/chisquare';
 import type { DistributionResult } from '../../stats/result';
 import { arr, field, num, oneOf, type SpecProblem } from '../fields';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 
 /** `{ [key]: log10 }` when a positive value underflowed to 0 and its logarithm is finite; otherwise nothing. */
 function underflowLog<K extends string>(key: K, value: number, log10: () => number): Partial<Record<K, number>> {
@@ -26,7 +25,7 @@ function underflowLog<K extends string>(key: K, value: number, log10: () => numb
 
 const asList = (v: number | readonly number[] | undefined): readonly number[] => (v === undefined ? [] : typeof v === 'number' ? [v] : v);
 
-export const distributionProcedure: ProcedureHandler = {
+export const distributionProcedure = defineProcedure({
   test: 'distribution',
   summary: 'Tail probabilities of observed values and critical values of the chi-square distribution with "df" degrees of freedom.',
   planning: {
@@ -48,13 +47,13 @@ export const distributionProcedure: ProcedureHandler = {
       true,
     ),
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     if (spec.df === undefined) problems.push({ path, message: 'missing required field "df"' });
     if (spec.x === undefined && spec.p === undefined) problems.push({ path, message: 'give "x" (values of the statistic), "p" (probabilities), or both' });
     return problems;
   },
-  async run(spec: SpecV1): Promise<DistributionResult> {
+  async run(spec): Promise<DistributionResult> {
     const df = spec.df!;
     return {
       kind: 'distribution',
@@ -87,4 +86,4 @@ export const distributionProcedure: ProcedureHandler = {
       notices: [],
     };
   },
-};
+});

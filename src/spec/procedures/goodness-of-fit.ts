@@ -8,7 +8,7 @@ import type { TestResult } from '../../stats/result';
 import { arr, field, num, obj, oneOf, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1, WeightsByLevel } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { applyMethod } from './method';
 import {
   COUNT_ARRAY,
@@ -25,7 +25,7 @@ import {
 
 const weightsByLevel = oneOf(arr(num({ min: 0 }), { minItems: 2 }), obj({}, { additional: num({ min: 0 }) }));
 
-export const goodnessOfFitProcedure: ProcedureHandler = {
+export const goodnessOfFitProcedure = defineProcedure({
   test: 'goodness-of-fit',
   summary: 'Chi-square goodness of fit: do the observed counts of k categories match expected counts, proportions or ratios?',
   planning: {
@@ -49,7 +49,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
     estimatedParameters: field(num({ integer: true, min: 0 }), 'Number of parameters of the expected distribution estimated from these data; df = k − 1 − this. Default 0.'),
     ...COUNT_TEST_OPTIONS,
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['observed', 'source'], problems);
     requireOneOf(spec, path, ['expected', 'proportions', 'ratios'], problems, true);
@@ -134,7 +134,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
       { signal: ctx.signal, onProgress: ctx.onProgress },
     );
   },
-};
+});
 
 function keyedWeights(spec: SpecV1): { key: string; weights: Readonly<Record<string, number>> } | undefined {
   for (const key of ['proportions', 'ratios'] as const) {

@@ -7,8 +7,7 @@ import { independenceTest } from '../../stats/table';
 import type { TestResult } from '../../stats/result';
 import { arr, bool, field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { applyMethod } from './method';
 import {
   CONFIDENCE,
@@ -25,7 +24,7 @@ import {
   MONTE_CARLO,
 } from './shared';
 
-export const independenceProcedure: ProcedureHandler = {
+export const independenceProcedure = defineProcedure({
   test: 'independence',
   summary: 'Chi-square test of independence (or homogeneity) on an r×c table of counts.',
   planning: {
@@ -53,7 +52,7 @@ export const independenceProcedure: ProcedureHandler = {
     ...COUNT_TEST_OPTIONS,
     confidence: CONFIDENCE,
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['table', 'source'], problems);
     checkSourceColumns(spec, path, [0, 2], 'two columns (rows, columns), or none for an already-counted table', problems);
@@ -69,7 +68,7 @@ export const independenceProcedure: ProcedureHandler = {
       requireLength(spec, path, 'columnLabels', width, 'one per column of "table"', problems);
     }
     if (spec.source && (spec.source.columns?.length ?? 0) === 0) {
-      for (const key of ['rowLabels', 'columnLabels']) {
+      for (const key of ['rowLabels', 'columnLabels'] as const) {
         if (spec[key] !== undefined) problems.push({ path: childPath(path, key), message: `a counted table in a file carries its own labels; remove "${key}"` });
       }
     }
@@ -102,4 +101,4 @@ export const independenceProcedure: ProcedureHandler = {
       { signal: ctx.signal, onProgress: ctx.onProgress },
     );
   },
-};
+});

@@ -30,7 +30,7 @@
  * living report blocks and the reports all work from the handler.
  */
 import type { Result } from '../../stats/result';
-import { any, field, num, str, type Field, type SpecProblem } from '../fields';
+import { any, field, num, str, type Field, type FieldsValue, type SpecProblem } from '../fields';
 import type { RunContext, SpecV1 } from '../types';
 import { ALPHA } from './shared';
 import { distributionProcedure } from './distribution';
@@ -95,6 +95,34 @@ export interface ProcedureHandler {
   readonly fields: Readonly<Record<string, Field>>;
   validate(spec: SpecV1, path: string): readonly SpecProblem[];
   run(spec: SpecV1, ctx: RunContext): Promise<Result>;
+}
+
+/** The fields every saved test has, whatever its procedure. */
+export type CommonSpec = {
+  readonly version?: 1;
+  readonly test: string;
+  readonly title?: string;
+  readonly description?: string;
+  readonly alpha?: number;
+  readonly recorded?: unknown;
+};
+
+/** The TypeScript type of a saved test of the procedure whose field table is F: derived from the table. */
+export type SpecOf<F> = CommonSpec & FieldsValue<F>;
+
+/** A handler written against its own field table: `validate` and `run` see the typed saved test. */
+export interface TypedProcedure<F extends Readonly<Record<string, Field>>> extends Omit<ProcedureHandler, 'fields' | 'validate' | 'run'> {
+  readonly fields: F;
+  validate(spec: SpecOf<F>, path: string): readonly SpecProblem[];
+  run(spec: SpecOf<F>, ctx: RunContext): Promise<Result>;
+}
+
+/**
+ * Registers a handler typed by its field table. The one cast between the validated JSON value and the typed saved
+ * test is here: `validate` runs only after every field was checked against the same table.
+ */
+export function defineProcedure<F extends Readonly<Record<string, Field>>>(handler: TypedProcedure<F>): ProcedureHandler {
+  return handler as unknown as ProcedureHandler;
 }
 
 /** Fields every spec may have, whatever its test. */

@@ -2,15 +2,14 @@
  * `"test": "post-hoc"`: after an r×c test, which pairs of rows (or columns), or which cells, differ — with the
  * p-values adjusted for the number of comparisons and each line naming its rows, columns or cell.
  */
-import { postHocTest, type Adjustment, type Comparison } from '../../stats/posthoc';
+import { postHocTest } from '../../stats/posthoc';
 import type { TestResult } from '../../stats/result';
 import { arr, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { COUNT_ARRAY, LABELS, checkSourceColumns, requireLength, requireOneOf, sourceField, tableFromSource } from './shared';
 
-export const postHocProcedure: ProcedureHandler = {
+export const postHocProcedure = defineProcedure({
   test: 'post-hoc',
   summary: 'Post-hoc comparisons on an r×c table: pairs of rows or columns, or cell-wise adjusted residuals, with Bonferroni, Holm or Benjamini–Hochberg adjustment.',
   planning: {
@@ -31,7 +30,7 @@ export const postHocProcedure: ProcedureHandler = {
     compare: field(str({ enum: ['cells', 'rows', 'columns'] }), 'What to compare: "cells" (adjusted residual per cell, default), "rows" or "columns" (each pair by a chi-square test).'),
     adjustment: field(str({ enum: ['holm', 'bonferroni', 'benjamini-hochberg'] }), 'Multiplicity adjustment of the p-values. Default "holm".'),
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['table', 'source'], problems);
     checkSourceColumns(spec, path, [0, 2], 'two columns (rows, columns), or none for an already-counted table', problems);
@@ -44,14 +43,14 @@ export const postHocProcedure: ProcedureHandler = {
     requireLength(spec, path, 'columnLabels', width, 'one per column', problems);
     return problems;
   },
-  async run(spec: SpecV1, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<TestResult> {
     const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
     return postHocTest(counts, {
-      compare: spec.compare as Comparison | undefined,
-      adjustment: spec.adjustment as Adjustment | undefined,
+      compare: spec.compare,
+      adjustment: spec.adjustment,
       alpha: spec.alpha,
       rowLabels,
       columnLabels,
     });
   },
-};
+});
