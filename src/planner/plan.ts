@@ -338,8 +338,9 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   const levelsOf = (c: string): string[] | undefined => view.columns.find((x) => x.name === c)?.profile?.levels.map((l) => l.label);
 
   if (proposal.test === 'trend') {
-    const outcome = await askOrder(questions, levelsOf(columns[0]), `Outcome levels of \`${columns[0]}\`, the event first`, remembered.rowLabels);
-    const groups = await askOrder(questions, levelsOf(columns[1]), `Order of the groups of \`${columns[1]}\``, remembered.columnLabels);
+    const givenOrder = (key: 'rowLabels' | 'columnLabels') => (Array.isArray(given[key]) ? (given[key] as string[]) : undefined);
+    const outcome = givenOrder('rowLabels') ?? (await askOrder(questions, levelsOf(columns[0]), `Outcome levels of \`${columns[0]}\`, the event first`, remembered.rowLabels));
+    const groups = givenOrder('columnLabels') ?? (await askOrder(questions, levelsOf(columns[1]), `Order of the groups of \`${columns[1]}\``, remembered.columnLabels));
     answers.rowLabels = outcome;
     answers.columnLabels = groups;
     if (source && hasSourceField) return { fields: { source: { ...source, columns, ...(weight ? { weight } : {}) }, ...(outcome ? { rowLabels: outcome } : {}), ...(groups ? { columnLabels: groups } : {}) }, ...facts };
