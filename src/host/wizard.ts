@@ -62,7 +62,11 @@ export async function runWizard(services: Services, offer: Offer, given: Answers
     const remembered = services.context.workspaceState.get<Answers>(storeKey) ?? {};
     const planned = await plan({ offer, questions: quickPickQuestions, settings: s, given, remembered, specFolder: target.specFolder });
     await services.context.workspaceState.update(storeKey, planned.answers);
-    for (const note of planned.notes) services.output.info(`${target.label}: ${note}`);
+    for (const note of planned.notes) {
+      services.output.info(`${target.label}: ${note}`);
+      // What was inferred from the data (a weight column, an already-counted table) is said where the user looks.
+      void vscode.window.showInformationMessage(t('Countercheck: {0}', note));
+    }
     const specPath = path.join(target.specFolder, 'untitled.countercheck.json');
     const run = await services.run(planned.spec, specPath, target.label);
     const title = `${planned.title.split(' — ')[0]} — ${path.basename(target.label)}`;

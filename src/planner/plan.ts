@@ -316,7 +316,8 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   if (roles.length === 0) return { fields: {} };
   const columns = given.columns ? [...given.columns] : await chooseColumns(questions, view.columns, roles, proposal.label, remembered.columns);
   if (columns.length !== roles.length) throw new InputError(`${proposal.test} needs ${roles.length} column${roles.length === 1 ? '' : 's'} (${roles.map((r) => r.name).join(', ')}); found ${columns.length}`, {}, 'column-count');
-  for (const c of columns) {
+  // A database checks the names itself (and says which it has); records are checked here.
+  for (const c of offer.kind === 'catalogue' ? [] : columns) {
     if (!view.columns.some((x) => x.name === c)) {
       const records = view.records;
       throw new InputError(`column "${c}" not found; the columns are ${view.columns.map((x) => x.name).join(', ')}`, { file: records?.file, line: records?.lines[0] ? records.lines[0] - 1 : 1, column: c }, 'unknown-column');
@@ -464,7 +465,9 @@ async function checkCategoryColumns(view: Extract<View, { form: 'columns' }>, ro
         'numeric-as-category',
       );
     }
-    const looksLikeCounts = p.counts && p.total > p.present;
+    // Small whole numbers repeated across rows are coded categories (a dose 1, 2, 3); the column the shape
+    // took for the frequency weight is not, and saying so is worth a question.
+    const looksLikeCounts = view.shape.kind === 'long-counts' && view.shape.weightColumn === p.name;
     if (looksLikeCounts && weight === undefined) {
       const go = await questions.confirm({
         title: 'A numeric column as a category',

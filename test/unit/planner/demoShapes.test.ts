@@ -80,9 +80,15 @@ describe('shape inference on the demo files', () => {
     await refusal(() => planAndRun(offerFromText(`shift,weight_g\n${rows}\n`, { description: 'sel' }), {}, { test: 'goodness-of-fit', columns: ['weight_g'] }), 'numeric-as-category', /holds numbers with 30 different values/);
     await refusal(() => planAndRun(fileOffer('bike-share-survey.csv'), {}, { test: 'goodness-of-fit', columns: ['riders'], weight: null }), 'numeric-as-category', /`riders` holds numbers with 20 different values/);
     const questions = new ScriptedQuestions({ 'A numeric column as a category': false });
-    const offer = offerFromText('colour,boxes\nred,5\nred,7\nblue,5\nblue,9\n', { description: 'sel' });
+    const offer = offerFromText('colour,size,boxes\nred,S,5\nred,L,7\nblue,S,5\nblue,L,9\n', { description: 'sel' });
     await assert.rejects(plan({ offer, questions, settings, specFolder: demo, given: { test: 'goodness-of-fit', columns: ['boxes'] } }), (e: unknown) => isInputError(e) && e.code === 'numeric-as-category');
     assert.match(questions.asked[0].placeholder!, /`boxes` holds whole numbers \(total 26 over 4 rows\) that look like counts/);
+  });
+
+  it('takes small whole numbers repeated across rows (a dose 1, 2, 3) as a coded category without asking', async () => {
+    const rows = Array.from({ length: 30 }, (_, i) => `${i % 2 ? 'event' : 'none'},${1 + (i % 3)}`).join('\n');
+    const { planned } = await planAndRun(offerFromText(`outcome,dose\n${rows}\n`, { description: 'sel' }), {}, { test: 'trend', columns: ['outcome', 'dose'], rowLabels: ['event', 'none'], columnLabels: ['1', '2', '3'] });
+    assert.deepEqual(planned.spec.columnLabels, ['1', '2', '3']);
   });
 });
 
