@@ -194,6 +194,17 @@ describe('database command on a live PostgreSQL server', function () {
     }
   });
 
+  it('fits a distribution to a numeric column: the server sends the values, and the result equals the same values given inline', async () => {
+    const payload = await panelFrom(() => database({ test: 'distribution-fit', columns: ['minutes'], family: 'normal' }));
+    const r = payload.result as TestResult;
+    const values = data.map((d) => d.minutes).filter((m): m is number => m !== null);
+    assert.equal(r.test, 'distribution-fit');
+    const inline = await runInlineSpec('van-minutes-fit-inline.countercheck.json', { test: 'distribution-fit', values, family: 'normal' });
+    assert.equal(r.n, inline.n);
+    assert.equal(r.df, inline.df);
+    closeTo(r.statistic, inline.statistic, 1e-9 * inline.statistic, 'X² of the normal fit through PostgreSQL vs inline values');
+  });
+
   it('a column that is not in the table: a notification naming it and the real columns, no panel, nothing thrown', async () => {
     const a = await api();
     const panels = a.panels().length;
