@@ -7,7 +7,7 @@ import { goodnessOfFit } from '../../stats/fit';
 import type { TestResult } from '../../stats/result';
 import { arr, field, num, obj, oneOf, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1, WeightsByLevel } from '../types';
+import type { WeightsByLevel } from '../types';
 import { defineProcedure } from './index';
 import { applyMethod } from './method';
 import {
@@ -136,9 +136,9 @@ export const goodnessOfFitProcedure = defineProcedure({
   },
 });
 
-function keyedWeights(spec: SpecV1): { key: string; weights: Readonly<Record<string, number>> } | undefined {
+function keyedWeights(spec: { readonly proportions?: WeightsByLevel; readonly ratios?: WeightsByLevel }): { key: string; weights: Readonly<Record<string, number>> } | undefined {
   for (const key of ['proportions', 'ratios'] as const) {
-    const w: WeightsByLevel | undefined = spec[key];
+    const w = spec[key];
     if (w !== undefined && !Array.isArray(w)) return { key, weights: w as Readonly<Record<string, number>> };
   }
   return undefined;

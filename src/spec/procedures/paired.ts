@@ -8,7 +8,7 @@ import { arr, bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './index';
-import { CONFIDENCE, COUNT_ARRAY, LABELS, type SourceShape, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
+import { CONFIDENCE, COUNT_ARRAY, LABELS, type SourceSpec, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 
 export const pairedProcedure = defineProcedure({
   test: 'paired',
@@ -65,7 +65,7 @@ export const pairedProcedure = defineProcedure({
  * Cross-tabulates the two classification columns into a square table whose rows and columns list the same
  * categories in the same order: the spec's labels, or the levels of the first column then any new ones of the second.
  */
-async function squareFromSource(spec: { readonly source?: SourceShape; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<{ counts: number[][]; labels: string[] }> {
+async function squareFromSource(spec: { readonly source?: SourceSpec; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<{ counts: number[][]; labels: string[] }> {
   const [first, second] = spec.source!.columns!;
   const given = spec.rowLabels ?? spec.columnLabels;
   const { table } = await aggregateOf(ctx, { kind: 'crosstab', rowColumn: first, columnColumn: second, weight: spec.source!.weight }, 'table', given ? { rowLevels: given, columnLevels: given } : undefined);

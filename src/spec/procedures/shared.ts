@@ -4,7 +4,7 @@
  */
 import { InputError } from '../../errors';
 import type { Aggregate, CountTable } from '../../data/types';
-import { arr, bool, field, nul, num, obj, oneOf, str, type SpecProblem } from '../fields';
+import { arr, bool, field, nul, num, obj, oneOf, str, type SpecProblem, type ValueOf } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 
@@ -36,14 +36,6 @@ export const COUNT_TEST_OPTIONS = { statistic: STATISTIC, lambda: LAMBDA, method
 
 /** A saved test seen only by its field names (checks that look at presence and lengths). */
 export type SpecFields = Readonly<Record<string, unknown>>;
-
-/** The members of a `source` the shared checks read. */
-export interface SourceShape {
-  readonly path?: string;
-  readonly columns?: readonly string[];
-  readonly weight?: string;
-  readonly sql?: { readonly table?: string; readonly query?: string };
-}
 
 /** "lambda" only means something for the Cressie–Read statistic. */
 export function checkLambda(spec: { readonly lambda?: number; readonly statistic?: string }, path: string, problems: SpecProblem[]): void {
@@ -96,6 +88,9 @@ export function sourceField(columnsHelp: string, minColumns: number, maxColumns:
   );
 }
 
+/** The TypeScript type of a `source`, from its field table. */
+export type SourceSpec = ValueOf<ReturnType<typeof sourceField>['type']>;
+
 /** Reports a problem unless exactly one (or, with `optional`, at most one) of `keys` is present. */
 export function requireOneOf(
   spec: SpecFields,
@@ -122,7 +117,7 @@ export function requireLength(spec: SpecFields, path: string, key: string, lengt
 }
 
 /** Checks the number of columns a source names for this test. */
-export function checkSourceColumns(spec: { readonly source?: SourceShape }, path: string, allowed: readonly number[], what: string, problems: SpecProblem[]): void {
+export function checkSourceColumns(spec: { readonly source?: SourceSpec }, path: string, allowed: readonly number[], what: string, problems: SpecProblem[]): void {
   const source = spec.source;
   if (!source) return;
   const n = source.columns?.length ?? 0;
@@ -191,7 +186,7 @@ export function placeCounts(
  * The table of counts a spec's `source` gives: two columns cross-tabulated in the order of "rowLabels" and
  * "columnLabels" (a listed level the data lacks counts 0), or no columns for a file that is already a counted table.
  */
-export async function tableFromSource(spec: { readonly source?: SourceShape; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<{ counts: readonly (readonly number[])[]; rowLabels?: readonly string[]; columnLabels?: readonly string[] }> {
+export async function tableFromSource(spec: { readonly source?: SourceSpec; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<{ counts: readonly (readonly number[])[]; rowLabels?: readonly string[]; columnLabels?: readonly string[] }> {
   const source = spec.source!;
   const columns = source.columns ?? [];
   const request = columns.length === 2 ? ({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight: source.weight } as const) : ({ kind: 'counted-table' } as const);

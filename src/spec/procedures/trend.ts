@@ -9,7 +9,7 @@ import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './index';
-import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceShape } from './shared';
+import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
 
 export const trendProcedure = defineProcedure({
   test: 'trend',
@@ -74,7 +74,7 @@ export const trendProcedure = defineProcedure({
 });
 
 /** Cross-tabulates outcome × ordered group from the source, in the order the spec gives (unlisted levels are an error). */
-async function orderedTableFromSource(spec: { readonly source?: SourceShape; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<number[][]> {
+async function orderedTableFromSource(spec: { readonly source?: SourceSpec; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<number[][]> {
   const [outcome, group] = spec.source!.columns!;
   const rows = spec.rowLabels!;
   const columns = spec.columnLabels!;
