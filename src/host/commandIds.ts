@@ -4,6 +4,7 @@ export const COMMANDS = {
   runOnSelection: 'countercheck.runOnSelection',
   runOnCellOutput: 'countercheck.runOnCellOutput',
   distributionLookup: 'countercheck.distributionLookup',
+  planWithoutData: 'countercheck.planWithoutData',
   runSavedSpec: 'countercheck.runSavedSpec',
   rerunAndCompare: 'countercheck.rerunAndCompare',
   refreshAllBlocks: 'countercheck.refreshAllBlocks',
