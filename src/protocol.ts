@@ -108,7 +108,13 @@ export interface PanelPayload {
   readonly id: string;
   readonly title: string;
   readonly sourceDescription: string;
+  /** The answer in plain words (names quoted, never markdown). */
   readonly headline: string;
+  /** The size of the effect and the failed assumption with its alternative, shown right under the answer. */
+  readonly headlineEffect?: string;
+  readonly headlineAssumption?: string;
+  /** The procedure's key estimate, promoted beside the headline. */
+  readonly keyEstimate?: { readonly label: string; readonly value: string };
   readonly apaLine: string;
   readonly significant: boolean | null;
   readonly keyFigures: readonly { readonly label: string; readonly value: string }[];
@@ -117,6 +123,7 @@ export interface PanelPayload {
   readonly assumptions: readonly { readonly id: string; readonly title: string; readonly status: 'met' | 'failed' | 'unchecked'; readonly explanation: string; readonly alternative?: string }[];
   readonly notices: readonly { readonly severity: 'info' | 'warning'; readonly message: string }[];
   readonly otherStatistics: readonly { readonly name: string; readonly value: string }[];
+  /** The caution that applies to this kind of result ('' when none does, as for a distribution lookup). */
   readonly caution: string;
   /** Plain text and markdown, produced by src/report (not by the webview). */
   readonly text: string;

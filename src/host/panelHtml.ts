@@ -19,6 +19,10 @@ h2 { font-size: 1.05em; font-weight: 600; margin: 22px 0 8px; color: var(--vscod
 .headline.signal { border-left-color: var(--vscode-charts-orange); }
 .headline.quiet { border-left-color: var(--vscode-charts-blue); }
 .eyebrow { color: var(--vscode-descriptionForeground); font-size: 0.92em; }
+.key-estimate { margin: 2px 0 4px; font-variant-numeric: tabular-nums; }
+.key-estimate .key-label { color: var(--vscode-descriptionForeground); }
+.effect { margin: 2px 0; }
+.failed-assumption { margin: 4px 0; padding: 4px 8px; border-left: 3px solid var(--vscode-editorWarning-foreground); background: var(--vscode-textBlockQuote-background); }
 .apa { font-family: var(--vscode-editor-font-family); background: var(--vscode-textCodeBlock-background); padding: 4px 8px; display: inline-block; border-radius: 3px; margin: 4px 0; }
 .source { color: var(--vscode-descriptionForeground); font-size: 0.9em; margin: 4px 0 0; }
 .actions { display: flex; flex-wrap: wrap; gap: 6px; margin: 8px 0 14px; }

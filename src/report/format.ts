@@ -86,12 +86,13 @@ export function apaSymbol(symbol: string): string {
 /**
  * "χ²(3, N = 556) = 0.47, p = .925" — the statistic with df and N, and the APA p-value.
  * `df` null (a statistic without degrees of freedom, such as z) leaves the parentheses out: "z = 4.07, p < .001".
+ * `pName` names a p-value that is not the chi-square approximation's: "χ²(4, N = 39) = 11.90, exact p = .026".
  */
-export function formatApaLine(symbol: string, statistic: number, df: number | null, n: number | null, p: Probability, format: FormatOptions = DEFAULT_FORMAT): string {
+export function formatApaLine(symbol: string, statistic: number, df: number | null, n: number | null, p: Probability, format: FormatOptions = DEFAULT_FORMAT, pName = 'p'): string {
   const inside = df === null ? [] : [formatDf(df, format.decimals), ...(n !== null ? [`N = ${formatCount(n, format.decimals)}`] : [])];
   const head = inside.length > 0 ? `${apaSymbol(symbol)}(${inside.join(', ')})` : apaSymbol(symbol);
   const stat = Number.isNaN(statistic) ? '' : ` = ${formatNumber(statistic, format.decimals)}`;
-  return `${head}${stat}, ${formatPApa(p)}`;
+  return `${head}${stat}, ${formatPApa(p).replace(/^p/, pName)}`;
 }
 
 /** "95%" from 0.95; "99.9%" from 0.999. */

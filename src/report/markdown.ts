@@ -5,7 +5,8 @@
  */
 import type { CellGrid, CategoryRow, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
 import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPExact, formatProbability } from './format';
-import { CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
+import { presentedTest, testHeadline, type Headline } from './headline';
+import { CAUTION, POWER_CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
 
 /** Escapes text for a markdown table cell or inline text. */
 export function escapeMarkdown(text: string): string {
@@ -16,6 +17,27 @@ export function escapeMarkdown(text: string): string {
     .replace(/<(?=[A-Za-z/!?])/g, '\\<')
     .replace(/^([#>+-])/, '\\$1')
     .replace(/\r?\n/g, ' ');
+}
+
+/**
+ * Inline text in which names given as code spans (`fill_ml`) stay code spans: everything else is escaped,
+ * and the name itself is fenced with enough backticks to hold any it contains.
+ */
+export function markdownWithNames(text: string): string {
+  return text.split(/(`[^`]+`)/).map((part) => (/^`[^`]+`$/.test(part) ? codeSpan(part.slice(1, -1)) : escapeMarkdown(part))).join('');
+}
+
+/** A code span holding `text` verbatim (CommonMark: a longer fence than any backtick run inside). */
+export function codeSpan(text: string): string {
+  const longest = Math.max(0, ...(text.match(/`+/g) ?? []).map((r) => r.length));
+  const fence = '`'.repeat(longest + 1);
+  const pad = text.startsWith('`') || text.endsWith('`') ? ' ' : '';
+  return `${fence}${pad}${text}${pad}${fence}`;
+}
+
+/** The headline in markdown: the answer with names as code spans, then the failed assumption in bold (the effect size is the next line). */
+export function headlineMarkdown(h: Headline, conclusion: string): string {
+  return [markdownWithNames(conclusion), ...(h.assumption ? [`**${escapeMarkdown(h.assumption)}**`] : [])].join(' ');
 }
 
 /** A pipe table; numeric columns are right-aligned. */
@@ -62,10 +84,11 @@ function noticeBullets(result: { readonly notices: TestResult['notices'] }): str
   return result.notices.map((n) => `- ${n.severity === 'warning' ? '**Warning:** ' : ''}${escapeMarkdown(n.message)}`);
 }
 
-export function testMarkdown(result: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+export function testMarkdown(given: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const result = presentedTest(given);
   const parts: string[] = [];
   parts.push(`**${escapeMarkdown(options.title ?? result.procedure)}**${options.title ? ` — ${escapeMarkdown(result.procedure)}` : ''}`);
-  parts.push(escapeMarkdown(result.conclusion));
+  parts.push(headlineMarkdown(testHeadline(result, options), result.conclusion));
   const exact = formatPExact(result.pValue);
   const details = [apaLine(result, options) + (exact ? ` (${exact})` : ''), ...result.effectSizes.map((e) => estimateText(e, options))];
   const { main, interval, rest } = mainIntervalAndEstimates(result);
@@ -123,7 +146,7 @@ export function powerMarkdown(result: PowerResult, options: ReportOptions = DEFA
   const head = `**${escapeMarkdown(options.title ?? `Power of the chi-square ${result.target} test`)}**`;
   const body = `${escapeMarkdown(result.effectSize.name)} = ${formatEstimate(result.effectSize.value, options)}, df = ${formatDf(result.df)}, α = ${formatEstimate(result.alpha, options)}: n = ${formatCount(result.n)}, power = ${formatEstimate(result.power, options)}${result.solvedFor === 'n' ? ' (smallest n reaching the power asked)' : ''}`;
   const notes = noticeBullets(result);
-  return [head, body, ...(notes.length ? [notes.join('\n')] : []), `*${escapeMarkdown(CAUTION)}*`].join('\n\n') + '\n';
+  return [head, body, ...(notes.length ? [notes.join('\n')] : []), `*${escapeMarkdown(POWER_CAUTION)}*`].join('\n\n') + '\n';
 }
 
 export function resultMarkdown(result: Result, options: ReportOptions = DEFAULT_FORMAT): string {

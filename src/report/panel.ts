@@ -9,7 +9,8 @@ import type { DistributionResult, Result, TestResult } from '../stats/result';
 import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, type FormatOptions } from './format';
 import { resultMarkdown } from './markdown';
 import { plotsFor, residualShade } from './plots';
-import { apaLine, CAUTION, estimateText, resultText, statisticLineText } from './text';
+import { keyEstimate, presentedTest, testHeadline } from './headline';
+import { apaLine, CAUTION, estimateText, POWER_CAUTION, resultText, statisticLineText } from './text';
 
 /** A string translator with `{0}`-style placeholders, as vscode.l10n.t. */
 export type Translate = (message: string, ...args: (string | number | boolean)[]) => string;
@@ -134,7 +135,7 @@ export function panelStrings(t: Translate = untranslated): Record<string, string
     insert: t('Insert into document'), saveSpec: t('Save as test file'), rerun: t('Re-run'),
     otherStatistics: t('Other statistics on the same data'), assumptions: t('Assumptions'),
     met: t('checked, met'), failed: t('checked, not met'), unchecked: t('cannot be checked from the data'),
-    alternative: t('Consider instead'), observed: t('observed'), expected: t('expected'),
+    alternative: t('Consider instead'), usedHere: t('Used here'), observed: t('observed'), expected: t('expected'),
     observedMarked: t('Observed statistic marked at'), tailShaded: t('shaded area: the tail the p-value counts'), criticalDashed: t('dashed: critical value at α'),
     insideInterval: t('inside the interval'), outsideInterval: t('outside the interval'),
   };
@@ -147,7 +148,7 @@ export function buildPanelPayload(result: Result, options: PayloadOptions, t: Tr
     id: options.id,
     title: options.title,
     sourceDescription: options.sourceDescription,
-    caution: CAUTION,
+    caution: result.kind === 'test' ? CAUTION : result.kind === 'power' ? POWER_CAUTION : '',
     text: resultText(result, { ...f, title: options.title }),
     markdown: resultMarkdown(result, { ...f, title: options.title }),
     result,
@@ -157,16 +158,22 @@ export function buildPanelPayload(result: Result, options: PayloadOptions, t: Tr
     computedAt: options.computedAt ?? new Date().toISOString(),
   };
   if (result.kind === 'test') {
+    const presented = presentedTest(result);
+    const headline = testHeadline(presented, f);
+    const key = keyEstimate(presented);
     return {
       ...common,
-      headline: result.conclusion,
+      headline: headline.answer,
+      ...(headline.effect && key !== presented.effectSizes[0] ? { headlineEffect: headline.effect } : {}),
+      ...(headline.assumption ? { headlineAssumption: headline.assumption } : {}),
+      ...(key ? { keyEstimate: { label: key.name, value: estimateText(key, f).slice(key.name.length + 3) } } : {}),
       apaLine: apaLine(result, f),
       significant: result.significant,
       keyFigures: keyFigures(result, f, t),
       tables: testTables(result, f, t),
       plots: plotsFor(result, f.decimals),
-      assumptions: result.assumptions.map((a) => ({ ...a })),
-      notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
+      assumptions: presented.assumptions.map((a) => ({ ...a })),
+      notices: presented.notices.map((n) => ({ severity: n.severity, message: n.message })),
       otherStatistics: [
         ...result.otherStatistics.map((s) => ({ name: s.name, value: statisticLineText(s, result.n, f).replace(`${s.name}: `, '') + (s.note ? ` — ${s.note}` : '') })),
         ...result.estimates.map((e) => ({ name: e.name, value: estimateText(e, f).replace(`${e.name} = `, '') })),

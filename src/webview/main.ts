@@ -45,6 +45,9 @@ function render(payload: PanelPayload): void {
     el('div', { class: 'eyebrow' }, icon(verdict === 'signal' ? 'pulse' : verdict === 'quiet' ? 'circle-large-outline' : 'graph-line'), ` ${payload.title}`),
     el('h1', { id: 'headline' }, payload.headline),
   );
+  if (payload.keyEstimate) header.append(el('p', { class: 'key-estimate', id: 'key-estimate' }, el('span', { class: 'key-label' }, payload.keyEstimate.label), ' ', el('strong', {}, payload.keyEstimate.value)));
+  if (payload.headlineEffect) header.append(el('p', { class: 'effect', id: 'headline-effect' }, payload.headlineEffect));
+  if (payload.headlineAssumption) header.append(el('p', { class: 'failed-assumption', id: 'headline-assumption', role: 'note' }, icon('warning'), ` ${payload.headlineAssumption}`));
   if (payload.apaLine) header.append(el('p', { class: 'apa', id: 'apa-line' }, payload.apaLine));
   header.append(el('p', { class: 'source' }, icon('database'), ` ${payload.sourceDescription}`));
   root.append(header, actionBar(payload));
@@ -72,8 +75,8 @@ function render(payload: PanelPayload): void {
     section.append(dl);
     root.append(section);
   }
-  root.append(renderAssumptions(payload));
-  root.append(el('p', { class: 'caution', role: 'note' }, icon('law'), ` ${payload.caution}`));
+  if (payload.assumptions.length > 0) root.append(renderAssumptions(payload));
+  if (payload.caution) root.append(el('p', { class: 'caution', role: 'note' }, icon('law'), ` ${payload.caution}`));
   root.append(el('p', { class: 'status', id: 'status', role: 'status', 'aria-live': 'polite' }));
 }
 
@@ -127,7 +130,10 @@ function renderAssumptions(payload: PanelPayload): HTMLElement {
     const details = el('details', { class: `assumption ${a.status}`, 'data-id': a.id });
     const summary = el('summary', { title: a.explanation }, icon(icons[a.status]), ` ${a.title} `, el('span', { class: 'state' }, `— ${labels[a.status]}`));
     details.append(summary, el('p', {}, a.explanation));
-    if (a.alternative) details.append(el('p', { class: 'alternative' }, `${s('alternative', 'Consider instead')}: ${a.alternative}`));
+    if (a.alternative) {
+      const used = a.alternative.startsWith('used here: ');
+      details.append(el('p', { class: 'alternative' }, used ? `${s('usedHere', 'Used here')}: ${a.alternative.slice('used here: '.length)}` : `${s('alternative', 'Consider instead')}: ${a.alternative}`));
+    }
     section.append(details);
   }
   return section;
