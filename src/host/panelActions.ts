@@ -6,6 +6,7 @@ import type { PanelAction, PanelOrigin } from '../protocol';
 import { makeRecord } from '../spec/review';
 import { runSpec } from '../spec/run';
 import { toolName } from './commands/savedSpecs';
+import { specFileName } from './locations';
 import type { ResultPanel } from './panel';
 import { extensionReaders, settings, type Services } from './services';
 
@@ -53,8 +54,11 @@ function defaultSpecPath(origin: PanelOrigin): string {
 
 /** Writes the spec with its recorded result. An existing file is only replaced after the user has seen the diff. */
 export async function saveSpec(services: Services, origin: PanelOrigin, target?: vscode.Uri): Promise<vscode.Uri | undefined> {
-  const uri = target ?? (await vscode.window.showSaveDialog({ defaultUri: vscode.Uri.file(defaultSpecPath(origin)), filters: { [t('Countercheck test')]: ['countercheck.json'] }, title: t('Save as test file') }));
-  if (!uri) return undefined;
+  // The filter names the plain extension: a dialog that appends the filter's extension to a name whose
+  // last extension differs would turn "x.countercheck.json" into "x.countercheck.json.countercheck.json".
+  const chosen = target ?? (await vscode.window.showSaveDialog({ defaultUri: vscode.Uri.file(defaultSpecPath(origin)), filters: { [t('Countercheck test')]: ['json'] }, title: t('Save as test file') }));
+  if (!chosen) return undefined;
+  const uri = chosen.with({ path: specFileName(chosen.path) });
   const spec: Record<string, unknown> = { ...origin.spec };
   delete spec.recorded;
   const source = spec.source as Record<string, unknown> | undefined;

@@ -2,6 +2,7 @@
 // readers, the panels, and the error notification that points at the place in the file.
 import * as path from 'node:path';
 import * as vscode from 'vscode';
+import { rememberSpecFolder, resolveErrorFile, specFolderOf } from './locations';
 import { aggregateFile } from '../data/file';
 import { errorMessage, isInputError, isInstance, type InputError } from '../errors';
 import type { PanelOrigin } from '../protocol';
@@ -99,6 +100,7 @@ export class Services {
           });
         } catch (e) {
           if (abort.signal.aborted) throw new Cancelled(t('Cancelled'));
+          rememberSpecFolder(e, specPath);
           throw e;
         } finally {
           sub.dispose();
@@ -137,7 +139,7 @@ export class Services {
       void vscode.window.showErrorMessage(t('Countercheck: {0}', message));
       return;
     }
-    const target = locate(e, baseFolder);
+    const target = locate(e, baseFolder ?? specFolderOf(e));
     const where = target ? ` (${vscode.workspace.asRelativePath(target.uri)}${target.line ? `:${target.line}` : ''}${target.column ? `, ${t('column')} ${target.column}` : ''})` : '';
     const open = t('Open at location');
     // Not awaited: the command finishes now; the button works whenever the user gets to it.
@@ -177,6 +179,6 @@ function columnOffset(doc: vscode.TextDocument, column: string | undefined, line
 export function locate(e: InputError, baseFolder?: string): { uri: vscode.Uri; line?: number; column?: string } | undefined {
   const { file, line, column } = e.location;
   if (!file) return undefined;
-  const abs = path.isAbsolute(file) ? file : path.join(baseFolder ?? vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? '', file);
+  const abs = resolveErrorFile(file, baseFolder, vscode.workspace.workspaceFolders?.[0]?.uri.fsPath);
   return { uri: vscode.Uri.file(abs), line, column };
 }

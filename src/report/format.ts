@@ -41,17 +41,28 @@ export function formatCount(x: number, decimals = DEFAULT_FORMAT.decimals): stri
 }
 
 /**
- * Degrees of freedom: whole numbers as they are, fractional ones from 1 upward with up to the given decimals
+ * Degrees of freedom: whole numbers as they are (no thousands separator), fractional ones from 1 upward with up to the given decimals
  * ("2.5", "3.14"), and fractional ones below 1 with `decimals + 1` significant digits ("0.0153",
  * "1.00 × 10^-10"), so a tiny df is never written as 0.
  */
 export function formatDf(df: number, decimals = DEFAULT_FORMAT.decimals): string {
-  if (Number.isInteger(df)) return formatCount(df);
+  // Never grouped: "χ²(1767, N = 1,768)" reads as one df, where "1,767" would read as two arguments.
+  if (Number.isInteger(df)) return String(df);
   if (!Number.isFinite(df)) return formatNumber(df);
   const magnitude = Math.abs(df);
   if (magnitude >= 1) return String(Number(df.toFixed(decimals)));
   if (magnitude < 1e-4) return formatScientific(df, decimals + 1);
   return String(Number(df.toPrecision(decimals + 1)));
+}
+
+const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '+': '⁺', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+
+/**
+ * "5.1 × 10⁻⁵" from "5.1 × 10^-5": exponents as superscripts for the panel. Plain text and markdown keep
+ * the caret form, which every terminal, spreadsheet and markdown renderer shows alike.
+ */
+export function superscriptExponents(text: string): string {
+  return text.replace(/10\^([+-]?\d+)/g, (_whole, exponent: string) => `10${[...exponent].map((c) => SUPERSCRIPT[c]).join('')}`);
 }
 
 /** "3.2 × 10^-5" with `significant` significant digits. */

@@ -6,7 +6,7 @@
  */
 import type { PanelPayload, ResultTable } from '../protocol';
 import type { DistributionResult, Result, TestResult } from '../stats/result';
-import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, type FormatOptions } from './format';
+import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, superscriptExponents, type FormatOptions } from './format';
 import { resultMarkdown } from './markdown';
 import { plotsFor, residualShade } from './plots';
 import { keyEstimate, presentedTest, testHeadline } from './headline';
@@ -141,8 +141,26 @@ export function panelStrings(t: Translate = untranslated): Record<string, string
   };
 }
 
+/** Payload fields that travel as plain text or data (copied, saved, re-run): their exponents stay in caret form. */
+const VERBATIM = new Set(['text', 'markdown', 'result', 'origin', 'strings', 'id', 'computedAt']);
+
+/** Every string the panel displays, with exponents as superscripts ("10⁻⁵"); copied text keeps "10^-5". */
+export function withSuperscripts(payload: PanelPayload): PanelPayload {
+  const deep = (value: unknown): unknown => {
+    if (typeof value === 'string') return superscriptExponents(value);
+    if (Array.isArray(value)) return value.map(deep);
+    if (typeof value === 'object' && value !== null) return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, deep(v)]));
+    return value;
+  };
+  return Object.fromEntries(Object.entries(payload).map(([k, v]) => [k, VERBATIM.has(k) ? v : deep(v)])) as unknown as PanelPayload;
+}
+
 /** Everything the panel shows for a result. `t` translates the panel's own strings (the host passes vscode.l10n.t). */
 export function buildPanelPayload(result: Result, options: PayloadOptions, t: Translate = untranslated): PanelPayload {
+  return withSuperscripts(payloadFor(result, options, t));
+}
+
+function payloadFor(result: Result, options: PayloadOptions, t: Translate): PanelPayload {
   const f: FormatOptions = { decimals: options.decimals };
   const common = {
     id: options.id,
