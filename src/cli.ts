@@ -7,7 +7,7 @@
  *
  * `main` takes its streams and folder as arguments so tests run it in-process.
  */
-import { readFile, rename, writeFile } from 'node:fs/promises';
+import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
 import * as path from 'node:path';
 import { aggregateFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
@@ -15,6 +15,9 @@ import { workspaceConnections } from './data/sql/settings';
 import { errorMessage, isInputError, isInstance } from './errors';
 import { refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
+import { resultMarkdown } from './report/markdown';
+import { plotFiles } from './report/svg';
+import { resultToCsv } from './report/tables';
 import { resultText } from './report/text';
 import { isInside } from './spec/paths';
 import { describeRunError, runReportBlock } from './spec/living';
@@ -51,6 +54,8 @@ Usage:
       --record                    store the result seen in the spec ("recorded"); a different earlier
                                   record is only replaced with --force, and what changes is printed
       --decimals N                decimals for statistics in text output (default 2)
+      --format F                  text (default), markdown, json (as --json) or csv (one quantity a line)
+      --plots DIR                 also write each plot as a standalone SVG file into DIR
       -                           read one spec from standard input
   countercheck check <spec…>      re-run each spec and compare with its recorded result:
                                   reproduced / data changed / result differs / cannot run
@@ -78,13 +83,15 @@ interface Flags {
   readonly check: boolean;
   readonly allowOutside: boolean;
   readonly decimals: number;
+  readonly format?: 'text' | 'markdown' | 'json' | 'csv';
+  readonly plots?: string;
 }
 
 class UsageError extends Error {}
 
 function parseArgs(args: readonly string[]): { command?: string; files: string[]; flags: Flags; help: boolean; version: boolean } {
   const files: string[] = [];
-  const flags = { json: false, record: false, force: false, check: false, allowOutside: false, decimals: 2 };
+  const flags: { -readonly [K in keyof Flags]: Flags[K] } = { json: false, record: false, force: false, check: false, allowOutside: false, decimals: 2 };
   let command: string | undefined;
   let help = false;
   let version = false;
@@ -102,6 +109,15 @@ function parseArgs(args: readonly string[]): { command?: string; files: string[]
       const d = Number(v);
       if (!Number.isInteger(d) || d < 0 || d > 12) throw new UsageError(`--decimals: expected a whole number from 0 to 12, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
       flags.decimals = d;
+    } else if (a === '--format' || a.startsWith('--format=')) {
+      const v = a.includes('=') ? a.slice(a.indexOf('=') + 1) : args[++i];
+      if (v !== 'text' && v !== 'markdown' && v !== 'json' && v !== 'csv') throw new UsageError(`--format: expected text, markdown, json or csv, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
+      flags.format = v;
+      if (v === 'json') flags.json = true;
+    } else if (a === '--plots' || a.startsWith('--plots=')) {
+      const v = a.includes('=') ? a.slice(a.indexOf('=') + 1) : args[++i];
+      if (!v) throw new UsageError('--plots: expected a folder to write the plots into');
+      flags.plots = v;
     } else if (a.startsWith('-') && a !== '-') throw new UsageError(`unknown option ${a} (see countercheck --help)`);
     else if (command === undefined) command = a;
     else files.push(a);
@@ -203,9 +219,19 @@ async function commandRun(files: readonly string[], flags: Flags, io: CliIo): Pr
       const run = await runLoaded(loaded, io, flags);
       const data = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
       if (flags.json) outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(run.result), data });
+      else if (flags.format === 'csv') io.stdout(files.indexOf(file) === 0 ? resultToCsv(run.result, loaded.name) : resultToCsv(run.result, loaded.name).replace(/^[^\n]*\n/, ''));
       else {
-        const text = resultText(run.result, { decimals: flags.decimals, title: loaded.spec.title, data });
+        const options = { decimals: flags.decimals, title: loaded.spec.title, data };
+        const text = flags.format === 'markdown' ? resultMarkdown(run.result, options) : resultText(run.result, options);
         io.stdout(`${files.length > 1 ? `== ${loaded.name}\n` : ''}${text}${files.length > 1 ? '\n' : ''}`);
+      }
+      if (flags.plots) {
+        const folder = path.resolve(io.cwd, flags.plots);
+        await mkdir(folder, { recursive: true });
+        for (const plot of plotFiles(run.result, loaded.absolute ? path.basename(loaded.absolute) : 'stdin', flags.decimals)) {
+          await writeFile(path.join(folder, plot.name), plot.svg, 'utf8');
+          io.stderr(`wrote ${path.join(flags.plots, plot.name)}\n`);
+        }
       }
       if (flags.record) exit = Math.max(exit, await record(loaded, run, flags, io));
     } catch (e) {

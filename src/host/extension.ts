@@ -10,7 +10,7 @@ import { runOnSelection } from './commands/runOnSelection';
 import { openSpecResult, rerunAndCompare, runSavedSpec } from './commands/savedSpecs';
 import { BlockCodeLensProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
 import { PANEL_VIEW_TYPE } from './panel';
-import { handlePanelAction, saveSpec, trackEditors } from './panelActions';
+import { copyTable, handlePanelAction, savePlot, saveSpec, trackEditors } from './panelActions';
 import { Services } from './services';
 import { registerSqlCommands } from './sqlCommand';
 import { registerTesting, type SavedTests } from './testing';
@@ -37,7 +37,7 @@ export interface CountercheckApi {
 
 export function activate(context: vscode.ExtensionContext): CountercheckApi {
   const started = performance.now();
-  const services: Services = new Services(context, { onAction: (action, panel) => handlePanelAction(services, action, panel) });
+  const services: Services = new Services(context, { onAction: (action, panel) => handlePanelAction(services, action, panel), onSavePlot: (index, panel) => savePlot(panel, index), onCopyTable: (index, panel) => copyTable(panel, index) });
   context.subscriptions.push(services);
   trackEditors(context);
   const command = (id: string, run: (...args: never[]) => unknown) => context.subscriptions.push(vscode.commands.registerCommand(id, run as (...args: unknown[]) => unknown));

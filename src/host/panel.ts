@@ -10,6 +10,8 @@ export const PANEL_VIEW_TYPE = 'countercheck.result';
 /** What a panel can do besides showing: the handlers come from the command that made it. */
 export interface PanelActions {
   onAction(action: PanelAction, panel: ResultPanel): Promise<void>;
+  onSavePlot(index: number, panel: ResultPanel): Promise<void>;
+  onCopyTable(index: number, panel: ResultPanel): Promise<void>;
 }
 
 export class ResultPanel {
@@ -49,11 +51,38 @@ export class ResultPanel {
     this.post({ type: 'show', payload });
   }
 
+  private pngRequests = new Map<number, { resolve: (bytes: Uint8Array) => void; reject: (e: Error) => void }>();
+  private nextRequest = 1;
+
+  /** Asks the webview to draw a standalone SVG on its canvas; resolves with the PNG bytes. */
+  renderPng(svg: string, scale = 2): Promise<Uint8Array> {
+    if (this.disposed) return Promise.reject(new Error('the panel is closed'));
+    const requestId = this.nextRequest++;
+    return new Promise((resolve, reject) => {
+      this.pngRequests.set(requestId, { resolve, reject });
+      this.post({ type: 'render-png', requestId, svg, scale });
+      setTimeout(() => {
+        if (this.pngRequests.delete(requestId)) reject(new Error('the panel did not answer within 10 s'));
+      }, 10_000);
+    });
+  }
+
   private async receive(message: unknown): Promise<void> {
     if (this.disposed || !isWebviewToHost(message)) return;
     if (message.type === 'ready') return;
+    if (message.type === 'png') {
+      const pending = this.pngRequests.get(message.requestId);
+      this.pngRequests.delete(message.requestId);
+      if (!pending) return;
+      const match = /^data:image\/png;base64,(.+)$/.exec(message.dataUrl ?? '');
+      if (match) pending.resolve(new Uint8Array(Buffer.from(match[1], 'base64')));
+      else pending.reject(new Error(message.error ?? 'no PNG'));
+      return;
+    }
     try {
-      await this.actions.onAction(message.action, this);
+      if (message.type === 'save-plot') await this.actions.onSavePlot(message.index, this);
+      else if (message.type === 'copy-table') await this.actions.onCopyTable(message.index, this);
+      else await this.actions.onAction(message.action, this);
     } catch (e) {
       this.post({ type: 'status', text: errorMessage(e), level: 'error' });
     }

@@ -6,6 +6,8 @@ import type { PanelAction, PanelOrigin } from '../protocol';
 import { makeRecord } from '../spec/review';
 import { runSpec } from '../spec/run';
 import { toolName } from './commands/savedSpecs';
+import { tableToTsv } from '../report/tables';
+import { plotFileName, renderPlotSvg } from '../report/svg';
 import { specFileName } from './locations';
 import type { ResultPanel } from './panel';
 import { extensionReaders, settings, type Services } from './services';
@@ -90,6 +92,33 @@ export async function saveSpec(services: Services, origin: PanelOrigin, target?:
   }
   services.output.info(`saved ${uri.fsPath}`);
   return uri;
+}
+
+/** "Save plot…": the standalone SVG, or a PNG drawn by the panel's canvas when the name ends in .png. */
+export async function savePlot(panel: ResultPanel, index: number): Promise<void> {
+  const plot = panel.payload.plots[index];
+  if (!plot) return;
+  const origin = panel.payload.origin;
+  const folder = origin ? path.dirname(origin.specPath) : (vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? '');
+  const base = origin?.saved ? path.basename(origin.specPath) : panel.payload.title;
+  const uri = await vscode.window.showSaveDialog({
+    defaultUri: vscode.Uri.file(path.join(folder, plotFileName(base, index, plot))),
+    filters: { [t('SVG image')]: ['svg'], [t('PNG image')]: ['png'] },
+    title: t('Save plot'),
+  });
+  if (!uri) return;
+  const svg = renderPlotSvg(plot);
+  const bytes = /\.png$/i.test(uri.path) ? await panel.renderPng(svg, 2) : new TextEncoder().encode(svg);
+  await vscode.workspace.fs.writeFile(uri, bytes);
+  panel.post({ type: 'status', text: t('Saved {0}.', vscode.workspace.asRelativePath(uri)), level: 'info' });
+}
+
+/** "Copy table": tab-separated cells (a spreadsheet pastes them as cells). */
+export async function copyTable(panel: ResultPanel, index: number): Promise<void> {
+  const table = panel.payload.tables[index];
+  if (!table) return;
+  await vscode.env.clipboard.writeText(tableToTsv(table));
+  panel.post({ type: 'status', text: t('Copied the table as tab-separated cells ({0} rows).', table.rows.length + 1), level: 'info' });
 }
 
 export async function handlePanelAction(services: Services, action: PanelAction, panel: ResultPanel): Promise<void> {

@@ -12,7 +12,7 @@ export function escapeAttribute(text: string): string {
 const STYLE = `
 :root { color-scheme: light dark; }
 body { font-family: var(--vscode-font-family); font-size: var(--vscode-font-size); color: var(--vscode-foreground); background: var(--vscode-editor-background); margin: 0; padding: 0 20px 24px; line-height: 1.45; }
-#root { max-width: 860px; }
+#root { max-width: none; }
 h1 { font-size: 1.35em; font-weight: 600; margin: 4px 0 6px; }
 h2 { font-size: 1.05em; font-weight: 600; margin: 22px 0 8px; color: var(--vscode-descriptionForeground); text-transform: none; }
 .headline { border-left: 4px solid var(--vscode-charts-foreground, var(--vscode-foreground)); padding: 14px 0 6px 14px; margin: 16px 0 10px; }
@@ -38,39 +38,54 @@ button[disabled] { opacity: 0.5; cursor: default; }
 .notices li { padding: 3px 8px; margin: 2px 0; background: var(--vscode-textBlockQuote-background); border-left: 2px solid var(--vscode-textBlockQuote-border); }
 .notices li.warning { border-left-color: var(--vscode-editorWarning-foreground); }
 .table-wrap { overflow-x: auto; margin: 10px 0; }
-table.counts { border-collapse: collapse; font-variant-numeric: tabular-nums; }
+.status { align-self: center; margin-left: 8px; color: var(--vscode-descriptionForeground); }
+.status.info::before { content: '✓ '; }
+.copy-table, .save-plot { font-size: 0.85em; padding: 1px 8px; margin-left: 8px; }
+table.counts { border-collapse: collapse; font-variant-numeric: tabular-nums; width: 100%; }
 table.counts caption { text-align: left; color: var(--vscode-descriptionForeground); padding-bottom: 4px; }
-table.counts th, table.counts td { padding: 3px 10px; text-align: right; border-bottom: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); white-space: nowrap; }
+table.counts th, table.counts td { padding: 3px 8px; text-align: right; border-bottom: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); }
+table.counts td { white-space: nowrap; }
+table.counts thead th { overflow-wrap: anywhere; }
 table.counts th.label { text-align: left; }
 table.counts thead th { font-weight: 600; border-bottom: 2px solid var(--vscode-foreground); }
 .tint-above { background: color-mix(in srgb, var(--vscode-charts-orange) var(--tint), transparent); }
 .tint-below { background: color-mix(in srgb, var(--vscode-charts-blue) var(--tint), transparent); }
 .band-3, .band-2 { font-weight: 600; }
 .sign { color: var(--vscode-descriptionForeground); font-size: 0.85em; }
-.plots { display: flex; flex-direction: column; gap: 6px; }
-figure.plot { max-width: 640px; }
-figure.plot.residual-grid svg { width: auto; max-width: 100%; }
-figure { margin: 8px 0; }
+.plots { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 520px), 1fr)); gap: 10px 24px; }
+figure.plot { margin: 8px 0; }
+figure.plot svg { display: block; width: 100%; height: auto; }
 figcaption { color: var(--vscode-descriptionForeground); font-size: 0.9em; }
 svg text { fill: var(--vscode-foreground); font-family: var(--vscode-font-family); }
-svg .tick { font-size: 10px; fill: var(--vscode-descriptionForeground); }
+svg .tick { font-size: 11px; fill: var(--vscode-descriptionForeground); }
+svg .label { font-size: 12px; }
 svg .axis, svg .grid { stroke: var(--vscode-charts-lines, var(--vscode-foreground)); stroke-width: 1; }
 svg .grid { stroke-opacity: 0.35; }
-svg .curve { fill: none; stroke: var(--vscode-charts-foreground, var(--vscode-foreground)); stroke-width: 1.6; }
+svg .curve { fill: none; stroke: var(--vscode-charts-foreground, var(--vscode-foreground)); stroke-width: 1.8; }
 svg .tail { fill: var(--vscode-charts-orange); fill-opacity: 0.55; stroke: var(--vscode-charts-orange); stroke-width: 1; }
-svg .critical { stroke: var(--vscode-descriptionForeground); stroke-dasharray: 4 3; }
+svg .tail-hatch { display: none; }
+svg .hatch-line { stroke: var(--vscode-foreground); stroke-width: 1.4; }
+body.vscode-high-contrast svg .tail, body.vscode-high-contrast-light svg .tail { fill: none; stroke: var(--vscode-contrastBorder, var(--vscode-foreground)); stroke-width: 1.5; }
+body.vscode-high-contrast svg .tail-hatch, body.vscode-high-contrast-light svg .tail-hatch { display: inline; }
+svg .critical { stroke: var(--vscode-descriptionForeground); stroke-dasharray: 4 3; fill: none; }
 svg .observed { stroke: var(--vscode-charts-red); stroke-width: 2; }
-svg .marker-label { font-size: 11px; font-weight: 600; }
-svg .bar-observed { fill: var(--vscode-charts-blue); }
-svg .bar-expected { fill: none; stroke: var(--vscode-charts-foreground, var(--vscode-foreground)); stroke-width: 1.4; stroke-dasharray: 3 2; }
+svg .marker-label { font-size: 12px; font-weight: 600; }
+svg .band { fill: var(--vscode-descriptionForeground); fill-opacity: 0.18; }
+svg .zero { stroke: var(--vscode-foreground); stroke-width: 1.4; }
+svg .stem { stroke-width: 3; }
+svg .above { stroke: var(--vscode-charts-orange); fill: var(--vscode-charts-orange); }
+svg .below { stroke: var(--vscode-charts-blue); fill: var(--vscode-charts-blue); }
+svg .none { stroke: var(--vscode-descriptionForeground); fill: var(--vscode-descriptionForeground); }
+svg .strong { font-weight: 700; }
 svg .cell { stroke: var(--vscode-widget-border, var(--vscode-panel-border)); fill: transparent; }
-svg .cell.tint-above { fill: color-mix(in srgb, var(--vscode-charts-orange) var(--tint), transparent); }
-svg .cell.tint-below { fill: color-mix(in srgb, var(--vscode-charts-blue) var(--tint), transparent); }
-svg .cell-label { font-size: 11px; }
-svg .cell-label.band-2, svg .cell-label.band-3 { font-weight: 700; }
-svg .interval { stroke: var(--vscode-charts-blue); stroke-width: 3; }
+svg .cell.tint-above { fill: var(--vscode-charts-orange); }
+svg .cell.tint-below { fill: var(--vscode-charts-blue); }
+svg .cell-label { font-size: 12px; }
+svg .interval { stroke: var(--vscode-charts-blue); stroke-width: 3; fill: var(--vscode-charts-blue); }
 svg .estimate { fill: var(--vscode-charts-blue); }
 svg .reference { stroke: var(--vscode-charts-red); stroke-width: 2; stroke-dasharray: 5 3; }
+svg .power { fill: none; stroke: var(--vscode-charts-blue); stroke-width: 2; }
+svg .marker { fill: var(--vscode-charts-red); }
 .assumption { margin: 4px 0; border: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); border-radius: 3px; padding: 4px 10px; }
 .assumption summary { cursor: pointer; }
 .assumption .state { color: var(--vscode-descriptionForeground); }

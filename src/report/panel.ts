@@ -8,7 +8,8 @@ import type { PanelPayload, ResultTable } from '../protocol';
 import type { DistributionResult, Result, TestResult } from '../stats/result';
 import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, superscriptExponents, type FormatOptions } from './format';
 import { resultMarkdown } from './markdown';
-import { plotsFor, residualShade } from './plots';
+import { plotsForResult, residualShade } from './plots';
+import { plotDescription, renderPlotSvg } from './svg';
 import { keyEstimate, presentedTest, testHeadline } from './headline';
 import { apaLine, CAUTION, estimateText, POWER_CAUTION, resultText, statisticLineText } from './text';
 
@@ -138,6 +139,8 @@ export function panelStrings(t: Translate = untranslated): Record<string, string
     alternative: t('Consider instead'), usedHere: t('Used here'), observed: t('observed'), expected: t('expected'),
     observedMarked: t('Observed statistic marked at'), tailShaded: t('shaded area: the tail the p-value counts'), criticalDashed: t('dashed: critical value at α'),
     insideInterval: t('inside the interval'), outsideInterval: t('outside the interval'),
+    savePlot: t('Save plot…'), savePlotHint: t('Save this plot as an SVG or PNG file'),
+    copyTable: t('Copy table'), copyTableHint: t('Copy as tab-separated cells: pastes into a spreadsheet as cells'),
   };
 }
 
@@ -157,7 +160,12 @@ export function withSuperscripts(payload: PanelPayload): PanelPayload {
 
 /** Everything the panel shows for a result. `t` translates the panel's own strings (the host passes vscode.l10n.t). */
 export function buildPanelPayload(result: Result, options: PayloadOptions, t: Translate = untranslated): PanelPayload {
-  return withSuperscripts(payloadFor(result, options, t));
+  const payload = withSuperscripts(payloadFor(result, options, t));
+  return {
+    ...payload,
+    plotSvgs: payload.plots.map((plot, i) => renderPlotSvg(plot, { mode: 'panel', idPrefix: `${options.id}-p${i}` })),
+    plotDescriptions: payload.plots.map(plotDescription),
+  };
 }
 
 function payloadFor(result: Result, options: PayloadOptions, t: Translate): PanelPayload {
@@ -189,7 +197,7 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
       significant: result.significant,
       keyFigures: keyFigures(result, f, t),
       tables: testTables(result, f, t),
-      plots: plotsFor(result, f.decimals),
+      plots: plotsForResult(result, f.decimals),
       assumptions: presented.assumptions.map((a) => ({ ...a })),
       notices: presented.notices.map((n) => ({ severity: n.severity, message: n.message })),
       otherStatistics: [
@@ -206,7 +214,7 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
       significant: null,
       keyFigures: [],
       tables: distributionTables(result, f, t),
-      plots: [],
+      plots: plotsForResult(result, f.decimals),
       assumptions: [],
       notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
       otherStatistics: [],
@@ -219,7 +227,7 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
     significant: null,
     keyFigures: [{ label: result.effectSize.name, value: formatEstimate(result.effectSize.value, f) }, { label: 'df', value: formatDf(result.df, f.decimals) }, { label: 'α', value: String(result.alpha) }],
     tables: [],
-    plots: [],
+    plots: plotsForResult(result, f.decimals),
     assumptions: [],
     notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
     otherStatistics: [],

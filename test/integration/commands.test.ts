@@ -46,7 +46,7 @@ describe('commands on data', () => {
     const r = payload.result as TestResult;
     assert.equal(r.test, 'goodness-of-fit');
     assert.equal(r.categories?.length, 4);
-    assert.ok(payload.plots.some((p) => p.kind === 'bars'));
+    assert.ok(payload.plots.some((p) => p.kind === 'deviation'));
   });
 
   it('runs on a markdown table selected in the editor', async () => {
