@@ -307,8 +307,9 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
       exit = 2;
       continue;
     }
+    const plotsToWrite: { file: string; svg: string }[] = [];
     const outcome = await refreshReport(text, async (block) => {
-      const { markdown } = await runReportBlock(block, {
+      const { markdown, plots } = await runReportBlock(block, {
         reportPath: absolute,
         readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
         signal: io.signal,
@@ -317,6 +318,7 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
         allowOutsideRoot: flags.allowOutside,
         format: { decimals: flags.decimals },
       });
+      plotsToWrite.push(...plots);
       return markdown;
     });
     for (const b of outcome.blocks) {
@@ -330,6 +332,19 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
       if (changed) exit = Math.max(exit, 1);
     } else if (changed) {
       await replaceFile(absolute, outcome.text);
+    }
+    // The plot files the blocks link to, beside the report: written when their drawing changed.
+    for (const plot of plotsToWrite) {
+      if ((await readIfExists(plot.file)) === plot.svg) continue;
+      const shown = path.relative(io.cwd, plot.file);
+      if (flags.check) {
+        io.stdout(`${shown}: plot would change\n`);
+        exit = Math.max(exit, 1);
+      } else {
+        await mkdir(path.dirname(plot.file), { recursive: true });
+        await writeFile(plot.file, plot.svg, 'utf8');
+        io.stdout(`${shown}: plot written\n`);
+      }
     }
     if (outcome.blocks.some((b) => b.error)) exit = 2;
   }

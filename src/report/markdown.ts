@@ -40,6 +40,22 @@ export function headlineMarkdown(h: Headline, conclusion: string): string {
   return [markdownWithNames(conclusion), ...(h.assumption ? [`**${escapeMarkdown(h.assumption)}**`] : [])].join(' ');
 }
 
+/**
+ * The folder beside a report (or document) that holds its plot files: "report.md" → "report.plots". One
+ * folder per document, so plots of several documents in one folder never collide.
+ */
+export function plotFolderName(documentPath: string): string {
+  const base = documentPath.split(/[\\/]/).pop() ?? 'report';
+  return `${base.replace(/\.[^.]+$/, '') || 'report'}.plots`;
+}
+
+/** The markdown followed by an image link per plot (relative links, URL-encoded, alt text escaped). */
+export function withPlotLinks(markdown: string, plots: readonly { readonly link: string; readonly alt: string }[]): string {
+  if (plots.length === 0) return markdown;
+  const images = plots.map((p) => `![${escapeMarkdown(p.alt)}](${p.link.split('/').map(encodeURIComponent).join('/')})`).join('\n\n');
+  return `${markdown.replace(/\n*$/, '')}\n\n${images}\n`;
+}
+
 /** A pipe table; numeric columns are right-aligned. */
 export function markdownTable(header: readonly string[], rows: readonly (readonly string[])[], numericFrom = 1): string {
   const align = header.map((_, j) => (j >= numericFrom ? '---:' : '---'));

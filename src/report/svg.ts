@@ -303,6 +303,6 @@ export function plotFileName(base: string, index: number, plot: Plot): string {
 }
 
 /** Every plot of a result as files to write: `<spec base>-<n>-<kind>.svg` with its standalone SVG. */
-export function plotFiles(result: Result, base: string, decimals = 2): { readonly name: string; readonly svg: string }[] {
-  return plotsForResult(result, decimals).map((plot, i) => ({ name: plotFileName(base, i, plot), svg: renderPlotSvg(plot, { idPrefix: `cc${i + 1}` }) }));
+export function plotFiles(result: Result, base: string, decimals = 2): { readonly name: string; readonly title: string; readonly svg: string }[] {
+  return plotsForResult(result, decimals).map((plot, i) => ({ name: plotFileName(base, i, plot), title: plot.title, svg: renderPlotSvg(plot, { idPrefix: `cc${i + 1}` }) }));
 }

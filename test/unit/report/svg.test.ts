@@ -2,11 +2,17 @@
 // a title, a text alternative and a 600 px width, escapes what it is given, and Chromium (the browser the
 // real-host tests drive) parses it without error and draws it to a PNG of the expected size.
 import { strict as assert } from 'node:assert';
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import { aggregateFile } from '../../../src/data/file';
+import { parseReportBlocks } from '../../../src/report/blocks';
+import { plotFolderName, withPlotLinks } from '../../../src/report/markdown';
+import { runReportBlock } from '../../../src/spec/living';
+import type { SpecReaders } from '../../../src/spec/types';
 import type { Plot } from '../../../src/protocol';
 import { deviationPlot, plotsForResult } from '../../../src/report/plots';
 import { PLOT_WIDTH, escapeXml, plotFileName, renderPlotSvg } from '../../../src/report/svg';
-import { demoResult } from './demoResults';
+import { demoFolder, demoResult } from './demoResults';
 
 const DEMOS = [
   'bottling-fill-spread.countercheck.json',
@@ -50,6 +56,28 @@ function heightOf(svg: string): number {
 }
 
 describe('standalone SVG plots', () => {
+  it('living report blocks link to plot files beside the report, and demo/report.plots holds them as drawn now', async () => {
+    assert.equal(plotFolderName('/w/docs/report.md'), 'report.plots');
+    assert.equal(withPlotLinks('**x**\n', [{ link: 'r.plots/a b.svg', alt: 'χ² [df]' }]), '**x**\n\n![χ² \\[df\\]](r.plots/a%20b.svg)\n');
+    assert.equal(withPlotLinks('x\n', []), 'x\n');
+    const reportPath = join(demoFolder, 'report.md');
+    const text = readFileSync(reportPath, 'utf8');
+    const readers: SpecReaders = { aggregateFile: (p, request, options, control) => aggregateFile(p, request, options, { signal: control.signal }) };
+    let files = 0;
+    for (const block of parseReportBlocks(text)) {
+      const run = await runReportBlock(block, { reportPath, readers, readText: async (f) => readFileSync(f, 'utf8'), allowedRoot: demoFolder });
+      assert.ok(run.plots.length > 0, `block ${block.index + 1} has plots`);
+      for (const plot of run.plots) {
+        const link = `report.plots/${basename(plot.file)}`;
+        assert.ok(run.markdown.includes(`](${link})`), `block ${block.index + 1} links ${link}`);
+        assert.ok(text.includes(`](${link})`), `demo/report.md links ${link}`);
+        assert.equal(readFileSync(plot.file, 'utf8'), plot.svg, `${link} is current: run \`node dist/cli.js report demo/report.md\``);
+        files++;
+      }
+    }
+    assert.equal(files, 6);
+  });
+
   it('every kind of plot is drawn from the demo results, with title, description and a 600 px width', async () => {
     const plots = await demoPlots();
     assert.deepEqual([...new Set(plots.map((p) => p.plot.kind))].sort(), ['density', 'deviation', 'interval', 'power-curve', 'residual-grid']);
