@@ -35,6 +35,13 @@ export function formatNumber(x: number, decimals = DEFAULT_FORMAT.decimals): str
   return `${x < 0 ? '-' : ''}${groupThousands(whole)}${fraction !== undefined ? '.' + fraction : ''}`;
 }
 
+/** "+8.00", "−3.10", "0.00": signed with a true minus sign, the decimals setting; "–" when not a number. */
+export function signedNumber(x: number, decimals = DEFAULT_FORMAT.decimals): string {
+  if (!Number.isFinite(x)) return '–';
+  const text = formatNumber(Math.abs(x), decimals);
+  return x > 0 ? `+${text}` : x < 0 ? `−${text}` : text;
+}
+
 /** A count: whole numbers with thousands separators, anything else with decimals. */
 export function formatCount(x: number, decimals = DEFAULT_FORMAT.decimals): string {
   return Number.isInteger(x) ? `${x < 0 ? '-' : ''}${groupThousands(String(Math.abs(x)))}` : formatNumber(x, decimals);

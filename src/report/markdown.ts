@@ -63,16 +63,23 @@ export function markdownTable(header: readonly string[], rows: readonly (readonl
   return [line(header.map(escapeMarkdown)), line(align), ...rows.map((r) => line(r.map((c, j) => (j < numericFrom ? escapeMarkdown(c) : c))))].join('\n');
 }
 
+/** "+2.25", "-3.25": signed with ASCII signs (pasted markdown is read by other programs). */
+function plusSigned(x: number, decimals: number): string {
+  return `${x > 0 ? '+' : ''}${formatNumber(x, decimals)}`;
+}
+
+/** Categories in our reading order: deviation, standardized residual z, share of the statistic, then the counts. */
 function categoryTable(rows: readonly CategoryRow[], options: ReportOptions): string {
+  const total = rows.reduce((a, r) => a + r.contribution, 0);
   return markdownTable(
-    ['Category', 'Observed', 'Expected', 'Residual', 'Std. residual', 'Contribution'],
+    ['Category', 'Observed − expected', 'z', 'Share of χ²', 'Observed', 'Expected'],
     rows.map((r) => [
       r.label,
+      plusSigned(r.observed - r.expected, options.decimals),
+      plusSigned(r.standardizedResidual, options.decimals),
+      total > 0 ? `${formatNumber((100 * r.contribution) / total, 1)} %` : '–',
       formatCount(r.observed, options.decimals),
       formatNumber(r.expected, options.decimals),
-      formatNumber(r.pearsonResidual, options.decimals),
-      formatNumber(r.standardizedResidual, options.decimals),
-      formatNumber(r.contribution, options.decimals),
     ]),
   );
 }

@@ -6,7 +6,7 @@
  */
 import type { PanelPayload, ResultTable } from '../protocol';
 import type { DistributionResult, Result, TestResult } from '../stats/result';
-import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, superscriptExponents, type FormatOptions } from './format';
+import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, signedNumber, superscriptExponents, type FormatOptions } from './format';
 import { resultMarkdown } from './markdown';
 import { plotsForResult, residualShade } from './plots';
 import { plotDescription, renderPlotSvg } from './svg';
@@ -42,16 +42,20 @@ function signText(residual: number, t: Translate): string {
 function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultTable[] {
   const tables: ResultTable[] = [];
   if (result.categories) {
+    // Our reading order: how far each category is from its expectation, how unusual that is, how much of the
+    // statistic it makes, and only then the counts themselves.
+    const total = result.categories.reduce((a, c) => a + c.contribution, 0);
     tables.push({
-      caption: t('Observed and expected counts, with standardized residuals (▲ above, ▼ below expectation)'),
-      header: [t('Category'), t('Observed'), t('Expected'), t('Std. residual'), t('Contribution to {0}', result.statisticSymbol)],
+      caption: t('Each category against its expectation: deviation, standardized residual z (▲ above, ▼ below), share of {0}, counts', result.statisticSymbol),
+      header: [t('Category'), t('Observed − expected'), t('z'), t('Share of {0}', result.statisticSymbol), t('Observed'), t('Expected')],
       rows: result.categories.map((c) => ({
         label: c.label,
         cells: [
+          { text: signedNumber(c.observed - c.expected, f.decimals) },
+          { text: signedNumber(c.standardizedResidual, f.decimals), shade: residualShade(c.standardizedResidual), signText: signText(c.standardizedResidual, t) },
+          { text: total > 0 ? `${formatNumber((100 * c.contribution) / total, 1)} %` : '–' },
           { text: formatCount(c.observed, f.decimals) },
           { text: formatNumber(c.expected, f.decimals) },
-          { text: formatNumber(c.standardizedResidual, f.decimals), shade: residualShade(c.standardizedResidual), signText: signText(c.standardizedResidual, t) },
-          { text: formatNumber(c.contribution, f.decimals) },
         ],
       })),
     });

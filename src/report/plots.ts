@@ -7,7 +7,7 @@ import type { DensityPlot, DeviationPlot, IntervalPlot, Plot, PlotPoint, PowerCu
 import { chiSquareDensity, chiSquareQuantile, chiSquareUpperQuantile } from '../stats/chisquare';
 import { normalDensity, normalQuantile, normalUpperQuantile } from '../stats/normal';
 import type { Alternative, CategoryRow, CellGrid, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
-import { formatCount, formatEstimate, formatNumber } from './format';
+import { formatCount, formatEstimate, formatNumber, signedNumber } from './format';
 
 /** Two-sided 5 %, 1 % and 0.1 % points of the standard normal (|z| bands for residual shading). */
 export const RESIDUAL_BANDS: readonly number[] = [normalUpperQuantile(0.025), normalUpperQuantile(0.005), normalUpperQuantile(0.0005)];
@@ -207,7 +207,7 @@ export function deviationPlot(categories: readonly CategoryRow[], decimals = 2):
       band: z * sd,
       residual: c.standardizedResidual,
       shade: residualShade(c.standardizedResidual),
-      text: `${signed(deviation, decimals)} (z = ${signed(c.standardizedResidual, decimals)})`,
+      text: `${signedNumber(deviation, decimals)} (z = ${signedNumber(c.standardizedResidual, decimals)})`,
       observedText: formatCount(c.observed, decimals),
       expectedText: formatNumber(c.expected, decimals),
     };
@@ -216,13 +216,6 @@ export function deviationPlot(categories: readonly CategoryRow[], decimals = 2):
   const edge = niceCeiling(reach * 1.05);
   const ticks = niceTicks(-edge, edge, 6);
   return { kind: 'deviation', title: 'Deviation from the expected count, with the ±1.96 SD band', xLabel: 'observed − expected', xMin: -edge, xMax: edge, rows, ...withTickLabels(ticks) };
-}
-
-/** "+12.50", "−3.10", "0.00": a signed number with the decimals setting. */
-function signed(x: number, decimals: number): string {
-  if (!Number.isFinite(x)) return '–';
-  const text = formatNumber(Math.abs(x), decimals);
-  return x > 0 ? `+${text}` : x < 0 ? `−${text}` : text;
 }
 
 export function residualGridPlot(grid: CellGrid, decimals = 2): ResidualGridPlot {

@@ -27,6 +27,15 @@ describe('tables that travel', () => {
     assert.deepEqual(lines[4], ['Total', '16', '13', '10', '39']);
   });
 
+  it('the goodness-of-fit table reads deviation, z, share of χ², then the counts', async () => {
+    const { result } = await demoResult('bakery-flavour-mix.countercheck.json');
+    const payload = buildPanelPayload(result, { id: 'r', title: 't', sourceDescription: '', decimals: 2, canSave: false, canRerun: false });
+    assert.deepEqual(payload.tables[0].header, ['Category', 'Observed − expected', 'z', 'Share of X²', 'Observed', 'Expected']);
+    const shares = payload.tables[0].rows.map((r) => Number(r.cells[2].text.replace(' %', '')));
+    assert.ok(Math.abs(shares.reduce((a, b) => a + b, 0) - 100) < 0.3, `shares add up to 100 %: ${shares.join(', ')}`);
+    assert.equal(payload.plots.find((p) => p.kind === 'deviation')?.kind, 'deviation', 'deviation chart, not paired bars');
+  });
+
   it('csv fields are quoted when they hold a comma, quote or line break', () => {
     assert.equal(csvField('a,b'), '"a,b"');
     assert.equal(csvField('say "x"'), '"say ""x"""');
