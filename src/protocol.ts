@@ -134,6 +134,8 @@ export interface ResultTableRow {
 export interface ResultTable {
   readonly caption: string;
   readonly header: readonly string[];
+  /** Explanations of the column headers, same length as `header` ('' where none). */
+  readonly headerExplain?: readonly string[];
   readonly rows: readonly ResultTableRow[];
 }
 
@@ -152,19 +154,21 @@ export interface PanelPayload {
   readonly headlineEffect?: string;
   readonly headlineAssumption?: string;
   /** The procedure's key estimate, promoted beside the headline. */
-  readonly keyEstimate?: { readonly label: string; readonly value: string };
+  readonly keyEstimate?: { readonly label: string; readonly value: string; readonly explain?: string };
   readonly apaLine: string;
   readonly significant: boolean | null;
-  readonly keyFigures: readonly { readonly label: string; readonly value: string }[];
+  /** `explain`: what the figure is, how to read it, one formula or citation (src/report/explanations.ts). */
+  readonly keyFigures: readonly { readonly label: string; readonly value: string; readonly explain?: string }[];
   readonly tables: readonly ResultTable[];
   readonly plots: readonly Plot[];
   /** Each plot drawn as SVG for the panel (src/report/svg.ts, mode "panel"), same order as `plots`. */
   readonly plotSvgs?: readonly string[];
   /** Each plot's text alternative, same order. */
   readonly plotDescriptions?: readonly string[];
-  readonly assumptions: readonly { readonly id: string; readonly title: string; readonly status: 'met' | 'failed' | 'unchecked'; readonly explanation: string; readonly alternative?: string }[];
-  readonly notices: readonly { readonly severity: 'info' | 'warning'; readonly message: string }[];
-  readonly otherStatistics: readonly { readonly name: string; readonly value: string }[];
+  readonly assumptions: readonly { readonly id: string; readonly title: string; readonly status: 'met' | 'failed' | 'unchecked'; readonly explanation: string; readonly alternative?: string; readonly explain?: string }[];
+  readonly notices: readonly { readonly severity: 'info' | 'warning'; readonly message: string; readonly explain?: string }[];
+  /** Secondary statistics and estimates, in any number: a generic name/value list. */
+  readonly otherStatistics: readonly { readonly name: string; readonly value: string; readonly note?: string; readonly explain?: string }[];
   /** The caution that applies to this kind of result ('' when none does, as for a distribution lookup). */
   readonly caution: string;
   /** Plain text and markdown, produced by src/report (not by the webview). */

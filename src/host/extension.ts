@@ -8,7 +8,7 @@ import { runOnCellOutput } from './commands/runOnCellOutput';
 import { runOnFile } from './commands/runOnFile';
 import { runOnSelection } from './commands/runOnSelection';
 import { openSpecResult, rerunAndCompare, runSavedSpec } from './commands/savedSpecs';
-import { BlockCodeLensProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
+import { BlockCodeLensProvider, ResultTermHoverProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
 import { PANEL_VIEW_TYPE } from './panel';
 import { copyTable, handlePanelAction, savePlot, saveSpec, trackEditors } from './panelActions';
 import { Services } from './services';
@@ -59,6 +59,7 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
     vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, services.panels),
     vscode.languages.registerCodeLensProvider({ pattern: '**/*.countercheck.json' }, new SpecCodeLensProvider()),
     vscode.languages.registerHoverProvider({ pattern: '**/*.countercheck.json' }, new SpecHoverProvider()),
+    vscode.languages.registerHoverProvider({ language: 'markdown' }, new ResultTermHoverProvider()),
     vscode.languages.registerCodeLensProvider({ language: 'markdown' }, new BlockCodeLensProvider()),
   );
   const savedTests = registerTesting(services);

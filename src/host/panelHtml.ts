@@ -34,6 +34,17 @@ button[disabled] { opacity: 0.5; cursor: default; }
 .figures div { border-top: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); padding-top: 4px; }
 .figures dt { color: var(--vscode-descriptionForeground); font-size: 0.88em; }
 .figures dd { margin: 0; font-family: var(--vscode-editor-font-family); font-variant-numeric: tabular-nums; }
+.has-explain { position: relative; text-decoration: underline dotted var(--vscode-descriptionForeground); text-underline-offset: 3px; cursor: help; }
+.has-explain:focus-visible { outline: 1px solid var(--vscode-focusBorder); outline-offset: 2px; }
+.tip { display: none; position: absolute; z-index: 10; left: 0; top: 100%; margin-top: 4px; width: max-content; max-width: min(420px, 80vw); padding: 6px 9px; font-size: 0.92em; font-weight: normal; text-align: left; white-space: normal; line-height: 1.4; color: var(--vscode-editorHoverWidget-foreground, var(--vscode-foreground)); background: var(--vscode-editorHoverWidget-background, var(--vscode-editor-background)); border: 1px solid var(--vscode-editorHoverWidget-border, var(--vscode-widget-border)); border-radius: 3px; box-shadow: 0 2px 8px var(--vscode-widget-shadow, transparent); text-decoration: none; }
+.has-explain:hover > .tip, .has-explain:focus > .tip, .has-explain:focus-within > .tip { display: block; }
+th.has-explain > .tip { right: 0; left: auto; }
+dl.two-column { display: grid; grid-template-columns: minmax(12em, 2fr) 3fr; gap: 6px 18px; margin: 6px 0 12px; }
+dl.two-column dt { color: var(--vscode-descriptionForeground); }
+dl.two-column dd { margin: 0; font-variant-numeric: tabular-nums; }
+dl.two-column dd .value { font-family: var(--vscode-editor-font-family); }
+dl.two-column dd .note { display: block; color: var(--vscode-descriptionForeground); font-size: 0.88em; }
+@media (max-width: 560px) { dl.two-column { grid-template-columns: 1fr; } }
 .notices { list-style: none; padding: 0; margin: 8px 0; }
 .notices li { padding: 3px 8px; margin: 2px 0; background: var(--vscode-textBlockQuote-background); border-left: 2px solid var(--vscode-textBlockQuote-border); }
 .notices li.warning { border-left-color: var(--vscode-editorWarning-foreground); }

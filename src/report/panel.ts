@@ -10,7 +10,8 @@ import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEs
 import { resultMarkdown } from './markdown';
 import { plotsForResult, residualShade } from './plots';
 import { plotDescription, renderPlotSvg } from './svg';
-import { keyEstimate, presentedTest, testHeadline } from './headline';
+import { explain, explanationText } from './explanations';
+import { keyEstimate, pLabel, presentedTest, reportedPMethod, testHeadline } from './headline';
 import { apaLine, CAUTION, estimateText, POWER_CAUTION, resultText, statisticLineText } from './text';
 
 /** A string translator with `{0}`-style placeholders, as vscode.l10n.t. */
@@ -48,6 +49,7 @@ function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultT
     tables.push({
       caption: t('Each category against its expectation: deviation, standardized residual z (▲ above, ▼ below), share of {0}, counts', result.statisticSymbol),
       header: [t('Category'), t('Observed − expected'), t('z'), t('Share of {0}', result.statisticSymbol), t('Observed'), t('Expected')],
+      headerExplain: ['', '', explained('standardized residual').explain ?? '', explained('Share of χ²').explain ?? '', '', ''],
       rows: result.categories.map((c) => ({
         label: c.label,
         cells: [
@@ -64,6 +66,7 @@ function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultT
     const g = result.grid;
     tables.push({
       caption: t('Observed count (expected) and adjusted residual per cell; tint grows with |residual|, ▲/▼ gives its sign'),
+      headerExplain: [explained('adjusted residual').explain ?? ''],
       header: ['', ...g.columnLabels, t('Total')],
       rows: [
         ...g.rowLabels.map((label, i) => ({
@@ -88,18 +91,28 @@ function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultT
   return tables;
 }
 
-function keyFigures(result: TestResult, f: FormatOptions, t: Translate): { label: string; value: string }[] {
+/** The explanation of a key, as tooltip text; undefined when the glossary has none. */
+function explained(...keys: (string | undefined)[]): { explain?: string } {
+  for (const key of keys) {
+    const e = explain(key);
+    if (e) return { explain: explanationText(e) };
+  }
+  return {};
+}
+
+function keyFigures(result: TestResult, f: FormatOptions, t: Translate): { label: string; value: string; explain?: string }[] {
+  const method = reportedPMethod(result);
   const figures = [
-    { label: result.statisticSymbol, value: formatNumber(result.statistic, f.decimals) },
-    ...(result.df !== null ? [{ label: t('Degrees of freedom'), value: formatDf(result.df, f.decimals) }] : []),
-    { label: t('p-value'), value: formatProbability(result.pValue) },
-    ...(result.n !== null ? [{ label: 'N', value: formatCount(result.n, 0) }] : []),
-    { label: 'α', value: String(result.alpha) },
+    { label: result.statisticSymbol, value: formatNumber(result.statistic, f.decimals), ...explained(result.statisticSymbol, String(result.details?.mainStatistic ?? '')) },
+    ...(result.df !== null ? [{ label: t('Degrees of freedom'), value: formatDf(result.df, f.decimals), ...explained('df') }] : []),
+    { label: method === 'asymptotic' ? t('p-value') : t('{0}-value', pLabel(method)), value: formatProbability(result.pValue), ...explained(method === 'asymptotic' ? 'p-value' : pLabel(method)) },
+    ...(result.n !== null ? [{ label: 'N', value: formatCount(result.n, 0), ...explained('N') }] : []),
+    { label: 'α', value: String(result.alpha), ...explained('α') },
   ];
-  for (const e of result.effectSizes) figures.push({ label: e.name, value: formatEstimate(e.value, f) + (e.interval ? ` ${formatEstimateInterval(e.interval.lower, e.interval.upper, f)}` : '') });
+  for (const e of result.effectSizes) figures.push({ label: e.name, value: formatEstimate(e.value, f) + (e.interval ? ` ${formatEstimateInterval(e.interval.lower, e.interval.upper, f)}` : ''), ...explained(e.id) });
   if (result.confidenceInterval) {
     const ci = result.confidenceInterval;
-    figures.push({ label: `${formatPercent(ci.level)} ${ci.parameter}`, value: formatEstimateInterval(ci.lower, ci.upper, f) });
+    figures.push({ label: `${formatPercent(ci.level)} ${ci.parameter}`, value: formatEstimateInterval(ci.lower, ci.upper, f), ...explained(ci.parameter === 'σ²' ? 'variance' : ci.parameter === 'σ' ? 'sd' : undefined) });
   }
   return figures;
 }
@@ -196,17 +209,17 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
       headline: headline.answer,
       ...(headline.effect && key !== presented.effectSizes[0] ? { headlineEffect: headline.effect } : {}),
       ...(headline.assumption ? { headlineAssumption: headline.assumption } : {}),
-      ...(key ? { keyEstimate: { label: key.name, value: estimateText(key, f).slice(key.name.length + 3) } } : {}),
+      ...(key ? { keyEstimate: { label: key.name, value: estimateText(key, f).slice(key.name.length + 3), ...explained(key.id) } } : {}),
       apaLine: apaLine(result, f),
       significant: result.significant,
       keyFigures: keyFigures(result, f, t),
       tables: testTables(result, f, t),
       plots: plotsForResult(result, f.decimals),
-      assumptions: presented.assumptions.map((a) => ({ ...a })),
-      notices: presented.notices.map((n) => ({ severity: n.severity, message: n.message })),
+      assumptions: presented.assumptions.map((a) => ({ ...a, ...explained(a.id) })),
+      notices: presented.notices.map((n) => ({ severity: n.severity, message: n.message, ...explained(n.code) })),
       otherStatistics: [
-        ...result.otherStatistics.map((s) => ({ name: s.name, value: statisticLineText(s, result.n, f).replace(`${s.name}: `, '') + (s.note ? ` — ${s.note}` : '') })),
-        ...result.estimates.map((e) => ({ name: e.name, value: estimateText(e, f).replace(`${e.name} = `, '') })),
+        ...result.otherStatistics.map((s) => ({ name: s.name, value: statisticLineText(s, result.n, f).replace(`${s.name}: `, ''), ...(s.note ? { note: s.note } : {}), ...explained(s.id, s.symbol) })),
+        ...result.estimates.filter((e) => e !== key).map((e) => ({ name: e.name, value: estimateText(e, f).replace(`${e.name} = `, ''), ...(e.note ? { note: e.note } : {}), ...explained(e.id) })),
       ],
     };
   }
@@ -220,7 +233,7 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
       tables: distributionTables(result, f, t),
       plots: plotsForResult(result, f.decimals),
       assumptions: [],
-      notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
+      notices: result.notices.map((n) => ({ severity: n.severity, message: n.message, ...explained(n.code) })),
       otherStatistics: [],
     };
   }
@@ -229,11 +242,11 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
     headline: t('Power {0} at n = {1}', formatEstimate(result.power, f), formatCount(result.n, 0)),
     apaLine: '',
     significant: null,
-    keyFigures: [{ label: result.effectSize.name, value: formatEstimate(result.effectSize.value, f) }, { label: 'df', value: formatDf(result.df, f.decimals) }, { label: 'α', value: String(result.alpha) }],
+    keyFigures: [{ label: result.effectSize.name, value: formatEstimate(result.effectSize.value, f), ...explained(result.effectSize.id) }, { label: 'df', value: formatDf(result.df, f.decimals), ...explained('df') }, { label: 'α', value: String(result.alpha), ...explained('α') }],
     tables: [],
     plots: plotsForResult(result, f.decimals),
     assumptions: [],
-    notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
+    notices: result.notices.map((n) => ({ severity: n.severity, message: n.message, ...explained(n.code) })),
     otherStatistics: [],
   };
 }

@@ -24,6 +24,21 @@ function icon(name: string): HTMLElement {
 }
 
 let s: (key: string, fallback: string) => string = (_k, f) => f;
+let tipCount = 0;
+
+/**
+ * Gives an element its explanation (written in src/report/explanations.ts): shown on hover and on keyboard
+ * focus (the element joins the tab order), read by screen readers through aria-describedby.
+ */
+function explainable<T extends HTMLElement>(node: T, text: string | undefined): T {
+  if (!text) return node;
+  const id = `tip-${++tipCount}`;
+  node.classList.add('has-explain');
+  if (!node.hasAttribute('tabindex') && !(node instanceof HTMLButtonElement)) node.setAttribute('tabindex', '0');
+  node.setAttribute('aria-describedby', id);
+  node.append(el('span', { class: 'tip', role: 'tooltip', id }, text));
+  return node;
+}
 
 function render(payload: PanelPayload): void {
   s = (key, fallback) => payload.strings[key] ?? fallback;
@@ -37,7 +52,7 @@ function render(payload: PanelPayload): void {
     el('div', { class: 'eyebrow' }, icon(verdict === 'signal' ? 'pulse' : verdict === 'quiet' ? 'circle-large-outline' : 'graph-line'), ` ${payload.title}`),
     el('h1', { id: 'headline' }, payload.headline),
   );
-  if (payload.keyEstimate) header.append(el('p', { class: 'key-estimate', id: 'key-estimate' }, el('span', { class: 'key-label' }, payload.keyEstimate.label), ' ', el('strong', {}, payload.keyEstimate.value)));
+  if (payload.keyEstimate) header.append(el('p', { class: 'key-estimate', id: 'key-estimate' }, explainable(el('span', { class: 'key-label' }, payload.keyEstimate.label), payload.keyEstimate.explain), ' ', el('strong', {}, payload.keyEstimate.value)));
   if (payload.headlineEffect) header.append(el('p', { class: 'effect', id: 'headline-effect' }, payload.headlineEffect));
   if (payload.headlineAssumption) header.append(el('p', { class: 'failed-assumption', id: 'headline-assumption', role: 'note' }, icon('warning'), ` ${payload.headlineAssumption}`));
   if (payload.apaLine) header.append(el('p', { class: 'apa', id: 'apa-line' }, payload.apaLine));
@@ -46,12 +61,12 @@ function render(payload: PanelPayload): void {
 
   if (payload.keyFigures.length > 0) {
     const dl = el('dl', { class: 'figures' });
-    for (const f of payload.keyFigures) dl.append(el('div', {}, el('dt', {}, f.label), el('dd', {}, f.value)));
+    for (const f of payload.keyFigures) dl.append(el('div', {}, explainable(el('dt', {}, f.label), f.explain), el('dd', {}, f.value)));
     root.append(dl);
   }
   if (payload.notices.length > 0) {
     const list = el('ul', { class: 'notices' });
-    for (const n of payload.notices) list.append(el('li', { class: n.severity }, icon(n.severity === 'warning' ? 'warning' : 'info'), ` ${n.message}`));
+    for (const n of payload.notices) list.append(explainable(el('li', { class: n.severity }, icon(n.severity === 'warning' ? 'warning' : 'info'), ` ${n.message}`), n.explain));
     root.append(list);
   }
   payload.tables.forEach((table, i) => root.append(renderTable(table, i)));
@@ -62,8 +77,14 @@ function render(payload: PanelPayload): void {
   }
   if (payload.otherStatistics.length > 0) {
     const section = el('section', { class: 'other' }, el('h2', {}, s('otherStatistics', 'Other statistics on the same data')));
-    const dl = el('dl', { class: 'figures compact' });
-    for (const o of payload.otherStatistics) dl.append(el('div', {}, el('dt', {}, o.name), el('dd', {}, o.value)));
+    // A two-column list (name | value, note below the value) that takes any number of entries.
+    const dl = el('dl', { class: 'two-column' });
+    for (const o of payload.otherStatistics) {
+      dl.append(explainable(el('dt', {}, o.name), o.explain));
+      const dd = el('dd', {}, el('span', { class: 'value' }, o.value));
+      if (o.note) dd.append(el('span', { class: 'note' }, o.note));
+      dl.append(dd);
+    }
     section.append(dl);
     root.append(section);
   }
@@ -97,7 +118,7 @@ function renderTable(table: ResultTable, index: number): HTMLElement {
   copy.addEventListener('click', () => vscode.postMessage({ type: 'copy-table', index }));
   t.append(el('caption', {}, table.caption, ' ', copy));
   const head = el('tr');
-  table.header.forEach((h, i) => head.append(el('th', { scope: 'col', class: i === 0 ? 'label' : '' }, h)));
+  table.header.forEach((h, i) => head.append(explainable(el('th', { scope: 'col', class: i === 0 ? 'label' : '' }, h), table.headerExplain?.[i] || undefined)));
   t.append(el('thead', {}, head));
   const body = el('tbody');
   for (const row of table.rows) {
@@ -123,7 +144,7 @@ function renderAssumptions(payload: PanelPayload): HTMLElement {
   const icons = { met: 'pass', failed: 'error', unchecked: 'question' };
   for (const a of payload.assumptions) {
     const details = el('details', { class: `assumption ${a.status}`, 'data-id': a.id });
-    const summary = el('summary', { title: a.explanation }, icon(icons[a.status]), ` ${a.title} `, el('span', { class: 'state' }, `— ${labels[a.status]}`));
+    const summary = explainable(el('summary', {}, icon(icons[a.status]), ` ${a.title} `, el('span', { class: 'state' }, `— ${labels[a.status]}`)), a.explain ?? a.explanation);
     details.append(summary, el('p', {}, a.explanation));
     if (a.alternative) {
       const used = a.alternative.startsWith('used here: ');
