@@ -182,8 +182,27 @@ export interface PanelPayload {
   readonly strings: PanelStrings;
   /** ISO time the result was computed. */
   readonly computedAt: string;
+  /** Set after "Re-run and compare": the recorded result beside this run. */
+  readonly comparison?: Comparison;
   /** The spec that produced the result (plain JSON) and where it lives, so a restored panel can still re-run and save. */
   readonly origin?: PanelOrigin;
+}
+
+/** One row of a re-run's before/after table. */
+export interface ComparisonRow {
+  readonly quantity: string;
+  readonly before: string;
+  readonly after: string;
+  readonly changed: boolean;
+  /** The conclusion row when it flipped between significant and not significant. */
+  readonly flipped?: boolean;
+}
+
+/** A re-run compared with the result recorded in the saved test (src/report/comparison.ts). */
+export interface Comparison {
+  readonly status: string;
+  readonly rows: readonly ComparisonRow[];
+  readonly flipped: boolean;
 }
 
 export interface PanelOrigin {
@@ -203,7 +222,7 @@ export type HostToWebview =
   /** Draw this standalone SVG on the webview's canvas and answer with a PNG (for "Save plot" as PNG). */
   | { readonly type: 'render-png'; readonly requestId: number; readonly svg: string; readonly scale: number };
 
-export type PanelAction = 'copy-text' | 'copy-markdown' | 'insert' | 'save-spec' | 'rerun';
+export type PanelAction = 'copy-text' | 'copy-markdown' | 'insert' | 'save-spec' | 'rerun' | 'open-new';
 
 export type WebviewToHost =
   | { readonly type: 'ready' }
@@ -223,5 +242,5 @@ export function isWebviewToHost(value: unknown): value is WebviewToHost {
   if (m.type === 'ready') return true;
   if (m.type === 'save-plot' || m.type === 'copy-table') return Number.isInteger(m.index) && (m.index as number) >= 0;
   if (m.type === 'png') return Number.isInteger(m.requestId) && (typeof m.dataUrl === 'string' || typeof m.error === 'string');
-  return m.type === 'action' && ['copy-text', 'copy-markdown', 'insert', 'save-spec', 'rerun'].includes(m.action as string);
+  return m.type === 'action' && ['copy-text', 'copy-markdown', 'insert', 'save-spec', 'rerun', 'open-new'].includes(m.action as string);
 }

@@ -1,6 +1,6 @@
 // Wires commands, the panel serializer, CodeLenses, hovers and the Testing view. Nothing else lives here.
 import * as vscode from 'vscode';
-import type { PanelPayload } from '../protocol';
+import type { PanelAction, PanelPayload } from '../protocol';
 import { COMMANDS } from './commandIds';
 import { distributionLookup } from './commands/distributionLookup';
 import { refreshBlocks } from './commands/reportBlocks';
@@ -23,7 +23,7 @@ export interface CountercheckApi {
   panels(): readonly PanelPayload[];
   activePanel(): PanelPayload | undefined;
   /** Runs a panel action on the active panel as if its button were pressed. */
-  panelAction(action: 'copy-text' | 'copy-markdown' | 'insert' | 'save-spec' | 'rerun'): Promise<void>;
+  panelAction(action: PanelAction): Promise<void>;
   readonly savedTests: SavedTests;
   /** The last error notification's content. */
   lastError(): { message: string; code?: string; file?: string; line?: number } | undefined;

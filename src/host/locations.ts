@@ -39,3 +39,13 @@ export function parseLookupNumber(text: string, what: 'df' | 'x' | 'p'): number 
   if (what === 'x') return value >= 0 ? value : undefined;
   return value > 0 && value < 1 ? value : undefined;
 }
+
+/**
+ * What makes two results "the same source" for the one-panel-per-source rule: the spec file (saved or
+ * virtual, so every lookup shares one panel and every unsaved run on a data file shares one), else the
+ * description of where the data came from.
+ */
+export function sourceKey(payload: { readonly origin?: { readonly specPath: string; readonly documentUri?: string }; readonly sourceDescription: string }): string {
+  if (payload.origin) return `${payload.origin.documentUri ?? ''}|${payload.origin.specPath}`;
+  return `description|${payload.sourceDescription}`;
+}

@@ -2,6 +2,7 @@
 // its own state after a reload. The host keeps what each panel needs to act (the spec behind it).
 import * as vscode from 'vscode';
 import { isWebviewToHost, type HostToWebview, type PanelAction, type PanelPayload, type PanelState } from '../protocol';
+import { sourceKey } from './locations';
 import { panelHtml } from './panelHtml';
 import { errorMessage } from '../errors';
 
@@ -15,6 +16,8 @@ export interface PanelActions {
 }
 
 export class ResultPanel {
+  /** A copy opened with "Open in new panel": never replaced by a later run of the same source. */
+  pinned = false;
   private disposed = false;
   private readonly disposables: vscode.Disposable[] = [];
 
@@ -115,7 +118,7 @@ export class PanelManager implements vscode.WebviewPanelSerializer<PanelState> {
       reuse.panel.reveal(undefined, true);
       return reuse;
     }
-    const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, payload.title, { viewColumn: vscode.ViewColumn.Beside, preserveFocus: false }, this.options());
+    const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, payload.title, { viewColumn: this.resultColumn(), preserveFocus: false }, this.options());
     return this.adopt(panel, payload);
   }
 
@@ -140,6 +143,24 @@ export class PanelManager implements vscode.WebviewPanelSerializer<PanelState> {
       return;
     }
     this.adopt(panel, state.payload);
+  }
+
+  /** New results join the column results already occupy (as tabs), instead of opening a column each. */
+  private resultColumn(): vscode.ViewColumn {
+    return [...this.open].reverse().find((p) => !p.isDisposed && p.panel.viewColumn !== undefined)?.panel.viewColumn ?? vscode.ViewColumn.Beside;
+  }
+
+  /** The open panel that shows this source's result (pinned copies excluded), if any. */
+  forSource(key: string): ResultPanel | undefined {
+    return [...this.open].reverse().find((p) => !p.pinned && !p.isDisposed && sourceKey(p.payload) === key);
+  }
+
+  /** "Open in new panel": a copy of the result in a panel of its own that later runs never replace. */
+  openCopy(payload: PanelPayload): ResultPanel {
+    const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, payload.title, { viewColumn: this.resultColumn(), preserveFocus: false }, this.options());
+    const copy = this.adopt(panel, payload);
+    copy.pinned = true;
+    return copy;
   }
 
   get active(): ResultPanel | undefined {

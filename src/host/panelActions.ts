@@ -177,6 +177,9 @@ export async function handlePanelAction(services: Services, action: PanelAction,
       }
       return;
     }
+    case 'open-new':
+      services.panels.openCopy(payload);
+      return;
     case 'rerun': {
       if (!payload.origin) return;
       panel.post({ type: 'busy', busy: true });

@@ -45,6 +45,11 @@ dl.two-column dd { margin: 0; font-variant-numeric: tabular-nums; }
 dl.two-column dd .value { font-family: var(--vscode-editor-font-family); }
 dl.two-column dd .note { display: block; color: var(--vscode-descriptionForeground); font-size: 0.88em; }
 @media (max-width: 560px) { dl.two-column { grid-template-columns: 1fr; } }
+.comparison { margin: 8px 0 14px; padding: 4px 12px; border: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); border-radius: 3px; }
+.comparison.flipped { border: 2px solid var(--vscode-editorWarning-foreground); }
+.comparison h2 { margin: 6px 0; }
+table.compare tr.changed td:last-child { font-weight: 600; }
+table.compare tr.flipped { background: color-mix(in srgb, var(--vscode-editorWarning-foreground) 22%, transparent); outline: 2px solid var(--vscode-editorWarning-foreground); }
 .notices { list-style: none; padding: 0; margin: 8px 0; }
 .notices li { padding: 3px 8px; margin: 2px 0; background: var(--vscode-textBlockQuote-background); border-left: 2px solid var(--vscode-textBlockQuote-border); }
 .notices li.warning { border-left-color: var(--vscode-editorWarning-foreground); }

@@ -2,7 +2,7 @@
 // readers, the panels, and the error notification that points at the place in the file.
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { rememberSpecFolder, resolveErrorFile, specFolderOf } from './locations';
+import { rememberSpecFolder, resolveErrorFile, sourceKey, specFolderOf } from './locations';
 import { aggregateFile } from '../data/file';
 import { errorMessage, isInputError, isInstance, type InputError } from '../errors';
 import type { PanelOrigin } from '../protocol';
@@ -22,6 +22,7 @@ export interface Settings {
   readonly missingValues: readonly string[];
   readonly monteCarloResamples: number;
   readonly allowPathsOutsideWorkspace: boolean;
+  readonly keepSeveralPanels: boolean;
 }
 
 export function settings(scope?: vscode.Uri): Settings {
@@ -33,6 +34,7 @@ export function settings(scope?: vscode.Uri): Settings {
     missingValues: c.get<string[]>('missingValues', ['', 'NA', 'NaN', 'null', '-']),
     monteCarloResamples: c.get<number>('monteCarloResamples', 10000),
     allowPathsOutsideWorkspace: c.get<boolean>('allowPathsOutsideWorkspace', false),
+    keepSeveralPanels: c.get<boolean>('keepSeveralPanels', false),
   };
 }
 
@@ -122,7 +124,9 @@ export class Services {
       canSave: origin !== undefined,
       canRerun: origin !== undefined,
     });
-    return this.panels.show({ ...payload, origin }, reuse);
+    // One panel per source: a new run replaces the result of the same source unless panels are kept.
+    const same = reuse ?? (s.keepSeveralPanels ? undefined : this.panels.forSource(sourceKey({ ...payload, origin })));
+    return this.panels.show({ ...payload, origin }, same);
   }
 
   /** Shows any failure as a notification; an InputError gets a button that opens its file at the line. Never rethrows. */

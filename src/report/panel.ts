@@ -150,13 +150,14 @@ export function distributionTables(result: DistributionResult, f: FormatOptions,
 export function panelStrings(t: Translate = untranslated): Record<string, string> {
   return {
     plots: t('Plots'), actions: t('Actions'), copyText: t('Copy text'), copyMarkdown: t('Copy markdown'),
-    insert: t('Insert into document'), saveSpec: t('Save as test file'), rerun: t('Re-run'),
+    insert: t('Insert into document'), saveSpec: t('Save as test file'), rerun: t('Re-run'), openNew: t('Open in new panel'),
     otherStatistics: t('Other statistics on the same data'), assumptions: t('Assumptions'),
     met: t('checked, met'), failed: t('checked, not met'), unchecked: t('cannot be checked from the data'),
     alternative: t('Consider instead'), usedHere: t('Used here'), observed: t('observed'), expected: t('expected'),
     observedMarked: t('Observed statistic marked at'), tailShaded: t('shaded area: the tail the p-value counts'), criticalDashed: t('dashed: critical value at α'),
     insideInterval: t('inside the interval'), outsideInterval: t('outside the interval'),
     savePlot: t('Save plot…'), savePlotHint: t('Save this plot as an SVG or PNG file'),
+    comparison: t('Compared with the recorded result'), conclusionFlipped: t('the conclusion flipped'), recorded: t('Recorded'), now: t('Now'), changedMark: t('(changed)'),
     copyTable: t('Copy table'), copyTableHint: t('Copy as tab-separated cells: pastes into a spreadsheet as cells'),
   };
 }

@@ -58,6 +58,7 @@ function render(payload: PanelPayload): void {
   if (payload.apaLine) header.append(el('p', { class: 'apa', id: 'apa-line' }, payload.apaLine));
   header.append(el('p', { class: 'source' }, icon('database'), ` ${payload.sourceDescription}`));
   root.append(header, actionBar(payload));
+  if (payload.comparison) root.append(renderComparison(payload));
 
   if (payload.keyFigures.length > 0) {
     const dl = el('dl', { class: 'figures' });
@@ -100,6 +101,7 @@ function actionBar(payload: PanelPayload): HTMLElement {
     ['insert', 'insert', s('insert', 'Insert into document'), true],
     ['save-spec', 'save', s('saveSpec', 'Save as test file'), payload.canSave],
     ['rerun', 'refresh', s('rerun', 'Re-run'), payload.canRerun],
+    ['open-new', 'split-horizontal', s('openNew', 'Open in new panel'), true],
   ];
   for (const [action, codicon, label, enabled] of actions) {
     const button = el('button', { type: 'button', 'data-action': action }, icon(codicon), ` ${label}`);
@@ -136,6 +138,24 @@ function renderTable(table: ResultTable, index: number): HTMLElement {
   }
   t.append(body);
   return el('div', { class: 'table-wrap', tabindex: '0', role: 'region', 'aria-label': table.caption }, t);
+}
+
+/** "Re-run and compare": the recorded result beside this run; changed values marked, a flipped conclusion highlighted. */
+function renderComparison(payload: PanelPayload): HTMLElement {
+  const c = payload.comparison!;
+  const section = el('section', { class: `comparison${c.flipped ? ' flipped' : ''}`, id: 'comparison', 'aria-label': s('comparison', 'Compared with the recorded result') });
+  section.append(el('h2', {}, icon(c.flipped ? 'warning' : 'history'), ` ${s('comparison', 'Compared with the recorded result')}: ${c.status}${c.flipped ? ` — ${s('conclusionFlipped', 'the conclusion flipped')}` : ''}`));
+  const table = el('table', { class: 'counts compare' });
+  table.append(el('thead', {}, el('tr', {}, el('th', { scope: 'col', class: 'label' }, ''), el('th', { scope: 'col' }, s('recorded', 'Recorded')), el('th', { scope: 'col' }, s('now', 'Now')))));
+  const body = el('tbody');
+  for (const r of c.rows) {
+    const tr = el('tr', { class: `${r.changed ? 'changed' : ''}${r.flipped ? ' flipped' : ''}` }, el('th', { scope: 'row', class: 'label' }, r.quantity), el('td', {}, r.before), el('td', {}, r.after));
+    if (r.changed) tr.lastElementChild?.append(el('span', { class: 'sign' }, ` ${s('changedMark', '(changed)')}`));
+    body.append(tr);
+  }
+  table.append(body);
+  section.append(el('div', { class: 'table-wrap' }, table));
+  return section;
 }
 
 function renderAssumptions(payload: PanelPayload): HTMLElement {

@@ -62,4 +62,18 @@ describe('results panel', () => {
     assert.equal(a.panels().length, before);
     assert.equal(a.activePanel()?.headline, payload.headline);
   });
+
+  it('one panel per source: a second lookup replaces the first; "Open in new panel" keeps a copy', async () => {
+    const a = await api();
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.distributionLookup', { df: 3, x: 7.815 }));
+    const count = a.panels().length;
+    const second = await panelFrom(() => vscode.commands.executeCommand('countercheck.distributionLookup', { df: 4, x: 9.49 }));
+    assert.equal(a.panels().length, count, 'the lookup replaced the earlier lookup');
+    assert.match(second.headline, /4 degrees of freedom/);
+    assert.ok(second.plots.some((p) => p.kind === 'density'), 'the lookup draws its density');
+    await a.panelAction('open-new');
+    assert.equal(a.panels().length, count + 1);
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.distributionLookup', { df: 5, x: 11.07 }));
+    assert.equal(a.panels().length, count + 1, 'the copy stays, the source panel is replaced');
+  });
 });

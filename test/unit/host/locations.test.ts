@@ -1,7 +1,7 @@
 // Small host rules that need no editor: an error's file resolved against the spec that ran, the save
 // dialog's file name, and the lookup's answers (an empty answer is refused, never read as 0).
 import { strict as assert } from 'node:assert';
-import { parseLookupNumber, rememberSpecFolder, resolveErrorFile, specFileName, specFolderOf } from '../../../src/host/locations';
+import { parseLookupNumber, rememberSpecFolder, resolveErrorFile, sourceKey, specFileName, specFolderOf } from '../../../src/host/locations';
 
 describe('host locations and answers', () => {
   it('an error file relative to a spec in a subfolder resolves against that spec, not the workspace', () => {
@@ -19,6 +19,13 @@ describe('host locations and answers', () => {
     assert.equal(specFileName('/w/fill.countercheck.json.countercheck.json'), '/w/fill.countercheck.json');
     assert.equal(specFileName('/w/fill.json'), '/w/fill.countercheck.json');
     assert.equal(specFileName('/w/fill'), '/w/fill.countercheck.json');
+  });
+
+  it('one panel per source: lookups share one, runs of different specs do not', () => {
+    const lookup = (n: number) => ({ origin: { specPath: '/ws/untitled.countercheck.json' }, sourceDescription: `lookup ${n}` });
+    assert.equal(sourceKey(lookup(1)), sourceKey(lookup(2)));
+    assert.notEqual(sourceKey({ origin: { specPath: '/ws/a.countercheck.json' }, sourceDescription: 'x' }), sourceKey({ origin: { specPath: '/ws/b.countercheck.json' }, sourceDescription: 'x' }));
+    assert.notEqual(sourceKey({ origin: { specPath: '/ws/s.countercheck.json', documentUri: 'file:///a.md' }, sourceDescription: '' }), sourceKey({ origin: { specPath: '/ws/s.countercheck.json', documentUri: 'file:///b.md' }, sourceDescription: '' }));
   });
 
   it('lookup answers: empty and text refused; df > 0, x ≥ 0, 0 < α < 1', () => {
