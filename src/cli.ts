@@ -14,7 +14,7 @@ import * as path from 'node:path';
 import { expandInputs, type InputFile } from './cli/inputs';
 import { junitXml, type JunitCase } from './cli/junit';
 import { helpText, parseCommandLine, UsageError, USAGE, type AdjustMethod, type CheckFlags, type CommandFlags, type ReportFlags, type RunFlags } from './cli/options';
-import { PlotsUnavailableError, writeResultPlots } from './cli/plots';
+import { writeResultPlots } from './cli/plots';
 import { aggregateFile, MAX_TEXT_FILE_BYTES, readTextFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
@@ -22,6 +22,7 @@ import { errorMessage, InputError, isInputError, isInstance, type InputLocation 
 import { refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultMarkdown } from './report/markdown';
+import { CSV_HEADER, csvField, resultToCsv } from './report/tables';
 import { resultText } from './report/text';
 import { adjustPValues, type Adjustment } from './stats/posthoc';
 import { isInside } from './spec/paths';
@@ -190,38 +191,19 @@ async function withDataOverride<T>(flag: string | undefined, io: CliIo, use: (da
   }
 }
 
-const CSV_COLUMNS = ['file', 'title', 'test', 'statistic', 'df', 'n', 'pValue', 'alpha', 'significant', 'effectSize', 'effectSizeValue', 'error'] as const;
-
-function csvField(value: unknown): string {
-  const text = value === undefined || value === null ? '' : String(value);
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
-/** One CSV row per input: the headline numbers, or the error. */
-function csvRow(entry: Record<string, unknown>): string {
-  const effect = (entry.effectSize ?? undefined) as { name?: string; value?: number } | undefined;
-  const error = entry.error as { message?: string } | undefined;
-  const row: Record<(typeof CSV_COLUMNS)[number], unknown> = {
-    file: entry.file,
-    title: entry.title,
-    test: entry.test,
-    statistic: entry.statistic,
-    df: entry.df,
-    n: entry.n,
-    pValue: entry.pValue,
-    alpha: entry.alpha,
-    significant: entry.significant,
-    effectSize: effect?.name,
-    effectSizeValue: effect?.value,
-    error: error?.message,
-  };
-  return CSV_COLUMNS.map((c) => csvField(row[c])).join(',');
+/** `--format csv`: every result in long form (src/report/tables.ts), one header; a failed input is one `error` line. */
+function csvOutput(entries: readonly { file: string; csv?: string; error?: { code: string; message: string } }[]): string {
+  const header = CSV_HEADER;
+  const body = entries.map((e) =>
+    e.csv !== undefined ? e.csv.slice(e.csv.indexOf('\n') + 1) : `${[e.file, 'error', e.error?.code ?? '', '', '', e.error?.message ?? ''].map(csvField).join(',')}\n`,
+  );
+  return header + '\n' + body.join('');
 }
 
 async function commandRun(files: readonly InputFile[], flags: RunFlags & CommandFlags, io: CliIo, single: boolean): Promise<number> {
   let exit = 0;
-  let plotsRefused = false;
   const outputs: Record<string, unknown>[] = [];
+  const csvEntries: Parameters<typeof csvOutput>[0][number][] = [];
   const texts: string[] = [];
   await withDataOverride(flags.data, io, async (data) => {
     for (const input of files) {
@@ -232,32 +214,27 @@ async function commandRun(files: readonly InputFile[], flags: RunFlags & Command
         const run = await runLoaded(loaded, io, flags, data);
         const dataJson = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
         outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(run.result), data: dataJson });
+        if (flags.format === 'csv') csvEntries.push({ file: loaded.name, csv: resultToCsv(run.result, loaded.name) });
         if (flags.format === 'text') texts.push(`${single ? '' : `== ${loaded.name}\n`}${resultText(run.result, { decimals: flags.decimals, title: loaded.spec.title, data: dataJson })}${single ? '' : '\n'}`);
         if (flags.format === 'markdown') texts.push(`${resultMarkdown(run.result, { decimals: flags.decimals, title: loaded.spec.title })}\n`);
-        if (flags.plots !== undefined && !plotsRefused) {
-          try {
-            const base = path.basename(loaded.name).replace(/\.countercheck\.json$|\.json$/, '') || 'stdin';
-            const written = await writeResultPlots(path.resolve(io.cwd, flags.plots), base, run.result, flags.decimals);
-            if (!flags.quiet) for (const f of written) io.stderr(`${loaded.name}: plot written to ${f}\n`);
-          } catch (e) {
-            if (!isInstance(e, PlotsUnavailableError)) throw e;
-            plotsRefused = true;
-            io.stderr(`${e.message}\n`);
-            exit = 2;
-          }
+        if (flags.plots !== undefined) {
+          const base = path.basename(loaded.name).replace(/\.countercheck\.json$|\.json$/, '') || 'stdin';
+          const written = await writeResultPlots(path.resolve(io.cwd, flags.plots), base, run.result, flags.decimals);
+          if (!flags.quiet) for (const f of written) io.stderr(`${loaded.name}: plot written to ${path.relative(io.cwd, f)}\n`);
         }
         if (flags.record) exit = Math.max(exit, await record(loaded, run, flags, io));
       } catch (e) {
         const name = loaded?.name ?? (input.name === '-' ? '<stdin>' : input.name);
         const entry = errorEntry(e, name, loaded?.located);
         outputs.push(entry);
+        csvEntries.push({ file: name, error: entry.error });
         io.stderr(`${entry.error.message}\n`);
         exit = 2;
       }
     }
   });
   if (flags.format === 'json') io.stdout(JSON.stringify(single ? (outputs[0] ?? null) : outputs, null, 2) + '\n');
-  else if (flags.format === 'csv') io.stdout([CSV_COLUMNS.join(','), ...outputs.map(csvRow)].join('\n') + '\n');
+  else if (flags.format === 'csv') io.stdout(csvOutput(csvEntries));
   else if (!flags.quiet) io.stdout(texts.join(flags.format === 'markdown' ? '\n' : ''));
   return exit;
 }

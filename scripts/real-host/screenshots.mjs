@@ -143,6 +143,33 @@ async function session({ name, theme, scheme }) {
       await maximized(page, () => page.screenshot({ path: join(media, `panel-table-${name}.png`) }));
     });
 
+    await check(`${name}: every key figure explains itself on keyboard focus`, async () => {
+      const figure = panelFrame(page).locator('dl.figures dt.has-explain').first();
+      await figure.focus();
+      const tip = panelFrame(page).locator('dl.figures dt.has-explain:focus .tip');
+      await tip.waitFor({ state: 'visible', timeout: 5000 });
+      const text = await tip.textContent();
+      if (!/Pearson|statistic/i.test(text ?? '')) throw new Error(`tooltip "${text}"`);
+      const unexplained = await panelFrame(page).locator('dl.figures dt:not(.has-explain)').count();
+      if (unexplained > 1) throw new Error(`${unexplained} key figures without an explanation`);
+    });
+
+    await check(`${name}: the bottling example's headline names the failed assumption and its robust bound`, async () => {
+      await quickOpen(page, 'bottling-fill-spread.countercheck.json');
+      await palette(page, 'Countercheck: Run a Saved Test');
+      await answer(page, 'bottling-fill-spread');
+      await waitForPanel(page, /“fill_ml”/);
+      const assumption = await panelFrame(page).locator('#headline-assumption').textContent();
+      if (!/Normality is doubtful here.*only just excludes σ0 = 1\.250/.test(assumption ?? '')) throw new Error(`headline assumption "${assumption}"`);
+      // The one-sided bound is drawn open-ended (an arrowhead), and a high-contrast theme hatches the tail.
+      const arrows = await panelFrame(page).locator('figure.interval svg polygon.interval').count();
+      if (arrows !== 1) throw new Error(`expected one arrowhead on the one-sided bound, found ${arrows}`);
+      const hatch = await panelFrame(page).locator('figure.density svg .tail-hatch').first().evaluate((n) => getComputedStyle(n).display);
+      if ((name === 'high-contrast') !== (hatch !== 'none')) throw new Error(`tail hatching display "${hatch}" in the ${name} theme`);
+      await sleep(600);
+      await maximized(page, () => page.screenshot({ path: join(media, `panel-headline-${name}.png`) }));
+    });
+
     await check(`${name}: the panel's content security policy refuses nothing it needs`, async () => {
       if (refused.length) throw new Error(refused.slice(0, 3).join(' | '));
     });
@@ -159,9 +186,25 @@ async function session({ name, theme, scheme }) {
 
       await check(`${name}: goodness of fit with equal proportions`, async () => {
         await testFileByKeyboard(page, 'bike-trips.csv', ['Goodness of fit', 'dock', 'Equal proportions'], /proportions/i);
-        const bars = await panelFrame(page).locator('figure.bars rect.bar-observed').count();
-        if (bars < 4) throw new Error(`expected a bar per dock, found ${bars}`);
+        // The deviation chart: one marker per dock, over its ±1.96 SD band.
+        const markers = await panelFrame(page).locator('figure.deviation svg circle').count();
+        if (markers < 4) throw new Error(`expected a deviation marker per dock, found ${markers}`);
+        const header = await panelFrame(page).locator('table.counts thead th').allTextContents();
+        if (!/Observed − expected/.test(header.join('|'))) throw new Error(`table header ${header.join(' | ')}`);
         await maximized(page, () => page.screenshot({ path: join(media, `panel-fit-${name}.png`) }));
+      });
+
+      await check(`${name}: Copy table answers beside the buttons; Save plot is offered under each plot`, async () => {
+        await panelFrame(page).locator('button.copy-table').first().click();
+        const status = panelFrame(page).locator('#status');
+        await page.waitForTimeout(800);
+        const text = await status.textContent();
+        if (!/tab-separated/.test(text ?? '')) throw new Error(`status "${text}"`);
+        const inBar = await panelFrame(page).locator('nav.actions #status').count();
+        if (inBar !== 1) throw new Error('the status is not beside the buttons');
+        const saves = await panelFrame(page).locator('figure.plot button.save-plot').count();
+        const plots = await panelFrame(page).locator('figure.plot').count();
+        if (saves !== plots || plots < 2) throw new Error(`${saves} Save plot buttons for ${plots} plots`);
       });
 
       await check(`${name}: assumptions open from the keyboard`, async () => {
@@ -177,6 +220,37 @@ async function session({ name, theme, scheme }) {
         await page.waitForSelector('.monaco-workbench', { timeout: 60_000 });
         await sleep(4000);
         await waitForPanel(page, /equal proportions/i);
+      });
+
+      await check(`${name}: the lookup asks what is wanted first, draws the density, and one panel serves every lookup`, async () => {
+        const before = await page.locator('.tab-label .label-name, .tab .label-name').allTextContents().catch(() => []);
+        for (const df of ['4', '5']) {
+          await palette(page, 'Countercheck: Look Up the Chi-Square Distribution');
+          await answer(page, 'Critical value');
+          await answer(page, df);
+          await answer(page, '');
+          await waitForPanel(page, new RegExp(`${df} degrees of freedom`));
+          await sleep(500);
+        }
+        const tabs = await page.locator('.tab .label-name').allTextContents();
+        const lookups = tabs.filter((t) => /χ² distribution/.test(t)).length;
+        if (lookups !== 1) throw new Error(`expected one lookup tab, found ${lookups} (${tabs.join(', ')}; before ${before.join(', ')})`);
+        const curves = await panelFrame(page).locator('figure.density svg polyline.curve').count();
+        if (curves !== 1) throw new Error('the lookup draws no density');
+        await maximized(page, () => page.screenshot({ path: join(media, `panel-lookup-${name}.png`) }));
+      });
+
+      await check(`${name}: the power plan shows its curve and neither assumptions nor the significance caution`, async () => {
+        await quickOpen(page, 'cask-spread-power.countercheck.json');
+        await palette(page, 'Countercheck: Run a Saved Test');
+        await answer(page, 'cask-spread-power');
+        await waitForPanel(page, /Power 0\.669/);
+        const curve = await panelFrame(page).locator('figure.power-curve svg polyline.power').count();
+        if (curve !== 1) throw new Error('no power curve');
+        const assumptions = await panelFrame(page).locator('section.assumptions').count();
+        const caution = (await panelFrame(page).locator('p.caution').textContent()) ?? '';
+        if (assumptions !== 0 || /significance/i.test(caution)) throw new Error(`assumptions ${assumptions}, caution "${caution}"`);
+        await maximized(page, () => page.screenshot({ path: join(media, `panel-power-${name}.png`) }));
       });
     }
   } finally {

@@ -1,16 +1,22 @@
 /**
- * `run --plots DIR`: where the command line writes each result's plots as SVG files. The plot geometry comes
- * from src/report/plots.ts (`plotsFor`); turning geometry into standalone SVG text belongs to the report layer.
- * Until that writer exists, this hook refuses the option clearly (exit 2) instead of ignoring it.
+ * `run --plots DIR`: writes each result's plots as standalone SVG files (the report layer renders them from the
+ * same geometry the panel draws: src/report/plots.ts → src/report/svg.ts).
  */
+import { mkdir, writeFile } from 'node:fs/promises';
+import * as path from 'node:path';
+import { plotFiles } from '../report/svg';
 import type { Result } from '../stats/result';
 
-export class PlotsUnavailableError extends Error {}
-
-/**
- * Writes the plots of `result` into `dir` as `<baseName>-<plot>.svg`; returns the files written.
- * Connect here: render each `plotsFor(result, decimals)` entry to SVG text and write it.
- */
-export async function writeResultPlots(_dir: string, _baseName: string, _result: Result, _decimals: number): Promise<string[]> {
-  throw new PlotsUnavailableError('--plots: writing plots as SVG files is not available in this version of the command line');
+/** Writes the plots of `result` into `dir` as SVG files named after `baseName`; returns the files written. */
+export async function writeResultPlots(dir: string, baseName: string, result: Result, decimals: number): Promise<string[]> {
+  const plots = plotFiles(result, baseName, decimals);
+  if (plots.length === 0) return [];
+  await mkdir(dir, { recursive: true });
+  const written: string[] = [];
+  for (const plot of plots) {
+    const file = path.join(dir, plot.name);
+    await writeFile(file, plot.svg, 'utf8');
+    written.push(file);
+  }
+  return written;
 }

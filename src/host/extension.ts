@@ -1,6 +1,6 @@
 // Wires commands, the panel serializer, CodeLenses, hovers and the Testing view. Nothing else lives here.
 import * as vscode from 'vscode';
-import type { PanelPayload } from '../protocol';
+import type { PanelAction, PanelPayload } from '../protocol';
 import { COMMANDS } from './commandIds';
 import { distributionLookup, planWithoutData } from './commands/distributionLookup';
 import { refreshBlocks } from './commands/reportBlocks';
@@ -8,9 +8,9 @@ import { runOnCellOutput } from './commands/runOnCellOutput';
 import { runOnFile } from './commands/runOnFile';
 import { runOnSelection } from './commands/runOnSelection';
 import { openSpecResult, rerunAndCompare, runSavedSpec } from './commands/savedSpecs';
-import { BlockCodeLensProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
+import { BlockCodeLensProvider, ResultTermHoverProvider, SpecCodeLensProvider, SpecHoverProvider } from './lenses';
 import { PANEL_VIEW_TYPE } from './panel';
-import { handlePanelAction, saveSpec, trackEditors } from './panelActions';
+import { copyTable, handlePanelAction, savePlot, saveSpec, trackEditors } from './panelActions';
 import { Services } from './services';
 import { registerSqlCommands } from './sqlCommand';
 import { registerTesting, type SavedTests } from './testing';
@@ -24,7 +24,7 @@ export interface CountercheckApi {
   panels(): readonly PanelPayload[];
   activePanel(): PanelPayload | undefined;
   /** Runs a panel action on the active panel as if its button were pressed. */
-  panelAction(action: 'copy-text' | 'copy-markdown' | 'insert' | 'save-spec' | 'rerun'): Promise<void>;
+  panelAction(action: PanelAction): Promise<void>;
   readonly savedTests: SavedTests;
   /** The last error notification's content. */
   lastError(): { message: string; code?: string; file?: string; line?: number } | undefined;
@@ -38,7 +38,7 @@ export interface CountercheckApi {
 
 export function activate(context: vscode.ExtensionContext): CountercheckApi {
   const started = performance.now();
-  const services: Services = new Services(context, { onAction: (action, panel) => handlePanelAction(services, action, panel) });
+  const services: Services = new Services(context, { onAction: (action, panel) => handlePanelAction(services, action, panel), onSavePlot: (index, panel) => savePlot(panel, index), onCopyTable: (index, panel) => copyTable(panel, index) });
   context.subscriptions.push(services);
   trackEditors(context);
   const command = (id: string, run: (...args: never[]) => unknown) => context.subscriptions.push(vscode.commands.registerCommand(id, run as (...args: unknown[]) => unknown));
@@ -63,6 +63,7 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
     vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, services.panels),
     vscode.languages.registerCodeLensProvider({ pattern: '**/*.countercheck.json' }, new SpecCodeLensProvider()),
     vscode.languages.registerHoverProvider({ pattern: '**/*.countercheck.json' }, new SpecHoverProvider()),
+    vscode.languages.registerHoverProvider({ language: 'markdown' }, new ResultTermHoverProvider()),
     vscode.languages.registerCodeLensProvider({ language: 'markdown' }, new BlockCodeLensProvider()),
   );
   const savedTests = registerTesting(services);

@@ -1,5 +1,6 @@
 // Spec files and markdown reports as first-class documents: CodeLenses and field hovers.
 import * as vscode from 'vscode';
+import { explanationAt, explanationMarkdown } from '../report/explanations';
 import { BLOCK_INFO, parseReportBlocks } from '../report/blocks';
 import { COMMON_FIELDS, PROCEDURES, procedureFor } from '../spec/procedures/index';
 import { COMMANDS } from './commandIds';
@@ -52,5 +53,20 @@ export class SpecHoverProvider implements vscode.HoverProvider {
     md.appendMarkdown(field.description.replace(/([\\`*_{}[\]<>|#])/g, '\\$1'));
     if (name === 'test') md.appendMarkdown(`\n\n${PROCEDURES.map((p) => `- \`${p.test}\`: ${p.summary}`).join('\n')}`);
     return new vscode.Hover(md, range);
+  }
+}
+
+/**
+ * In a markdown report, explains a statistic, effect size, assumption or notice term inside a result that a
+ * countercheck block wrote (between its markers), with the text the panel shows on hover.
+ */
+export class ResultTermHoverProvider implements vscode.HoverProvider {
+  provideHover(doc: vscode.TextDocument, position: vscode.Position): vscode.Hover | undefined {
+    const offset = doc.offsetAt(position);
+    const inside = parseReportBlocks(doc.getText()).some((b) => b.existing !== undefined && offset >= b.resultStart && offset <= b.resultEnd);
+    if (!inside) return undefined;
+    const found = explanationAt(doc.lineAt(position.line).text, position.character);
+    if (!found) return undefined;
+    return new vscode.Hover(new vscode.MarkdownString(explanationMarkdown(found.explanation)), new vscode.Range(position.line, found.start, position.line, found.end));
   }
 }

@@ -2,6 +2,7 @@
 // its own state after a reload. The host keeps what each panel needs to act (the spec behind it).
 import * as vscode from 'vscode';
 import { isWebviewToHost, type HostToWebview, type PanelAction, type PanelPayload, type PanelState } from '../protocol';
+import { sourceKey } from './locations';
 import { panelHtml } from './panelHtml';
 import { errorMessage } from '../errors';
 
@@ -10,9 +11,13 @@ export const PANEL_VIEW_TYPE = 'countercheck.result';
 /** What a panel can do besides showing: the handlers come from the command that made it. */
 export interface PanelActions {
   onAction(action: PanelAction, panel: ResultPanel): Promise<void>;
+  onSavePlot(index: number, panel: ResultPanel): Promise<void>;
+  onCopyTable(index: number, panel: ResultPanel): Promise<void>;
 }
 
 export class ResultPanel {
+  /** A copy opened with "Open in new panel": never replaced by a later run of the same source. */
+  pinned = false;
   private disposed = false;
   private readonly disposables: vscode.Disposable[] = [];
 
@@ -49,11 +54,38 @@ export class ResultPanel {
     this.post({ type: 'show', payload });
   }
 
+  private pngRequests = new Map<number, { resolve: (bytes: Uint8Array) => void; reject: (e: Error) => void }>();
+  private nextRequest = 1;
+
+  /** Asks the webview to draw a standalone SVG on its canvas; resolves with the PNG bytes. */
+  renderPng(svg: string, scale = 2): Promise<Uint8Array> {
+    if (this.disposed) return Promise.reject(new Error('the panel is closed'));
+    const requestId = this.nextRequest++;
+    return new Promise((resolve, reject) => {
+      this.pngRequests.set(requestId, { resolve, reject });
+      this.post({ type: 'render-png', requestId, svg, scale });
+      setTimeout(() => {
+        if (this.pngRequests.delete(requestId)) reject(new Error('the panel did not answer within 10 s'));
+      }, 10_000);
+    });
+  }
+
   private async receive(message: unknown): Promise<void> {
     if (this.disposed || !isWebviewToHost(message)) return;
     if (message.type === 'ready') return;
+    if (message.type === 'png') {
+      const pending = this.pngRequests.get(message.requestId);
+      this.pngRequests.delete(message.requestId);
+      if (!pending) return;
+      const match = /^data:image\/png;base64,(.+)$/.exec(message.dataUrl ?? '');
+      if (match) pending.resolve(new Uint8Array(Buffer.from(match[1], 'base64')));
+      else pending.reject(new Error(message.error ?? 'no PNG'));
+      return;
+    }
     try {
-      await this.actions.onAction(message.action, this);
+      if (message.type === 'save-plot') await this.actions.onSavePlot(message.index, this);
+      else if (message.type === 'copy-table') await this.actions.onCopyTable(message.index, this);
+      else await this.actions.onAction(message.action, this);
     } catch (e) {
       this.post({ type: 'status', text: errorMessage(e), level: 'error' });
     }
@@ -86,7 +118,7 @@ export class PanelManager implements vscode.WebviewPanelSerializer<PanelState> {
       reuse.panel.reveal(undefined, true);
       return reuse;
     }
-    const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, payload.title, { viewColumn: vscode.ViewColumn.Beside, preserveFocus: false }, this.options());
+    const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, payload.title, { viewColumn: this.resultColumn(), preserveFocus: false }, this.options());
     return this.adopt(panel, payload);
   }
 
@@ -111,6 +143,24 @@ export class PanelManager implements vscode.WebviewPanelSerializer<PanelState> {
       return;
     }
     this.adopt(panel, state.payload);
+  }
+
+  /** New results join the column results already occupy (as tabs), instead of opening a column each. */
+  private resultColumn(): vscode.ViewColumn {
+    return [...this.open].reverse().find((p) => !p.isDisposed && p.panel.viewColumn !== undefined)?.panel.viewColumn ?? vscode.ViewColumn.Beside;
+  }
+
+  /** The open panel that shows this source's result (pinned copies excluded), if any. */
+  forSource(key: string): ResultPanel | undefined {
+    return [...this.open].reverse().find((p) => !p.pinned && !p.isDisposed && sourceKey(p.payload) === key);
+  }
+
+  /** "Open in new panel": a copy of the result in a panel of its own that later runs never replace. */
+  openCopy(payload: PanelPayload): ResultPanel {
+    const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, payload.title, { viewColumn: this.resultColumn(), preserveFocus: false }, this.options());
+    const copy = this.adopt(panel, payload);
+    copy.pinned = true;
+    return copy;
   }
 
   get active(): ResultPanel | undefined {

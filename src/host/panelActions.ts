@@ -6,6 +6,12 @@ import type { PanelAction, PanelOrigin } from '../protocol';
 import { makeRecord } from '../spec/review';
 import { runSpec } from '../spec/run';
 import { toolName } from './commands/savedSpecs';
+import { errorMessage } from '../errors';
+import type { Plot } from '../protocol';
+import { plotFolderName, withPlotLinks } from '../report/markdown';
+import { tableToTsv } from '../report/tables';
+import { plotFileName, renderPlotSvg } from '../report/svg';
+import { specFileName } from './locations';
 import type { ResultPanel } from './panel';
 import { extensionReaders, settings, type Services } from './services';
 
@@ -23,20 +29,44 @@ export function trackEditors(context: vscode.ExtensionContext): void {
   );
 }
 
-export async function insertMarkdown(markdown: string): Promise<string> {
+/**
+ * Inserts the result where the user was: in a notebook, a markdown cell and, below it, a cell whose outputs
+ * are the plots as SVG images; in a markdown document, the markdown with a relative link to each plot, the
+ * SVG files written into "<document>.plots/" beside it.
+ */
+export async function insertMarkdown(markdown: string, plots: readonly Plot[] = [], title = 'result'): Promise<string> {
   const notebook = vscode.window.activeNotebookEditor ?? lastNotebookEditor;
   const editor = vscode.window.activeTextEditor ?? lastDocumentEditor;
   if (notebook && (!editor || editor.document.uri.scheme === 'vscode-notebook-cell') && !notebook.notebook.isClosed) {
     const at = Math.min(notebook.notebook.cellCount, (notebook.selection?.end ?? notebook.notebook.cellCount));
+    const cells = [new vscode.NotebookCellData(vscode.NotebookCellKind.Markup, markdown, 'markdown')];
+    if (plots.length > 0) {
+      const language = notebook.notebook.cellAt(Math.max(0, at - 1))?.document.languageId ?? 'python';
+      const figure = new vscode.NotebookCellData(vscode.NotebookCellKind.Code, `# ${t('Plots of: {0}', title)}`, language === 'markdown' ? 'python' : language);
+      figure.outputs = plots.map((plot, i) => new vscode.NotebookCellOutput([vscode.NotebookCellOutputItem.text(renderPlotSvg(plot, { idPrefix: `nb${Date.now()}-${i}` }), 'image/svg+xml')]));
+      cells.push(figure);
+    }
     const edit = new vscode.WorkspaceEdit();
-    edit.set(notebook.notebook.uri, [vscode.NotebookEdit.insertCells(at, [new vscode.NotebookCellData(vscode.NotebookCellKind.Markup, markdown, 'markdown')])]);
+    edit.set(notebook.notebook.uri, [vscode.NotebookEdit.insertCells(at, cells)]);
     await vscode.workspace.applyEdit(edit);
-    return t('Inserted a markdown cell below the selected cell.');
+    return plots.length > 0 ? t('Inserted a markdown cell and a cell with {0} plot(s) below the selected cell.', plots.length) : t('Inserted a markdown cell below the selected cell.');
   }
   if (editor && !editor.document.isClosed && editor.document.languageId === 'markdown') {
+    let text = markdown;
+    if (plots.length > 0 && editor.document.uri.scheme === 'file') {
+      const documentPath = editor.document.uri.fsPath;
+      const folder = plotFolderName(documentPath);
+      const links: { link: string; alt: string }[] = [];
+      for (const [i, plot] of plots.entries()) {
+        const name = plotFileName(title, i, plot);
+        await vscode.workspace.fs.writeFile(vscode.Uri.file(path.join(path.dirname(documentPath), folder, name)), new TextEncoder().encode(renderPlotSvg(plot, { idPrefix: `cc${i + 1}` })));
+        links.push({ link: `${folder}/${name}`, alt: plot.title });
+      }
+      text = withPlotLinks(markdown, links);
+    }
     const position = editor.selection.active;
     const edit = new vscode.WorkspaceEdit();
-    edit.insert(editor.document.uri, position, `\n${markdown}\n`);
+    edit.insert(editor.document.uri, position, `\n${text}\n`);
     await vscode.workspace.applyEdit(edit);
     return t('Inserted into {0} at line {1}.', path.basename(editor.document.uri.fsPath), position.line + 1);
   }
@@ -53,8 +83,11 @@ function defaultSpecPath(origin: PanelOrigin): string {
 
 /** Writes the spec with its recorded result. An existing file is only replaced after the user has seen the diff. */
 export async function saveSpec(services: Services, origin: PanelOrigin, target?: vscode.Uri): Promise<vscode.Uri | undefined> {
-  const uri = target ?? (await vscode.window.showSaveDialog({ defaultUri: vscode.Uri.file(defaultSpecPath(origin)), filters: { [t('Countercheck test')]: ['countercheck.json'] }, title: t('Save as test file') }));
-  if (!uri) return undefined;
+  // The filter names the plain extension: a dialog that appends the filter's extension to a name whose
+  // last extension differs would turn "x.countercheck.json" into "x.countercheck.json.countercheck.json".
+  const chosen = target ?? (await vscode.window.showSaveDialog({ defaultUri: vscode.Uri.file(defaultSpecPath(origin)), filters: { [t('Countercheck test')]: ['json'] }, title: t('Save as test file') }));
+  if (!chosen) return undefined;
+  const uri = chosen.with({ path: specFileName(chosen.path) });
   const spec: Record<string, unknown> = { ...origin.spec };
   delete spec.recorded;
   const source = spec.source as Record<string, unknown> | undefined;
@@ -88,6 +121,33 @@ export async function saveSpec(services: Services, origin: PanelOrigin, target?:
   return uri;
 }
 
+/** "Save plot…": the standalone SVG, or a PNG drawn by the panel's canvas when the name ends in .png. */
+export async function savePlot(panel: ResultPanel, index: number): Promise<void> {
+  const plot = panel.payload.plots[index];
+  if (!plot) return;
+  const origin = panel.payload.origin;
+  const folder = origin ? path.dirname(origin.specPath) : (vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? '');
+  const base = origin?.saved ? path.basename(origin.specPath) : panel.payload.title;
+  const uri = await vscode.window.showSaveDialog({
+    defaultUri: vscode.Uri.file(path.join(folder, plotFileName(base, index, plot))),
+    filters: { [t('SVG image')]: ['svg'], [t('PNG image')]: ['png'] },
+    title: t('Save plot'),
+  });
+  if (!uri) return;
+  const svg = renderPlotSvg(plot);
+  const bytes = /\.png$/i.test(uri.path) ? await panel.renderPng(svg, 2) : new TextEncoder().encode(svg);
+  await vscode.workspace.fs.writeFile(uri, bytes);
+  panel.post({ type: 'status', text: t('Saved {0}.', vscode.workspace.asRelativePath(uri)), level: 'info' });
+}
+
+/** "Copy table": tab-separated cells (a spreadsheet pastes them as cells). */
+export async function copyTable(panel: ResultPanel, index: number): Promise<void> {
+  const table = panel.payload.tables[index];
+  if (!table) return;
+  await vscode.env.clipboard.writeText(tableToTsv(table));
+  panel.post({ type: 'status', text: t('Copied the table as tab-separated cells ({0} rows).', table.rows.length + 1), level: 'info' });
+}
+
 export async function handlePanelAction(services: Services, action: PanelAction, panel: ResultPanel): Promise<void> {
   const payload = panel.payload;
   switch (action) {
@@ -100,7 +160,13 @@ export async function handlePanelAction(services: Services, action: PanelAction,
       panel.post({ type: 'status', text: t('Copied the markdown.'), level: 'info' });
       return;
     case 'insert':
-      panel.post({ type: 'status', text: await insertMarkdown(payload.markdown), level: 'info' });
+      try {
+        panel.post({ type: 'status', text: await insertMarkdown(payload.markdown, payload.plots, payload.title), level: 'info' });
+      } catch (e) {
+        // Also as a notification: with no document open the panel is all the user sees.
+        void vscode.window.showWarningMessage(t('Countercheck: {0}', errorMessage(e)));
+        throw e;
+      }
       return;
     case 'save-spec': {
       if (!payload.origin) return;
@@ -111,6 +177,9 @@ export async function handlePanelAction(services: Services, action: PanelAction,
       }
       return;
     }
+    case 'open-new':
+      services.panels.openCopy(payload);
+      return;
     case 'rerun': {
       if (!payload.origin) return;
       panel.post({ type: 'busy', busy: true });

@@ -2,6 +2,7 @@
 // readers, the panels, and the error notification that points at the place in the file.
 import * as path from 'node:path';
 import * as vscode from 'vscode';
+import { rememberSpecFolder, resolveErrorFile, sourceKey, specFolderOf } from './locations';
 import { aggregateFile } from '../data/file';
 import { detectDialect } from '../data/dialect';
 import { errorMessage, isInputError, isInstance, type InputError } from '../errors';
@@ -23,6 +24,7 @@ export interface Settings {
   readonly missingValues: readonly string[];
   readonly monteCarloResamples: number;
   readonly allowPathsOutsideWorkspace: boolean;
+  readonly keepSeveralPanels: boolean;
 }
 
 export function settings(scope?: vscode.Uri): Settings {
@@ -34,6 +36,7 @@ export function settings(scope?: vscode.Uri): Settings {
     missingValues: c.get<string[]>('missingValues', ['', 'NA', 'NaN', 'null', '-']),
     monteCarloResamples: c.get<number>('monteCarloResamples', 10000),
     allowPathsOutsideWorkspace: c.get<boolean>('allowPathsOutsideWorkspace', false),
+    keepSeveralPanels: c.get<boolean>('keepSeveralPanels', false),
   };
 }
 
@@ -101,6 +104,7 @@ export class Services {
           });
         } catch (e) {
           if (abort.signal.aborted) throw new Cancelled(t('Cancelled'));
+          rememberSpecFolder(e, specPath);
           throw e;
         } finally {
           sub.dispose();
@@ -122,7 +126,9 @@ export class Services {
       canSave: origin !== undefined,
       canRerun: origin !== undefined,
     });
-    return this.panels.show({ ...payload, origin }, reuse);
+    // One panel per source: a new run replaces the result of the same source unless panels are kept.
+    const same = reuse ?? (s.keepSeveralPanels ? undefined : this.panels.forSource(sourceKey({ ...payload, origin })));
+    return this.panels.show({ ...payload, origin }, same);
   }
 
   /** Shows any failure as a notification; an InputError gets a button that opens its file at the line. Never rethrows. */
@@ -139,7 +145,7 @@ export class Services {
       void vscode.window.showErrorMessage(t('Countercheck: {0}', message));
       return;
     }
-    const target = locate(e, baseFolder);
+    const target = locate(e, baseFolder ?? specFolderOf(e));
     const where = target ? ` (${vscode.workspace.asRelativePath(target.uri)}${target.line ? `:${target.line}` : ''}${target.column ? `, ${t('column')} ${target.column}` : ''})` : '';
     const open = t('Open at location');
     // Not awaited: the command finishes now; the button works whenever the user gets to it.
@@ -179,6 +185,6 @@ function columnOffset(doc: vscode.TextDocument, column: string | undefined, line
 export function locate(e: InputError, baseFolder?: string): { uri: vscode.Uri; line?: number; column?: string } | undefined {
   const { file, line, column } = e.location;
   if (!file) return undefined;
-  const abs = path.isAbsolute(file) ? file : path.join(baseFolder ?? vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? '', file);
+  const abs = resolveErrorFile(file, baseFolder, vscode.workspace.workspaceFolders?.[0]?.uri.fsPath);
   return { uri: vscode.Uri.file(abs), line, column };
 }

@@ -3,8 +3,9 @@
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { describeReview } from '../spec/review';
-import { reviewSpec, SPEC_GLOB } from './commands/savedSpecs';
-import type { Services } from './services';
+import { reviewComparison, reviewSpec, SPEC_GLOB } from './commands/savedSpecs';
+import { comparisonDiffTexts } from '../report/comparison';
+import { settings, type Services } from './services';
 
 export interface SavedTests {
   readonly controller: vscode.TestController;
@@ -85,7 +86,10 @@ export function registerTesting(services: Services): SavedTests {
       if (review.status === 'reproduced') run.passed(item, duration);
       else if (review.status === 'cannot-run') run.errored(item, new vscode.TestMessage(text), duration);
       else {
-        const message = new vscode.TestMessage(text);
+        // A diff of recorded against current (before/after rows), with the review's text as the message.
+        const comparison = reviewComparison(review, settings(item.uri!).decimals);
+        const diff = comparison ? comparisonDiffTexts(comparison) : undefined;
+        const message = diff ? vscode.TestMessage.diff(`${comparison!.flipped ? vscode.l10n.t('Conclusion flipped. ') : ''}${text}`, diff.expected, diff.actual) : new vscode.TestMessage(text);
         message.location = new vscode.Location(item.uri!, new vscode.Position(0, 0));
         run.failed(item, message, duration);
       }

@@ -35,23 +35,41 @@ export function formatNumber(x: number, decimals = DEFAULT_FORMAT.decimals): str
   return `${x < 0 ? '-' : ''}${groupThousands(whole)}${fraction !== undefined ? '.' + fraction : ''}`;
 }
 
+/** "+8.00", "−3.10", "0.00": signed with a true minus sign, the decimals setting; "–" when not a number. */
+export function signedNumber(x: number, decimals = DEFAULT_FORMAT.decimals): string {
+  if (!Number.isFinite(x)) return '–';
+  const text = formatNumber(Math.abs(x), decimals);
+  return x > 0 ? `+${text}` : x < 0 ? `−${text}` : text;
+}
+
 /** A count: whole numbers with thousands separators, anything else with decimals. */
 export function formatCount(x: number, decimals = DEFAULT_FORMAT.decimals): string {
   return Number.isInteger(x) ? `${x < 0 ? '-' : ''}${groupThousands(String(Math.abs(x)))}` : formatNumber(x, decimals);
 }
 
 /**
- * Degrees of freedom: whole numbers as they are, fractional ones from 1 upward with up to the given decimals
+ * Degrees of freedom: whole numbers as they are (no thousands separator), fractional ones from 1 upward with up to the given decimals
  * ("2.5", "3.14"), and fractional ones below 1 with `decimals + 1` significant digits ("0.0153",
  * "1.00 × 10^-10"), so a tiny df is never written as 0.
  */
 export function formatDf(df: number, decimals = DEFAULT_FORMAT.decimals): string {
-  if (Number.isInteger(df)) return formatCount(df);
+  // Never grouped: "χ²(1767, N = 1,768)" reads as one df, where "1,767" would read as two arguments.
+  if (Number.isInteger(df)) return String(df);
   if (!Number.isFinite(df)) return formatNumber(df);
   const magnitude = Math.abs(df);
   if (magnitude >= 1) return String(Number(df.toFixed(decimals)));
   if (magnitude < 1e-4) return formatScientific(df, decimals + 1);
   return String(Number(df.toPrecision(decimals + 1)));
+}
+
+const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '+': '⁺', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+
+/**
+ * "5.1 × 10⁻⁵" from "5.1 × 10^-5": exponents as superscripts for the panel. Plain text and markdown keep
+ * the caret form, which every terminal, spreadsheet and markdown renderer shows alike.
+ */
+export function superscriptExponents(text: string): string {
+  return text.replace(/10\^([+-]?\d+)/g, (_whole, exponent: string) => `10${[...exponent].map((c) => SUPERSCRIPT[c]).join('')}`);
 }
 
 /** "3.2 × 10^-5" with `significant` significant digits. */
@@ -86,12 +104,13 @@ export function apaSymbol(symbol: string): string {
 /**
  * "χ²(3, N = 556) = 0.47, p = .925" — the statistic with df and N, and the APA p-value.
  * `df` null (a statistic without degrees of freedom, such as z) leaves the parentheses out: "z = 4.07, p < .001".
+ * `pName` names a p-value that is not the chi-square approximation's: "χ²(4, N = 39) = 11.90, exact p = .026".
  */
-export function formatApaLine(symbol: string, statistic: number, df: number | null, n: number | null, p: Probability, format: FormatOptions = DEFAULT_FORMAT): string {
+export function formatApaLine(symbol: string, statistic: number, df: number | null, n: number | null, p: Probability, format: FormatOptions = DEFAULT_FORMAT, pName = 'p'): string {
   const inside = df === null ? [] : [formatDf(df, format.decimals), ...(n !== null ? [`N = ${formatCount(n, format.decimals)}`] : [])];
   const head = inside.length > 0 ? `${apaSymbol(symbol)}(${inside.join(', ')})` : apaSymbol(symbol);
   const stat = Number.isNaN(statistic) ? '' : ` = ${formatNumber(statistic, format.decimals)}`;
-  return `${head}${stat}, ${formatPApa(p)}`;
+  return `${head}${stat}, ${formatPApa(p).replace(/^p/, pName)}`;
 }
 
 /** "95%" from 0.95; "99.9%" from 0.999. */

@@ -5,7 +5,8 @@
  */
 import type { CellGrid, CategoryRow, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
 import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPExact, formatProbability } from './format';
-import { CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
+import { presentedTest, testHeadline, type Headline } from './headline';
+import { CAUTION, POWER_CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
 
 /**
  * Escapes text for a markdown table cell or inline text, so that it reads as the same plain text and nothing
@@ -15,15 +16,55 @@ import { CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates,
  * dot or parenthesis); leading spaces and tabs, which a paragraph drops and which from four on would open a code
  * block, are removed. Checked against markdown-it by a property test.
  */
-export function escapeMarkdown(text: string): string {
-  return text
+export function escapeMarkdown(text: string, atLineStart = true): string {
+  const inline = text
     .replace(/\r\n|\r|\n/g, ' ')
-    .replace(/^[ \t]+/, '')
     .replace(/[\\|*_`[\]~]/g, '\\$&')
     .replace(/<(?=[A-Za-z/!?])/g, '\\<')
-    .replace(/&(?=#?[A-Za-z0-9]+;)/g, '\\&')
+    .replace(/&(?=#?[A-Za-z0-9]+;)/g, '\\&');
+  // Text that continues a line (after a code span) keeps its spaces; only a line's start can open a block.
+  if (!atLineStart) return inline;
+  return inline
+    .replace(/^[ \t]+/, '')
     .replace(/^([#>+=-])/, '\\$1')
     .replace(/^(\d+)([.)])/, '$1\\$2');
+}
+
+/**
+ * Inline text in which names given as code spans (`fill_ml`) stay code spans: everything else is escaped,
+ * and the name itself is fenced with enough backticks to hold any it contains.
+ */
+export function markdownWithNames(text: string): string {
+  return text.split(/(`[^`]+`)/).map((part, i) => (/^`[^`]+`$/.test(part) ? codeSpan(part.slice(1, -1)) : escapeMarkdown(part, i === 0))).join('');
+}
+
+/** A code span holding `text` verbatim (CommonMark: a longer fence than any backtick run inside). */
+export function codeSpan(text: string): string {
+  const longest = Math.max(0, ...(text.match(/`+/g) ?? []).map((r) => r.length));
+  const fence = '`'.repeat(longest + 1);
+  const pad = text.startsWith('`') || text.endsWith('`') ? ' ' : '';
+  return `${fence}${pad}${text}${pad}${fence}`;
+}
+
+/** The headline in markdown: the answer with names as code spans, then the failed assumption in bold (the effect size is the next line). */
+export function headlineMarkdown(h: Headline, conclusion: string): string {
+  return [markdownWithNames(conclusion), ...(h.assumption ? [`**${escapeMarkdown(h.assumption)}**`] : [])].join(' ');
+}
+
+/**
+ * The folder beside a report (or document) that holds its plot files: "report.md" → "report.plots". One
+ * folder per document, so plots of several documents in one folder never collide.
+ */
+export function plotFolderName(documentPath: string): string {
+  const base = documentPath.split(/[\\/]/).pop() ?? 'report';
+  return `${base.replace(/\.[^.]+$/, '') || 'report'}.plots`;
+}
+
+/** The markdown followed by an image link per plot (relative links, URL-encoded, alt text escaped). */
+export function withPlotLinks(markdown: string, plots: readonly { readonly link: string; readonly alt: string }[]): string {
+  if (plots.length === 0) return markdown;
+  const images = plots.map((p) => `![${escapeMarkdown(p.alt)}](${p.link.split('/').map(encodeURIComponent).join('/')})`).join('\n\n');
+  return `${markdown.replace(/\n*$/, '')}\n\n${images}\n`;
 }
 
 /** A pipe table; numeric columns are right-aligned. */
@@ -33,16 +74,23 @@ export function markdownTable(header: readonly string[], rows: readonly (readonl
   return [line(header.map(escapeMarkdown)), line(align), ...rows.map((r) => line(r.map((c, j) => (j < numericFrom ? escapeMarkdown(c) : c))))].join('\n');
 }
 
+/** "+2.25", "-3.25": signed with ASCII signs (pasted markdown is read by other programs). */
+function plusSigned(x: number, decimals: number): string {
+  return `${x > 0 ? '+' : ''}${formatNumber(x, decimals)}`;
+}
+
+/** Categories in our reading order: deviation, standardized residual z, share of the statistic, then the counts. */
 function categoryTable(rows: readonly CategoryRow[], options: ReportOptions): string {
+  const total = rows.reduce((a, r) => a + r.contribution, 0);
   return markdownTable(
-    ['Category', 'Observed', 'Expected', 'Residual', 'Std. residual', 'Contribution'],
+    ['Category', 'Observed − expected', 'z', 'Share of χ²', 'Observed', 'Expected'],
     rows.map((r) => [
       r.label,
+      plusSigned(r.observed - r.expected, options.decimals),
+      plusSigned(r.standardizedResidual, options.decimals),
+      total > 0 ? `${formatNumber((100 * r.contribution) / total, 1)} %` : '–',
       formatCount(r.observed, options.decimals),
       formatNumber(r.expected, options.decimals),
-      formatNumber(r.pearsonResidual, options.decimals),
-      formatNumber(r.standardizedResidual, options.decimals),
-      formatNumber(r.contribution, options.decimals),
     ]),
   );
 }
@@ -70,10 +118,11 @@ function noticeBullets(result: { readonly notices: TestResult['notices'] }): str
   return result.notices.map((n) => `- ${n.severity === 'warning' ? '**Warning:** ' : ''}${escapeMarkdown(n.message)}`);
 }
 
-export function testMarkdown(result: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+export function testMarkdown(given: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const result = presentedTest(given);
   const parts: string[] = [];
   parts.push(`**${escapeMarkdown(options.title ?? result.procedure)}**${options.title ? ` — ${escapeMarkdown(result.procedure)}` : ''}`);
-  parts.push(escapeMarkdown(result.conclusion));
+  parts.push(headlineMarkdown(testHeadline(result, options), result.conclusion));
   const exact = formatPExact(result.pValue);
   const details = [apaLine(result, options) + (exact ? ` (${exact})` : ''), ...result.effectSizes.map((e) => estimateText(e, options))];
   const { main, interval, rest } = mainIntervalAndEstimates(result);
@@ -131,7 +180,7 @@ export function powerMarkdown(result: PowerResult, options: ReportOptions = DEFA
   const head = `**${escapeMarkdown(options.title ?? `Power of the chi-square ${result.target} test`)}**`;
   const body = `${escapeMarkdown(result.effectSize.name)} = ${formatEstimate(result.effectSize.value, options)}, df = ${formatDf(result.df)}, α = ${formatEstimate(result.alpha, options)}: n = ${formatCount(result.n)}, power = ${formatEstimate(result.power, options)}${result.solvedFor === 'n' ? ' (smallest n reaching the power asked)' : ''}`;
   const notes = noticeBullets(result);
-  return [head, body, ...(notes.length ? [notes.join('\n')] : []), `*${escapeMarkdown(CAUTION)}*`].join('\n\n') + '\n';
+  return [head, body, ...(notes.length ? [notes.join('\n')] : []), `*${escapeMarkdown(POWER_CAUTION)}*`].join('\n\n') + '\n';
 }
 
 export function resultMarkdown(result: Result, options: ReportOptions = DEFAULT_FORMAT): string {

@@ -6,10 +6,13 @@
  */
 import type { PanelPayload, ResultTable } from '../protocol';
 import type { DistributionResult, Result, TestResult } from '../stats/result';
-import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, type FormatOptions } from './format';
+import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPercent, formatProbability, signedNumber, superscriptExponents, type FormatOptions } from './format';
 import { resultMarkdown } from './markdown';
-import { plotsFor, residualShade } from './plots';
-import { apaLine, CAUTION, estimateText, resultText, statisticLineText } from './text';
+import { plotsForResult, residualShade } from './plots';
+import { plotDescription, renderPlotSvg } from './svg';
+import { explain, explanationText } from './explanations';
+import { keyEstimate, pLabel, presentedTest, reportedPMethod, testHeadline } from './headline';
+import { apaLine, CAUTION, estimateText, POWER_CAUTION, resultText, statisticLineText } from './text';
 
 /** A string translator with `{0}`-style placeholders, as vscode.l10n.t. */
 export type Translate = (message: string, ...args: (string | number | boolean)[]) => string;
@@ -40,16 +43,21 @@ function signText(residual: number, t: Translate): string {
 function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultTable[] {
   const tables: ResultTable[] = [];
   if (result.categories) {
+    // Our reading order: how far each category is from its expectation, how unusual that is, how much of the
+    // statistic it makes, and only then the counts themselves.
+    const total = result.categories.reduce((a, c) => a + c.contribution, 0);
     tables.push({
-      caption: t('Observed and expected counts, with standardized residuals (▲ above, ▼ below expectation)'),
-      header: [t('Category'), t('Observed'), t('Expected'), t('Std. residual'), t('Contribution to {0}', result.statisticSymbol)],
+      caption: t('Each category against its expectation: deviation, standardized residual z (▲ above, ▼ below), share of {0}, counts', result.statisticSymbol),
+      header: [t('Category'), t('Observed − expected'), t('z'), t('Share of {0}', result.statisticSymbol), t('Observed'), t('Expected')],
+      headerExplain: ['', '', explained('standardized residual').explain ?? '', explained('Share of χ²').explain ?? '', '', ''],
       rows: result.categories.map((c) => ({
         label: c.label,
         cells: [
+          { text: signedNumber(c.observed - c.expected, f.decimals) },
+          { text: signedNumber(c.standardizedResidual, f.decimals), shade: residualShade(c.standardizedResidual), signText: signText(c.standardizedResidual, t) },
+          { text: total > 0 ? `${formatNumber((100 * c.contribution) / total, 1)} %` : '–' },
           { text: formatCount(c.observed, f.decimals) },
           { text: formatNumber(c.expected, f.decimals) },
-          { text: formatNumber(c.standardizedResidual, f.decimals), shade: residualShade(c.standardizedResidual), signText: signText(c.standardizedResidual, t) },
-          { text: formatNumber(c.contribution, f.decimals) },
         ],
       })),
     });
@@ -58,6 +66,7 @@ function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultT
     const g = result.grid;
     tables.push({
       caption: t('Observed count (expected) and adjusted residual per cell; tint grows with |residual|, ▲/▼ gives its sign'),
+      headerExplain: [explained('adjusted residual').explain ?? ''],
       header: ['', ...g.columnLabels, t('Total')],
       rows: [
         ...g.rowLabels.map((label, i) => ({
@@ -82,18 +91,28 @@ function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultT
   return tables;
 }
 
-function keyFigures(result: TestResult, f: FormatOptions, t: Translate): { label: string; value: string }[] {
+/** The explanation of a key, as tooltip text; undefined when the glossary has none. */
+function explained(...keys: (string | undefined)[]): { explain?: string } {
+  for (const key of keys) {
+    const e = explain(key);
+    if (e) return { explain: explanationText(e) };
+  }
+  return {};
+}
+
+function keyFigures(result: TestResult, f: FormatOptions, t: Translate): { label: string; value: string; explain?: string }[] {
+  const method = reportedPMethod(result);
   const figures = [
-    { label: result.statisticSymbol, value: formatNumber(result.statistic, f.decimals) },
-    ...(result.df !== null ? [{ label: t('Degrees of freedom'), value: formatDf(result.df, f.decimals) }] : []),
-    { label: t('p-value'), value: formatProbability(result.pValue) },
-    ...(result.n !== null ? [{ label: 'N', value: formatCount(result.n, 0) }] : []),
-    { label: 'α', value: String(result.alpha) },
+    { label: result.statisticSymbol, value: formatNumber(result.statistic, f.decimals), ...explained(result.statisticSymbol, String(result.details?.mainStatistic ?? '')) },
+    ...(result.df !== null ? [{ label: t('Degrees of freedom'), value: formatDf(result.df, f.decimals), ...explained('df') }] : []),
+    { label: method === 'asymptotic' ? t('p-value') : t('{0}-value', pLabel(method)), value: formatProbability(result.pValue), ...explained(method === 'asymptotic' ? 'p-value' : pLabel(method)) },
+    ...(result.n !== null ? [{ label: 'N', value: formatCount(result.n, 0), ...explained('N') }] : []),
+    { label: 'α', value: String(result.alpha), ...explained('α') },
   ];
-  for (const e of result.effectSizes) figures.push({ label: e.name, value: formatEstimate(e.value, f) + (e.interval ? ` ${formatEstimateInterval(e.interval.lower, e.interval.upper, f)}` : '') });
+  for (const e of result.effectSizes) figures.push({ label: e.name, value: formatEstimate(e.value, f) + (e.interval ? ` ${formatEstimateInterval(e.interval.lower, e.interval.upper, f)}` : ''), ...explained(e.id) });
   if (result.confidenceInterval) {
     const ci = result.confidenceInterval;
-    figures.push({ label: `${formatPercent(ci.level)} ${ci.parameter}`, value: formatEstimateInterval(ci.lower, ci.upper, f) });
+    figures.push({ label: `${formatPercent(ci.level)} ${ci.parameter}`, value: formatEstimateInterval(ci.lower, ci.upper, f), ...explained(ci.parameter === 'σ²' ? 'variance' : ci.parameter === 'σ' ? 'sd' : undefined) });
   }
   return figures;
 }
@@ -131,23 +150,49 @@ export function distributionTables(result: DistributionResult, f: FormatOptions,
 export function panelStrings(t: Translate = untranslated): Record<string, string> {
   return {
     plots: t('Plots'), actions: t('Actions'), copyText: t('Copy text'), copyMarkdown: t('Copy markdown'),
-    insert: t('Insert into document'), saveSpec: t('Save as test file'), rerun: t('Re-run'),
+    insert: t('Insert into document'), saveSpec: t('Save as test file'), rerun: t('Re-run'), openNew: t('Open in new panel'),
     otherStatistics: t('Other statistics on the same data'), assumptions: t('Assumptions'),
     met: t('checked, met'), failed: t('checked, not met'), unchecked: t('cannot be checked from the data'),
-    alternative: t('Consider instead'), observed: t('observed'), expected: t('expected'),
+    alternative: t('Consider instead'), usedHere: t('Used here'), observed: t('observed'), expected: t('expected'),
     observedMarked: t('Observed statistic marked at'), tailShaded: t('shaded area: the tail the p-value counts'), criticalDashed: t('dashed: critical value at α'),
     insideInterval: t('inside the interval'), outsideInterval: t('outside the interval'),
+    savePlot: t('Save plot…'), savePlotHint: t('Save this plot as an SVG or PNG file'),
+    comparison: t('Compared with the recorded result'), conclusionFlipped: t('the conclusion flipped'), recorded: t('Recorded'), now: t('Now'), changedMark: t('(changed)'),
+    copyTable: t('Copy table'), copyTableHint: t('Copy as tab-separated cells: pastes into a spreadsheet as cells'),
   };
+}
+
+/** Payload fields that travel as plain text or data (copied, saved, re-run): their exponents stay in caret form. */
+const VERBATIM = new Set(['text', 'markdown', 'result', 'origin', 'strings', 'id', 'computedAt']);
+
+/** Every string the panel displays, with exponents as superscripts ("10⁻⁵"); copied text keeps "10^-5". */
+export function withSuperscripts(payload: PanelPayload): PanelPayload {
+  const deep = (value: unknown): unknown => {
+    if (typeof value === 'string') return superscriptExponents(value);
+    if (Array.isArray(value)) return value.map(deep);
+    if (typeof value === 'object' && value !== null) return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, deep(v)]));
+    return value;
+  };
+  return Object.fromEntries(Object.entries(payload).map(([k, v]) => [k, VERBATIM.has(k) ? v : deep(v)])) as unknown as PanelPayload;
 }
 
 /** Everything the panel shows for a result. `t` translates the panel's own strings (the host passes vscode.l10n.t). */
 export function buildPanelPayload(result: Result, options: PayloadOptions, t: Translate = untranslated): PanelPayload {
+  const payload = withSuperscripts(payloadFor(result, options, t));
+  return {
+    ...payload,
+    plotSvgs: payload.plots.map((plot, i) => renderPlotSvg(plot, { mode: 'panel', idPrefix: `${options.id}-p${i}` })),
+    plotDescriptions: payload.plots.map(plotDescription),
+  };
+}
+
+function payloadFor(result: Result, options: PayloadOptions, t: Translate): PanelPayload {
   const f: FormatOptions = { decimals: options.decimals };
   const common = {
     id: options.id,
     title: options.title,
     sourceDescription: options.sourceDescription,
-    caution: CAUTION,
+    caution: result.kind === 'test' ? CAUTION : result.kind === 'power' ? POWER_CAUTION : '',
     text: resultText(result, { ...f, title: options.title }),
     markdown: resultMarkdown(result, { ...f, title: options.title }),
     result,
@@ -157,19 +202,25 @@ export function buildPanelPayload(result: Result, options: PayloadOptions, t: Tr
     computedAt: options.computedAt ?? new Date().toISOString(),
   };
   if (result.kind === 'test') {
+    const presented = presentedTest(result);
+    const headline = testHeadline(presented, f);
+    const key = keyEstimate(presented);
     return {
       ...common,
-      headline: result.conclusion,
+      headline: headline.answer,
+      ...(headline.effect && key !== presented.effectSizes[0] ? { headlineEffect: headline.effect } : {}),
+      ...(headline.assumption ? { headlineAssumption: headline.assumption } : {}),
+      ...(key ? { keyEstimate: { label: key.name, value: estimateText(key, f).slice(key.name.length + 3), ...explained(key.id) } } : {}),
       apaLine: apaLine(result, f),
       significant: result.significant,
       keyFigures: keyFigures(result, f, t),
       tables: testTables(result, f, t),
-      plots: plotsFor(result, f.decimals),
-      assumptions: result.assumptions.map((a) => ({ ...a })),
-      notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
+      plots: plotsForResult(result, f.decimals),
+      assumptions: presented.assumptions.map((a) => ({ ...a, ...explained(a.id) })),
+      notices: presented.notices.map((n) => ({ severity: n.severity, message: n.message, ...explained(n.code) })),
       otherStatistics: [
-        ...result.otherStatistics.map((s) => ({ name: s.name, value: statisticLineText(s, result.n, f).replace(`${s.name}: `, '') + (s.note ? ` — ${s.note}` : '') })),
-        ...result.estimates.map((e) => ({ name: e.name, value: estimateText(e, f).replace(`${e.name} = `, '') })),
+        ...result.otherStatistics.map((s) => ({ name: s.name, value: statisticLineText(s, result.n, f).replace(`${s.name}: `, ''), ...(s.note ? { note: s.note } : {}), ...explained(s.id, s.symbol) })),
+        ...result.estimates.filter((e) => e !== key).map((e) => ({ name: e.name, value: estimateText(e, f).replace(`${e.name} = `, ''), ...(e.note ? { note: e.note } : {}), ...explained(e.id) })),
       ],
     };
   }
@@ -181,9 +232,9 @@ export function buildPanelPayload(result: Result, options: PayloadOptions, t: Tr
       significant: null,
       keyFigures: [],
       tables: distributionTables(result, f, t),
-      plots: [],
+      plots: plotsForResult(result, f.decimals),
       assumptions: [],
-      notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
+      notices: result.notices.map((n) => ({ severity: n.severity, message: n.message, ...explained(n.code) })),
       otherStatistics: [],
     };
   }
@@ -192,11 +243,11 @@ export function buildPanelPayload(result: Result, options: PayloadOptions, t: Tr
     headline: t('Power {0} at n = {1}', formatEstimate(result.power, f), formatCount(result.n, 0)),
     apaLine: '',
     significant: null,
-    keyFigures: [{ label: result.effectSize.name, value: formatEstimate(result.effectSize.value, f) }, { label: 'df', value: formatDf(result.df, f.decimals) }, { label: 'α', value: String(result.alpha) }],
+    keyFigures: [{ label: result.effectSize.name, value: formatEstimate(result.effectSize.value, f), ...explained(result.effectSize.id) }, { label: 'df', value: formatDf(result.df, f.decimals), ...explained('df') }, { label: 'α', value: String(result.alpha), ...explained('α') }],
     tables: [],
-    plots: [],
+    plots: plotsForResult(result, f.decimals),
     assumptions: [],
-    notices: result.notices.map((n) => ({ severity: n.severity, message: n.message })),
+    notices: result.notices.map((n) => ({ severity: n.severity, message: n.message, ...explained(n.code) })),
     otherStatistics: [],
   };
 }

@@ -3,11 +3,11 @@
  * pixels and draws SVG, so every choice about what a plot shows (which tail is shaded, where the axis
  * ends, how strongly a cell is tinted) is made and unit-tested here.
  */
-import type { BarsPlot, DensityPlot, IntervalPlot, Plot, PlotPoint, ResidualGridPlot, ResidualShade } from '../protocol';
+import type { DensityPlot, DeviationPlot, IntervalPlot, Plot, PlotPoint, PowerCurvePlot, ResidualGridPlot, ResidualShade } from '../protocol';
 import { chiSquareDensity, chiSquareQuantile, chiSquareUpperQuantile } from '../stats/chisquare';
 import { normalDensity, normalQuantile, normalUpperQuantile } from '../stats/normal';
-import type { Alternative, CategoryRow, CellGrid, TestResult } from '../stats/result';
-import { formatCount, formatEstimate, formatNumber } from './format';
+import type { Alternative, CategoryRow, CellGrid, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
+import { formatCount, formatEstimate, formatNumber, signedNumber } from './format';
 
 /** Two-sided 5 %, 1 % and 0.1 % points of the standard normal (|z| bands for residual shading). */
 export const RESIDUAL_BANDS: readonly number[] = [normalUpperQuantile(0.025), normalUpperQuantile(0.005), normalUpperQuantile(0.0005)];
@@ -97,6 +97,21 @@ function criticalValues(ref: Reference, alternative: Alternative, alpha: number)
 }
 
 /**
+ * The x-range of a chi-square density: up to the 99.9 % point (or a little past the statistic, at most 1.6
+ * times that point), and from 0 unless the bulk sits far from it (large df): then from the 0.1 % point, so the
+ * curve is not a sliver at the right. A statistic below the bulk widens the range by at most as much again.
+ */
+function chiSquareRange(ref: Reference, statistic: number): { xMin: number; xMax: number } {
+  const far = ref.upperQuantile(0.001);
+  const xMax = Math.min(Math.max(far, statistic * 1.08), far * 1.6);
+  const near = ref.lowerQuantile(0.001);
+  if (!(near > 0.25 * far)) return { xMin: 0, xMax };
+  const lowest = Math.max(0, near - (far - near) * 0.6);
+  const xMin = Number.isFinite(statistic) && statistic < near ? Math.max(lowest, statistic - (far - near) * 0.05) : near;
+  return { xMin: xMin < 0.1 * far ? 0 : xMin, xMax };
+}
+
+/**
  * The reference density with the observed statistic and the shaded tail(s) the p-value counts.
  * The axis reaches the 99.9 % point (or a little past the statistic), but never more than 1.6 times that
  * point: a statistic farther out is drawn at the edge and flagged `clipped`.
@@ -121,9 +136,7 @@ export function densityPlot(result: TestResult, samples = 161, decimals = 2): De
   let xMin: number;
   let xMax: number;
   if (ref.support === 'positive') {
-    const far = ref.upperQuantile(0.001);
-    xMin = 0;
-    xMax = Math.min(Math.max(far, statistic * 1.08), far * 1.6);
+    ({ xMin, xMax } = chiSquareRange(ref, statistic));
   } else {
     const far = Math.max(4, Math.abs(statistic) * 1.08);
     const limit = Math.min(far, 6.5);
@@ -177,24 +190,32 @@ function withTickLabels(ticks: number[]): { ticks: number[]; tickLabels: string[
   return { ticks, tickLabels: tickLabels(ticks) };
 }
 
-/** Observed and expected counts side by side, one pair per category. */
-export function barsPlot(categories: readonly CategoryRow[], decimals = 2): BarsPlot {
-  const largest = Math.max(0, ...categories.flatMap((c) => [c.observed, c.expected]));
-  const first = niceTicks(0, niceCeiling(largest), 4);
-  const step = first.length > 1 ? first[1] - first[0] : 1;
-  // The axis ends on a tick at or above the tallest bar.
-  const yMax = Math.max(step, Math.ceil(largest / step - 1e-9) * step);
-  const ticks = niceTicks(0, yMax, Math.round(yMax / step));
-  return {
-    kind: 'bars',
-    title: 'Observed and expected counts',
-    yMax,
-    ...withTickLabels(ticks),
-    bars: categories.map((c) => ({
-      label: c.label, observed: c.observed, expected: c.expected, residual: c.standardizedResidual,
-      observedText: formatCount(c.observed, decimals), expectedText: formatNumber(c.expected, decimals),
-    })),
-  };
+/**
+ * Goodness of fit as deviations from the expectation: per category observed − expected over a band of ±1.96
+ * standard deviations of the deviation under the hypothesis. The standard deviation is |O − E| / |standardized
+ * residual| (so the band agrees with the residual the table shows), or sqrt(E·(1 − E/n)) when the deviation is 0.
+ */
+export function deviationPlot(categories: readonly CategoryRow[], decimals = 2): DeviationPlot {
+  const n = categories.reduce((a, c) => a + c.expected, 0);
+  const z = RESIDUAL_BANDS[0];
+  const rows = categories.map((c) => {
+    const deviation = c.observed - c.expected;
+    const sd = Math.abs(c.standardizedResidual) > 1e-12 && Number.isFinite(c.standardizedResidual) ? Math.abs(deviation / c.standardizedResidual) : Math.sqrt(Math.max(0, c.expected * (1 - c.expected / (n || 1))));
+    return {
+      label: c.label,
+      deviation,
+      band: z * sd,
+      residual: c.standardizedResidual,
+      shade: residualShade(c.standardizedResidual),
+      text: `${signedNumber(deviation, decimals)} (z = ${signedNumber(c.standardizedResidual, decimals)})`,
+      observedText: formatCount(c.observed, decimals),
+      expectedText: formatNumber(c.expected, decimals),
+    };
+  });
+  const reach = Math.max(1e-9, ...rows.flatMap((r) => [Math.abs(r.deviation), r.band]).filter(Number.isFinite));
+  const edge = niceCeiling(reach * 1.05);
+  const ticks = niceTicks(-edge, edge, 6);
+  return { kind: 'deviation', title: 'Deviation from the expected count, with the ±1.96 SD band', xLabel: 'observed − expected', xMin: -edge, xMax: edge, rows, ...withTickLabels(ticks) };
 }
 
 export function residualGridPlot(grid: CellGrid, decimals = 2): ResidualGridPlot {
@@ -232,7 +253,7 @@ export function intervalPlot(result: TestResult, decimals = 2): IntervalPlot | n
   const xMax = hi + pad;
   return {
     kind: 'interval',
-    title: `${Math.round(ci.level * 100)} % confidence interval for σ`,
+    title: `${Math.round(ci.level * 100)} % ${Number.isFinite(upper) && !(lower === 0 && /bound/i.test(ci.method)) ? 'confidence interval' : 'one-sided bound'} for σ`,
     parameter: 'σ',
     xMin,
     xMax,
@@ -242,10 +263,75 @@ export function intervalPlot(result: TestResult, decimals = 2): IntervalPlot | n
     reference,
     referenceInside: reference >= lower && reference <= upper,
     level: ci.level,
+    ...(Number.isFinite(lower) && !(lower === 0 && /bound/i.test(ci.method)) ? {} : { openLower: true }),
+    ...(Number.isFinite(upper) ? {} : { openUpper: true }),
     ...withTickLabels(niceTicks(xMin, xMax, 5)),
     // The ends as computed (an open side reads ∞), with the estimate rules the result table uses.
     texts: { lower: estimateText(lower), upper: estimateText(upper), estimate: estimateText(estimate), reference: `σ0 = ${estimateText(reference)}` },
   };
+}
+
+/**
+ * The distribution lookup's density: the first x asked marked with its upper tail shaded, or, for critical
+ * values only, the upper tail beyond the first p's critical value shaded; critical values dashed.
+ */
+export function lookupDensityPlot(result: DistributionResult, samples = 161, decimals = 2): DensityPlot | null {
+  if (!(result.df > 0) || result.noncentrality) return null;
+  const ref = chiSquareReference(result.df);
+  const x = result.points.find((p) => Number.isFinite(p.x))?.x;
+  const critical = result.critical.map((c) => c.upper).filter((c) => Number.isFinite(c) && c > 0);
+  const { xMin, xMax } = chiSquareRange(ref, x ?? critical[0] ?? ref.upperQuantile(0.5));
+  const start = result.df < 2 ? Math.max(xMin, xMax * 0.004) : xMin;
+  const curve: PlotPoint[] = [];
+  for (let i = 0; i < samples; i++) {
+    const at = start + ((xMax - start) * i) / (samples - 1);
+    curve.push({ x: at, y: ref.density(at) });
+  }
+  let yMax = Math.max(...curve.map((p) => p.y));
+  if (start > xMin || result.df < 2) yMax = Math.min(yMax, ref.density(xMax * 0.04) * 1.25);
+  const from = x ?? critical[0];
+  const tailStart = from === undefined ? undefined : Math.min(xMax, Math.max(start, from));
+  return {
+    kind: 'density',
+    title: `χ² distribution, df = ${formatNumber(result.df, Number.isInteger(result.df) ? 0 : decimals)}`,
+    xLabel: 'x',
+    xMin,
+    xMax,
+    yMax,
+    curve: curve.map((p) => ({ x: p.x, y: Math.min(p.y, yMax) })),
+    shaded: tailStart !== undefined && tailStart < xMax ? [tailPolygon(ref, tailStart, xMax, yMax)] : [],
+    observed: x === undefined ? null : { x: Math.min(xMax, Math.max(xMin, x)), label: `x = ${formatNumber(x, decimals)}`, clipped: x > xMax || x < xMin },
+    critical: critical.filter((c) => c >= xMin && c <= xMax),
+    ...withTickLabels(niceTicks(xMin, xMax, 6)),
+  };
+}
+
+/** Power against n from the plan's curve, the plan's n marked. */
+export function powerCurvePlot(result: PowerResult, decimals = 2): PowerCurvePlot | null {
+  const curve = result.curve.filter((p) => Number.isFinite(p.n) && Number.isFinite(p.power)).map((p) => ({ x: p.n, y: p.power }));
+  if (curve.length < 2) return null;
+  const xMin = Math.min(...curve.map((p) => p.x));
+  const xMax = Math.max(...curve.map((p) => p.x));
+  const yTicks = [0, 0.2, 0.4, 0.6, 0.8, 1];
+  return {
+    kind: 'power-curve',
+    title: `Power of the ${result.target} test against sample size (α = ${result.alpha})`,
+    xLabel: 'n',
+    xMin,
+    xMax,
+    curve,
+    ...withTickLabels(niceTicks(xMin, xMax, 6)),
+    yTicks,
+    yTickLabels: yTicks.map((t) => t.toFixed(1)),
+    marker: { x: result.n, y: result.power, label: `n = ${formatCount(result.n)}, power ${formatEstimate(result.power, { decimals })}` },
+  };
+}
+
+/** Every plot that fits any result: tests, distribution lookups and power plans. */
+export function plotsForResult(result: Result, decimals = 2): Plot[] {
+  if (result.kind === 'test') return plotsFor(result, decimals);
+  const plot = result.kind === 'distribution' ? lookupDensityPlot(result, 161, decimals) : powerCurvePlot(result, decimals);
+  return plot ? [plot] : [];
 }
 
 /** Every plot that fits the result, in reading order. */
@@ -253,7 +339,7 @@ export function plotsFor(result: TestResult, decimals = 2): Plot[] {
   const plots: Plot[] = [];
   const density = densityPlot(result, 161, decimals);
   if (density) plots.push(density);
-  if (result.categories && result.categories.length > 0) plots.push(barsPlot(result.categories, decimals));
+  if (result.categories && result.categories.length > 0) plots.push(deviationPlot(result.categories, decimals));
   if (result.grid) plots.push(residualGridPlot(result.grid, decimals));
   const interval = intervalPlot(result, decimals);
   if (interval) plots.push(interval);

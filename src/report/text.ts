@@ -18,6 +18,7 @@ import {
   formatProbability,
   type FormatOptions,
 } from './format';
+import { alternativeText, headlineText, pLabel, presentedTest, reportedPMethod, testHeadline } from './headline';
 
 /** Closes every report. */
 export const CAUTION =
@@ -32,9 +33,20 @@ export interface ReportOptions extends FormatOptions {
   readonly data?: DataDescription;
 }
 
-/** The APA line of a test: "χ²(3, N = 556) = 0.47, p = .925". */
+/**
+ * Closes a power plan instead of CAUTION (no significance has been tested): a power figure holds only for
+ * the effect size assumed.
+ */
+export const POWER_CAUTION =
+  'A power or sample-size figure holds only for the effect size and the assumptions entered: it says nothing about data not yet seen. ' +
+  'Choose the effect size from what matters in practice, and where decisions affect safety or health, defer to the applicable standards and to qualified review.';
+
+/**
+ * The APA line of a test: "χ²(3, N = 556) = 0.47, p = .925". When the reported p-value is exact or
+ * resampled, the line says so ("χ²(4, N = 39) = 11.90, exact p = .026"), so it agrees with the headline.
+ */
 export function apaLine(result: TestResult, format: FormatOptions = DEFAULT_FORMAT): string {
-  return formatApaLine(result.statisticSymbol, result.statistic, result.df, result.n, result.pValue, format);
+  return formatApaLine(result.statisticSymbol, result.statistic, result.df, result.n, result.pValue, format, pLabel(reportedPMethod(result)));
 }
 
 /** The same for a secondary statistic (G², the Yates-corrected X², Fisher's exact test…). */
@@ -86,11 +98,12 @@ function noticeLines(notices: readonly Notice[]): string[] {
   ];
 }
 
-export function testText(result: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+export function testText(given: TestResult, options: ReportOptions = DEFAULT_FORMAT): string {
+  const result = presentedTest(given);
   const lines: string[] = [];
   if (options.title) lines.push(options.title);
   lines.push(result.procedure);
-  lines.push(`Conclusion: ${result.conclusion}`);
+  lines.push(`Conclusion: ${headlineText(testHeadline(result, options), false)}`);
   lines.push(`Result: ${apaLine(result, options)}`);
   const exact = formatPExact(result.pValue);
   if (exact) lines.push(`        ${exact}`);
@@ -105,7 +118,7 @@ export function testText(result: TestResult, options: ReportOptions = DEFAULT_FO
   const failed = result.assumptions.filter((a) => a.status === 'failed');
   if (failed.length) {
     lines.push('Assumptions not met:');
-    for (const a of failed) lines.push(`  ! ${a.title}: ${a.explanation}${a.alternative ? ` Consider: ${a.alternative}.` : ''}`);
+    for (const a of failed) lines.push(`  ! ${a.title}: ${a.explanation}${a.alternative ? ` ${alternativeText(a)}` : ''}`);
   }
   if (options.data) lines.push(dataText(options.data));
   lines.push(`Caution: ${CAUTION}`);
@@ -142,7 +155,7 @@ export function powerText(result: PowerResult, options: ReportOptions = DEFAULT_
       : `Power: ${formatEstimate(result.power, options)} with n = ${formatCount(result.n)}`,
   );
   lines.push(...noticeLines(result.notices));
-  lines.push(`Caution: ${CAUTION}`);
+  lines.push(`Caution: ${POWER_CAUTION}`);
   return lines.join('\n') + '\n';
 }
 

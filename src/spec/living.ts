@@ -7,7 +7,8 @@ import * as path from 'node:path';
 import { errorMessage, InputError, isInputError, isInstance } from '../errors';
 import type { ReportBlock } from '../report/blocks';
 import type { FormatOptions } from '../report/format';
-import { resultMarkdown } from '../report/markdown';
+import { plotFolderName, resultMarkdown, withPlotLinks } from '../report/markdown';
+import { plotFiles } from '../report/svg';
 import { childPath, locatePath, parseJsonWithLocations, type LocatedJson } from './json-text';
 import { resolveSourcePath } from './paths';
 import { runSpec } from './run';
@@ -25,7 +26,10 @@ export interface BlockRunOptions extends Omit<RunOptions, 'specPath'> {
 export interface BlockRun {
   readonly run: SpecRun;
   readonly spec: SpecV1;
+  /** The result's markdown, ending with a relative link to each plot file. */
   readonly markdown: string;
+  /** The plot files the markdown links to (absolute paths beside the report), to be written with the block. */
+  readonly plots: readonly { readonly file: string; readonly svg: string }[];
 }
 
 /** The message of an error, with `file:line:column:` in front when its JSON path can be located. */
@@ -97,6 +101,10 @@ export async function runReportBlock(block: ReportBlock, options: BlockRunOption
       throw new InputError(describeRunError(e, reportFile, located), { file: reportFile }, isInputError(e) ? e.code : 'run-failed');
     }
   }
-  const markdown = resultMarkdown(run.result, { decimals: options.format?.decimals ?? 2, title: spec.title });
-  return { run, spec, markdown };
+  const decimals = options.format?.decimals ?? 2;
+  const reportAbsolute = path.resolve(reportFile);
+  const folder = plotFolderName(reportAbsolute);
+  const files = plotFiles(run.result, `block${block.index + 1}`, decimals);
+  const markdown = withPlotLinks(resultMarkdown(run.result, { decimals, title: spec.title }), files.map((f) => ({ link: `${folder}/${f.name}`, alt: f.title })));
+  return { run, spec, markdown, plots: files.map((f) => ({ file: path.join(path.dirname(reportAbsolute), folder, f.name), svg: f.svg })) };
 }

@@ -46,7 +46,7 @@ describe('commands on data', () => {
     const r = payload.result as TestResult;
     assert.equal(r.test, 'goodness-of-fit');
     assert.equal(r.categories?.length, 4);
-    assert.ok(payload.plots.some((p) => p.kind === 'bars'));
+    assert.ok(payload.plots.some((p) => p.kind === 'deviation'));
   });
 
   it('runs on a markdown table selected in the editor', async () => {
@@ -130,7 +130,7 @@ describe('notebook cells', () => {
     closeTo(r.pValue.value, 0.023005956745473254, 1e-12, 'p');
   });
 
-  it("asks only σ0 and the alternative for a cell's list of values, and inserts the result as a markdown cell below", async () => {
+  it("asks only σ0 and the alternative for a cell's list of values, and inserts the result as a markdown cell and its plots as SVG outputs below", async () => {
     const nb = await vscode.workspace.openNotebookDocument(vscode.Uri.file(workspacePath('weekend-loaves.ipynb')));
     const editor = await vscode.window.showNotebookDocument(nb);
     editor.selection = new vscode.NotebookRange(3, 4);
@@ -142,9 +142,12 @@ describe('notebook cells', () => {
     await vscode.window.showNotebookDocument(nb);
     const a = await api();
     await a.panelAction('insert');
-    assert.equal(nb.cellCount, cells + 1);
+    assert.equal(nb.cellCount, cells + 2);
     assert.equal(nb.cellAt(4).kind, vscode.NotebookCellKind.Markup);
     assert.ok(nb.cellAt(4).document.getText().includes(payload.apaLine.split(',')[0]));
+    const figures = nb.cellAt(5).outputs.flatMap((o) => o.items).filter((i) => i.mime === 'image/svg+xml');
+    assert.equal(figures.length, payload.plots.length);
+    assert.match(new TextDecoder().decode(figures[0].data), /^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg"/);
     await vscode.commands.executeCommand('workbench.action.files.revert');
   });
 });

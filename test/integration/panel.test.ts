@@ -1,7 +1,7 @@
 import { strict as assert } from 'node:assert';
 import * as vscode from 'vscode';
 import { PANEL_VIEW_TYPE } from '../../src/host/panel';
-import { api, closeAllEditors, dataUri, panelFrom, until } from './api';
+import { api, closeAllEditors, dataUri, panelFrom, until, workspacePath } from './api';
 
 describe('results panel', () => {
   afterEach(closeAllEditors);
@@ -61,5 +61,40 @@ describe('results panel', () => {
     await a.panelAction('rerun');
     assert.equal(a.panels().length, before);
     assert.equal(a.activePanel()?.headline, payload.headline);
+  });
+
+  it('one panel per source: a second lookup replaces the first; "Open in new panel" keeps a copy', async () => {
+    const a = await api();
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.distributionLookup', { df: 3, x: 7.815 }));
+    const count = a.panels().length;
+    const second = await panelFrom(() => vscode.commands.executeCommand('countercheck.distributionLookup', { df: 4, x: 9.49 }));
+    assert.equal(a.panels().length, count, 'the lookup replaced the earlier lookup');
+    assert.match(second.headline, /4 degrees of freedom/);
+    assert.ok(second.plots.some((p) => p.kind === 'density'), 'the lookup draws its density');
+    await a.panelAction('open-new');
+    assert.equal(a.panels().length, count + 1);
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.distributionLookup', { df: 5, x: 11.07 }));
+    assert.equal(a.panels().length, count + 1, 'the copy stays, the source panel is replaced');
+  });
+
+  it('inserting into a saved markdown file writes its plots beside it as SVG files and links them', async () => {
+    const uri = vscode.Uri.file(workspacePath('integration-data', 'notes.md'));
+    await vscode.workspace.fs.writeFile(uri, new TextEncoder().encode('# Notes\n'));
+    const doc = await vscode.workspace.openTextDocument(uri);
+    const editor = await vscode.window.showTextDocument(doc);
+    editor.selection = new vscode.Selection(1, 0, 1, 0);
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    await vscode.window.showTextDocument(doc, { viewColumn: editor.viewColumn });
+    const a = await api();
+    await a.panelAction('insert');
+    const links = [...doc.getText().matchAll(/\]\((notes\.plots\/[^)]+\.svg)\)/g)].map((m) => m[1]);
+    assert.equal(links.length, payload.plots.length, doc.getText());
+    for (const link of links) {
+      const svg = Buffer.from(await vscode.workspace.fs.readFile(vscode.Uri.file(workspacePath('integration-data', link)))).toString('utf8');
+      assert.match(svg, /^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" width="600"/, link);
+    }
+    await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+    await vscode.workspace.fs.delete(uri);
+    await vscode.workspace.fs.delete(vscode.Uri.file(workspacePath('integration-data', 'notes.plots')), { recursive: true });
   });
 });

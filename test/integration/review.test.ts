@@ -24,6 +24,10 @@ describe('saved tests and living reports', () => {
     assert.match(spec.recorded.data.sha256, /^[0-9a-f]{64}$/);
     const review = await vscode.commands.executeCommand<{ status: string }>('countercheck.rerunAndCompare', target);
     assert.equal(review?.status, 'reproduced');
+    const compared = a.panels().find((p) => p.comparison && p.origin?.specPath === target.fsPath);
+    assert.ok(compared, 'the re-run opens its result with the recorded one beside it');
+    assert.equal(compared.comparison?.flipped, false);
+    assert.ok(compared.comparison?.rows.every((r) => !r.changed), JSON.stringify(compared.comparison));
     const shown = await panelFrom(() => vscode.commands.executeCommand('countercheck.runSavedSpec', target));
     assert.equal(shown.origin?.saved, true);
   });

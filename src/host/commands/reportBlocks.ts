@@ -17,7 +17,19 @@ async function renderBlock(services: Services, doc: vscode.TextDocument, block: 
     format: { decimals: s.decimals },
     readText: async (file) => Buffer.from(await vscode.workspace.fs.readFile(vscode.Uri.file(file))).toString('utf8'),
   });
+  await writePlotFiles(outcome.plots);
   return outcome.markdown;
+}
+
+/** Writes plot files whose drawing changed (a refresh that changes nothing writes nothing). */
+export async function writePlotFiles(plots: readonly { readonly file: string; readonly svg: string }[]): Promise<void> {
+  for (const plot of plots) {
+    const uri = vscode.Uri.file(plot.file);
+    try {
+      if (Buffer.from(await vscode.workspace.fs.readFile(uri)).toString('utf8') === plot.svg) continue;
+    } catch { /* not written yet */ }
+    await vscode.workspace.fs.writeFile(uri, new TextEncoder().encode(plot.svg));
+  }
 }
 
 /** Refreshes the blocks of a markdown document (all, or the one at `only`); returns the indexes that changed. */

@@ -1,7 +1,10 @@
 // Saved tests (*.countercheck.json): run one, or re-run and compare with the result recorded in it.
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { compareWithRecord, describeReview, type Review } from '../../spec/review';
+import type { Comparison } from '../../protocol';
+import { compareRecorded } from '../../report/comparison';
+import { compareWithRecord, describeReview, STATUS_LABEL, type Review } from '../../spec/review';
+import type { SpecRun } from '../../spec/types';
 import { loadSpecText } from '../../spec/validate';
 import { runSpec } from '../../spec/run';
 import { extensionReaders, settings, type Services } from '../services';
@@ -57,36 +60,52 @@ export async function runSavedSpec(services: Services, uri?: vscode.Uri): Promis
 
 /** Re-runs a spec and compares with its recorded result. Never throws: a failure is a "cannot run" review. */
 export async function reviewSpec(services: Services, uri: vscode.Uri, signal?: AbortSignal): Promise<Review> {
+  return (await reviewWithRun(services, uri, signal)).review;
+}
+
+/** The review, and the run's result and spec when it ran (for the panel's before/after table). */
+export async function reviewWithRun(services: Services, uri: vscode.Uri, signal?: AbortSignal): Promise<{ review: Review; run?: SpecRun; spec?: Record<string, unknown> }> {
   let spec: Record<string, unknown>;
   try {
     spec = loadSpecText(await readText(uri), vscode.workspace.asRelativePath(uri)).spec as Record<string, unknown>;
   } catch (e) {
-    return { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' };
+    return { review: { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' } };
   }
   try {
     const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: settings(uri).allowPathsOutsideWorkspace, signal });
-    return compareWithRecord(spec.recorded, run, toolName(services.context), new Date());
+    return { review: compareWithRecord(spec.recorded, run, toolName(services.context), new Date()), run, spec };
   } catch (e) {
-    return { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' };
+    return { review: { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' } };
   }
+}
+
+/** The before/after table of a review that ran; undefined when there is nothing recorded to compare with. */
+export function reviewComparison(review: Review, decimals: number): Comparison | undefined {
+  if (!review.recorded || !review.current) return undefined;
+  return compareRecorded(review.recorded, review.current, STATUS_LABEL[review.status], { decimals });
 }
 
 export async function rerunAndCompare(services: Services, uri?: vscode.Uri): Promise<Review | undefined> {
   try {
     const target = await chooseSpec(uri, vscode.l10n.t('Re-run a saved test and compare'));
     if (!target) return undefined;
-    const review = await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: vscode.l10n.t('Countercheck: re-running {0}', path.basename(target.fsPath)), cancellable: true }, (_p, token) => {
+    const { review, run, spec } = await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: vscode.l10n.t('Countercheck: re-running {0}', path.basename(target.fsPath)), cancellable: true }, (_p, token) => {
       const abort = new AbortController();
       token.onCancellationRequested(() => abort.abort());
-      return reviewSpec(services, target, abort.signal);
+      return reviewWithRun(services, target, abort.signal);
     });
     const text = describeReview(review, vscode.workspace.asRelativePath(target));
     services.output.info(text);
-    const openResult = vscode.l10n.t('Open result');
+    // The result opens with the recorded one beside it (a before/after table, a flipped conclusion marked).
+    if (run && spec) {
+      const title = typeof spec.title === 'string' ? spec.title : path.basename(target.fsPath, '.countercheck.json');
+      const panel = services.showResult(run.result, { spec, specPath: target.fsPath, saved: true }, title, `${vscode.workspace.asRelativePath(target)} · ${run.data.description}`);
+      const comparison = reviewComparison(review, settings(target).decimals);
+      if (comparison) panel.update({ ...panel.payload, comparison });
+    }
     const showDetails = vscode.l10n.t('Show details');
     const notify = review.status === 'reproduced' ? vscode.window.showInformationMessage : vscode.window.showWarningMessage;
-    void notify(`Countercheck: ${text.split('\n')[0]}`, openResult, showDetails).then(async (choice) => {
-      if (choice === openResult) await runSavedSpec(services, target);
+    void notify(`Countercheck: ${text.split('\n')[0]}`, showDetails).then((choice) => {
       if (choice === showDetails) services.output.show(true);
     });
     return review;

@@ -40,6 +40,40 @@ describe('command line', function () {
   });
   afterEach(() => rmSync(dir, { recursive: true, force: true }));
 
+  it('run --format markdown, csv and json; a wrong format is a usage error', async () => {
+    const markdown = await cli(['run', '--format', 'markdown', 'sorting.countercheck.json']);
+    assert.equal(markdown.code, 0, markdown.stderr);
+    assert.match(markdown.stdout, /^\*\*Sorting line outcomes\*\*/);
+    assert.match(markdown.stdout, /\| Category \|/);
+    const csv = await cli(['run', '--format=csv', 'sorting.countercheck.json', 'mendel.countercheck.json']);
+    assert.equal(csv.code, 0, csv.stderr);
+    const lines = csv.stdout.trim().split('\n');
+    assert.equal(lines[0], 'file,section,name,row,column,value');
+    assert.equal(lines.filter((l) => l.startsWith('file,')).length, 1, 'one header for several specs');
+    // 60/40 against 50/50: X² = (10² + 10²)/50 = 4 exactly (hand computation).
+    const statistic = Number(lines.find((l) => l.startsWith('sorting.countercheck.json,result,statistic,'))?.split(',').at(-1));
+    assert.ok(Math.abs(statistic - 4) < 1e-12, `X² ${statistic}, expected 4, Δ ${statistic - 4}, tolerance 1e-12`);
+    assert.ok(lines.includes('sorting.countercheck.json,category,observed,pass,,60'));
+    assert.ok(lines.some((l) => l.startsWith('mendel.countercheck.json,result,statistic,,,')));
+    const json = await cli(['run', '--format', 'json', 'sorting.countercheck.json']);
+    assert.ok(Math.abs((JSON.parse(json.stdout) as { statistic: number }).statistic - 4) < 1e-12);
+    const bad = await cli(['run', '--format', 'xml', 'sorting.countercheck.json']);
+    assert.equal(bad.code, 2);
+    assert.match(bad.stderr, /--format: expected one of text, markdown, json, csv, found "xml"/);
+  });
+
+  it('run --plots DIR writes each plot as a standalone SVG named after the spec', async () => {
+    const out = await cli(['run', '--plots', 'plots', 'sorting.countercheck.json']);
+    assert.equal(out.code, 0, out.stderr);
+    for (const name of ['sorting-1-density.svg', 'sorting-2-deviation.svg']) {
+      const svg = readFileSync(join(dir, 'plots', name), 'utf8');
+      assert.match(svg, /^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" width="600"/);
+      assert.match(svg, /<title id="cc\d-title">/);
+      assert.match(out.stderr, new RegExp(`plot written to plots/${name}`));
+    }
+    assert.match(out.stdout, /Sorting line outcomes/, 'the summary is still printed');
+  });
+
   it('run prints the summary and exits 0', async () => {
     const out = await cli(['run', 'mendel.countercheck.json']);
     assert.equal(out.code, 0, out.stderr);

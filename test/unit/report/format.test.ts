@@ -12,6 +12,7 @@ import {
   formatPExact,
   formatProbability,
   scientificFromLog10,
+  superscriptExponents,
 } from '../../../src/report/format';
 
 const p = (value: number, log10 = Math.log10(value)) => ({ value, log10 });
@@ -21,7 +22,7 @@ describe('report number formatting', () => {
     assert.equal(formatApaLine('X²', 0.470024, 3, 556, p(0.9254)), 'χ²(3, N = 556) = 0.47, p = .925');
     assert.equal(formatApaLine('G²', 25.37, 1, 22071, p(4.7e-7)), 'G²(1, N = 22,071) = 25.37, p < .001');
     assert.equal(formatApaLine('χ²', 29.07, 19, null, p(0.13)), 'χ²(19) = 29.07, p = .130');
-    assert.equal(formatApaLine('X²', 3705082.03, 3999999, 4000000, p(0)), 'χ²(3,999,999, N = 4,000,000) = 3,705,082.03, p < .001');
+    assert.equal(formatApaLine('X²', 3705082.03, 3999999, 4000000, p(0)), 'χ²(3999999, N = 4,000,000) = 3,705,082.03, p < .001');
     assert.equal(formatApaLine('z', 4.07, null, 177, p(0.0000477)), 'z = 4.07, p < .001');
   });
 
@@ -46,9 +47,14 @@ describe('report number formatting', () => {
     assert.equal(scientificFromLog10(Math.log10(9.996e-5), 3), '1.00 × 10^-4');
   });
 
+  it('writes exponents as superscripts for the panel only', () => {
+    assert.equal(superscriptExponents('5.1 × 10^-5 and 2.0 × 10^12'), '5.1 × 10⁻⁵ and 2.0 × 10¹²');
+    assert.equal(superscriptExponents('no exponent'), 'no exponent');
+  });
+
   it('writes degrees of freedom: whole as they are, fractional with decimals, tiny fractional with significant digits', () => {
     assert.equal(formatDf(3), '3');
-    assert.equal(formatDf(3999999), '3,999,999');
+    assert.equal(formatDf(3999999), '3999999');
     assert.equal(formatDf(2.5), '2.5');
     assert.equal(formatDf(3.14159), '3.14');
     assert.equal(formatDf(3.14159, 4), '3.1416');

@@ -21,9 +21,11 @@ describe('panel payload', () => {
     const [tails, critical] = cells(buildPanelPayload(result, options));
     // Closed forms for χ²(1): density e^(−x/2)/sqrt(2πx) = 10^-436.344 at x = 2000 (4.53e-437);
     // lower quantile πp²/2 = 1.571e-600 at p = 1e-300, and 3.927e-601 at p/2 = 5e-301.
-    assert.deepEqual(tails.slice(0, 4), ['2,000.00', '1.000', '9.05 × 10^-437', '4.53 × 10^-437']);
-    assert.equal(critical[1], '1.571 × 10^-600');
-    assert.match(critical[3], /^\[3\.927 × 10\^-601, 1,375\.258\]$/);
+    // The panel writes exponents as superscripts; the copied text keeps the caret form.
+    assert.deepEqual(tails.slice(0, 4), ['2,000.00', '1.000', '9.05 × 10⁻⁴³⁷', '4.53 × 10⁻⁴³⁷']);
+    assert.equal(critical[1], '1.571 × 10⁻⁶⁰⁰');
+    assert.match(critical[3], /^\[3\.927 × 10⁻⁶⁰¹, 1,375\.258\]$/);
+    assert.match(buildPanelPayload(result, options).text, /9\.05 × 10\^-437/);
     for (const text of [...tails.slice(0, 4), ...critical]) assert.doesNotMatch(text, /^0\.0+$/, `cell "${text}" hides a positive value`);
     // χ²(1) density at x = 0 is infinite (x^(-1/2)); with df = 3 it is truly 0 and prints as 0.
     const zero = (await distributionProcedure.run({ test: 'distribution', df: 3, x: 0 }, noSource)) as DistributionResult;

@@ -1,7 +1,7 @@
 import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
-import { barsPlot, densityPlot, intervalPlot, niceTicks, plotsFor, residualGridPlot, residualLabel, residualShade, RESIDUAL_BANDS, tickLabels } from '../../../src/report/plots';
+import { deviationPlot, densityPlot, lookupDensityPlot, powerCurvePlot, intervalPlot, niceTicks, plotsFor, residualGridPlot, residualLabel, residualShade, RESIDUAL_BANDS, tickLabels } from '../../../src/report/plots';
 import type { TestResult } from '../../../src/stats/result';
 
 function close(got: number, expected: number, tol: number, what: string): void {
@@ -60,14 +60,14 @@ describe('plot geometry', () => {
     assert.ok(df4);
     const at2 = df4.curve.reduce((best, p) => (Math.abs(p.x - 2) < Math.abs(best.x - 2) ? p : best));
     close(at2.y, (at2.x * Math.exp(-at2.x / 2)) / 4, 1e-9, `χ²(4) density at ${at2.x}`);
-    assert.equal(plot.observed.clipped, false);
+    assert.equal(plot.observed?.clipped, false);
   });
 
   it('flags a statistic far beyond the axis as clipped and draws it at the edge', () => {
     const plot = densityPlot(result({ statistic: 2000, reference: { kind: 'chi-square', df: 1 }, df: 1 }));
     assert.ok(plot);
-    assert.equal(plot.observed.clipped, true);
-    assert.equal(plot.observed.x, plot.xMax);
+    assert.equal(plot.observed?.clipped, true);
+    assert.equal(plot.observed?.x, plot.xMax);
     assert.ok(plot.curve.every((p) => Number.isFinite(p.y) && p.y <= plot.yMax), 'df 1 pole is capped');
   });
 
@@ -110,15 +110,53 @@ describe('plot geometry', () => {
     assert.equal(densityPlot(result({ reference: { kind: 'none' }, statistic: Number.NaN })), null);
   });
 
-  it('scales observed/expected bars to a round maximum', () => {
-    const plot = barsPlot([
-      { label: 'a', observed: 48, expected: 40, pearsonResidual: 1.26, standardizedResidual: 1.6, contribution: 1.6 },
-      { label: 'b', observed: 32, expected: 40, pearsonResidual: -1.26, standardizedResidual: -1.6, contribution: 1.6 },
+  it('draws goodness of fit as deviations over a ±1.96 SD band that agrees with the standardized residual', () => {
+    // Two categories, n = 80, p = 0.5 each: the deviation's SD is sqrt(40 · 0.5) = 4.472, so 48 − 40 = 8 is
+    // z = 1.789 (inside the band, half-width 1.96 · 4.472 = 8.765).
+    const sd = Math.sqrt(40 * 0.5);
+    const plot = deviationPlot([
+      { label: 'a', observed: 48, expected: 40, pearsonResidual: 8 / Math.sqrt(40), standardizedResidual: 8 / sd, contribution: 1.6 },
+      { label: 'b', observed: 32, expected: 40, pearsonResidual: -8 / Math.sqrt(40), standardizedResidual: -8 / sd, contribution: 1.6 },
     ]);
-    assert.ok(plot.yMax >= 48 && plot.yMax <= 60, `yMax ${plot.yMax}`);
-    assert.equal(plot.bars.length, 2);
-    assert.equal(plot.ticks[plot.ticks.length - 1], plot.yMax, 'axis ends on a tick');
-    assert.equal(barsPlot([{ label: 'a', observed: 0, expected: 0, pearsonResidual: 0, standardizedResidual: 0, contribution: 0 }]).yMax > 0, true);
+    assert.deepEqual(plot.rows.map((r) => r.deviation), [8, -8]);
+    assert.ok(Math.abs(plot.rows[0].band - 1.959964 * sd) < 1e-5, `band ${plot.rows[0].band}`);
+    assert.ok(plot.rows.every((r) => Math.abs(r.deviation) < r.band), 'both inside the band');
+    assert.equal(plot.xMin, -plot.xMax, 'symmetric about the expectation');
+    assert.ok(plot.xMax >= plot.rows[0].band, 'the band fits on the axis');
+    assert.equal(plot.rows[0].text, '+8.00 (z = +1.79)');
+    assert.equal(plot.rows[1].text, '−8.00 (z = −1.79)');
+    // A category with no deviation still gets its band from E(1 − E/n).
+    const zero = deviationPlot([{ label: 'a', observed: 40, expected: 40, pearsonResidual: 0, standardizedResidual: 0, contribution: 0 }, { label: 'b', observed: 40, expected: 40, pearsonResidual: 0, standardizedResidual: 0, contribution: 0 }]);
+    assert.ok(Math.abs(zero.rows[0].band - 1.959964 * sd) < 1e-5);
+  });
+
+  it('centres the density on its bulk for large df, and keeps 0 for small df', () => {
+    // χ²(1767): the 0.1 % and 99.9 % points are about 1,630 and 1,912 (normal approximation 1767 ± 3.09·sqrt(2·1767)).
+    const large = densityPlot(result({ reference: { kind: 'chi-square', df: 1767 }, df: 1767, statistic: 1800 }));
+    assert.ok(large);
+    assert.ok(large.xMin > 1550 && large.xMin < 1700, `xMin ${large.xMin}`);
+    assert.ok(large.xMax > 1850 && large.xMax < 1990, `xMax ${large.xMax}`);
+    const small = densityPlot(result({ reference: { kind: 'chi-square', df: 3 }, df: 3, statistic: 4 }));
+    assert.equal(small?.xMin, 0);
+  });
+
+  it('draws the lookup density with the x asked and its upper tail, or the critical value only', () => {
+    const lookup = lookupDensityPlot({ kind: 'distribution', test: 'distribution', df: 4, noncentrality: 0, points: [{ x: 11.7, lower: { value: 0.98, log10: 0 }, upper: { value: 0.0197, log10: -1.7 }, density: 0.008 }], critical: [{ p: 0.05, lower: 0.7107, upper: 9.4877, twoSided: { lower: 0.4844, upper: 11.143 } }], notices: [] });
+    assert.ok(lookup);
+    assert.equal(lookup.observed?.label, 'x = 11.70');
+    assert.equal(lookup.shaded.length, 1);
+    assert.equal(lookup.shaded[0][0].x, 11.7);
+    assert.deepEqual(lookup.critical, [9.4877]);
+    const criticalOnly = lookupDensityPlot({ kind: 'distribution', test: 'distribution', df: 4, noncentrality: 0, points: [], critical: [{ p: 0.05, lower: 0.7107, upper: 9.4877, twoSided: { lower: 0.4844, upper: 11.143 } }], notices: [] });
+    assert.equal(criticalOnly?.observed, null);
+    assert.equal(criticalOnly?.shaded[0][0].x, 9.4877);
+  });
+
+  it('draws the power curve with the plan marked', () => {
+    const plot = powerCurvePlot({ kind: 'power', test: 'power', target: 'variance', effectSize: { id: 'r', name: 'σ1/σ0', value: 1.3 }, df: 29, alpha: 0.05, n: 30, power: 0.669, solvedFor: 'power', curve: [{ n: 10, power: 0.3 }, { n: 30, power: 0.669 }, { n: 60, power: 0.93 }], notices: [] });
+    assert.ok(plot);
+    assert.deepEqual([plot.xMin, plot.xMax], [10, 60]);
+    assert.deepEqual(plot.marker, { x: 30, y: 0.669, label: 'n = 30, power 0.669' });
   });
 
   it('shades every cell of the residual grid', () => {
@@ -177,10 +215,10 @@ describe('plot geometry', () => {
       assert.ok(density);
       assert.equal(density.tickLabels.length, density.ticks.length);
       assert.deepEqual(density.tickLabels, tickLabels(density.ticks));
-      const bars = barsPlot([{ label: 'a', observed: 48, expected: 40.5, pearsonResidual: 1.2, standardizedResidual: 1.6, contribution: 1.5 }], 3);
-      assert.deepEqual(bars.tickLabels, bars.ticks.map(String), `ticks ${JSON.stringify(bars.ticks)}`);
-      assert.equal(bars.bars[0].observedText, '48');
-      assert.equal(bars.bars[0].expectedText, '40.500');
+      const deviation = deviationPlot([{ label: 'a', observed: 48, expected: 40.5, pearsonResidual: 1.2, standardizedResidual: 1.6, contribution: 1.5 }], 3);
+      assert.deepEqual(deviation.tickLabels, tickLabels(deviation.ticks), `ticks ${JSON.stringify(deviation.ticks)}`);
+      assert.equal(deviation.rows[0].observedText, '48');
+      assert.equal(deviation.rows[0].expectedText, '40.500');
     });
 
     it('writes residual-grid cells with their sign and the decimals setting', () => {
@@ -230,7 +268,7 @@ describe('plot geometry', () => {
       assert.equal(interval.texts.reference, 'σ0 = 1.5');
       const density = plots.find((p) => p.kind === 'density');
       assert.ok(density && density.kind === 'density');
-      assert.equal(density.observed.label, 'X² = 5.0');
+      assert.equal(density.observed?.label, 'X² = 5.0');
     });
   });
 });

@@ -100,8 +100,10 @@ describe('report content', () => {
 
   it('markdown: category table with residuals, escaped labels, and the caution', () => {
     const md = resultMarkdown(mendel);
-    assert.match(md, /\| Category \| Observed \| Expected \| Residual \| Std\. residual \| Contribution \|/);
-    assert.match(md, /\| round \\\| yellow \| 315 \| 312\.75 \|/);
+    // Our reading order: deviation, z, share of χ², then the counts. Round yellow: 315 − 312.75 = +2.25, and
+    // its share of X² is (2.25²/312.75) / 0.4700 = 3.4 % (hand computation).
+    assert.match(md, /\| Category \| Observed − expected \| z \| Share of χ² \| Observed \| Expected \|/);
+    assert.match(md, /\| round \\\| yellow \| \+2\.25 \| \+0\.19 \| 3\.4 % \| 315 \| 312\.75 \|/);
     assert.match(md, /χ²\(3, N = 556\) = 0\.47, p = \.925/);
     assert.match(md, /\*Statistical significance is not practical importance/);
   });
