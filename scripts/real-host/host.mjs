@@ -153,13 +153,15 @@ export async function startHost({ settings = {}, copyWorkspaceFrom = null, extra
 }
 
 /** Installs a .vsix into a throwaway extensions folder with code-server's own installer; returns the installed folder names. */
-export function installVsix(vsix) {
+/** Installs a .vsix into a throwaway extensions folder; `inspect(extensionsDir)` may look at it before it is removed. */
+export function installVsix(vsix, inspect = () => {}) {
   checkHostInstalled();
   const temp = mkdtempSync(join(tmpdir(), 'countercheck-vsix-'));
   try {
     const env = { ...process.env, XDG_CONFIG_HOME: join(temp, 'xdg-config'), XDG_DATA_HOME: join(temp, 'xdg-data') };
     const out = execFileSync(node24, [codeServerEntry, '--user-data-dir', join(temp, 'user-data'), '--extensions-dir', join(temp, 'extensions'), '--install-extension', vsix], { env, encoding: 'utf8' });
-    return { output: out, installed: readdirSync(join(temp, 'extensions')).filter((n) => !n.endsWith('.json')) };
+    const installed = readdirSync(join(temp, 'extensions')).filter((n) => !n.endsWith('.json'));
+    return { output: out, installed, inspection: inspect(join(temp, 'extensions')) };
   } finally {
     rmSync(temp, { recursive: true, force: true });
   }
