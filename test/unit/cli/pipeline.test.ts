@@ -250,6 +250,7 @@ describe('command line for pipelines', function () {
       assert.equal(several.code, 2);
       assert.match(several.stderr, /name exactly one spec \(found 2\)/);
       assert.match((await cli(['run', '--data', '-', '-'], '{}')).stderr, /cannot both read standard input/);
+      assert.match((await cli(['run', '--record', '--data', 'data/sorting.csv', 'specs/sorting.countercheck.json'])).stderr, /--record records the spec's own data; it cannot be combined with --data/);
       const file = await cli(['run', '--json', '--data', 'data/sorting.csv', 'specs/sorting.countercheck.json']);
       assert.equal(JSON.parse(file.stdout).data.rows, 100);
     });
