@@ -32,9 +32,9 @@ import { STATUS_LABEL, TOLERANCE_TEXT, compareWithRecord, cannotRun, changesOf, 
 import { runSpec } from './spec/run';
 import type { SpecReaders, SpecRun, SpecV1 } from './spec/types';
 import { loadSpecText } from './spec/validate';
-import packageJson from '../package.json';
+import { version as packageVersion } from '../package.json';
 
-export const VERSION: string = packageJson.version;
+export const VERSION: string = packageVersion;
 export const TOOL = `countercheck ${VERSION}`;
 
 export interface CliIo {

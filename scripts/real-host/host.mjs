@@ -152,14 +152,19 @@ export async function startHost({ settings = {}, copyWorkspaceFrom = null, extra
   return host;
 }
 
-/** Installs a .vsix into a throwaway extensions folder with code-server's own installer; returns the installed folder names. */
-export function installVsix(vsix) {
+/**
+ * Installs a .vsix with code-server's own installer into `extensionsDir` (default: a throwaway folder, removed
+ * afterwards); `inspect(extensionsDir)` may look at the result first. Returns the installed folder names.
+ */
+export function installVsix(vsix, inspect = () => {}, extensionsDir = null) {
   checkHostInstalled();
   const temp = mkdtempSync(join(tmpdir(), 'countercheck-vsix-'));
+  const target = extensionsDir ?? join(temp, 'extensions');
   try {
     const env = { ...process.env, XDG_CONFIG_HOME: join(temp, 'xdg-config'), XDG_DATA_HOME: join(temp, 'xdg-data') };
-    const out = execFileSync(node24, [codeServerEntry, '--user-data-dir', join(temp, 'user-data'), '--extensions-dir', join(temp, 'extensions'), '--install-extension', vsix], { env, encoding: 'utf8' });
-    return { output: out, installed: readdirSync(join(temp, 'extensions')).filter((n) => !n.endsWith('.json')) };
+    const out = execFileSync(node24, [codeServerEntry, '--user-data-dir', join(temp, 'user-data'), '--extensions-dir', target, '--install-extension', vsix], { env, encoding: 'utf8' });
+    const installed = readdirSync(target).filter((n) => !n.endsWith('.json'));
+    return { output: out, installed, inspection: inspect(target) };
   } finally {
     rmSync(temp, { recursive: true, force: true });
   }
@@ -181,9 +186,9 @@ export async function launchBrowser(host, { viewport = { width: 1400, height: 90
   return context;
 }
 
-export function testPayloadUrl(host, { extensionTestsPath = null, folder = host.workspace } = {}) {
+export function testPayloadUrl(host, { extensionTestsPath = null, folder = host.workspace, developmentPath = repoRoot } = {}) {
   const remote = (p) => `vscode-remote://127.0.0.1:${host.port}${p}`;
-  const payload = [['extensionDevelopmentPath', remote(repoRoot)]];
+  const payload = [['extensionDevelopmentPath', remote(developmentPath)]];
   if (extensionTestsPath) payload.push(['extensionTestsPath', remote(extensionTestsPath)]);
   return `${host.url}/?folder=${encodeURIComponent(folder)}&payload=${encodeURIComponent(JSON.stringify(payload))}`;
 }

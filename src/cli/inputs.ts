@@ -59,15 +59,16 @@ export async function expandInputs(inputs: readonly string[], cwd: string, endin
       add({ name: '-' });
       continue;
     }
+    const info = await stat(path.resolve(cwd, input)).catch(() => undefined);
     const scan = picomatch.scan(input);
-    if (scan.isGlob) {
+    // A name that exists is taken as it is, even when it holds glob characters ("week[1].countercheck.json").
+    if (!info && scan.isGlob) {
       const isMatch = picomatch(scan.glob, { dot: false });
       const matches = (await walk(path.resolve(cwd, scan.base))).filter((rel) => isMatch(rel));
       if (matches.length === 0) add({ name: input, error: { code: 'no-match', message: `${input}: the pattern matches no file` } });
       for (const rel of matches) add({ name: joinShown(scan.base, rel) });
       continue;
     }
-    const info = await stat(path.resolve(cwd, input)).catch(() => undefined);
     if (info?.isDirectory()) {
       if (ending === undefined) {
         add({ name: input, error: { code: 'is-a-folder', message: `${input}: a folder; name the markdown files (or a glob such as '${joinShown(input, '*.md')}')` } });

@@ -259,6 +259,8 @@ export function parseCommandLine(args: readonly string[]): Parsed {
     if (values.json && str('format') !== undefined && str('format') !== 'json') throw new UsageError(`--json and --format ${str('format')} ask for two different outputs`, command);
     const format = values.json ? 'json' : oneOf(command, 'format', str('format') ?? 'text', OUTPUT_FORMATS);
     if (values.force && !values.record) throw new UsageError('--force only goes with --record', command);
+    // A record names the spec's own data (its path and fingerprint); data from elsewhere would contradict it.
+    if (values.record && str('data') !== undefined) throw new UsageError('--record records the spec\'s own data; it cannot be combined with --data', command);
     flags = { command, format, record: values.record === true, force: values.force === true, decimals: decimalsOf(command, str('decimals')), data: str('data'), plots: str('plots'), ...common };
   } else if (command === 'check') {
     const failOn = str('fail-on');

@@ -110,8 +110,11 @@ describe('command line for pipelines', function () {
       assert.deepEqual(json.map((r: { file: string }) => r.file), ['specs/peas/mendel.countercheck.json', 'specs/sorting.countercheck.json', 'other/*.countercheck.json']);
       assert.equal(json[2].error.code, 'no-match');
       assert.match(out.stderr, /other\/\*\.countercheck\.json: the pattern matches no file/);
+      write('specs/week[1].countercheck.json', mendelSpec);
+      const literal = JSON.parse((await cli(['run', '--json', 'specs/week[1].countercheck.json'])).stdout);
+      assert.equal(literal.file, 'specs/week[1].countercheck.json');
       const top = JSON.parse((await cli(['run', '--json', 'specs/*.countercheck.json'])).stdout);
-      assert.deepEqual(top.map((r: { file: string }) => r.file), ['specs/sorting.countercheck.json']);
+      assert.deepEqual(top.map((r: { file: string }) => r.file), ['specs/sorting.countercheck.json', 'specs/week[1].countercheck.json']);
     });
 
     it('every input appears in --json output; a failed one as {file, error: {code, message, location}}', async () => {
@@ -247,6 +250,7 @@ describe('command line for pipelines', function () {
       assert.equal(several.code, 2);
       assert.match(several.stderr, /name exactly one spec \(found 2\)/);
       assert.match((await cli(['run', '--data', '-', '-'], '{}')).stderr, /cannot both read standard input/);
+      assert.match((await cli(['run', '--record', '--data', 'data/sorting.csv', 'specs/sorting.countercheck.json'])).stderr, /--record records the spec's own data; it cannot be combined with --data/);
       const file = await cli(['run', '--json', '--data', 'data/sorting.csv', 'specs/sorting.countercheck.json']);
       assert.equal(JSON.parse(file.stdout).data.rows, 100);
     });
