@@ -357,6 +357,11 @@ async function readAll(stream: NodeJS.ReadableStream): Promise<string> {
 if (require.main === module || /[\\/]bin[\\/]countercheck(\.js)?$/.test(require.main?.filename ?? '')) {
   const interrupt = new AbortController();
   process.once('SIGINT', () => interrupt.abort());
+  // The reader of our output has gone (`… | head`): stop at once, quietly, with 128 + SIGPIPE (README, exit codes).
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code !== 'EPIPE') throw e;
+    process.exit(141);
+  });
   let progressShown = false;
   main(process.argv.slice(2), {
     stdout: (t) => process.stdout.write(t),
