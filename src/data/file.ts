@@ -16,6 +16,7 @@ import type { Dialect, IntakeOptions } from './options';
 import { parallelWanted, scanParallel, type ParallelChoice } from './parallel';
 import { scanRange } from './rangeScan';
 import { ByteScanner, ScannerFallback } from './scanner';
+import { InvalidUtf8, Utf8Check } from './utf8';
 import type { Aggregate, AggregateRequest } from './types';
 import { fail, inputError } from './where';
 import { isInstance } from '../errors';
@@ -294,22 +295,33 @@ export async function aggregateFileMany(
       requests.every((r) => r.kind !== 'counted-table') &&
       (opened.encoding === 'utf-8' || opened.encoding === 'latin1');
     let reader: FileReader = 'csv-parse';
-    let hash = createHash('sha256');
+    // UTF-8 files: every byte that is hashed is also checked (utf8.ts), so invalid bytes are refused by line.
+    let utf8 = opened.encoding === 'utf-8' ? new Utf8Check() : undefined;
+    const checkedHash = (): Hash => {
+      const h = createHash('sha256');
+      if (!utf8) return h;
+      const check = utf8;
+      const update = h.update.bind(h);
+      return Object.assign(h, { update: (bytes: Uint8Array) => (check.update(bytes), update(bytes)) }) as Hash;
+    };
+    let hash = checkedHash();
     let aggregators: readonly { result(source: SourceInfo): Aggregate }[] | undefined;
     if (scannable) {
       try {
         const parallel = parallelWanted(opened.size, opened.dialect, control)
-          ? await scanParallel({ ...opened, file, encoding: opened.encoding === 'latin1' ? 'latin1' : 'utf-8', intake, requests, makeAggregators, signal: control.signal, chunkSize: control.chunkSize, tick: progressOf(opened, control) }, control)
+          ? await scanParallel({ ...opened, file, checkBytes: utf8 ? (bytes) => utf8!.update(bytes) : undefined, encoding: opened.encoding === 'latin1' ? 'latin1' : 'utf-8', intake, requests, makeAggregators, signal: control.signal, chunkSize: control.chunkSize, tick: progressOf(opened, control) }, control)
           : undefined;
         if (parallel) [aggregators, hash] = [parallel.results, parallel.hash];
         else aggregators = await scanBytes(opened, makeAggregators, file, control, hash);
         reader = 'byte-scanner';
       } catch (e) {
         if (!(isInstance(e, ScannerFallback))) throw e;
-        hash = createHash('sha256');
+        if (utf8) utf8 = new Utf8Check();
+        hash = checkedHash();
       }
     }
     if (reader === 'csv-parse') aggregators = await parseStream(opened, makeAggregators, file, control, hash);
+    utf8?.finish();
     if (aggregators === undefined) throw inputError({ file }, 'found no records; expected at least one line of data', 'empty-input');
     // The hash must describe the bytes that were counted: a file written meanwhile is refused.
     const after = await opened.handle.stat();
@@ -317,9 +329,36 @@ export async function aggregateFileMany(
       fail({ file }, 'the file changed while it was being read; expected it unchanged (read it again once it is written)', 'file-changed');
     const source = { description: options.description ?? file, sha256: hash.digest('hex') };
     return { aggregates: aggregators.map((a) => a.result(source)), reader };
+  } catch (e) {
+    if (isInstance(e, InvalidUtf8)) return await invalidUtf8Failure(opened, e, file);
+    throw e;
   } finally {
     await opened.handle.close();
   }
+}
+
+/** Refuses invalid UTF-8 at its line and its byte within the line, found by reading the file again up to it. */
+async function invalidUtf8Failure(opened: Opened, e: InvalidUtf8, file: string): Promise<never> {
+  const buf = new Uint8Array(1 << 20);
+  let line = 1;
+  let lineStart = 0;
+  for (let position = 0; position < e.offset; ) {
+    const { bytesRead } = await opened.handle.read(buf, 0, Math.min(buf.length, e.offset - position), position);
+    if (bytesRead === 0) break;
+    for (let k = 0; k < bytesRead; k++) {
+      if (buf[k] === 10) {
+        line++;
+        lineStart = position + k + 1;
+      }
+    }
+    position += bytesRead;
+  }
+  const hex = `0x${e.byte.toString(16).toUpperCase().padStart(2, '0')}`;
+  return fail(
+    { file, line },
+    `byte ${e.offset - lineStart + 1} of the line (${hex}) is not valid UTF-8; read as UTF-8 it would become U+FFFD and distinct labels could merge. If the file is Latin-1, set "encoding": "latin1" in the source`,
+    'invalid-utf8',
+  );
 }
 
 /** Aggregates a delimited file in one streaming pass for one request. */

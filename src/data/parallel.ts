@@ -95,6 +95,8 @@ export interface ParallelInput {
   readonly chunkSize?: number;
   /** Progress: bytes scanned by all threads, records counted. */
   readonly tick: (bytes: number, rows: number, final: boolean) => void;
+  /** Sees every byte in order with the hash (the UTF-8 check); may throw to stop the read. */
+  readonly checkBytes?: (bytes: Uint8Array) => void;
 }
 
 export interface ParallelResult {
@@ -161,7 +163,7 @@ async function cuts(handle: FileHandle, dataStart: number, size: number, count: 
 }
 
 /** Hashes every byte of the file in order on this thread (the workers read their ranges themselves). */
-async function hashFile(handle: FileHandle, hash: Hash, stop: AbortSignal): Promise<void> {
+async function hashFile(handle: FileHandle, hash: Hash, stop: AbortSignal, check?: (bytes: Uint8Array) => void): Promise<void> {
   const buffers = [new Uint8Array(1 << 20), new Uint8Array(1 << 20)];
   let position = 0;
   let pending = handle.read(buffers[0], 0, buffers[0].length, 0);
@@ -175,6 +177,7 @@ async function hashFile(handle: FileHandle, hash: Hash, stop: AbortSignal): Prom
       const current = buffers[which];
       which ^= 1;
       pending = handle.read(buffers[which], 0, buffers[which].length, position);
+      check?.(current.subarray(0, bytesRead));
       hash.update(current.subarray(0, bytesRead));
     }
   } finally {
@@ -254,7 +257,8 @@ async function planAndScan(input: ParallelInput, choice: ParallelChoice): Promis
     });
   });
   const hash = createHash('sha256');
-  const hashing = hashFile(input.handle, hash, stop.signal);
+  const hashing = hashFile(input.handle, hash, stop.signal, input.checkBytes);
+  hashing.catch(() => undefined); // a refusal (invalid UTF-8) is raised where hashing is awaited, below
   let aborted: (reason: unknown) => void = () => undefined;
   const abortion = new Promise<never>((_, reject) => (aborted = reject));
   abortion.catch(() => undefined);

@@ -4,6 +4,11 @@
  */
 import type { FileHandle } from 'node:fs/promises';
 import type { ByteScanner } from './scanner';
+import { lineTooLong, MAX_LINE_BYTES } from './where';
+
+export { MAX_LINE_BYTES } from './where';
+
+const LF = 10;
 
 export interface RangeScan {
   /** First byte to read. */
@@ -43,6 +48,12 @@ export async function scanRange(handle: FileHandle, scanner: ByteScanner, range:
     for (;;) {
       const { bytesRead } = await pending;
       range.signal?.throwIfAborted();
+      // Only a line that spans chunks can be longer than a chunk: its length is what is left over plus the bytes up
+      // to the first newline of this chunk (a native search, once per chunk).
+      if (leftover > 0) {
+        const newline = current.subarray(room, room + bytesRead).indexOf(LF);
+        if (leftover + (newline < 0 ? bytesRead : newline) > MAX_LINE_BYTES) lineTooLong(scanner.file, scanner.line);
+      }
       range.onBytes?.(current.subarray(room, room + bytesRead));
       position += bytesRead;
       const final = bytesRead === 0;

@@ -245,6 +245,11 @@ export class ByteScanner {
   private readonly decimal: number;
   private readonly comment: number;
 
+  /** The file name used in messages. */
+  get file(): string | undefined {
+    return this.settings.file;
+  }
+
   constructor(private readonly settings: ScannerSettings) {
     const d = settings.dialect;
     this.classes[d.delimiter.charCodeAt(0)] = DELIMITER;

@@ -44,3 +44,14 @@ export function inputError(where: Where, message: string, code: string): InputEr
 export function fail(where: Where, message: string, code: string): never {
   throw inputError(where, message, code);
 }
+
+/**
+ * Longest line (bytes before its newline) any reader accepts: 16 MiB. The byte scanner's read buffer grows to
+ * hold a line and csv-parse keeps a record whole, so this bounds both; longer lines are refused by number.
+ */
+export const MAX_LINE_BYTES = 16 * 1024 * 1024;
+
+/** The refusal of a line longer than MAX_LINE_BYTES. */
+export function lineTooLong(file: string | undefined, line: number): never {
+  return fail({ file, line }, `the line is longer than ${MAX_LINE_BYTES} bytes, the longest a reader accepts (is this a data file with line breaks?)`, 'line-too-long');
+}

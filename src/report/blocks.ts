@@ -180,7 +180,7 @@ export async function refreshReport(text: string, render: (block: ReportBlock) =
 
 export function errorMarkdown(message: string): string {
   return `> **Countercheck could not run this block.**\n>\n${message
-    .split('\n')
+    .split(/\r\n|\r|\n/)
     .map((l) => `> ${l.replace(/([*_`[\]<>|\\])/g, '\\$1')}`)
     .join('\n')}\n`;
 }

@@ -56,7 +56,31 @@ function sourceColumnPath(code: string, column: string | undefined, located: Loc
   return source?.weight === column ? '$.source.weight' : undefined;
 }
 
+/**
+ * Runs one block. Its errors are written into a report that is shared, so every absolute path in them (the
+ * report's, a spec's, a data file's, or one inside a reader's own message) is shown relative to the report.
+ */
 export async function runReportBlock(block: ReportBlock, options: BlockRunOptions): Promise<BlockRun> {
+  try {
+    return await runBlock(block, options);
+  } catch (e) {
+    if (isInstance(e, Error) && e.name === 'AbortError') throw e;
+    const relative = relativeToReport(path.dirname(path.resolve(options.reportPath)));
+    const location = isInputError(e) ? { ...e.location, ...(e.location.file !== undefined ? { file: relative(e.location.file) } : {}) } : {};
+    throw new InputError(relative(errorMessage(e)), location, isInputError(e) ? e.code : 'run-failed');
+  }
+}
+
+/** Rewrites every absolute path in a text (POSIX or Windows) relative to `folder`. */
+export function relativeToReport(folder: string): (text: string) => string {
+  return (text) =>
+    text.replace(/(?<![\w.~-])(\/[^\s'"`:,;()]+|[A-Za-z]:\\[^\s'"`:,;()]+)/g, (absolute) => {
+      const relative = path.relative(folder, absolute);
+      return relative === '' ? '.' : relative.split(path.sep).join('/');
+    });
+}
+
+async function runBlock(block: ReportBlock, options: BlockRunOptions): Promise<BlockRun> {
   const reportFile = options.reportPath;
   // Pad with the lines above the block so that positions in errors are positions in the report.
   const padded = '\n'.repeat(block.bodyLine - 1) + block.body;

@@ -11,7 +11,7 @@
 import {
   gammaDensity,
   lastSlope,
-  logGamma,
+  logGammaPrefactor,
   logTailWithSlope,
   logGamma1p,
   logRegularizedGammaLower,
@@ -40,14 +40,16 @@ export function chiSquareDensity(x: number, df: number): number {
 
 /**
  * log10 of the density, finite where the density itself underflows to 0 (x = 2000, df = 1: about −436.3).
- * From ln f = (a − 1)·ln(x/2) − x/2 − lnΓ(a) − ln 2 with a = df/2 when the double density is 0; otherwise
- * log10 of the density. −∞ where the density is truly 0 (x < 0, x = ∞).
+ * Where the double density is 0: ln f = ln[a · (x/2)^a e^(−x/2)/Γ(a + 1)] − ln(x/2) − ln 2 with a = df/2, the
+ * bracket from Loader's (2000) saddle-point form (logGammaPrefactor), which keeps full precision at df = 1e8
+ * where (a − 1)·ln(x/2) − x/2 − lnΓ(a) cancels terms of size 1e9 (9.5e-8 relative error before). −∞ where the
+ * density is truly 0 (x < 0, x = ∞).
  */
 export function chiSquareLog10Density(x: number, df: number): number {
   const density = chiSquareDensity(x, df);
   if (!(density === 0) || !(x > 0 && x < Infinity && df > 0)) return Math.log10(density);
   const a = df / 2;
-  return ((a - 1) * Math.log(x / 2) - x / 2 - logGamma(a) - Math.LN2) / Math.LN10;
+  return (logGammaPrefactor(a, x / 2) + Math.log(a) - Math.log(x / 2) - Math.LN2) / Math.LN10;
 }
 
 /** P(X ≤ x) for X ~ χ²(df). */
@@ -109,11 +111,13 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean, target = NaN
   } else {
     if (a < 1) {
       // Tiny shapes put even the median far below the double range (df = 1e-10: x ≈ e^(−7e9)); there
-      // the lower tail 1 − q ≈ y^a/Γ(a+1) gives the answer directly.
+      // the lower tail 1 − q ≈ y^a/Γ(a+1) gives the answer directly, and above it a start within a factor of
+      // about 1 + y (df = 0.001, q = 0.25: y ≈ 1e-250, which bisection from y = a would not reach).
       const small = (Math.log(-Math.expm1(lnTarget)) + logGamma1p(a)) / a;
       if (small < -700) return Math.exp(small);
+      if (small < 0 && (!(wh > 0) || Math.exp(small) < wh)) y = Math.exp(small);
     }
-    if (!(wh > 0)) y = a;
+    if (!(y > 0)) y = a;
   }
   let lo = 0;
   let hi = Infinity;
@@ -145,10 +149,12 @@ function gammaQuantile(a: number, lnTarget: number, upper: boolean, target = NaN
       relativeStep = Math.abs(step);
     }
     if (relativeStep <= 1e-6 && next >= lo && next <= hi) return polish(a, next, upper, target, lnTarget, s);
-    if (!(next > lo && next < hi)) next = hi === Infinity ? 2 * lo + 1 : lo === 0 ? hi / 16 : 0.5 * (lo + hi);
+    // Outside the bracket: bisect it, geometrically when it spans orders of magnitude (y can be 1e-300).
+    if (!(next > lo && next < hi)) next = hi === Infinity ? 2 * lo + 1 : lo === 0 ? hi * 1e-8 : hi > 4 * lo ? Math.sqrt(lo * hi) : 0.5 * (lo + hi);
     y = next;
   }
-  return y;
+  // Not converged in 100 steps: no answer rather than a wrong one.
+  return NaN;
 }
 
 /**

@@ -126,8 +126,19 @@ function hypothesisFrom(options: VarianceTestOptions): Hypothesis {
   if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) {
     throw new InputError(`${key}: expected a finite number > 0, found ${String(value)}`, { jsonPath: `$.${key}` }, 'invalid-hypothesis');
   }
-  return sigma0 !== undefined ? { variance0: value * value, bySd: true } : { variance0: value, bySd: false };
+  const squared = sigma0 !== undefined ? value * value : value;
+  // σ0² must be a normal double: below about 2.2e-308 it has lost digits (1e-160² = 1e-320), above 1.8e308 it is ∞.
+  if (!(squared >= MIN_NORMAL && squared < Infinity)) {
+    throw new InputError(
+      `${key}: ${String(value)}${sigma0 !== undefined ? ', whose square' : ''} is outside the range of double-precision numbers (about 2.2e-308 to 1.8e308); express the values and ${key} in other units`,
+      { jsonPath: `$.${key}` },
+      'out-of-range',
+    );
+  }
+  return { variance0: squared, bySd: sigma0 !== undefined };
 }
+
+const MIN_NORMAL = 2.2250738585072014e-308;
 
 const ALTERNATIVES: readonly Alternative[] = ['two-sided', 'greater', 'less'];
 
@@ -146,6 +157,18 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
   const sumSquares = moments.m2;
   const variance = sumSquares / df;
   const statistic = sumSquares / hypothesis.variance0;
+  const where = source === 'values' ? '$.values' : source === 'summary' ? '$.summary' : '$.source.columns[0]';
+  if (!Number.isFinite(sumSquares)) {
+    throw new InputError(
+      `values: the sum of squared deviations from the mean is beyond the range of double-precision numbers (about 1.8e308); express the values in smaller units (divide them and ${hypothesis.bySd ? 'sigma0' : 'variance0'} by a power of ten)`,
+      { jsonPath: where },
+      'out-of-range',
+    );
+  }
+  if (!Number.isFinite(statistic)) {
+    const key = hypothesis.bySd ? 'sigma0' : 'variance0';
+    throw new InputError(`${key}: the statistic Σ(x − x̄)²/σ0² = ${sumSquares.toPrecision(3)}/${hypothesis.variance0.toPrecision(3)} is beyond the range of double-precision numbers; ${key} is far smaller than the spread of the values (s = ${Math.sqrt(variance).toPrecision(3)})`, { jsonPath: `$.${key}` }, 'out-of-range');
+  }
   const lower = chiSquareLowerProbability(statistic, df);
   const upper = chiSquareUpperProbability(statistic, df);
   const pValue = alternative === 'greater' ? upper : alternative === 'less' ? lower : twoSidedFromTails(lower, upper);

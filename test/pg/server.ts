@@ -2,7 +2,7 @@
  * The live PostgreSQL server the tests in test/pg run against. COUNTERCHECK_PG_ENV names a file of
  * PG* lines written by scripts/pg/start.sh (`npm run test:pg`, scripts/pg/run-tests.mjs, starts one and
  * sets it). When the variable is set, every failure to reach the server FAILS the tests; when it is
- * unset (a developer's machine without a server), the suite is skipped with a message saying how to run it.
+ * unset (a developer's machine without a server), the suite is skipped with a message saying how to run it; with CI=true it fails.
  */
 import { execFile } from 'node:child_process';
 import { existsSync, readFileSync } from 'node:fs';
@@ -26,11 +26,13 @@ export function readEnvFile(file: string): Record<string, string> {
   return env;
 }
 
-/** Registers the suite's `before` hook: skip without a server configured, fail with one that does not answer. */
+/** Registers the suite's `before` hook: skip without a server configured (fail in CI), fail with one that does not answer. */
 export function liveServer(): { env: () => Record<string, string>; context: () => SqlReaderContext; query: (text: string, values?: unknown[]) => Promise<Record<string, unknown>[]>; psql: (command: string) => Promise<string> } {
   let env: Record<string, string> | undefined;
   before(async function () {
     if (!pgEnvFile) {
+      // In CI a missing server is a failure, never a silent pass (npm run test:pg starts one; .ci/run sets CI=true).
+      if (process.env.CI === 'true') throw new Error('COUNTERCHECK_PG_ENV is not set in CI: the PostgreSQL suite must run there (npm run test:pg starts a server)');
       console.log('    (skipped: COUNTERCHECK_PG_ENV is not set; run `bash scripts/pg/start.sh /tmp/cc-pg` and `COUNTERCHECK_PG_ENV=/tmp/cc-pg/env npm run test:pg`)');
       this.skip();
     }

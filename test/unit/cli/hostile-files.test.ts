@@ -61,3 +61,20 @@ describe('command line on hostile spec files', () => {
     checkJsonNesting(`{"a": "${'['.repeat(500)}\\"["}`);
   });
 });
+
+describe('command line writing into a closed pipe', () => {
+  it('exits quietly with code 141 (128 + SIGPIPE, as documented) when its reader has gone (`| head -c 10`)', async () => {
+    const { spawn } = await import('node:child_process');
+    const { existsSync } = await import('node:fs');
+    const bundle = join(__dirname, '..', '..', '..', 'dist', 'cli.js');
+    assert.ok(existsSync(bundle), 'dist/cli.js is missing: run `npm run build`');
+    const child = spawn(process.execPath, [bundle, 'run', '-', '--json'], { stdio: ['pipe', 'pipe', 'pipe'] });
+    child.stdout.destroy(); // the reader goes away before anything is written
+    let stderr = '';
+    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
+    child.stdin.end('{"test": "distribution", "df": 4, "x": 161.13}');
+    const code = await new Promise<number | null>((resolve) => child.on('close', (c) => resolve(c)));
+    assert.equal(code, 141, stderr);
+    assert.equal(stderr, '');
+  });
+});

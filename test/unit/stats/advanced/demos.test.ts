@@ -27,7 +27,14 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
     it(`${file} runs and agrees with R ${R.rVersion.split(' ')[2]}`, async () => {
       const text = readFileSync(join(folder, file), 'utf8');
       const { spec } = loadSpecText(text, file);
-      const ref = R.demos.find((d) => d.file === file)!;
+      const ref = R.demos.find((d) => d.file === file);
+      assert.ok(ref, `no R reference for ${file}`);
+      // An entry must carry the values this check compares: an empty or misspelt entry fails instead of passing.
+      const claimed = Object.keys(ref).filter((k) => k !== 'file');
+      const comparable = ['data', 'statistic', 'pValue', 'oddsRatio', 'n', 'power', 'df', 'cellHolm', 'z'];
+      assert.deepEqual(claimed.filter((k) => !comparable.includes(k)), [], `unknown fields in the R reference for ${file}`);
+      const main = spec.test === 'power' ? 'power' : spec.test === 'post-hoc' ? 'cellHolm' : 'pValue';
+      assert.ok(main === 'cellHolm' ? Array.isArray(ref.cellHolm) && ref.cellHolm.length > 0 : typeof ref[main] === 'number', `the R reference for ${file} lacks ${main}`);
       const data = spec.table ?? spec.strata ?? spec.values ?? spec.observed;
       if (ref.data !== undefined) assert.deepEqual(data, ref.data, 'the demo and the R script use the same data');
       const { result } = await runSpec(spec, { readers, specPath: join(folder, file), allowedRoot: folder });
