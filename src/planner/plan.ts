@@ -68,7 +68,7 @@ interface ColumnInfo {
 
 /** The data, once its shape is known. */
 type View =
-  | { readonly form: 'table'; readonly table: CountTable; readonly fromFile?: boolean }
+  | { readonly form: 'table'; readonly table: CountTable }
   | { readonly form: 'categories'; readonly counts: CategoryCounts; readonly expectation?: Readonly<Record<string, unknown>>; readonly labelColumn?: string; readonly countColumn?: string }
   | { readonly form: 'values'; readonly values: readonly number[] }
   | { readonly form: 'columns'; readonly columns: readonly ColumnInfo[]; readonly shape: Shape; readonly records?: Records }
@@ -178,7 +178,7 @@ function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): View {
       if (shape.kind !== 'raw') notes.push(shape.reason);
       if (shape.kind === 'counted-table') {
         const aggregate = aggregateRecords(records, { kind: 'counted-table' }, { description: offer.description });
-        if (aggregate.kind === 'table') return { form: 'table', table: aggregate.table, fromFile: offer.file !== undefined };
+        if (aggregate.kind === 'table') return { form: 'table', table: aggregate.table };
       }
       if (shape.kind === 'category-counts') {
         const aggregate = aggregateRecords(records, { kind: 'categories', column: shape.labelColumn, weight: shape.countColumn }, { description: offer.description });
@@ -212,7 +212,6 @@ export async function plan(request: PlanRequest): Promise<Plan> {
   if (test !== 'distribution' && test !== 'power') fields.alpha = settings.alpha;
   Object.assign(fields, proposal.preset);
   if (proposal.preset?.method !== undefined) answers.method = proposal.preset.method;
-  for (const k of Object.keys(proposal.preset ?? {})) if (given[k] !== undefined) fields[k] = given[k];
 
   // The data part of the spec.
   let data: DataFacts;
