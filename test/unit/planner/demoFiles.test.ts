@@ -1,11 +1,15 @@
 // The planner on the rest of the demo's data: a semicolon file with decimal commas, and the notebook's cell
 // outputs (an HTML data-frame table, a JSON list of values). Expected figures are read from the files by hand.
 import { strict as assert } from 'node:assert';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { offerFromNotebookOutput } from '../../../src/planner/offer';
+import { plan } from '../../../src/planner/plan';
+import { runSpec } from '../../../src/spec/run';
 import type { TestResult } from '../../../src/stats/result';
-import { demo, fileOffer, planAndRun } from './helpers';
+import { ScriptedQuestions } from './fakeQuestions';
+import { demo, fileOffer, fileOfferAt, planAndRun, readers, settings } from './helpers';
 
 /** The notebook's cell outputs by MIME type, as the editor hands them over. */
 function cellOutput(cell: number, mime: string): string {
@@ -23,6 +27,25 @@ describe('the planner on the other demo data', () => {
     assert.deepEqual((planned.spec.source as { columns: string[] }).columns, ['fill_ml']);
     const column = questions.asked.find((a) => a.placeholder === 'Choose the column')!;
     assert.deepEqual(column.choices, ['fill_ml'], 'time, line and nozzle are not numbers to test');
+  });
+
+  it('germination.md as a file: its reader shows the first table, a counted table read again from the file when run (N = 2,950)', async () => {
+    const offer = await fileOfferAt(join(demo, 'data', 'germination.md'), 'data/germination.md');
+    const { planned, result } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables' });
+    assert.deepEqual(planned.spec.source, { path: 'data/germination.md' });
+    assert.equal(result.n, 2950);
+  });
+
+  it('a JSON records file: planned with its path as the source and read by the JSON reader when run', async () => {
+    const folder = mkdtempSync(join(tmpdir(), 'countercheck-planner-'));
+    const records = Array.from({ length: 40 }, (_, i) => ({ shift: i % 2 ? 'early' : 'late', outcome: i % 5 < 2 ? 'fail' : 'pass' }));
+    writeFileSync(join(folder, 'checks.json'), JSON.stringify(records));
+    const offer = await fileOfferAt(join(folder, 'checks.json'), 'checks.json');
+    const questions = new ScriptedQuestions({ 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'shift', 'Choose the columns': 'outcome' });
+    const planned = await plan({ offer, questions, settings, specFolder: folder });
+    assert.deepEqual(planned.spec.source, { path: 'checks.json', columns: ['shift', 'outcome'] });
+    const run = await runSpec(planned.spec, { readers, specPath: join(folder, 'untitled.countercheck.json') });
+    assert.equal((run.result as TestResult).n, 40);
   });
 
   it("weekend-loaves.ipynb, cell 2's HTML table: a counted 3×3 table, N from the cells", async () => {
