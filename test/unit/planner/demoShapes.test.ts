@@ -64,6 +64,8 @@ describe('shape inference on the demo files', () => {
     const k = asked.choices!.indexOf('minutes');
     assert.ok(k >= 0, `minutes is offered: ${asked.choices}`);
     assert.match(asked.details![k]!, /except 1 cell that is not \(first on line 5: "pending"\)/);
+    // Chosen anyway, the stray cell stops the run with its place, rather than being dropped.
+    await refusal(() => planAndRun(offer, { 'Hypothesised standard deviation σ0': '1', 'Alternative hypothesis': 'σ differs from σ0' }, { test: 'variance', columns: ['minutes'] }), 'not-a-number', /line 5.*pending/);
   });
 
   it('refuses in words a result where N equals the number of rows and every cell is 1', async () => {
