@@ -2,9 +2,10 @@
  * The first records of a data file, for the planner's column profiles (up to 64 KB, cut at a line end),
  * and all of its records for procedures whose saved form keeps the counts inline. Node I/O, like file.ts.
  */
-import { open, readFile } from 'node:fs/promises';
+import { open } from 'node:fs/promises';
 import { parseDelimited } from './delimited';
 import type { Records } from './records';
+import { MAX_TEXT_FILE_BYTES, readTextFile } from './file';
 
 export const PREVIEW_BYTES = 64 * 1024;
 
@@ -25,5 +26,5 @@ export async function readDelimitedPreview(path: string, file: string, bytes = P
 
 /** Every record of a delimited file (held in memory: for small files only). */
 export async function readDelimitedRecords(path: string, file: string): Promise<Records> {
-  return parseDelimited(await readFile(path, 'utf8'), { file });
+  return parseDelimited(await readTextFile(path, file, MAX_TEXT_FILE_BYTES), { file });
 }

@@ -6,8 +6,9 @@
 import { aggregateRecords } from './aggregate';
 import { sha256Hex } from './delimited';
 import { aggregateFile, MAX_TEXT_FILE_BYTES, readTextFile } from './file';
-import { readJsonData } from './json';
+import { readJsonData, type JsonData } from './json';
 import { parseMarkdownTable } from './markdown';
+import { readDelimitedPreview, readDelimitedRecords } from './preview';
 import type { IntakeOptions } from './options';
 import type { Records } from './records';
 import type { Aggregate, AggregateRequest } from './types';
@@ -24,6 +25,13 @@ export interface ReadControl {
 
 export type ReadAggregate = (path: string, request: AggregateRequest, options: IntakeOptions, control: ReadControl) => Promise<Aggregate>;
 
+/** What the editor's planner sees of a file: its first records (or all), or data already in a test's shape. */
+export interface FileView {
+  readonly data: JsonData;
+  /** The records are the whole file. */
+  readonly complete: boolean;
+}
+
 export interface FileReaderEntry {
   /** For messages: "delimited text". */
   readonly name: string;
@@ -33,6 +41,8 @@ export interface FileReaderEntry {
   readonly read: ReadAggregate;
   /** Hosts inject their own call of this reader (the streaming reader with their progress display). */
   readonly hostInjected?: boolean;
+  /** The file for the editor's planner: its first records (`whole`: all of them). `file` names it in messages. */
+  readonly view: (path: string, file: string, whole: boolean) => Promise<FileView>;
 }
 
 /** A SQL source: the server counts; the read itself is injected by the host (it holds the passwords). */
@@ -40,6 +50,17 @@ export const SQL_READER = { name: 'SQL', delivers: ['counts', 'moments', 'values
 
 const delimited: ReadAggregate = (path, request, options, control) =>
   aggregateFile(path, request, options, { signal: control.signal, onProgress: (p) => { if (p.totalBytes) control.onProgress?.(p.bytesRead / p.totalBytes); } });
+
+/** A small text file read whole, as the planner sees it. */
+function wholeView(toData: (text: string, file: string) => JsonData) {
+  return async (path: string, file: string): Promise<FileView> => ({ data: toData(await readTextFile(path, file, MAX_TEXT_FILE_BYTES), file), complete: true });
+}
+
+async function delimitedView(path: string, file: string, whole: boolean): Promise<FileView> {
+  if (whole) return { data: { kind: 'records', records: await readDelimitedRecords(path, file) }, complete: true };
+  const { records, complete } = await readDelimitedPreview(path, file);
+  return { data: { kind: 'records', records }, complete };
+}
 
 /** A small text file read whole into records, then aggregated like a selection. */
 function wholeText(toRecords: (text: string, file: string) => Records): ReadAggregate {
@@ -72,9 +93,9 @@ const ALL: readonly Delivery[] = ['records', 'counts', 'moments', 'values'];
 
 /** The file readers, first match by name ending; the last one serves any other file. */
 export const FILE_READERS: readonly FileReaderEntry[] = [
-  { name: 'JSON records', extensions: ['.json'], delivers: ALL, read: wholeText(jsonRecords) },
-  { name: 'markdown table', extensions: ['.md', '.markdown'], delivers: ALL, read: wholeText(markdownRecords) },
-  { name: 'delimited text', extensions: ['.csv', '.tsv', '.tab', '.txt', ''], delivers: ALL, read: delimited, hostInjected: true },
+  { name: 'JSON records', extensions: ['.json'], delivers: ALL, read: wholeText(jsonRecords), view: wholeView((text, file) => readJsonData(text, { file })) },
+  { name: 'markdown table', extensions: ['.md', '.markdown'], delivers: ALL, read: wholeText(markdownRecords), view: wholeView((text, file) => ({ kind: 'records', records: markdownRecords(text, file) })) },
+  { name: 'delimited text', extensions: ['.csv', '.tsv', '.tab', '.txt', ''], delivers: ALL, read: delimited, hostInjected: true, view: delimitedView },
 ];
 
 export function fileReaderFor(path: string): FileReaderEntry {

@@ -51,6 +51,7 @@ export class SpecHoverProvider implements vscode.HoverProvider {
     md.appendMarkdown(`**${name}**${handler ? ` — ${handler.test}` : ''}\n\n`);
     // appendText would turn spaces into &nbsp;; escape markdown tokens instead so the text wraps normally.
     md.appendMarkdown(field.description.replace(/([\\`*_{}[\]<>|#])/g, '\\$1'));
+    if (field.default !== undefined) md.appendMarkdown(`\n\n${t('Default')}: \`${JSON.stringify(field.default)}\``);
     if (name === 'test') md.appendMarkdown(`\n\n${PROCEDURES.map((p) => `- \`${p.test}\`: ${p.summary}`).join('\n')}`);
     return new vscode.Hover(md, range);
   }

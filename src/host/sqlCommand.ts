@@ -8,7 +8,7 @@ import type { Offer } from '../planner/offer';
 import type { Answers } from '../planner/plan';
 import { Cancelled, type Services } from './services';
 import { runWizard } from './wizard';
-import { askPassword, configuredConnections, storedPassword, useSecretStorage } from './sqlSource';
+import { askPassword, configuredConnections, hostAggregateSql, storedPassword, useSecretStorage } from './sqlSource';
 
 const t = vscode.l10n.t;
 export const RUN_ON_DATABASE = 'countercheck.runOnDatabase';
@@ -101,7 +101,12 @@ export async function runOnDatabase(services: Services, given: DatabaseAnswers =
       answers.where = where.trim() === '' ? undefined : where.trim();
     }
     await services.context.workspaceState.update('answers:database-source', { connection: answers.connection, table: answers.table, query: answers.query, where: answers.where });
-    offer = { kind: 'catalogue', sql: sqlSource.sql, columns, description: `${name}: ${answers.table ?? t('query')}` };
+    const where = answers.where;
+    const levels = async (column: string): Promise<readonly string[]> => {
+      const counted = await hostAggregateSql({ sql: { ...sqlSource.sql }, ...(where ? { where } : {}) }, { kind: 'categories', column }, { categories: { order: 'sorted' } }, {});
+      return counted.kind === 'categories' ? counted.counts.labels : [];
+    };
+    offer = { kind: 'catalogue', sql: sqlSource.sql, columns, description: `${name}: ${answers.table ?? t('query')}`, levels };
   } catch (e) {
     await services.reportError(e);
     return;

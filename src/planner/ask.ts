@@ -27,6 +27,8 @@ export function parseNumberList(text: string): number[] {
 /** Asks for one field of a procedure, in the terms its field table gives. */
 export async function askField(questions: Questions, test: string, name: string, title: string, options: { remembered?: unknown; extraPrompt?: string; choiceLabels?: Readonly<Record<string, string>> } = {}): Promise<unknown> {
   const f = fieldOf(test, name);
+  // Pre-filled: the last answer on this source, else the field's default from its table.
+  const preset = options.remembered ?? f.default;
   const prompt = options.extraPrompt ? `${f.description} ${options.extraPrompt}` : f.description;
   const type = f.type.kind === 'oneOf' ? (f.type.options.find((o) => o.kind === 'number') ?? f.type.options[0]) : f.type;
   if (type.kind === 'string' && type.enum) {
@@ -34,14 +36,14 @@ export async function askField(questions: Questions, test: string, name: string,
       title,
       placeholder: prompt,
       choices: type.enum.map((value) => ({ label: options.choiceLabels?.[value] ?? value, description: options.choiceLabels?.[value] ? value : undefined, value })),
-      remembered: (v) => v === options.remembered,
+      remembered: (v) => v === preset,
     });
   }
   if (type.kind === 'number') {
     const text = await questions.enter({
       title,
       prompt,
-      value: typeof options.remembered === 'number' ? String(options.remembered) : undefined,
+      value: typeof preset === 'number' ? String(preset) : undefined,
       validate: (v) => {
         const n = Number(v);
         if (v.trim() === '' || !Number.isFinite(n)) return 'Enter a number';
@@ -55,7 +57,7 @@ export async function askField(questions: Questions, test: string, name: string,
     const text = await questions.enter({
       title,
       prompt,
-      value: Array.isArray(options.remembered) ? options.remembered.join(', ') : undefined,
+      value: Array.isArray(preset) ? preset.join(', ') : undefined,
       validate: (v) => {
         const list = parseNumberList(v);
         if (list.some((n) => !Number.isFinite(n))) return 'Enter numbers separated by commas';

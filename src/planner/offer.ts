@@ -33,6 +33,8 @@ export type Offer =
       readonly sql: { readonly connection: string; readonly table?: string; readonly query?: string };
       readonly columns: readonly CatalogueColumn[];
       readonly description: string;
+      /** The levels of a column, counted by the server (for a trend test's order, a goodness of fit's proportions). */
+      readonly levels?: (column: string) => Promise<readonly string[]>;
     }
   | { readonly kind: 'nothing'; readonly description: string };
 

@@ -68,7 +68,7 @@ interface ColumnInfo {
 
 /** The data, once its shape is known. */
 type View =
-  | { readonly form: 'table'; readonly table: CountTable; readonly fromFile?: boolean }
+  | { readonly form: 'table'; readonly table: CountTable }
   | { readonly form: 'categories'; readonly counts: CategoryCounts; readonly expectation?: Readonly<Record<string, unknown>>; readonly labelColumn?: string; readonly countColumn?: string }
   | { readonly form: 'values'; readonly values: readonly number[] }
   | { readonly form: 'columns'; readonly columns: readonly ColumnInfo[]; readonly shape: Shape; readonly records?: Records }
@@ -178,7 +178,7 @@ function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): View {
       if (shape.kind !== 'raw') notes.push(shape.reason);
       if (shape.kind === 'counted-table') {
         const aggregate = aggregateRecords(records, { kind: 'counted-table' }, { description: offer.description });
-        if (aggregate.kind === 'table') return { form: 'table', table: aggregate.table, fromFile: offer.file !== undefined };
+        if (aggregate.kind === 'table') return { form: 'table', table: aggregate.table };
       }
       if (shape.kind === 'category-counts') {
         const aggregate = aggregateRecords(records, { kind: 'categories', column: shape.labelColumn, weight: shape.countColumn }, { description: offer.description });
@@ -212,7 +212,6 @@ export async function plan(request: PlanRequest): Promise<Plan> {
   if (test !== 'distribution' && test !== 'power') fields.alpha = settings.alpha;
   Object.assign(fields, proposal.preset);
   if (proposal.preset?.method !== undefined) answers.method = proposal.preset.method;
-  for (const k of Object.keys(proposal.preset ?? {})) if (given[k] !== undefined) fields[k] = given[k];
 
   // The data part of the spec.
   let data: DataFacts;
@@ -334,17 +333,22 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
 
   const source = offer.kind === 'records' && offer.file ? { path: relativePath(request.specFolder, offer.file.path) } : offer.kind === 'catalogue' ? { sql: offer.sql } : undefined;
   const decimal = columns.map((c) => view.columns.find((x) => x.name === c)?.profile?.decimal).find((d) => d === ',');
-  const hasSourceField = ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'paired', 'trend', 'post-hoc'].includes(proposal.test);
+  const sourceWith = () => ({ ...source, columns, ...(weight ? { weight } : {}), ...(decimal ? { decimal } : {}), ...(offer.kind === 'catalogue' && given.where ? { where: given.where } : {}) });
+  // A procedure whose field table has a `source` reads the file or the database itself when run.
+  const hasSourceField = procedureFor(proposal.test)?.fields.source !== undefined;
   const facts: { variable?: string } = { variable: columns[0] };
-  const levelsOf = (c: string): string[] | undefined => view.columns.find((x) => x.name === c)?.profile?.levels.map((l) => l.label);
+  const seenLevels = (c: string): string[] | undefined => view.columns.find((x) => x.name === c)?.profile?.levels.map((l) => l.label);
+  const serverLevels = offer.kind === 'catalogue' ? offer.levels : undefined;
+  // Levels for questions that list them: from the records, or counted by the database when it can.
+  const levelsOf = async (c: string): Promise<readonly string[] | undefined> => seenLevels(c) ?? (serverLevels ? serverLevels(c) : undefined);
 
   if (proposal.test === 'trend') {
     const givenOrder = (key: 'rowLabels' | 'columnLabels') => (Array.isArray(given[key]) ? (given[key] as string[]) : undefined);
-    const outcome = givenOrder('rowLabels') ?? (await askOrder(questions, levelsOf(columns[0]), `Outcome levels of \`${columns[0]}\`, the event first`, remembered.rowLabels));
-    const groups = givenOrder('columnLabels') ?? (await askOrder(questions, levelsOf(columns[1]), `Order of the groups of \`${columns[1]}\``, remembered.columnLabels));
+    const outcome = givenOrder('rowLabels') ?? (await askOrder(questions, await levelsOf(columns[0]), `Outcome levels of \`${columns[0]}\`, the event first`, remembered.rowLabels));
+    const groups = givenOrder('columnLabels') ?? (await askOrder(questions, await levelsOf(columns[1]), `Order of the groups of \`${columns[1]}\``, remembered.columnLabels));
     answers.rowLabels = outcome;
     answers.columnLabels = groups;
-    if (source && hasSourceField) return { fields: { source: { ...source, columns, ...(weight ? { weight } : {}) }, ...(outcome ? { rowLabels: outcome } : {}), ...(groups ? { columnLabels: groups } : {}) }, ...facts };
+    if (source && hasSourceField) return { fields: { source: sourceWith(), ...(outcome ? { rowLabels: outcome } : {}), ...(groups ? { columnLabels: groups } : {}) }, ...facts };
     const records = await allRecords(offer);
     const table = aggregateRecords(records, { kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight }, { description: offer.description, categories: { rowLevels: outcome, columnLevels: groups } });
     if (table.kind !== 'table') throw new Error('expected a table');
@@ -352,10 +356,10 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   }
   if (source && hasSourceField) {
     return {
-      fields: { source: { ...source, columns, ...(weight ? { weight } : {}), ...(decimal ? { decimal } : {}), ...(offer.kind === 'catalogue' && given.where ? { where: given.where } : {}) } },
-      levels: proposal.test === 'goodness-of-fit' && offer.kind === 'records' && offer.file?.complete ? levelsOf(columns[0]) : undefined,
-      rows: levelsOf(columns[0])?.length,
-      columns: columns[1] ? levelsOf(columns[1])?.length : undefined,
+      fields: { source: sourceWith() },
+      levels: proposal.test === 'goodness-of-fit' && ((offer.kind === 'records' && offer.file?.complete) || serverLevels) ? await levelsOf(columns[0]) : undefined,
+      rows: seenLevels(columns[0])?.length,
+      columns: columns[1] ? seenLevels(columns[1])?.length : undefined,
       ...facts,
     };
   }

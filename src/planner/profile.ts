@@ -127,19 +127,22 @@ export function inferShape(records: Records, profiles: readonly ColumnProfile[])
   return longCounts(records, profiles) ?? { kind: 'raw' };
 }
 
-/** Long counts: the categorical columns' combinations are all different and one column holds counts summing to more than the rows. */
+/**
+ * Long counts: every column but one is a category, their combinations each appear once, and the one left holds
+ * whole numbers summing to more than the rows. When two columns could be the count (a year 2019, 2020 beside
+ * the counts), the one with more different values is; a tie infers nothing.
+ */
 function longCounts(records: Records, profiles: readonly ColumnProfile[]): Shape | undefined {
-  const categorical = profiles.filter((p) => !p.numeric && !p.stray);
-  const countColumns = profiles.filter((p) => p.counts && p.total > records.rows.length);
-  if (categorical.length === 0 || countColumns.length !== 1) return undefined;
-  const index = categorical.map((p) => records.columns.indexOf(p.name));
-  const seen = new Set<string>();
-  for (const row of records.rows) {
-    const key = index.map((j) => row[j] ?? '').join('\u0000');
-    if (seen.has(key)) return undefined;
-    seen.add(key);
-  }
-  const weight = countColumns[0];
+  const fits = profiles
+    .filter((w) => w.counts && w.total > records.rows.length)
+    .filter((w) => {
+      const others = profiles.filter((p) => p !== w);
+      return others.length > 0 && others.every((p) => !p.stray && isCategorical(p)) && combinationsUnique(records, others);
+    })
+    .sort((a, b) => b.levels.length - a.levels.length);
+  if (fits.length === 0 || (fits.length > 1 && fits[0].levels.length === fits[1].levels.length)) return undefined;
+  const weight = fits[0];
+  const categorical = profiles.filter((p) => p !== weight);
   const names = categorical.map((p) => `\`${p.name}\``).join(' × ');
   return {
     kind: 'long-counts',
@@ -147,6 +150,17 @@ function longCounts(records: Records, profiles: readonly ColumnProfile[]): Shape
     weightColumn: weight.name,
     reason: `each combination of ${names} appears once and \`${weight.name}\` holds whole numbers (total ${grouped(weight.total)} over ${records.rows.length} rows), so \`${weight.name}\` is used as the frequency weight: each row stands for that many records`,
   };
+}
+
+function combinationsUnique(records: Records, columns: readonly ColumnProfile[]): boolean {
+  const index = columns.map((p) => records.columns.indexOf(p.name));
+  const seen = new Set<string>();
+  for (const row of records.rows) {
+    const key = index.map((j) => row[j] ?? '').join('\u0000');
+    if (seen.has(key)) return false;
+    seen.add(key);
+  }
+  return true;
 }
 
 /** Treated as categories: not numbers, or few distinct whole numbers (a coded category). */

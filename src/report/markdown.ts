@@ -71,7 +71,7 @@ export function withPlotLinks(markdown: string, plots: readonly { readonly link:
 export function markdownTable(header: readonly string[], rows: readonly (readonly string[])[], numericFrom = 1): string {
   const align = header.map((_, j) => (j >= numericFrom ? '---:' : '---'));
   const line = (cells: readonly string[]): string => `| ${cells.join(' | ')} |`;
-  return [line(header.map(escapeMarkdown)), line(align), ...rows.map((r) => line(r.map((c, j) => (j < numericFrom ? escapeMarkdown(c) : c))))].join('\n');
+  return [line(header.map((cell) => escapeMarkdown(cell))), line(align), ...rows.map((r) => line(r.map((c, j) => (j < numericFrom ? escapeMarkdown(c) : c))))].join('\n');
 }
 
 /** "+2.25", "-3.25": signed with ASCII signs (pasted markdown is read by other programs). */
@@ -128,7 +128,7 @@ export function testMarkdown(given: TestResult, options: ReportOptions = DEFAULT
   const { main, interval, rest } = mainIntervalAndEstimates(result);
   if (main) details.push(estimateText(main, options));
   if (interval) details.push(intervalText(interval, options));
-  parts.push(details.map(escapeMarkdown).join('; '));
+  parts.push(details.map((cell) => escapeMarkdown(cell)).join('; '));
   if (result.categories) parts.push(categoryTable(result.categories, options));
   if (result.grid) parts.push(gridTables(result.grid, options));
   const extra = [

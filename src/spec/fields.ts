@@ -28,6 +28,8 @@ export interface Field<T extends FieldType = FieldType> {
   readonly description: string;
   /** The field holds data (its canonical JSON is the fingerprint of inline data). */
   readonly data?: boolean;
+  /** The value a procedure uses when the field is absent (shown in the schema, pre-filled in the editor's questions). */
+  readonly default?: unknown;
 }
 
 export interface SpecProblem {
@@ -56,6 +58,9 @@ export const obj = <P extends Readonly<Record<string, Field>>, const R extends r
   o: { required?: R; additional?: A } = {},
 ) => ({ kind: 'object' as const, properties, ...(o as { required?: R; additional?: A }) });
 export const field = <T extends FieldType>(type: T, description: string, data?: boolean): Field<T> => (data ? { type, description, data } : { type, description });
+
+/** The same field with the value used when it is absent; the value is typed by the field. */
+export const withDefault = <T extends FieldType>(f: Field<T>, value: ValueOf<T>): Field<T> => ({ ...f, default: value });
 
 /** The TypeScript type of a value that a field type accepts. */
 export type ValueOf<T> = [FieldType] extends [T] ? unknown : KnownValueOf<T>;

@@ -9,7 +9,7 @@ import { COMMON_FIELDS, PROCEDURES } from './procedures/index';
 export function buildSpecSchema(): Record<string, unknown> {
   // Every field of every test, for completions and hovers; each test then restricts the names it allows.
   const properties: Record<string, unknown> = {};
-  for (const [name, f] of Object.entries(COMMON_FIELDS)) properties[name] = toJsonSchema(f.type, f.description);
+  for (const [name, f] of Object.entries(COMMON_FIELDS)) properties[name] = { ...toJsonSchema(f.type, f.description), ...(f.default !== undefined ? { default: f.default } : {}) };
   properties.version = { ...toJsonSchema(COMMON_FIELDS.version.type, COMMON_FIELDS.version.description), const: 1 };
   properties.test = {
     description: COMMON_FIELDS.test.description,
@@ -24,6 +24,10 @@ export function buildSpecSchema(): Record<string, unknown> {
     const description = `${owners[0].fields[name].description} (${owners.map((o) => o.test).join(', ')})`;
     // A field whose type differs between tests (source columns, say) is typed in each test's rule only.
     properties[name] = shapes.size === 1 ? toJsonSchema(owners[0].fields[name].type, description) : { description };
+    // The default is shown where every test that has the field uses the same one.
+    const defaults = new Set(owners.map((o) => JSON.stringify(o.fields[name].default)));
+    const only = owners[0].fields[name].default;
+    if (defaults.size === 1 && only !== undefined) properties[name] = { ...(properties[name] as object), default: only };
   }
   return {
     $schema: 'http://json-schema.org/draft-07/schema#',

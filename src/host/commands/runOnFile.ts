@@ -1,22 +1,25 @@
-// "Test This Data File…": explorer or editor on a CSV/TSV/JSON file. The data layer reads the file's first
-// records (a JSON file whole); the one wizard does the rest.
+// "Test This Data File…": explorer or editor on a data file. The file's reader in the reader table
+// (src/data/readers.ts) shows it to the planner (a delimited file's first records, a JSON file whole); the
+// one wizard does the rest.
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { readDelimitedPreview, readDelimitedRecords } from '../../data/preview';
+import { fileReaderFor } from '../../data/readers';
 import { isInstance } from '../../errors';
-import { offerFromText, type Offer } from '../../planner/offer';
+import type { Offer } from '../../planner/offer';
 import type { Answers } from '../../planner/plan';
 import type { Services } from '../services';
 import { runWizard } from '../wizard';
 
-async function offerForFile(file: string, name: string, documentUri: string): Promise<Offer> {
-  if (/\.json$/i.test(file)) {
-    // A JSON data file is small by nature: read it whole.
-    const text = Buffer.from(await vscode.workspace.fs.readFile(vscode.Uri.parse(documentUri))).toString('utf8');
-    return offerFromText(text, { file, description: name });
-  }
-  const { records, complete } = await readDelimitedPreview(file, name);
-  return { kind: 'records', records, description: name, file: { path: file, complete, readAll: () => readDelimitedRecords(file, name) } };
+/** The file as its reader in the reader table shows it to the planner. */
+async function offerForFile(file: string, name: string): Promise<Offer> {
+  const reader = fileReaderFor(file);
+  const { data, complete } = await reader.view(file, name, false);
+  if (data.kind !== 'records') return { kind: 'counted', data, description: name };
+  const readAll = async () => {
+    const all = await reader.view(file, name, true);
+    return all.data.kind === 'records' ? all.data.records : data.records;
+  };
+  return { kind: 'records', records: data.records, description: name, file: { path: file, complete, readAll } };
 }
 
 export async function runOnFile(services: Services, uri?: vscode.Uri, answers: Answers = {}): Promise<void> {
@@ -28,7 +31,7 @@ export async function runOnFile(services: Services, uri?: vscode.Uri, answers: A
   const name = vscode.workspace.asRelativePath(target);
   let offer: Offer;
   try {
-    offer = await offerForFile(target.fsPath, name, target.toString());
+    offer = await offerForFile(target.fsPath, name);
   } catch (e) {
     await services.reportError(e);
     return;

@@ -5,7 +5,7 @@
 import { InputError } from '../../errors';
 import { distributionFitTest } from '../../stats/distfit';
 import type { TestResult } from '../../stats/result';
-import { arr, field, num, str, type SpecProblem } from '../fields';
+import { arr, field, num, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
 import { aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
@@ -28,7 +28,7 @@ export const distributionFitProcedure = defineProcedure({
     family: field(str({ enum: ['poisson', 'binomial', 'geometric', 'normal'] }), 'Distribution family. The geometric counts failures before the first success (0, 1, 2, …).'),
     trials: field(num({ integer: true, min: 1 }), 'Number of trials of the binomial (required for "binomial").'),
     cuts: field(arr(num(), { minItems: 1 }), 'Cut points between bins for the normal (increasing). Default: equiprobable bins under the fitted normal.'),
-    minExpected: field(num({ exclusiveMin: 0 }), 'Adjacent bins are pooled until each expected count reaches this. Default 5 (common practice).'),
+    minExpected: withDefault(field(num({ exclusiveMin: 0 }), 'Adjacent bins are pooled until each expected count reaches this. Default 5 (common practice).'), 5),
   },
   validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];

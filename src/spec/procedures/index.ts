@@ -3,13 +3,15 @@
  *
  * ## Adding a procedure (the handler contract)
  *
- * Write one file in this folder that exports a `ProcedureHandler`, and add it to `PROCEDURES` below.
+ * Write one file in this folder that exports `defineProcedure({ … })`, and add it to `PROCEDURES` below.
+ * `validate` and `run` then receive the saved test typed by the file's own field table (`SpecOf<fields>`):
+ * an enumerated field arrives as its union of strings, an array of counts as `readonly number[]`, no casts.
  *
  * - `test`: the value of `"test"` in the spec, e.g. "paired". Stable: users' pipelines rely on it.
  * - `summary`: one sentence; it becomes the description of this test in the JSON Schema.
  * - `fields`: every field this test accepts besides the common ones (`COMMON_FIELDS`: version, test,
  *   title, description, alpha, recorded). Each is a `Field` (src/spec/fields.ts): a type, a description for
- *   hovers, and `data: true` when the field holds data (the canonical JSON of the data fields is the
+ *   hovers, an optional default (`withDefault`, shown in the schema and pre-filled in questions), and `data: true` when the field holds data (the canonical JSON of the data fields is the
  *   fingerprint that tells a reviewer whether inline data changed). Reuse the shared fields in ./shared.ts
  *   (ALPHA, CONFIDENCE, STATISTIC, METHOD, `sourceField(...)`…) so an option means the same in every test.
  *   Type checking, unknown-field errors and the JSON Schema all come from this table; the unit test

@@ -4,7 +4,7 @@
  */
 import { postHocTest } from '../../stats/posthoc';
 import type { TestResult } from '../../stats/result';
-import { arr, field, str, type SpecProblem } from '../fields';
+import { arr, field, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
 import { COUNT_ARRAY, LABELS, checkSourceColumns, requireLength, requireOneOf, sourceField, tableFromSource } from './shared';
@@ -27,8 +27,8 @@ export const postHocProcedure = defineProcedure({
     source: sourceField('Two categorical columns to cross-tabulate (rows, then columns); leave out for a file that already holds the table.', 0, 2),
     rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
     columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),
-    compare: field(str({ enum: ['cells', 'rows', 'columns'] }), 'What to compare: "cells" (adjusted residual per cell, default), "rows" or "columns" (each pair by a chi-square test).'),
-    adjustment: field(str({ enum: ['holm', 'bonferroni', 'benjamini-hochberg'] }), 'Multiplicity adjustment of the p-values. Default "holm".'),
+    compare: withDefault(field(str({ enum: ['cells', 'rows', 'columns'] }), 'What to compare: "cells" (adjusted residual per cell, default), "rows" or "columns" (each pair by a chi-square test).'), 'cells'),
+    adjustment: withDefault(field(str({ enum: ['holm', 'bonferroni', 'benjamini-hochberg'] }), 'Multiplicity adjustment of the p-values. Default "holm".'), 'holm'),
   },
   validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];

@@ -4,21 +4,21 @@
  */
 import { InputError } from '../../errors';
 import type { Aggregate, CountTable } from '../../data/types';
-import { arr, bool, field, nul, num, obj, oneOf, str, type SpecProblem, type ValueOf } from '../fields';
+import { arr, bool, field, nul, num, obj, oneOf, str, withDefault, type SpecProblem, type ValueOf } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 
-export const ALPHA = field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Significance level for the conclusion. Default 0.05.');
-export const CONFIDENCE = field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Confidence level of the intervals, e.g. 0.95 (the default).');
-export const ALTERNATIVE = field(str({ enum: ['two-sided', 'greater', 'less'] }), 'Alternative hypothesis. Default "two-sided".');
-export const STATISTIC = field(
-  str({ enum: ['pearson', 'likelihood-ratio', 'cressie-read'] }),
-  'Main statistic: Pearson X² (default), likelihood-ratio G², or the Cressie–Read power divergence with "lambda".',
+export const ALPHA = withDefault(field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Significance level for the conclusion. Default 0.05.'), 0.05);
+export const CONFIDENCE = withDefault(field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Confidence level of the intervals, e.g. 0.95 (the default).'), 0.95);
+export const ALTERNATIVE = withDefault(field(str({ enum: ['two-sided', 'greater', 'less'] }), 'Alternative hypothesis. Default "two-sided".'), 'two-sided');
+export const STATISTIC = withDefault(
+  field(str({ enum: ['pearson', 'likelihood-ratio', 'cressie-read'] }), 'Main statistic: Pearson X² (default), likelihood-ratio G², or the Cressie–Read power divergence with "lambda".'),
+  'pearson',
 );
 export const LAMBDA = field(num(), 'λ of the Cressie–Read power divergence (with "statistic": "cressie-read"). Default 2/3.');
-export const METHOD = field(
-  str({ enum: ['asymptotic', 'exact', 'monte-carlo'] }),
-  'How the p-value is computed: "asymptotic" (the chi-square approximation, default), "exact", or "monte-carlo" (with "resamples" and "seed").',
+export const METHOD = withDefault(
+  field(str({ enum: ['asymptotic', 'exact', 'monte-carlo'] }), 'How the p-value is computed: "asymptotic" (the chi-square approximation, default), "exact", or "monte-carlo" (with "resamples" and "seed").'),
+  'asymptotic',
 );
 export const RESAMPLES = field(num({ integer: true, min: 1 }), 'Number of Monte Carlo resamples (with "method": "monte-carlo").');
 export const SEED = field(num({ integer: true, min: 0 }), 'Seed of the Monte Carlo random stream, so that the p-value is reproducible.');

@@ -64,6 +64,8 @@ describe('shape inference on the demo files', () => {
     const k = asked.choices!.indexOf('minutes');
     assert.ok(k >= 0, `minutes is offered: ${asked.choices}`);
     assert.match(asked.details![k]!, /except 1 cell that is not \(first on line 5: "pending"\)/);
+    // Chosen anyway, the stray cell stops the run with its place, rather than being dropped.
+    await refusal(() => planAndRun(offer, { 'Hypothesised standard deviation σ0': '1', 'Alternative hypothesis': 'σ differs from σ0' }, { test: 'variance', columns: ['minutes'] }), 'not-a-number', /line 5.*pending/);
   });
 
   it('refuses in words a result where N equals the number of rows and every cell is 1', async () => {
@@ -117,5 +119,18 @@ describe('number recognition in column profiles', () => {
     assert.equal(inferShape(records, profileColumns(records, [])).kind, 'long-counts');
     const repeated = parseDelimited('area,purpose,riders\nA,commute,3\nA,commute,4\nB,commute,5\nB,errand,6\n');
     assert.equal(inferShape(repeated, profileColumns(repeated, [])).kind, 'raw');
+  });
+
+  it('takes a year column as a category beside the count column, which has more different values', () => {
+    const records = parseDelimited('year,region,count\n2019,N,10\n2019,S,12\n2020,N,9\n2020,S,15\n');
+    const shape = inferShape(records, profileColumns(records, []));
+    assert.equal(shape.kind, 'long-counts');
+    assert.equal(shape.kind === 'long-counts' && shape.weightColumn, 'count');
+    assert.deepEqual(shape.kind === 'long-counts' && shape.categoryColumns, ['year', 'region']);
+  });
+
+  it('infers no weight when a measurement sits beside the categories', () => {
+    const records = parseDelimited(`dock,hour,minutes\n${Array.from({ length: 20 }, (_, i) => `D${i},${i % 24},${(10 + i * 1.37).toFixed(2)}`).join('\n')}\n`);
+    assert.notEqual(inferShape(records, profileColumns(records, [])).kind, 'long-counts');
   });
 });

@@ -60,6 +60,27 @@ describe('the planner reaches every procedure', () => {
     }
   }
 
+  it('from a database catalogue: procedures that read a source get a SQL source, trend its level orders from the server; stratified is not offered', async () => {
+    const offer: Offer = {
+      kind: 'catalogue',
+      sql: { connection: 'bakery', table: 'public.trays' },
+      columns: [{ name: 'shift', type: 'text', numeric: false }, { name: 'oven', type: 'text', numeric: false }, { name: 'defect', type: 'text', numeric: false }, { name: 'weight_g', type: 'double precision', numeric: true }],
+      description: 'bakery: public.trays',
+      levels: async (column) => (column === 'shift' ? ['early', 'late'] : ['A', 'B', 'C']),
+    };
+    const listing = new ScriptedQuestions({ 'Which test?': false });
+    await assert.rejects(plan({ offer, questions: listing, settings, specFolder: demo }));
+    assert.ok(!listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string), 'stratified keeps its counts inline, which a database cannot');
+    for (const test of ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'post-hoc', 'trend', 'paired']) {
+      const planned = await plan({ offer, questions: new ScriptedQuestions({ ...SCRIPTS[test], 'Which test?': SCRIPTS[test]['Which test?'] }), settings, specFolder: demo, given: { where: "shift = 'late'" } });
+      assertValidSpec(planned.spec);
+      const source = planned.spec.source as { sql: unknown; where?: string };
+      assert.deepEqual(source.sql, offer.sql, test);
+      assert.equal(source.where, "shift = 'late'", test);
+      if (test === 'trend') assert.deepEqual([planned.spec.rowLabels, planned.spec.columnLabels], [['early', 'late'], ['A', 'B', 'C']]);
+    }
+  });
+
   it('power and distribution from the palette (no data)', async () => {
     for (const test of ['power', 'distribution']) {
       const { planned } = await planAndRun({ kind: 'nothing', description: 'palette' }, { ...SCRIPTS[test] });

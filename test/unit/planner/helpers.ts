@@ -2,6 +2,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { aggregateFile } from '../../../src/data/file';
+import { fileReaderFor } from '../../../src/data/readers';
 import { parseDelimited } from '../../../src/data/delimited';
 import type { Offer } from '../../../src/planner/offer';
 import { plan, type Answers, type PlanSettings } from '../../../src/planner/plan';
@@ -14,7 +15,15 @@ export const demo = join(__dirname, '..', '..', '..', 'demo');
 export const settings: PlanSettings = { alpha: 0.05, correction: false, missingValues: ['', 'NA', 'NaN', 'null', '-'], monteCarloResamples: 2000 };
 export const readers: SpecReaders = { aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }) };
 
-/** The offer the editor makes for a whole (small) demo file. */
+/** The offer the editor makes for a demo file: what the file's reader in the reader table shows the planner. */
+export async function fileOfferAt(file: string, description: string): Promise<Offer> {
+  const reader = fileReaderFor(file);
+  const { data, complete } = await reader.view(file, description, false);
+  if (data.kind !== 'records') return { kind: 'counted', data, description };
+  return { kind: 'records', records: data.records, description, file: { path: file, complete } };
+}
+
+/** The offer for a small demo CSV file, read whole. */
 export function fileOffer(name: string): Offer {
   const file = join(demo, 'data', name);
   return { kind: 'records', records: parseDelimited(readFileSync(file, 'utf8'), { file }), description: `data/${name}`, file: { path: file, complete: true } };
