@@ -156,8 +156,7 @@ async function session({ name, theme, scheme }) {
 
     await check(`${name}: the bottling example's headline names the failed assumption and its robust bound`, async () => {
       await quickOpen(page, 'bottling-fill-spread.countercheck.json');
-      await palette(page, 'Countercheck: Run a Saved Test');
-      await answer(page, 'bottling-fill-spread');
+      await palette(page, 'Countercheck: Open the Result of This Saved Test');
       await waitForPanel(page, /“fill_ml”/);
       const assumption = await panelFrame(page).locator('#headline-assumption').textContent();
       if (!/Normality is doubtful here.*only just excludes σ0 = 1\.250/.test(assumption ?? '')) throw new Error(`headline assumption "${assumption}"`);
@@ -242,8 +241,7 @@ async function session({ name, theme, scheme }) {
 
       await check(`${name}: the power plan shows its curve and neither assumptions nor the significance caution`, async () => {
         await quickOpen(page, 'cask-spread-power.countercheck.json');
-        await palette(page, 'Countercheck: Run a Saved Test');
-        await answer(page, 'cask-spread-power');
+        await palette(page, 'Countercheck: Open the Result of This Saved Test');
         await waitForPanel(page, /Power 0\.669/);
         const curve = await panelFrame(page).locator('figure.power-curve svg polyline.power').count();
         if (curve !== 1) throw new Error('no power curve');

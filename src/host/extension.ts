@@ -54,7 +54,11 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
   command(COMMANDS.rerunAndCompare, (uri?: vscode.Uri) => rerunAndCompare(services, uri));
   command(COMMANDS.refreshAllBlocks, (uri?: vscode.Uri) => refreshBlocks(services, uri));
   command(COMMANDS.refreshBlock, (uri: vscode.Uri, index: number) => refreshBlocks(services, uri, index));
-  command(COMMANDS.openSpecResult, (uri: vscode.Uri) => openSpecResult(services, uri));
+  command(COMMANDS.openSpecResult, (uri?: vscode.Uri) => {
+    // From the palette there is no argument: the spec in the active editor.
+    const target = isInstance(uri, vscode.Uri) ? uri : vscode.window.activeTextEditor?.document.uri;
+    return target ? openSpecResult(services, target) : runSavedSpec(services);
+  });
   // The Getting Started walkthrough's sample: the demo bakery log shipped in the extension.
   command(COMMANDS.openSampleData, () => vscode.window.showTextDocument(vscode.Uri.joinPath(context.extensionUri, 'media', 'walkthrough', 'bakery-defects.csv')));
   registerSqlCommands(context, services);

@@ -45,7 +45,10 @@ export function parseLookupNumber(text: string, what: 'df' | 'x' | 'p'): number 
  * virtual, so every lookup shares one panel and every unsaved run on a data file shares one), else the
  * description of where the data came from.
  */
-export function sourceKey(payload: { readonly origin?: { readonly specPath: string; readonly documentUri?: string }; readonly sourceDescription: string }): string {
-  if (payload.origin) return `${payload.origin.documentUri ?? ''}|${payload.origin.specPath}`;
+export function sourceKey(payload: { readonly origin?: { readonly specPath: string; readonly documentUri?: string; readonly spec?: Readonly<Record<string, unknown>> }; readonly sourceDescription: string }): string {
+  // Unsaved runs share a virtual spec path per folder: the data source tells them apart.
+  const source = payload.origin?.spec?.source as { path?: unknown; sql?: unknown } | undefined;
+  const data = source ? JSON.stringify(source.path ?? source.sql ?? null) : '';
+  if (payload.origin) return `${payload.origin.documentUri ?? ''}|${payload.origin.specPath}|${data}`;
   return `description|${payload.sourceDescription}`;
 }

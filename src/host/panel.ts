@@ -114,6 +114,9 @@ export class PanelManager implements vscode.WebviewPanelSerializer<PanelState> {
 
   show(payload: PanelPayload, reuse?: ResultPanel): ResultPanel {
     if (reuse && !reuse.isDisposed) {
+      // A hidden panel's webview is gone (no retained context) and would drop the message: its page is
+      // rebuilt with the new result as the initial state, which the webview prefers to an older saved one.
+      if (!reuse.panel.visible) reuse.panel.webview.html = panelHtml(reuse.panel.webview, this.extensionUri, { payload });
       reuse.update(payload);
       reuse.panel.reveal(undefined, true);
       return reuse;

@@ -237,16 +237,18 @@ window.addEventListener('message', (event: MessageEvent<HostToWebview>) => {
   }
 });
 
+/** The saved state after a reload, unless the page was rebuilt with a newer result (a hidden panel reused). */
 function initialPayload(): PanelPayload | undefined {
   const fromState = vscode.getState()?.payload;
-  if (fromState) return fromState;
+  let fromPage: PanelPayload | undefined;
   const data = root.getAttribute('data-initial');
-  if (!data) return undefined;
   try {
-    return (JSON.parse(data) as PanelState).payload;
+    fromPage = data ? (JSON.parse(data) as PanelState).payload : undefined;
   } catch {
-    return undefined;
+    fromPage = undefined;
   }
+  if (fromState && fromPage) return fromPage.computedAt > fromState.computedAt ? fromPage : fromState;
+  return fromState ?? fromPage;
 }
 
 const initial = initialPayload();

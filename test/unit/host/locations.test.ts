@@ -25,6 +25,10 @@ describe('host locations and answers', () => {
     const lookup = (n: number) => ({ origin: { specPath: '/ws/untitled.countercheck.json' }, sourceDescription: `lookup ${n}` });
     assert.equal(sourceKey(lookup(1)), sourceKey(lookup(2)));
     assert.notEqual(sourceKey({ origin: { specPath: '/ws/a.countercheck.json' }, sourceDescription: 'x' }), sourceKey({ origin: { specPath: '/ws/b.countercheck.json' }, sourceDescription: 'x' }));
+    // Unsaved runs in one folder share the virtual spec path; their data files tell them apart.
+    const unsaved = (file: string) => ({ origin: { specPath: '/ws/data/untitled.countercheck.json', spec: { source: { path: file } } }, sourceDescription: file });
+    assert.notEqual(sourceKey(unsaved('oven.csv')), sourceKey(unsaved('bike.csv')));
+    assert.equal(sourceKey(unsaved('bike.csv')), sourceKey(unsaved('bike.csv')));
     assert.notEqual(sourceKey({ origin: { specPath: '/ws/s.countercheck.json', documentUri: 'file:///a.md' }, sourceDescription: '' }), sourceKey({ origin: { specPath: '/ws/s.countercheck.json', documentUri: 'file:///b.md' }, sourceDescription: '' }));
   });
 
