@@ -7,12 +7,13 @@
 import * as path from 'node:path';
 import { aggregateRecords } from '../data/aggregate';
 import type { Records } from '../data/records';
-import type { AggregateRequest, CategoryCounts, CountTable } from '../data/types';
 import { InputError } from '../errors';
 import { askField, parseNumberList } from './ask';
+import { checkCategoryColumns, checkNotOnePerRow } from './guards';
+import { inlineFromRecords } from './inline';
 import type { Offer } from './offer';
-import { describeColumn, inferShape, isCategorical, isMeasurement, profileColumns, type ColumnProfile, type Shape } from './profile';
 import type { Choice, Questions } from './questions';
+import { describeView, sum, viewOf, type ColumnInfo, type DataFacts, type Role, type View } from './view';
 import { PROCEDURES, procedureFor, type DataShape } from '../spec/procedures/index';
 
 /** Answers given beforehand (keybindings, tests) or remembered from the last run on the same source. */
@@ -55,26 +56,6 @@ export interface Plan {
   /** What was inferred and why ("`riders` is used as the frequency weight: …"), for the output log. */
   readonly notes: readonly string[];
 }
-
-/** A column as the planner sees it, from a file's records or a database catalogue. */
-interface ColumnInfo {
-  readonly name: string;
-  readonly categorical: boolean;
-  readonly measurement: boolean;
-  readonly detail: string;
-  readonly description: string;
-  readonly profile?: ColumnProfile;
-}
-
-/** The data, once its shape is known. */
-type View =
-  | { readonly form: 'table'; readonly table: CountTable }
-  | { readonly form: 'categories'; readonly counts: CategoryCounts; readonly expectation?: Readonly<Record<string, unknown>>; readonly labelColumn?: string; readonly countColumn?: string }
-  | { readonly form: 'values'; readonly values: readonly number[] }
-  | { readonly form: 'columns'; readonly columns: readonly ColumnInfo[]; readonly shape: Shape; readonly records?: Records }
-  | { readonly form: 'nothing' };
-
-type Role = { readonly name: string; readonly kind: 'categorical' | 'measurement' };
 
 /** One line of the "Which test?" list. */
 interface Proposal {
@@ -142,56 +123,6 @@ function relativePath(specFolder: string, file: string): string {
   return path.relative(specFolder, file).split(path.sep).join('/');
 }
 
-function columnInfo(p: ColumnProfile, weight: string | undefined): ColumnInfo {
-  return {
-    name: p.name,
-    categorical: isCategorical(p) && p.name !== weight,
-    measurement: isMeasurement(p),
-    description: p.stray ? 'numbers, with stray cells' : p.numeric ? 'numbers' : 'categories',
-    detail: p.name === weight ? `frequency weight: ${describeColumn(p)}` : describeColumn(p),
-    profile: p,
-  };
-}
-
-/** The offer read into a view: its shape inferred, with notes saying what was inferred and why. */
-function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): View {
-  switch (offer.kind) {
-    case 'nothing':
-      return { form: 'nothing' };
-    case 'counted': {
-      const d = offer.data;
-      if (d.kind === 'table') return { form: 'table', table: d.table };
-      if (d.kind === 'values') return { form: 'values', values: d.values };
-      const expectation = d.proportions ? { proportions: d.proportions } : d.ratios ? { ratios: d.ratios } : d.expected ? { expected: d.expected } : undefined;
-      return { form: 'categories', counts: d.counts, expectation };
-    }
-    case 'catalogue':
-      return {
-        form: 'columns',
-        shape: { kind: 'raw' },
-        columns: offer.columns.map((c) => ({ name: c.name, categorical: true, measurement: c.numeric, description: c.type, detail: c.numeric ? 'numbers (server type)' : 'categories (server type)' })),
-      };
-    case 'records': {
-      const records = offer.records;
-      const profiles = profileColumns(records, settings.missingValues);
-      const shape = inferShape(records, profiles);
-      if (shape.kind !== 'raw') notes.push(shape.reason);
-      if (shape.kind === 'counted-table') {
-        const aggregate = aggregateRecords(records, { kind: 'counted-table' }, { description: offer.description });
-        if (aggregate.kind === 'table') return { form: 'table', table: aggregate.table };
-      }
-      if (shape.kind === 'category-counts') {
-        const aggregate = aggregateRecords(records, { kind: 'categories', column: shape.labelColumn, weight: shape.countColumn }, { description: offer.description });
-        if (aggregate.kind === 'categories') return { form: 'categories', counts: aggregate.counts, labelColumn: shape.labelColumn, countColumn: shape.countColumn };
-      }
-      const weight = shape.kind === 'long-counts' ? shape.weightColumn : undefined;
-      return { form: 'columns', shape, records, columns: profiles.map((p) => columnInfo(p, weight)) };
-    }
-  }
-}
-
-const sum = (xs: readonly number[]): number => xs.reduce((a, b) => a + b, 0);
-
 /** Plans one saved test for the offer: proposes, asks, checks, builds. */
 export async function plan(request: PlanRequest): Promise<Plan> {
   const { offer, questions, settings } = request;
@@ -252,36 +183,6 @@ async function chooseProposal(proposals: readonly Proposal[], given: Answers, re
     choices,
     remembered: (p) => p.test === remembered.test && !p.preset === (remembered.method === undefined),
   });
-}
-
-function describeView(view: View): string {
-  switch (view.form) {
-    case 'table':
-      return `a ${view.table.rowLabels.length}×${view.table.columnLabels.length} table of counts, N = ${sum(view.table.counts.map((r) => sum(r))).toLocaleString('en-US')}`;
-    case 'categories':
-      return `${view.counts.labels.length} category counts, N = ${sum(view.counts.counts).toLocaleString('en-US')}`;
-    case 'values':
-      return `${view.values.length} values`;
-    case 'columns':
-      return `${view.columns.length} columns${view.shape.kind === 'long-counts' ? `, weighted by \`${view.shape.weightColumn}\`` : ''}`;
-    case 'nothing':
-      return 'no data';
-  }
-}
-
-/** What the planner knows about the data a test will see, for defaults of its options. */
-interface DataFacts {
-  readonly fields: Record<string, unknown>;
-  /** Levels of a goodness-of-fit variable, when known. */
-  readonly levels?: readonly string[];
-  /** The table's size, when known. */
-  readonly rows?: number;
-  readonly columns?: number;
-  readonly n?: number;
-  /** The expectation is part of the data already (a JSON block with proportions). */
-  readonly hasExpectation?: boolean;
-  /** Variable name for prompts ("σ0 in the units of `weight_g`"). */
-  readonly variable?: string;
 }
 
 /** Data already counted, or values: inline fields for the test. */
@@ -375,54 +276,6 @@ async function allRecords(offer: Offer): Promise<Records> {
   return offer.file.readAll();
 }
 
-/** Counts from records held in memory, written inline into the spec. */
-function inlineFromRecords(records: Records, test: string, columns: readonly string[], weight: string | undefined, description: string): DataFacts {
-  const read = (req: AggregateRequest, levels?: { rowLevels?: readonly string[]; columnLevels?: readonly string[] }) =>
-    aggregateRecords(records, req, { description, keepValues: true, ...(levels ? { categories: levels } : {}) });
-  switch (test) {
-    case 'goodness-of-fit': {
-      const a = read({ kind: 'categories', column: columns[0], weight });
-      if (a.kind !== 'categories') break;
-      return { fields: { observed: a.counts.counts, categories: a.counts.labels, variable: columns[0] }, levels: a.counts.labels, n: sum(a.counts.counts) };
-    }
-    case 'variance':
-    case 'distribution-fit': {
-      const a = read({ kind: 'numeric', column: columns[0] });
-      if (a.kind !== 'moments' || !a.values) break;
-      return { fields: { values: a.values, ...(test === 'variance' ? { variable: columns[0] } : {}) }, n: a.values.length };
-    }
-    case 'paired': {
-      const a = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight });
-      if (a.kind !== 'table') break;
-      const labels = [...a.table.rowLabels, ...a.table.columnLabels.filter((l) => !a.table.rowLabels.includes(l))];
-      const square = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight }, { rowLevels: labels, columnLevels: labels });
-      if (square.kind !== 'table') break;
-      return { fields: { table: square.table.counts, rowLabels: square.table.rowLabels, columnLabels: square.table.columnLabels } };
-    }
-    case 'stratified': {
-      const [stratum, row, column] = columns;
-      const all = read({ kind: 'crosstab', rowColumn: row, columnColumn: column, weight });
-      const strata = read({ kind: 'categories', column: stratum });
-      if (all.kind !== 'table' || strata.kind !== 'categories') break;
-      const j = records.columns.indexOf(stratum);
-      const tables = strata.counts.labels.map((level) => {
-        const subset: Records = { ...records, rows: records.rows.filter((r) => (r[j] ?? '').trim() === level), lines: records.lines.filter((_, i) => (records.rows[i][j] ?? '').trim() === level) };
-        const t = aggregateRecords(subset, { kind: 'crosstab', rowColumn: row, columnColumn: column, weight }, { description, categories: { rowLevels: all.table.rowLabels, columnLevels: all.table.columnLabels } });
-        return t.kind === 'table' ? t.table.counts : [];
-      });
-      return { fields: { strata: tables, stratumLabels: strata.counts.labels, rowLabels: all.table.rowLabels, columnLabels: all.table.columnLabels, rowVariable: row, columnVariable: column } };
-    }
-    default: {
-      const a = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight });
-      if (a.kind !== 'table') break;
-      const t = a.table;
-      const extra = test === 'independence' ? { rowVariable: columns[0], columnVariable: columns[1] } : {};
-      return { fields: { table: t.counts, rowLabels: t.rowLabels, columnLabels: t.columnLabels, ...extra }, rows: t.rowLabels.length, columns: t.columnLabels.length, n: sum(t.counts.map((r) => sum(r))) };
-    }
-  }
-  throw new Error(`records did not aggregate for ${test}`);
-}
-
 async function chooseColumns(questions: Questions, columns: readonly ColumnInfo[], roles: readonly Role[], title: string, remembered: readonly string[] | undefined): Promise<string[]> {
   const chosen: string[] = [];
   for (const [k, role] of roles.entries()) {
@@ -453,54 +306,6 @@ async function askOrder(questions: Questions, levels: readonly string[] | undefi
     choices: orders.map((o) => ({ label: o.join(' < '), value: o })),
     remembered: (o) => Array.isArray(remembered) && o.join('\u0000') === remembered.join('\u0000'),
   });
-}
-
-/** A categorical role given a column of measurements, or a count column, is refused or confirmed in words. */
-async function checkCategoryColumns(view: Extract<View, { form: 'columns' }>, roles: readonly Role[], columns: readonly string[], weight: string | undefined, questions: Questions): Promise<void> {
-  for (const [k, role] of roles.entries()) {
-    if (role.kind !== 'categorical') continue;
-    const info = view.columns.find((c) => c.name === columns[k]);
-    const p = info?.profile;
-    if (!p) continue;
-    if (p.numeric && p.levels.length > 12) {
-      throw new InputError(
-        `column \`${p.name}\` holds numbers with ${p.levels.length} different values; as a category each value would be a level of its own. Choose a categorical column for ${role.name}, or test the numbers themselves (variance, distribution fit)`,
-        { column: p.name },
-        'numeric-as-category',
-      );
-    }
-    // Small whole numbers repeated across rows are coded categories (a dose 1, 2, 3); the column the shape
-    // took for the frequency weight is not, and saying so is worth a question.
-    const looksLikeCounts = view.shape.kind === 'long-counts' && view.shape.weightColumn === p.name;
-    if (looksLikeCounts && weight === undefined) {
-      const go = await questions.confirm({
-        title: 'A numeric column as a category',
-        message: `\`${p.name}\` holds whole numbers (total ${p.total.toLocaleString('en-US')} over ${p.present} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?`,
-        accept: 'Use as a category',
-      });
-      if (!go) throw new InputError(`stopped: \`${p.name}\` looks like a count column, not a category`, { column: p.name }, 'numeric-as-category');
-    }
-  }
-}
-
-/**
- * Refuses the misread that gives N = number of rows with every cell 1: each row was counted once, so the rows
- * were already counts (or labels), and any test on that table would be meaningless.
- */
-function checkNotOnePerRow(records: Records, columns: readonly string[], weight: string | undefined, test: string, infos: readonly ColumnInfo[], description: string): void {
-  if (weight !== undefined || records.rows.length < 2) return;
-  const request: AggregateRequest = columns.length === 1 ? { kind: 'categories', column: columns[0] } : { kind: 'crosstab', rowColumn: columns[columns.length - 2], columnColumn: columns[columns.length - 1] };
-  const a = aggregateRecords(records, request, { description });
-  const cells = a.kind === 'table' ? a.table.counts.flat() : a.kind === 'categories' ? [...a.counts.counts] : [];
-  const n = sum(cells);
-  if (n !== records.rows.length || !cells.every((c) => c === 0 || c === 1)) return;
-  const counts = infos.filter((c) => c.profile?.counts && !columns.includes(c.name)).map((c) => `\`${c.name}\``);
-  const hint = counts.length ? ` If ${counts.join(' or ')} holds how many times each row occurred, use it as the weight.` : ' Choose columns whose values repeat across rows, or give the counts as a table.';
-  throw new InputError(
-    `${test}: every row of ${description} would count once and every cell would be 1 (N = ${n}, the number of rows): the chosen columns label rows rather than classify observations, and the result would be meaningless.${hint}`,
-    { file: records.file },
-    'one-per-row',
-  );
 }
 
 /**

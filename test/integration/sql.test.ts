@@ -205,6 +205,20 @@ describe('database command on a live PostgreSQL server', function () {
     closeTo(r.statistic, inline.statistic, 1e-9 * inline.statistic, 'X² of the normal fit through PostgreSQL vs inline values');
   });
 
+  it('goodness of fit, post-hoc comparisons and a trend test from the server\'s counts, through the one wizard', async () => {
+    // Column sums of the counts above, plus the row whose route is NULL (its outcome "late" still counts alone).
+    const fit = (await panelFrom(() => database({ test: 'goodness-of-fit', columns: ['outcome'], proportions: 'equal' }))).result as TestResult;
+    assert.equal(fit.test, 'goodness-of-fit');
+    assert.deepEqual(Object.fromEntries((fit.categories ?? []).map((c) => [c.label, c.observed])), { damaged: 20, late: 44, 'on time': 100 });
+    const total = counts.flat().reduce((a, b) => a + b, 0);
+    const posthoc = (await panelFrom(() => database({ test: 'post-hoc', columns: ['route', 'outcome'], compare: 'cells', adjustment: 'holm' }))).result as TestResult;
+    assert.equal(posthoc.test, 'post-hoc');
+    assert.equal(posthoc.n, total);
+    const trend = (await panelFrom(() => database({ test: 'trend', columns: ['outcome', 'route'], rowLabels: ['on time', 'late', 'damaged'], columnLabels: routes }))).result as TestResult;
+    assert.equal(trend.test, 'trend');
+    assert.equal(trend.n, total);
+  });
+
   it('a column that is not in the table: a notification naming it and the real columns, no panel, nothing thrown', async () => {
     const a = await api();
     const panels = a.panels().length;

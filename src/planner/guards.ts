@@ -1,0 +1,59 @@
+/**
+ * Refusals, in words, of the choices that give a meaningless result: every record counted once with every cell
+ * 1, a column of many different numbers used as a category; and a question before the count column is used as one.
+ */
+import { aggregateRecords } from '../data/aggregate';
+import type { Records } from '../data/records';
+import type { AggregateRequest } from '../data/types';
+import { InputError } from '../errors';
+import type { Questions } from './questions';
+import { sum, type ColumnInfo, type Role, type View } from './view';
+
+/** A categorical role given a column of measurements, or a count column, is refused or confirmed in words. */
+export async function checkCategoryColumns(view: Extract<View, { form: 'columns' }>, roles: readonly Role[], columns: readonly string[], weight: string | undefined, questions: Questions): Promise<void> {
+  for (const [k, role] of roles.entries()) {
+    if (role.kind !== 'categorical') continue;
+    const info = view.columns.find((c) => c.name === columns[k]);
+    const p = info?.profile;
+    if (!p) continue;
+    if (p.numeric && p.levels.length > 12) {
+      throw new InputError(
+        `column \`${p.name}\` holds numbers with ${p.levels.length} different values; as a category each value would be a level of its own. Choose a categorical column for ${role.name}, or test the numbers themselves (variance, distribution fit)`,
+        { column: p.name },
+        'numeric-as-category',
+      );
+    }
+    // Small whole numbers repeated across rows are coded categories (a dose 1, 2, 3); the column the shape
+    // took for the frequency weight is not, and saying so is worth a question.
+    const looksLikeCounts = view.shape.kind === 'long-counts' && view.shape.weightColumn === p.name;
+    if (looksLikeCounts && weight === undefined) {
+      const go = await questions.confirm({
+        title: 'A numeric column as a category',
+        message: `\`${p.name}\` holds whole numbers (total ${p.total.toLocaleString('en-US')} over ${p.present} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?`,
+        accept: 'Use as a category',
+      });
+      if (!go) throw new InputError(`stopped: \`${p.name}\` looks like a count column, not a category`, { column: p.name }, 'numeric-as-category');
+    }
+  }
+}
+
+/**
+ * Refuses the misread that gives N = number of rows with every cell 1: each row was counted once, so the rows
+ * were already counts (or labels), and any test on that table would be meaningless.
+ */
+export function checkNotOnePerRow(records: Records, columns: readonly string[], weight: string | undefined, test: string, infos: readonly ColumnInfo[], description: string): void {
+  if (weight !== undefined || records.rows.length < 2) return;
+  const request: AggregateRequest = columns.length === 1 ? { kind: 'categories', column: columns[0] } : { kind: 'crosstab', rowColumn: columns[columns.length - 2], columnColumn: columns[columns.length - 1] };
+  const a = aggregateRecords(records, request, { description });
+  const cells = a.kind === 'table' ? a.table.counts.flat() : a.kind === 'categories' ? [...a.counts.counts] : [];
+  const n = sum(cells);
+  if (n !== records.rows.length || !cells.every((c) => c === 0 || c === 1)) return;
+  const counts = infos.filter((c) => c.profile?.counts && !columns.includes(c.name)).map((c) => `\`${c.name}\``);
+  const hint = counts.length ? ` If ${counts.join(' or ')} holds how many times each row occurred, use it as the weight.` : ' Choose columns whose values repeat across rows, or give the counts as a table.';
+  throw new InputError(
+    `${test}: every row of ${description} would count once and every cell would be 1 (N = ${n}, the number of rows): the chosen columns label rows rather than classify observations, and the result would be meaningless.${hint}`,
+    { file: records.file },
+    'one-per-row',
+  );
+}
+

@@ -1,0 +1,54 @@
+/** Counts from records held in memory (a selection, a cell, a small file), written inline into a saved test. */
+import { aggregateRecords } from '../data/aggregate';
+import type { Records } from '../data/records';
+import type { AggregateRequest } from '../data/types';
+import { sum, type DataFacts } from './view';
+
+/** Counts from records held in memory, written inline into the spec. */
+export function inlineFromRecords(records: Records, test: string, columns: readonly string[], weight: string | undefined, description: string): DataFacts {
+  const read = (req: AggregateRequest, levels?: { rowLevels?: readonly string[]; columnLevels?: readonly string[] }) =>
+    aggregateRecords(records, req, { description, keepValues: true, ...(levels ? { categories: levels } : {}) });
+  switch (test) {
+    case 'goodness-of-fit': {
+      const a = read({ kind: 'categories', column: columns[0], weight });
+      if (a.kind !== 'categories') break;
+      return { fields: { observed: a.counts.counts, categories: a.counts.labels, variable: columns[0] }, levels: a.counts.labels, n: sum(a.counts.counts) };
+    }
+    case 'variance':
+    case 'distribution-fit': {
+      const a = read({ kind: 'numeric', column: columns[0] });
+      if (a.kind !== 'moments' || !a.values) break;
+      return { fields: { values: a.values, ...(test === 'variance' ? { variable: columns[0] } : {}) }, n: a.values.length };
+    }
+    case 'paired': {
+      const a = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight });
+      if (a.kind !== 'table') break;
+      const labels = [...a.table.rowLabels, ...a.table.columnLabels.filter((l) => !a.table.rowLabels.includes(l))];
+      const square = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight }, { rowLevels: labels, columnLevels: labels });
+      if (square.kind !== 'table') break;
+      return { fields: { table: square.table.counts, rowLabels: square.table.rowLabels, columnLabels: square.table.columnLabels } };
+    }
+    case 'stratified': {
+      const [stratum, row, column] = columns;
+      const all = read({ kind: 'crosstab', rowColumn: row, columnColumn: column, weight });
+      const strata = read({ kind: 'categories', column: stratum });
+      if (all.kind !== 'table' || strata.kind !== 'categories') break;
+      const j = records.columns.indexOf(stratum);
+      const tables = strata.counts.labels.map((level) => {
+        const subset: Records = { ...records, rows: records.rows.filter((r) => (r[j] ?? '').trim() === level), lines: records.lines.filter((_, i) => (records.rows[i][j] ?? '').trim() === level) };
+        const t = aggregateRecords(subset, { kind: 'crosstab', rowColumn: row, columnColumn: column, weight }, { description, categories: { rowLevels: all.table.rowLabels, columnLevels: all.table.columnLabels } });
+        return t.kind === 'table' ? t.table.counts : [];
+      });
+      return { fields: { strata: tables, stratumLabels: strata.counts.labels, rowLabels: all.table.rowLabels, columnLabels: all.table.columnLabels, rowVariable: row, columnVariable: column } };
+    }
+    default: {
+      const a = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight });
+      if (a.kind !== 'table') break;
+      const t = a.table;
+      const extra = test === 'independence' ? { rowVariable: columns[0], columnVariable: columns[1] } : {};
+      return { fields: { table: t.counts, rowLabels: t.rowLabels, columnLabels: t.columnLabels, ...extra }, rows: t.rowLabels.length, columns: t.columnLabels.length, n: sum(t.counts.map((r) => sum(r))) };
+    }
+  }
+  throw new Error(`records did not aggregate for ${test}`);
+}
+
