@@ -16,6 +16,8 @@ import { scanRange } from './rangeScan';
 import { ByteScanner, ScannerFallback } from './scanner';
 import type { Aggregate, AggregateRequest } from './types';
 import { fail, inputError } from './where';
+import { aggregateWorkbook } from './xlsx';
+import { aggregateParquet } from './parquet';
 import { isInstance } from '../errors';
 
 export interface ReadProgress {
@@ -35,7 +37,7 @@ export interface FileReadControl extends ParallelChoice {
   readonly chunkSize?: number;
 }
 
-export type FileReader = 'byte-scanner' | 'csv-parse';
+export type FileReader = 'byte-scanner' | 'csv-parse' | 'xlsx' | 'parquet';
 export type FileAggregate = Aggregate & { readonly reader: FileReader };
 
 type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'latin1';
@@ -238,6 +240,9 @@ export async function aggregateFileMany(
 ): Promise<{ readonly aggregates: Aggregate[]; readonly reader: FileReader }> {
   const file = options.file ?? path;
   control.signal?.throwIfAborted();
+  // Workbooks and Parquet files have readers of their own (typed cells, no dialect).
+  if (/\.xlsx$/i.test(path)) return { aggregates: (await aggregateWorkbook(path, requests, options, control)).aggregates, reader: 'xlsx' };
+  if (/\.parquet$/i.test(path)) return { aggregates: await aggregateParquet(path, requests, options, control), reader: 'parquet' };
   const opened = await openData(path, file, options);
   try {
     const intake: IntakeOptions = { ...options, file, dialect: { ...options.dialect, ...opened.dialect } };

@@ -65,4 +65,8 @@ export interface IntakeOptions {
   readonly description?: string;
   /** For a numeric request, also return the values themselves (small inputs only). */
   readonly keepValues?: boolean;
+  /** A workbook's sheet (`.xlsx` files only). */
+  readonly sheet?: string;
+  /** A workbook's range: `B2:F40`, a defined name or a table (`.xlsx` files only). */
+  readonly range?: string;
 }

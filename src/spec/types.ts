@@ -13,6 +13,10 @@ export interface SourceSpec {
   readonly columns?: readonly string[];
   /** A frequency-weight column. */
   readonly weight?: string;
+  /** A workbook's sheet (.xlsx). */
+  readonly sheet?: string;
+  /** A workbook's range: `B2:F40`, a defined name or a table (.xlsx). */
+  readonly range?: string;
   readonly delimiter?: ',' | ';' | '\t' | '|' | 'auto';
   readonly decimal?: '.' | ',';
   readonly encoding?: 'utf-8' | 'utf-16' | 'latin1';

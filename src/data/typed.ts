@@ -1,0 +1,173 @@
+/**
+ * Typed cells to aggregates, for readers whose cells already carry a type (workbooks, Parquet): a
+ * number stays a number, an empty cell or a null is missing (under the missing-value policy, as an
+ * empty CSV field is), and text goes through the same category coding and number grammar as a CSV
+ * field. Refusals name the cell the way its reader does (`'Line 2'!D17`, `row 1,204 (row group 3)`).
+ */
+import { Aggregator, type SourceInfo } from './aggregate';
+import { MISSING, type CategoryCoder } from './categories';
+import { wholeCount } from './counts';
+import { parseDecimal } from './numbers';
+import type { IntakeOptions } from './options';
+import type { Aggregate, AggregateRequest } from './types';
+import { shown, type PositionUnit } from './where';
+import { InputError } from '../errors';
+
+/** A date or time cell: shown as ISO text in categories, refused as a number. */
+export class DateCell {
+  constructor(readonly iso: string) {}
+}
+
+/** A cell value as a reader hands it over; null and undefined are missing. */
+export type TypedValue = string | number | bigint | DateCell | null | undefined;
+
+/** How a reader names a cell in a message: the text before ", column `x`: …" and the location fields. */
+export interface CellPlace {
+  /** "inspections.xlsx, 'Line 2'!D17" or "orders.parquet, row 1,204 (row group 3)". */
+  readonly text: string;
+  /** 1-based position (sheet row, record number) for the location. */
+  readonly line: number;
+}
+
+export type Locate = (position: number, columnIndex: number) => CellPlace;
+
+function describeValue(v: TypedValue): string {
+  if (v instanceof DateCell) return `a date (${v.iso})`;
+  if (typeof v === 'bigint') return `\`${v}\``;
+  return shown(String(v));
+}
+
+/** One request's aggregator, with the per-value readers its column roles need. */
+class Part {
+  readonly categories: { index: number; coder: CategoryCoder }[] = [];
+  readonly weightIndex: number = -1;
+  readonly numberIndex: number = -1;
+
+  constructor(
+    readonly aggregator: Aggregator,
+    private readonly columns: readonly string[],
+    private readonly locate: Locate,
+    private readonly file: string | undefined,
+  ) {
+    for (const slot of aggregator.slots()) {
+      if (slot.role === 'category') this.categories.push({ index: slot.index, coder: slot.coder });
+      else if (slot.role === 'weight') this.weightIndex = slot.index;
+      else this.numberIndex = slot.index;
+    }
+  }
+
+  refuse(position: number, index: number, message: string, code: string): never {
+    const place = this.locate(position, index);
+    const column = this.columns[index];
+    throw new InputError(`${place.text}, column \`${column}\`: ${message}`, { ...(this.file !== undefined ? { file: this.file } : {}), line: place.line, column }, code);
+  }
+
+  code(coder: CategoryCoder, v: TypedValue, position: number): number {
+    if (v === null || v === undefined) return coder.missing();
+    if (typeof v === 'number') return Number.isNaN(v) ? coder.missing() : coder.code(String(v), position);
+    if (v instanceof DateCell) return coder.code(v.iso, position);
+    return coder.code(String(v), position);
+  }
+
+  /** A number, or NaN when missing. */
+  number(v: TypedValue, position: number): number {
+    if (v === null || v === undefined) return NaN;
+    if (typeof v === 'number') {
+      if (Number.isNaN(v)) return NaN;
+      if (!Number.isFinite(v)) this.refuse(position, this.numberIndex, `expected a finite number, found ${v}`, 'not-a-number');
+      return v;
+    }
+    if (typeof v === 'bigint') {
+      const x = Number(v);
+      if (!Number.isSafeInteger(x)) this.refuse(position, this.numberIndex, `found ${describeValue(v)}, beyond the integers a double holds exactly (2^53)`, 'integer-too-large');
+      return x;
+    }
+    if (typeof v === 'string') {
+      if (this.aggregator.isMissing(v)) return NaN;
+      const x = parseDecimal(v, '.');
+      if (Number.isNaN(x)) this.refuse(position, this.numberIndex, `expected a number, found ${describeValue(v)}`, 'not-a-number');
+      return x;
+    }
+    return this.refuse(position, this.numberIndex, `expected a number, found ${describeValue(v)}`, 'not-a-number');
+  }
+}
+
+/** Several requests answered from one pass over typed rows. */
+export class TypedSink {
+  private readonly parts: Part[];
+
+  constructor(
+    readonly columns: readonly string[],
+    requests: readonly AggregateRequest[],
+    intake: IntakeOptions,
+    unit: PositionUnit,
+    locate: Locate,
+  ) {
+    this.parts = requests.map((request) => new Part(new Aggregator(columns, request, intake, unit), columns, locate, intake.file));
+  }
+
+  /** The column indices the requests read (to project columns or to skip the rest of a row). */
+  usedIndices(): number[] {
+    const used = new Set<number>();
+    for (const part of this.parts) {
+      if (part.aggregator.request.kind === 'counted-table') this.columns.forEach((_, j) => used.add(j));
+      for (const c of part.categories) used.add(c.index);
+      if (part.weightIndex >= 0) used.add(part.weightIndex);
+      if (part.numberIndex >= 0) used.add(part.numberIndex);
+    }
+    return [...used].sort((a, b) => a - b);
+  }
+
+  /** One record: `cell(j)` is the value in column j; `position` locates it (sheet row, record number). */
+  push(cell: (index: number) => TypedValue, position: number): void {
+    for (const part of this.parts) {
+      const a = part.aggregator;
+      if (a.request.kind === 'counted-table') {
+        a.push(
+          this.columns.map((_, j) => {
+            const v = cell(j);
+            return v === null || v === undefined ? '' : v instanceof DateCell ? v.iso : String(v);
+          }),
+          position,
+        );
+        continue;
+      }
+      a.addRecord();
+      if (part.numberIndex >= 0) {
+        const x = part.number(cell(part.numberIndex), position);
+        if (Number.isNaN(x)) a.drop();
+        else a.addValue(x);
+        continue;
+      }
+      const w = part.weightIndex >= 0 ? this.weightOf(part, cell(part.weightIndex), position) : 1;
+      const first = part.categories[0];
+      const r = part.code(first.coder, cell(first.index), position);
+      const second = part.categories[1];
+      const c = second ? part.code(second.coder, cell(second.index), position) : 0;
+      if (r === MISSING || c === MISSING || w < 0) a.drop();
+      else a.addCell(r, c, w);
+    }
+  }
+
+  private weightOf(part: Part, v: TypedValue, position: number): number {
+    const x = part.number(v, position);
+    if (Number.isNaN(x)) return -1;
+    if (x < 0 || !Number.isInteger(x) || x > Number.MAX_SAFE_INTEGER) {
+      try {
+        wholeCount(x, describeValue(v).replace(/^`|`$/g, ''), {}, 'a frequency weight');
+      } catch (e) {
+        part.refuse(position, part.weightIndex, (e as Error).message, (e as InputError).code);
+      }
+    }
+    return x;
+  }
+
+  /** Data records seen so far. */
+  get recordCount(): number {
+    return this.parts[0]?.aggregator.recordCount ?? 0;
+  }
+
+  results(source: SourceInfo): Aggregate[] {
+    return this.parts.map((p) => p.aggregator.result(source));
+  }
+}
