@@ -669,6 +669,32 @@ export async function workbookSheets(path: string, file = path): Promise<SheetIn
   return book.sheets.map((s) => ({ name: s.name, hidden: s.hidden }));
 }
 
+/** What a person can pick in a workbook: each sheet, then each defined name and table that is one range. */
+export interface WorkbookChoice extends WorkbookSelection {
+  readonly kind: 'sheet' | 'name' | 'table';
+  readonly label: string;
+  /** `'Line 2'!B2:H302` for a name or table; `hidden` for a hidden sheet. */
+  readonly detail?: string;
+}
+
+export async function workbookChoices(path: string, file = path): Promise<WorkbookChoice[]> {
+  const { book } = await loadWorkbook(path, file);
+  const choices: WorkbookChoice[] = book.sheets.map((s) => ({ kind: 'sheet', label: s.name, sheet: s.name, ...(s.hidden ? { detail: 'hidden' } : {}) }));
+  for (const d of book.definedNames) {
+    if (d.name.startsWith('_xlnm.')) continue; // print areas and filters, not data
+    try {
+      const target = chooseTarget(book, { range: d.name, ...(d.sheetScope ? { sheet: d.sheetScope } : {}) }, { file });
+      choices.push({ kind: 'name', label: d.name, range: d.name, sheet: target.sheet.name, detail: target.label });
+    } catch {
+      // A name for a constant, a formula or several areas is no table to read.
+    }
+  }
+  for (const s of book.sheets)
+    for (const t of tablesOf(book, s.part).filter((t, k, all) => all.findIndex((u) => u.ref === t.ref) === k))
+      choices.push({ kind: 'table', label: t.name, range: t.name, sheet: s.name, detail: `${sheetReference(s.name)}!${t.ref}` });
+  return choices;
+}
+
 /** The fingerprint of a selection: the file's SHA-256 and what was read from it. */
 export function selectionFingerprint(fileSha256: string, selection: string): string {
   return createHash('sha256').update(`${fileSha256}\n${selection}`).digest('hex');

@@ -21,11 +21,14 @@ export interface Answers {
   sigma0?: number;
   alternative?: Alternative;
   correction?: boolean;
+  /** A workbook's sheet and range (.xlsx); skip the sheet pick when given. */
+  sheet?: string;
+  range?: string;
 }
 
 export type TableSource =
   /** `complete`: the preview holds the whole file (so level counts seen are all there are). */
-  | { readonly kind: 'file'; readonly file: string; readonly preview: Records; readonly complete: boolean }
+  | { readonly kind: 'file'; readonly file: string; readonly preview: Records; readonly complete: boolean; readonly selection?: { readonly sheet?: string; readonly range?: string } }
   | { readonly kind: 'records'; readonly records: Records; readonly description: string; readonly documentUri?: string }
   /** Data already in a test's shape (a counted table, category counts, a list of values): only options are asked. */
   | {
@@ -194,11 +197,12 @@ export function specFor(source: TableSource, answers: Answers, shape: ReturnType
   if (source.kind === 'inline') return { version: 1, test: source.test, ...source.data, ...options };
   if (source.kind === 'file') {
     const rel = path.relative(specFolder, source.file).split(path.sep).join('/');
-    if (shape.kind === 'counted-table' && !answers.columns) return { version: 1, test, source: { path: rel }, ...options };
+    const at = { path: rel, ...source.selection };
+    if (shape.kind === 'counted-table' && !answers.columns) return { version: 1, test, source: at, ...options };
     if (shape.kind === 'category-counts' && test === 'goodness-of-fit' && answers.columns?.[0] === shape.labelColumn) {
-      return { version: 1, test, source: { path: rel, columns: [shape.labelColumn], weight: shape.countColumn }, ...options };
+      return { version: 1, test, source: { ...at, columns: [shape.labelColumn], weight: shape.countColumn }, ...options };
     }
-    return { version: 1, test, source: { path: rel, columns: answers.columns }, ...options };
+    return { version: 1, test, source: { ...at, columns: answers.columns }, ...options };
   }
 
   const records = source.records;
