@@ -13,6 +13,8 @@ const parts: BenchPart[] = [
   require('./postgres').postgresBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./exact').exactBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./extension').extensionBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./tabular').xlsxBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./tabular').parquetBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
 async function main(): Promise<void> {

@@ -16,16 +16,16 @@
  */
 import { createHash } from 'node:crypto';
 import { open, type FileHandle } from 'node:fs/promises';
-import { parquetMetadataAsync, parquetRead, parquetSchema } from 'hyparquet';
+import { parquetMetadataAsync, parquetSchema } from 'hyparquet';
 import { compressors } from 'hyparquet-compressors';
-import type { AsyncBuffer, ColumnData, FileMetaData, SchemaTree } from 'hyparquet';
+import type { AsyncBuffer, FileMetaData, SchemaTree } from 'hyparquet';
+import { NULL_INDEX, readFlatChunk, type EncodedColumn } from './parquetPages';
 import type { IntakeOptions } from './options';
 import type { Records } from './records';
 import { DateCell, TypedSink, type TypedValue } from './typed';
 import type { Aggregate, AggregateRequest } from './types';
 import { fail } from './where';
 import { selectionFingerprint } from './xlsx';
-import { isInputError } from '../errors';
 
 const HASH_CHUNK = 1 << 20;
 
@@ -148,42 +148,23 @@ function columnNames(opened: Opened): string[] {
   return opened.columns.map((c) => c.element.name);
 }
 
-/** Reads one row group's projected columns; `values[j]` holds column j's values for the group's rows. */
-async function readGroup(opened: Opened, names: readonly string[], rowStart: number, rowEnd: number, file: string, group: number): Promise<Map<string, unknown[]>> {
-  const parts = new Map<string, { start: number; data: ArrayLike<unknown> }[]>();
-  try {
-    await parquetRead({
-      file: opened.buffer,
-      metadata: opened.metadata,
-      columns: [...names],
-      rowStart,
-      rowEnd,
-      compressors,
-      onChunk: (chunk: ColumnData) => {
-        const list = parts.get(chunk.columnName) ?? [];
-        list.push({ start: chunk.rowStart, data: chunk.columnData as ArrayLike<unknown> });
-        parts.set(chunk.columnName, list);
-      },
-    });
-  } catch (e) {
-    if (isInputError(e)) throw e;
-    fail({ file }, `row group ${group + 1} (rows ${rowStart + 1}–${rowEnd}) cannot be decoded (${(e as Error).message}); the file is damaged or uses an encoding this reader does not know`, 'corrupt-parquet');
-  }
-  const out = new Map<string, unknown[]>();
+/** Decodes one row group's projected columns (see parquetPages.ts). */
+async function readGroup(opened: Opened, names: readonly string[], group: number, rowStart: number, file: string): Promise<Map<string, EncodedColumn>> {
+  const rowGroup = opened.metadata.row_groups[group];
+  const rows = Number(rowGroup.num_rows);
+  const out = new Map<string, EncodedColumn>();
   for (const name of names) {
-    const values = new Array<unknown>(rowEnd - rowStart);
-    let filled = 0;
-    for (const { start, data } of parts.get(name) ?? []) {
-      for (let k = 0; k < data.length; k++) {
-        const row = start + k;
-        if (row < rowStart || row >= rowEnd) continue;
-        values[row - rowStart] = data[k];
-        filled++;
-      }
+    const chunk = rowGroup.columns.find((c) => c.meta_data?.path_in_schema.length === 1 && c.meta_data.path_in_schema[0] === name);
+    const meta = chunk?.meta_data;
+    if (!meta) fail({ file, column: name }, `row group ${group + 1} has no data for column \`${name}\`; the file is damaged`, 'corrupt-parquet');
+    const start = Number(meta.dictionary_page_offset ?? meta.data_page_offset);
+    const bytes = await opened.buffer.slice(start, start + Number(meta.total_compressed_size));
+    const column = opened.columns.find((c) => c.element.name === name)!;
+    try {
+      out.set(name, readFlatChunk(bytes as ArrayBuffer, meta, [parquetSchema(opened.metadata), column], rows, compressors));
+    } catch (e) {
+      fail({ file }, `row group ${group + 1} (rows ${(rowStart + 1).toLocaleString('en-US')}–${(rowStart + rows).toLocaleString('en-US')}), column \`${name}\`: cannot be decoded (${(e as Error).message}); the file is damaged or uses an encoding this reader does not know`, 'corrupt-parquet');
     }
-    if (filled < rowEnd - rowStart)
-      fail({ file }, `row group ${group + 1}, column \`${name}\`: found ${filled} values for ${rowEnd - rowStart} rows; the file is damaged`, 'corrupt-parquet');
-    out.set(name, values);
   }
   return out;
 }
@@ -224,19 +205,15 @@ export async function aggregateParquet(
       control.signal?.throwIfAborted();
       const rows = Number(rowGroup.num_rows);
       groupStarts.push(position);
-      const values = await readGroup(opened, usedNames, position, position + rows, file, group);
-      const columns = usedNames.map((n) => values.get(n)!);
-      let i = 0;
-      const cell = (index: number): TypedValue => {
-        const k = slot.get(index)!;
-        const v = columns[k][i];
-        if (typeof v === 'string' || typeof v === 'number') return v;
-        const t = typed(v, dateOnly[k]);
+      const values = await readGroup(opened, usedNames, group, position, file);
+      const columns: (EncodedColumn | undefined)[] = names.map((n, j) => (slot.has(j) ? values.get(n) : undefined));
+      const toTyped = (v: unknown, index: number): TypedValue => {
+        const t = typed(v, dateOnly[slot.get(index)!]);
         if (t === undefined && v !== undefined)
-          fail({ file, column: names[index] }, `row ${(position + i + 1).toLocaleString('en-US')}, column \`${names[index]}\`: found a value of a type this reader does not know (${Object.prototype.toString.call(v)})`, 'unsupported-column');
+          fail({ file, column: names[index] }, `column \`${names[index]}\`: found a value of a type this reader does not know (${Object.prototype.toString.call(v)})`, 'unsupported-column');
         return t;
       };
-      for (i = 0; i < rows; i++) sink.push(cell, position + i + 1);
+      sink.pushColumns(columns, rows, position + 1, toTyped);
       position += rows;
       group++;
     }
@@ -262,12 +239,14 @@ export async function previewParquet(path: string, maxRows: number, file = path)
     for (const [g, rowGroup] of opened.metadata.row_groups.entries()) {
       if (rows.length >= maxRows) break;
       const n = Math.min(Number(rowGroup.num_rows), maxRows - rows.length);
-      const values = await readGroup(opened, flat, position, position + n, file, g);
+      const values = await readGroup(opened, flat, g, position, file);
       const dateOnly = flat.map((name) => opened.columns[names.indexOf(name)].element.logical_type?.type === 'DATE');
       for (let i = 0; i < n; i++) {
         rows.push(
           flat.map((name, k) => {
-            const t = typed(values.get(name)![i], dateOnly[k]);
+            const column = values.get(name)!;
+            const at = column.index[i];
+            const t = typed(at >= 0 ? column.dictionary[at] : at === NULL_INDEX ? null : column.values![i], dateOnly[k]);
             return t === null || t === undefined ? '' : t instanceof DateCell ? t.iso : String(t);
           }),
         );

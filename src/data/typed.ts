@@ -11,6 +11,7 @@ import { parseDecimal } from './numbers';
 import type { IntakeOptions } from './options';
 import type { Aggregate, AggregateRequest } from './types';
 import { shown, type PositionUnit } from './where';
+import { NULL_INDEX, type EncodedColumn } from './parquetPages';
 import { InputError } from '../errors';
 
 /** A date or time cell: shown as ISO text in categories, refused as a number. */
@@ -35,6 +36,13 @@ function describeValue(v: TypedValue): string {
   if (v instanceof DateCell) return `a date (${v.iso})`;
   if (typeof v === 'bigint') return `\`${v}\``;
   return shown(String(v));
+}
+
+/** An entry of a dictionary not yet coded (codes are ≥ 0, or MISSING = -1). */
+const UNCODED = -3;
+
+function isEncoded(column: ArrayLike<unknown> | EncodedColumn): column is EncodedColumn {
+  return (column as EncodedColumn).index instanceof Int32Array && 'dictionary' in column;
 }
 
 /** One request's aggregator, with the per-value readers its column roles need. */
@@ -120,32 +128,106 @@ export class TypedSink {
 
   /** One record: `cell(j)` is the value in column j; `position` locates it (sheet row, record number). */
   push(cell: (index: number) => TypedValue, position: number): void {
+    for (const part of this.parts) this.pushOne(part, cell, position);
+  }
+
+  private pushOne(part: Part, cell: (index: number) => TypedValue, position: number): void {
+    const a = part.aggregator;
+    if (a.request.kind === 'counted-table') {
+      a.push(
+        this.columns.map((_, j) => {
+          const v = cell(j);
+          return v === null || v === undefined ? '' : v instanceof DateCell ? v.iso : String(v);
+        }),
+        position,
+      );
+      return;
+    }
+    a.addRecord();
+    if (part.numberIndex >= 0) {
+      const x = part.number(cell(part.numberIndex), position);
+      if (Number.isNaN(x)) a.drop();
+      else a.addValue(x);
+      return;
+    }
+    const w = part.weightIndex >= 0 ? this.weightOf(part, cell(part.weightIndex), position) : 1;
+    const first = part.categories[0];
+    const r = part.code(first.coder, cell(first.index), position);
+    const second = part.categories[1];
+    const c = second ? part.code(second.coder, cell(second.index), position) : 0;
+    if (r === MISSING || c === MISSING || w < 0) a.drop();
+    else a.addCell(r, c, w);
+  }
+
+  /**
+   * Many records at once, column by column (a Parquet row group): `columns[j]` holds column j's values for
+   * `count` records (unused columns may be undefined), the first at `firstPosition`; `toTyped` turns a raw
+   * value into a cell. The same result as `push` per record: each distinct raw value of a category column is
+   * coded once (a dictionary-encoded column's values are the same few strings over and over), numbers skip
+   * the conversion.
+   */
+  pushColumns(columns: readonly (ArrayLike<unknown> | EncodedColumn | undefined)[], count: number, firstPosition: number, toTyped: (v: unknown, index: number) => TypedValue): void {
+    const valueAt = (column: ArrayLike<unknown> | EncodedColumn, i: number): unknown => {
+      if (!isEncoded(column)) return column[i];
+      const k = column.index[i];
+      return k >= 0 ? column.dictionary[k] : k === NULL_INDEX ? null : column.values![i];
+    };
     for (const part of this.parts) {
       const a = part.aggregator;
       if (a.request.kind === 'counted-table') {
-        a.push(
-          this.columns.map((_, j) => {
-            const v = cell(j);
-            return v === null || v === undefined ? '' : v instanceof DateCell ? v.iso : String(v);
-          }),
-          position,
-        );
+        for (let i = 0; i < count; i++) this.pushOne(part, (j) => toTyped(valueAt(columns[j]!, i), j), firstPosition + i);
         continue;
       }
-      a.addRecord();
       if (part.numberIndex >= 0) {
-        const x = part.number(cell(part.numberIndex), position);
-        if (Number.isNaN(x)) a.drop();
-        else a.addValue(x);
+        const column = columns[part.numberIndex]!;
+        for (let i = 0; i < count; i++) {
+          a.addRecord();
+          const v = valueAt(column, i);
+          const x = typeof v === 'number' && Number.isFinite(v) ? v : part.number(toTyped(v, part.numberIndex), firstPosition + i);
+          if (Number.isNaN(x)) a.drop();
+          else a.addValue(x);
+        }
         continue;
       }
-      const w = part.weightIndex >= 0 ? this.weightOf(part, cell(part.weightIndex), position) : 1;
-      const first = part.categories[0];
-      const r = part.code(first.coder, cell(first.index), position);
-      const second = part.categories[1];
-      const c = second ? part.code(second.coder, cell(second.index), position) : 0;
-      if (r === MISSING || c === MISSING || w < 0) a.drop();
-      else a.addCell(r, c, w);
+      const coded = part.categories.map(({ index, coder }) => {
+        const column = columns[index]!;
+        const ids = new Int32Array(count);
+        const codeOf = (v: unknown, i: number) => part.code(coder, toTyped(v, index), firstPosition + i);
+        if (isEncoded(column)) {
+          // Counted from the dictionary: each entry coded once, when first met (so first-seen order holds).
+          const entries = new Int32Array(column.dictionary.length).fill(UNCODED);
+          for (let i = 0; i < count; i++) {
+            const k = column.index[i];
+            if (k >= 0) {
+              let id = entries[k];
+              if (id === UNCODED) id = entries[k] = codeOf(column.dictionary[k], i);
+              ids[i] = id;
+            } else ids[i] = k === NULL_INDEX ? coder.missing() : codeOf(column.values![i], i);
+          }
+          return ids;
+        }
+        const cache = new Map<unknown, number>();
+        for (let i = 0; i < count; i++) {
+          const v = column[i];
+          let id = cache.get(v);
+          if (id === undefined) {
+            id = codeOf(v, i);
+            if (v === null || v === undefined || typeof v !== 'object') cache.set(v, id);
+          }
+          ids[i] = id;
+        }
+        return ids;
+      });
+      const weights = part.weightIndex >= 0 ? columns[part.weightIndex]! : undefined;
+      const [rows, cols] = coded;
+      for (let i = 0; i < count; i++) {
+        a.addRecord();
+        const w = weights ? this.weightOf(part, toTyped(valueAt(weights, i), part.weightIndex), firstPosition + i) : 1;
+        const r = rows[i];
+        const c = cols ? cols[i] : 0;
+        if (r === MISSING || c === MISSING || w < 0) a.drop();
+        else a.addCell(r, c, w);
+      }
     }
   }
 
