@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import { aggregateFile, aggregateFileMany } from '../../../src/data/file';
 import type { Aggregate, CountTable } from '../../../src/data/types';
 import { aggregateWorkbook, isDateFormat, previewWorkbook, serialToIso, sheetReference, workbookSheets } from '../../../src/data/xlsx';
+import { runSpec } from '../../../src/spec/run';
 import { sampleVariance } from '../../../src/stats/moments';
 import { assertClose } from '../stats/procedures/close';
 import { rejectsInput } from './expect';
@@ -230,5 +231,25 @@ describe('xlsx reader against openpyxl + pandas (test/fixtures/xlsx)', () => {
       assert.equal(sheetReference('AB12'), "'AB12'", 'a name that reads as a cell address is quoted');
       assert.equal(sheetReference('Kilns'), 'Kilns');
     });
+  });
+});
+
+describe('saved tests on a workbook (runSpec)', () => {
+  it('reads sheet and range from the source, and the reader notices join the result notices', async () => {
+    const run = await runSpec(
+      { version: 1, test: 'independence', source: { path: 'kilns.xlsx', sheet: 'Merged', columns: ['Defects', 'Defects (2)'] } },
+      { readers: { aggregateFile: (p, request, options) => aggregateFile(p, request, options) }, specPath: join(dir, 'test.countercheck.json') },
+    );
+    assert.equal(run.data.description, 'kilns.xlsx Merged');
+    assert.equal(run.data.rows, ref.merged.rows);
+    assert.ok(run.result.notices.some((n) => n.code === 'merged-header-flattened'), 'the merged-header notice is among the result notices');
+  });
+
+  it('refuses a range without a sheet in a workbook of several, at the spec level too', async () => {
+    await rejectsInput(
+      () => runSpec({ version: 1, test: 'goodness-of-fit', source: { path: 'kilns.xlsx', range: 'B2:H302', columns: ['kiln'] } }, { readers: { aggregateFile: (p, request, options) => aggregateFile(p, request, options) }, specPath: join(dir, 'test.countercheck.json') }),
+      'kilns.xlsx: the range B2:H302 needs a sheet; name one with "sheet" (the sheets are `Line 2`, `Merged`, `NoCache`, `Empty`, `Firings`)',
+      'sheet-needed',
+    );
   });
 });
