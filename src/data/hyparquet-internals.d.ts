@@ -1,4 +1,4 @@
-// Declarations for the hyparquet modules that src/data/parquetPages.ts imports by path (the package exports
+// Declarations for the hyparquet modules that src/data/parquetPages.ts and parquet.ts import by path (the package exports
 // `./src/*.js`, but this project's module resolution does not read the export map's types). The signatures
 // are those of hyparquet 1.33.0's types/*.d.ts.
 declare module 'hyparquet/src/column.js' {
@@ -28,4 +28,8 @@ declare module 'hyparquet/src/plain.js' {
 declare module 'hyparquet/src/schema.js' {
   import type { SchemaTree } from 'hyparquet';
   export function getMaxDefinitionLevel(schemaPath: SchemaTree[]): number;
+}
+declare module 'hyparquet-compressors/src/lz4.js' {
+  export function decompressLz4(input: Uint8Array, outputLength: number): Uint8Array;
+  export function decompressLz4Raw(input: Uint8Array, outputLength: number): Uint8Array;
 }
