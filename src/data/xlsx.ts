@@ -632,7 +632,14 @@ async function readHeader(ctx: SheetContext, notices: Notice[]): Promise<Header 
     [],
     { noCache: 0 },
   );
-  return first.size > 0 ? makeHeader(ctx, row, first, area, notices) : undefined;
+  if (first.size === 0) return undefined;
+  if (area && row !== area.top)
+    problem(
+      { file: ctx.file },
+      `${ctx.target.label}: the first row of the range (row ${area.top}) is empty; expected the column names there (the first cells are in row ${row})`,
+      'no-header',
+    );
+  return makeHeader(ctx, row, first, area, notices);
 }
 
 async function loadWorkbook(path: string, file: string): Promise<{ book: Workbook; sha256: string }> {

@@ -173,6 +173,13 @@ describe('xlsx reader against openpyxl + pandas (test/fixtures/xlsx)', () => {
         'unknown-range',
       ));
 
+    it('a range whose first row is empty (the header must be there)', () =>
+      rejectsInput(
+        () => aggregateWorkbook(kilns, [{ kind: 'categories', column: 'kiln' }], { sheet: 'Line 2', range: 'B1:H302', file: 'kilns.xlsx' }),
+        "kilns.xlsx: 'Line 2'!B1:H302: the first row of the range (row 1) is empty; expected the column names there (the first cells are in row 2)",
+        'no-header',
+      ));
+
     it('a password-protected workbook (its compound-file container)', () =>
       rejectsInput(
         () => aggregateWorkbook(join(dir, 'locked.xlsx'), [{ kind: 'categories', column: 'x' }], { file: 'locked.xlsx' }),
@@ -250,6 +257,51 @@ describe('saved tests on a workbook (runSpec)', () => {
       () => runSpec({ version: 1, test: 'goodness-of-fit', source: { path: 'kilns.xlsx', range: 'B2:H302', columns: ['kiln'] } }, { readers: { aggregateFile: (p, request, options) => aggregateFile(p, request, options) }, specPath: join(dir, 'test.countercheck.json') }),
       'kilns.xlsx: the range B2:H302 needs a sheet; name one with "sheet" (the sheets are `Line 2`, `Merged`, `NoCache`, `Empty`, `Firings`)',
       'sheet-needed',
+    );
+  });
+});
+
+describe('xlsx forms other writers use (hand-written parts, counted by hand)', () => {
+  // A workbook as some writers save it: namespace prefixes (x:), rows and cells without "r" attributes,
+  // inline strings, an error value and an ISO date cell (t="d"). Zipped with fflate (a dev dependency).
+  async function workbook(cells: string): Promise<string> {
+    const { strToU8, zipSync } = await import('fflate');
+    const ns = 'http://schemas.openxmlformats.org';
+    const path = join(scratch, `forms-${Math.random().toString(36).slice(2)}.xlsx`);
+    writeFileSync(
+      path,
+      zipSync({
+        '_rels/.rels': strToU8(`<Relationships xmlns="${ns}/package/2006/relationships"><Relationship Id="r1" Type="${ns}/officeDocument/2006/relationships/officeDocument" Target="/xl/workbook.xml"/></Relationships>`),
+        'xl/workbook.xml': strToU8(`<x:workbook xmlns:x="${ns}/spreadsheetml/2006/main" xmlns:r="${ns}/officeDocument/2006/relationships"><x:sheets><x:sheet name="Log" sheetId="1" r:id="s1"/></x:sheets></x:workbook>`),
+        'xl/_rels/workbook.xml.rels': strToU8(`<Relationships xmlns="${ns}/package/2006/relationships"><Relationship Id="s1" Type="${ns}/officeDocument/2006/relationships/worksheet" Target="sheets/log.xml"/></Relationships>`),
+        'xl/sheets/log.xml': strToU8(`<x:worksheet xmlns:x="${ns}/spreadsheetml/2006/main"><x:sheetData>${cells}</x:sheetData></x:worksheet>`),
+      }),
+    );
+    return path;
+  }
+  const inline = (s: string) => `<x:c t="inlineStr"><x:is><x:t>${s}</x:t></x:is></x:c>`;
+  const row = (...cells: string[]) => `<x:row>${cells.join('')}</x:row>`;
+
+  it('reads prefixed elements, positions without "r", inline strings and t="d" dates', async () => {
+    const path = await workbook(
+      row(inline('kiln'), inline('day'), inline('note')) +
+        row(inline('North'), '<x:c t="d"><x:v>2026-03-04</x:v></x:c>', '<x:c t="e"><x:v>#DIV/0!</x:v></x:c>') +
+        row(inline('South &amp; East'), '<x:c t="d"><x:v>2026-03-04</x:v></x:c>', inline('ok')) +
+        row(inline('North'), '<x:c t="d"><x:v>2026-03-05</x:v></x:c>'),
+    );
+    const { aggregates } = await aggregateWorkbook(path, [{ kind: 'crosstab', rowColumn: 'kiln', columnColumn: 'day' }]);
+    const t = table(aggregates[0]);
+    assert.deepEqual(t.rowLabels, ['North', 'South & East']);
+    assert.deepEqual(t.columnLabels, ['2026-03-04', '2026-03-05']);
+    assert.deepEqual(t.counts, [[1, 1], [1, 0]]);
+  });
+
+  it('refuses an error value in a column that is used, naming the cell', async () => {
+    const path = await workbook(row(inline('kiln'), inline('note')) + row(inline('North'), '<x:c t="e"><x:v>#N/A</x:v></x:c>'));
+    await rejectsInput(
+      () => aggregateWorkbook(path, [{ kind: 'categories', column: 'note' }], { file: 'log.xlsx' }),
+      'log.xlsx: Log!B2, column `note`: the cell holds the error value #N/A (a formula that failed); expected a value',
+      'error-value',
     );
   });
 });
