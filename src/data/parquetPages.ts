@@ -23,6 +23,7 @@ export interface EncodedColumn {
 }
 
 export const NULL_INDEX = -1;
+const MAX_PAGE_BYTES = 256 * 1024 * 1024;
 export const VALUE_INDEX = -2;
 
 /**
@@ -41,6 +42,10 @@ export function readFlatChunk(bytes: ArrayBuffer, meta: ColumnMetaData, path: Sc
   while (row < rows) {
     if (reader.offset >= bytes.byteLength - 1) throw new Error(`the column chunk ends after ${row} of ${rows} rows`);
     const header = parquetHeader(reader);
+    // A page states its own sizes; a damaged or hostile one must not make us allocate gigabytes.
+    if (header.compressed_page_size < 0 || reader.offset + header.compressed_page_size > bytes.byteLength)
+      throw new Error(`a page of ${header.compressed_page_size} bytes runs past the end of its column chunk`);
+    if (Number(header.uncompressed_page_size) > MAX_PAGE_BYTES) throw new Error(`a page claims ${header.uncompressed_page_size} bytes uncompressed, over the ${MAX_PAGE_BYTES} this reader accepts`);
     const compressed = new Uint8Array(bytes, reader.offset, header.compressed_page_size);
     reader.offset += header.compressed_page_size;
     if (header.type === 'DICTIONARY_PAGE') {

@@ -481,6 +481,9 @@ async function streamRows(
       }
     }
   };
+  // A damaged sheet (an element never closed) is refused, never scanned again from its start.
+  const unclosed = (what: string, row: number): never =>
+    problem({ file: ctx.file }, `${sheetRef}, row ${row}: a ${what} of the sheet's XML is not closed; the workbook is damaged`, 'corrupt-workbook');
   const process = (block: string) => {
     let k = block.indexOf(tags.rowOpen);
     while (k >= 0 && !stopped) {
@@ -489,13 +492,16 @@ async function streamRows(
         continue;
       }
       const tagEnd = block.indexOf('>', k);
+      if (tagEnd < 0) unclosed('row', rowNumber + 1);
       const r = attributeIn(block, k, tagEnd, 'r');
       rowNumber = r !== undefined ? Number(r) : rowNumber + 1;
+      if (!Number.isInteger(rowNumber) || rowNumber < 1) unclosed('row', rowNumber);
       if (block.charCodeAt(tagEnd - 1) === 47 /* / */) {
         k = block.indexOf(tags.rowOpen, tagEnd);
         continue;
       }
       const rowEnd = block.indexOf(tags.rowClose, tagEnd);
+      if (rowEnd < 0) unclosed('row', rowNumber);
       let column = -1;
       let c = block.indexOf(tags.cOpen, tagEnd);
       while (c >= 0 && c < rowEnd) {
@@ -504,6 +510,7 @@ async function streamRows(
           continue;
         }
         const cTagEnd = block.indexOf('>', c);
+        if (cTagEnd < 0 || cTagEnd > rowEnd) unclosed('cell', rowNumber);
         const ref = attributeIn(block, c, cTagEnd, 'r');
         column = ref !== undefined ? columnOfReference(ref) : column + 1;
         if (block.charCodeAt(cTagEnd - 1) === 47) {
@@ -511,6 +518,7 @@ async function streamRows(
           continue;
         }
         const cEnd = block.indexOf(tags.cClose, cTagEnd);
+        if (cEnd < 0 || cEnd > rowEnd) unclosed('cell', rowNumber);
         if (wanted(column, rowNumber)) cellValue(block, c, cTagEnd, cTagEnd + 1, cEnd, column);
         c = block.indexOf(tags.cOpen, cEnd);
       }

@@ -304,4 +304,14 @@ describe('xlsx forms other writers use (hand-written parts, counted by hand)', (
       'error-value',
     );
   });
+
+  it('refuses sheet XML whose row or cell is never closed, without scanning forever', async () => {
+    for (const broken of [row(inline('kiln')) + '<x:row><x:c t="inlineStr"><x:is><x:t>North</x:t></x:is></x:c>', row(inline('kiln')) + '<x:row><x:c t="inlineStr"><x:is><x:t>North</x:t></x:is></x:row>']) {
+      const path = await workbook(broken);
+      await assert.rejects(
+        () => aggregateWorkbook(path, [{ kind: 'categories', column: 'kiln' }], { file: 'log.xlsx' }),
+        (e: Error & { code?: string }) => e.name === 'InputError' && e.code === 'corrupt-workbook' && /^log\.xlsx: Log, row 2: a (row|cell) of the sheet's XML is not closed/.test(e.message),
+      );
+    }
+  });
 });
