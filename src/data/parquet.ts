@@ -41,8 +41,10 @@ const HASH_CHUNK = 1 << 20;
  * the brotli one carries a 79 KB dictionary (the whole set is 115 KB minified; this one 24 KB), and zlib is
  * native and part of Node. Snappy (hysnappy, WebAssembly), zstd (fzstd) and LZ4 stay as the set has them.
  */
+let snappy: ((input: Uint8Array, outputLength: number) => Uint8Array) | undefined;
 const compressors: Compressors = {
-  SNAPPY: snappyUncompressor(),
+  // The WebAssembly module is compiled on first use, not when the extension starts.
+  SNAPPY: (input, outputLength) => (snappy ??= snappyUncompressor())(input, outputLength),
   GZIP: (input) => new Uint8Array(gunzipSync(input)),
   BROTLI: (input) => new Uint8Array(brotliDecompressSync(input)),
   ZSTD: (input) => decompressZstd(input),
