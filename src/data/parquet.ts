@@ -29,7 +29,7 @@ import type { AsyncBuffer, Compressors, FileMetaData, SchemaTree } from 'hyparqu
 import { NULL_INDEX, readFlatChunk, type EncodedColumn } from './parquetPages';
 import type { IntakeOptions } from './options';
 import type { Records } from './records';
-import { DateCell, TypedSink, type TypedValue } from './typed';
+import { DateCell, throttledProgress, TypedSink, type TypedReadControl, type TypedValue } from './typed';
 import type { Aggregate, AggregateRequest } from './types';
 import { fail } from './where';
 import { selectionFingerprint } from './xlsx';
@@ -204,7 +204,7 @@ export async function aggregateParquet(
   path: string,
   requests: readonly AggregateRequest[],
   options: IntakeOptions = {},
-  control: { readonly signal?: AbortSignal } = {},
+  control: TypedReadControl = {},
 ): Promise<Aggregate[]> {
   const file = options.file ?? path;
   if (options.sheet !== undefined || options.range !== undefined)
@@ -228,6 +228,8 @@ export async function aggregateParquet(
     const usedNames = used.map((j) => names[j]);
     const dateOnly = used.map((j) => opened.columns[j].element.logical_type?.type === 'DATE' || opened.columns[j].element.converted_type === 'DATE');
     const slot = new Map(used.map((j, k) => [j, k]));
+    const progress = throttledProgress(control);
+    const totalRows = Math.max(1, Number(opened.metadata.num_rows));
     for (const rowGroup of opened.metadata.row_groups) {
       control.signal?.throwIfAborted();
       const rows = Number(rowGroup.num_rows);
@@ -243,7 +245,9 @@ export async function aggregateParquet(
       sink.pushColumns(columns, rows, position + 1, toTyped);
       position += rows;
       group++;
+      progress(Math.round((opened.size * position) / totalRows), opened.size, position);
     }
+    progress(opened.size, opened.size, position, true);
     if (position === 0) fail({ file }, 'the file has no rows; expected at least one', 'empty-input');
     const sha256 = await sha256Of(opened.handle, opened.size);
     const read = usedNames.join(',');

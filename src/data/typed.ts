@@ -14,6 +14,25 @@ import { shown, type PositionUnit } from './where';
 import { NULL_INDEX, type EncodedColumn } from './parquetPages';
 import { InputError } from '../errors';
 
+/** Cancellation and progress, as the file reader takes them (`FileReadControl`). */
+export interface TypedReadControl {
+  readonly signal?: AbortSignal;
+  /** About every 100 ms and once at the end. */
+  readonly onProgress?: (progress: { readonly bytesRead: number; readonly totalBytes: number; readonly rows: number }) => void;
+}
+
+/** A progress callback that reports at most every 100 ms, and always when `final`. */
+export function throttledProgress(control: TypedReadControl): (bytesRead: number, totalBytes: number, rows: number, final?: boolean) => void {
+  let last = 0;
+  return (bytesRead, totalBytes, rows, final = false) => {
+    if (!control.onProgress) return;
+    const now = Date.now();
+    if (!final && now - last < 100) return;
+    last = now;
+    control.onProgress({ bytesRead, totalBytes, rows });
+  };
+}
+
 /** A date or time cell: shown as ISO text in categories, refused as a number. */
 export class DateCell {
   constructor(readonly iso: string) {}

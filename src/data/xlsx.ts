@@ -24,7 +24,7 @@ import { createHash } from 'node:crypto';
 import { readFile, stat } from 'node:fs/promises';
 import type { IntakeOptions } from './options';
 import type { Records } from './records';
-import { DateCell, TypedSink, type TypedValue } from './typed';
+import { DateCell, throttledProgress, TypedSink, type TypedReadControl, type TypedValue } from './typed';
 import type { Aggregate, AggregateRequest } from './types';
 import { fail } from './where';
 import { inflateEntry, streamEntry, zipEntries, ZipProblem, type ZipEntry } from './zip';
@@ -423,6 +423,9 @@ async function streamRows(
   onRow: (row: number, cells: RowCells) => boolean | void,
   noCache: string[],
   counts: { noCache: number },
+  onBytes?: (inflated: number, total: number) => void,
+  /** Cells that make a row a record even when not decoded (the header's columns); default: the wanted ones. */
+  inSpan: (column: number, row: number) => boolean = wanted,
 ): Promise<void> {
   const entry = ctx.book.entries.get(ctx.target.sheet.part);
   if (!entry) problem({ file: ctx.file }, `the sheet \`${ctx.target.sheet.name}\` has no worksheet part (${ctx.target.sheet.part}) in the package`, 'corrupt-workbook');
@@ -503,6 +506,7 @@ async function streamRows(
       const rowEnd = block.indexOf(tags.rowClose, tagEnd);
       if (rowEnd < 0) unclosed('row', rowNumber);
       let column = -1;
+      let present = false;
       let c = block.indexOf(tags.cOpen, tagEnd);
       while (c >= 0 && c < rowEnd) {
         if (!endsTagName(block.charCodeAt(c + tags.cOpen.length))) {
@@ -520,9 +524,10 @@ async function streamRows(
         const cEnd = block.indexOf(tags.cClose, cTagEnd);
         if (cEnd < 0 || cEnd > rowEnd) unclosed('cell', rowNumber);
         if (wanted(column, rowNumber)) cellValue(block, c, cTagEnd, cTagEnd + 1, cEnd, column);
+        else if (!present && cEnd > cTagEnd + 1 && inSpan(column, rowNumber)) present = true;
         c = block.indexOf(tags.cOpen, cEnd);
       }
-      if (cells.size > 0) {
+      if (cells.size > 0 || present) {
         if (onRow(rowNumber, cells) === false) stopped = true;
         cells.clear();
       }
@@ -530,8 +535,11 @@ async function streamRows(
     }
   };
   try {
+    let inflated = 0;
     await streamEntry(ctx.book.bytes, entry, (piece, final) => {
       if (stopped) return false;
+      inflated += piece.length;
+      onBytes?.(inflated, entry.size);
       pending += decoder.decode(piece, { stream: !final });
       if (prefix === undefined) {
         const m = new RegExp(`<(${P})sheetData\\b`).exec(pending);
@@ -730,7 +738,7 @@ export async function aggregateWorkbook(
   path: string,
   requests: readonly AggregateRequest[],
   options: IntakeOptions & WorkbookSelection = {},
-  control: { readonly signal?: AbortSignal } = {},
+  control: TypedReadControl = {},
 ): Promise<{ aggregates: Aggregate[]; notices: Notice[] }> {
   const file = options.file ?? path;
   control.signal?.throwIfAborted();
@@ -749,6 +757,7 @@ export async function aggregateWorkbook(
   }));
   const used = new Set(sink.usedIndices().map((k) => k + header.left));
   let rows = 0;
+  const progress = throttledProgress(control);
   const cell = (cells: RowCells) => (index: number) => cells.get(header.left + index) as TypedValue;
   await streamRows(
     ctx,
@@ -765,7 +774,11 @@ export async function aggregateWorkbook(
     },
     noCache,
     counts,
+    (inflated, total) => progress(inflated, total, rows),
+    // A row with a value in any of the header's columns is a record (then missing where a used column is empty), as in a CSV.
+    (column, row) => row > header.row && column >= header.left && column < header.left + header.columns.length && (!area || row <= area.bottom),
   );
+  progress(1, 1, rows, true);
   if (rows === 0) problem({ file }, `${area ? `${sheetRef}!${areaText(area)}` : `the sheet ${sheetRef}`} has a header row (row ${header.row}) but no rows of data`, 'empty-input');
   if (counts.noCache > 0)
     notices.push({

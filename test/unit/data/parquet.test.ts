@@ -78,6 +78,18 @@ describe('Parquet reader against DuckDB (test/fixtures/duckdb)', () => {
     assert.notEqual(one.aggregates[0].provenance.sha256, two.aggregates[0].provenance.sha256);
   });
 
+  it('reports progress up to the whole file and stops when cancelled', async () => {
+    const path = join(dir, 'orders-zstd.parquet');
+    const seen: { bytesRead: number; totalBytes: number; rows: number }[] = [];
+    await aggregateParquet(path, [{ kind: 'categories', column: 'region' }], {}, { onProgress: (p) => seen.push(p) });
+    const last = seen[seen.length - 1];
+    assert.equal(last.bytesRead, last.totalBytes);
+    assert.equal(last.rows, ref.files['orders-zstd'].rows);
+    const controller = new AbortController();
+    controller.abort(new Error('stop'));
+    await assert.rejects(() => aggregateParquet(path, [{ kind: 'categories', column: 'region' }], {}, { signal: controller.signal }), /stop/);
+  });
+
   it('previews the flat columns as text records', async () => {
     const { records, complete } = await previewParquet(join(dir, 'orders-gzip.parquet'), 4);
     assert.deepEqual(records.columns, ['order_id', 'region', 'channel', 'amount', 'qty', 'rush', 'ordered_on']);

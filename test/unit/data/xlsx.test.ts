@@ -88,6 +88,12 @@ describe('xlsx reader against openpyxl + pandas (test/fixtures/xlsx)', () => {
     assert.equal(aggregates[0].provenance.description, "kilns.xlsx 'Line 2'!B2:H302");
   });
 
+  it('counts a row whose used cell is empty as a dropped record, as pandas has it as NaN, whichever columns are read', async () => {
+    const { aggregates } = await aggregateWorkbook(kilns, [{ kind: 'categories', column: 'kiln' }], { sheet: 'Line 2', range: 'B2:H302' });
+    assert.equal(aggregates[0].provenance.rows, ref.line2.rows);
+    assert.equal(aggregates[0].provenance.dropped, ref.line2.kiln_missing);
+  });
+
   it('reads a defined name and a table like the range they stand for', async () => {
     const byName = await aggregateWorkbook(kilns, [{ kind: 'crosstab', rowColumn: 'kiln', columnColumn: 'glaze' }], { range: 'Inspections' });
     assertSameTable(table(byName.aggregates[0]), ref.line2.kiln_by_glaze, 'defined name Inspections');
@@ -128,6 +134,17 @@ describe('xlsx reader against openpyxl + pandas (test/fixtures/xlsx)', () => {
     assert.match(a.provenance.sha256, /^[0-9a-f]{64}$/);
     assert.notEqual(a.provenance.sha256, c.provenance.sha256, 'another range is another fingerprint');
     assert.notEqual(a.provenance.sha256, b.provenance.sha256, 'the defined name is part of what was read');
+  });
+
+  it('reports progress up to the whole sheet and stops when cancelled', async () => {
+    const seen: { bytesRead: number; totalBytes: number; rows: number }[] = [];
+    await aggregateWorkbook(kilns, [{ kind: 'categories', column: 'kiln' }], { sheet: 'Line 2', range: 'B2:H302' }, { onProgress: (p) => seen.push(p) });
+    const last = seen[seen.length - 1];
+    assert.equal(last.bytesRead, last.totalBytes);
+    assert.equal(last.rows, ref.line2.rows, 'every row of the table is a record, whichever columns are read');
+    const controller = new AbortController();
+    controller.abort(new Error('stop'));
+    await assert.rejects(() => aggregateWorkbook(kilns, [{ kind: 'categories', column: 'kiln' }], { sheet: 'Line 2' }, { signal: controller.signal }), /stop/);
   });
 
   it('previews a sheet as text records for the editor', async () => {
