@@ -14,17 +14,9 @@ import { decompressPage, readDataPage, readDataPageV2 } from 'hyparquet/src/data
 import { readPlain } from 'hyparquet/src/plain.js';
 import { getMaxDefinitionLevel } from 'hyparquet/src/schema.js';
 import type { ColumnMetaData, Compressors, SchemaTree } from 'hyparquet';
+import { NULL_INDEX, VALUE_INDEX, type EncodedColumn } from './typed';
 
-/** One column of one row group: `index[i]` ≥ 0 is a dictionary entry, -1 a null, -2 a value in `values[i]`. */
-export interface EncodedColumn {
-  readonly dictionary: ArrayLike<unknown>;
-  readonly index: Int32Array;
-  readonly values: unknown[] | undefined;
-}
-
-export const NULL_INDEX = -1;
 const MAX_PAGE_BYTES = 256 * 1024 * 1024;
-export const VALUE_INDEX = -2;
 
 /**
  * Decodes the pages of one flat column chunk (`bytes`: the chunk from its first page) for `rows` rows.

@@ -11,8 +11,17 @@ import { parseDecimal } from './numbers';
 import type { IntakeOptions } from './options';
 import type { Aggregate, AggregateRequest } from './types';
 import { shown, type PositionUnit } from './where';
-import { NULL_INDEX, type EncodedColumn } from './parquetPages';
 import { InputError } from '../errors';
+
+/** One column of a batch as a dictionary and indices: `index[i]` ≥ 0 is a dictionary entry, -1 a null, -2 a value in `values[i]`. */
+export interface EncodedColumn {
+  readonly dictionary: ArrayLike<unknown>;
+  readonly index: Int32Array;
+  readonly values: unknown[] | undefined;
+}
+
+export const NULL_INDEX = -1;
+export const VALUE_INDEX = -2;
 
 /** Cancellation and progress, as the file reader takes them (`FileReadControl`). */
 export interface TypedReadControl {
