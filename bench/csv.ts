@@ -94,7 +94,7 @@ export function ensureData(rows: number): void {
 }
 
 /** What every candidate reports: the depot × size counts and the weight's variance. */
-interface Outcome {
+export interface Outcome {
   readonly counts: Record<string, number>;
   readonly variance: number;
   readonly rows: number;
@@ -217,12 +217,17 @@ async function child(candidate: string, path: string): Promise<Outcome> {
   }
 }
 
-if (process.env[CHILD]) {
-  // A child measures one candidate only: no other bench part may start beside it (a part that
-  // runs itself when `require.main === module` would, inside the one bundle).
+/**
+ * In a child process started with `env` set to "candidate<TAB>path": runs that one candidate and prints its
+ * outcome as JSON. No other bench part may start beside it (a part that runs itself when
+ * `require.main === module` would, inside the one bundle).
+ */
+export function runAsChild(env: string, run: (candidate: string, path: string) => Promise<Outcome>): void {
+  const value = process.env[env];
+  if (!value) return;
   (require as { main?: unknown }).main = undefined;
-  const [candidate, path] = process.env[CHILD].split('\t');
-  child(candidate, path).then(
+  const [candidate, path] = value.split('\t');
+  run(candidate, path).then(
     (outcome) => {
       process.stdout.write(`${JSON.stringify(outcome)}\n`);
       process.exit(0);
@@ -233,6 +238,8 @@ if (process.env[CHILD]) {
     },
   );
 }
+
+runAsChild(CHILD, child);
 
 const PANDAS = `
 import json, sys
@@ -256,7 +263,7 @@ cat(sprintf('{"counts":{%s},"variance":%.17g,"rows":%d,"pValue":"%g","note":"dat
   cells, var(d$weight_kg), nrow(d), p, as.character(packageVersion('data.table'))))
 `;
 
-interface Measured {
+export interface Measured {
   readonly name: string;
   readonly seconds: number;
   /** User + system CPU seconds (all threads). */
@@ -268,7 +275,7 @@ interface Measured {
 }
 
 /** Runs a command under /usr/bin/time -v: wall seconds (spawn to exit) and peak RSS. */
-function measure(name: string, command: string, args: string[], env: NodeJS.ProcessEnv, scale: number): Measured {
+export function measure(name: string, command: string, args: string[], env: NodeJS.ProcessEnv, scale: number): Measured {
   const useTime = existsSync('/usr/bin/time');
   const started = process.hrtime.bigint();
   const run = useTime
@@ -289,7 +296,7 @@ function measure(name: string, command: string, args: string[], env: NodeJS.Proc
 }
 
 /** The fastest of `times` runs: the one least disturbed by other processes on a shared machine. */
-function fastest(times: number, run: () => Measured): Measured {
+export function fastest(times: number, run: () => Measured): Measured {
   let best = run();
   for (let k = 1; k < times && !best.error; k++) {
     const next = run();

@@ -14,6 +14,8 @@ const parts: BenchPart[] = [
   require('./exact').exactBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./extension').extensionBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./activation').activationBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./tabular').xlsxBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./tabular').parquetBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
 async function main(): Promise<void> {

@@ -30,7 +30,7 @@ const entries = [
   // The byte scanner's thread for big files (src/data/parallel.ts finds it beside the bundle that starts it).
   { entryPoints: ['src/data/scanWorker.ts'], outfile: 'dist/scanWorker.js', platform: 'node', format: 'cjs' },
   { entryPoints: ['src/webview/main.ts'], outfile: 'dist/webview.js', platform: 'browser', format: 'iife', target: 'es2022' },
-  { entryPoints: ['bench/index.ts'], outfile: 'dist/bench.js', platform: 'node', format: 'cjs', external: ['jstat', 'csv-parse', 'pg'] },
+  { entryPoints: ['bench/index.ts'], outfile: 'dist/bench.js', platform: 'node', format: 'cjs', external: ['jstat', 'csv-parse', 'pg', '@duckdb/node-api'] },
 ];
 
 mkdirSync('dist', { recursive: true });

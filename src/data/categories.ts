@@ -63,14 +63,7 @@ export class CategoryCoder {
   /** The category id of a raw field value, or MISSING. */
   code(raw: string, line: number): number {
     const label = raw.trim();
-    if (this.tokens.has(label)) {
-      if (this.settings.missing?.policy !== 'category') return MISSING;
-      if (this.missingId === MISSING) {
-        this.missingId = this.labels.length;
-        this.labels.push(this.settings.missing.label ?? '(missing)');
-      }
-      return this.missingId;
-    }
+    if (this.tokens.has(label)) return this.missing();
     const key = this.key(label);
     const known = this.ids.get(key);
     if (known !== undefined) return known;
@@ -83,6 +76,16 @@ export class CategoryCoder {
     this.ids.set(key, id);
     this.labels.push(label);
     return id;
+  }
+
+  /** The code of a missing value (an empty cell, a null): MISSING, or the missing level under the `category` policy. */
+  missing(): number {
+    if (this.settings.missing?.policy !== 'category') return MISSING;
+    if (this.missingId === MISSING) {
+      this.missingId = this.labels.length;
+      this.labels.push(this.settings.missing.label ?? '(missing)');
+    }
+    return this.missingId;
   }
 
   /** Whether the level was among the given categories. */

@@ -38,7 +38,7 @@ export interface FileReadControl extends ParallelChoice {
   readonly chunkSize?: number;
 }
 
-export type FileReader = 'byte-scanner' | 'csv-parse';
+export type FileReader = 'byte-scanner' | 'csv-parse' | 'xlsx' | 'parquet';
 export type FileAggregate = Aggregate & { readonly reader: FileReader };
 
 type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'latin1';
@@ -132,7 +132,7 @@ function kindOf(stat: Stats): string {
  * Opens a data file for reading: the real path is checked against the allowed folder first; the open does not
  * block (O_NONBLOCK, so a FIFO without a writer returns at once) and anything but a regular file is refused.
  */
-async function openRegularFile(path: string, file: string, allowedRoot: string | undefined): Promise<{ target: string; handle: FileHandle; stat: Stats }> {
+export async function openRegularFile(path: string, file: string, allowedRoot: string | undefined): Promise<{ target: string; handle: FileHandle; stat: Stats }> {
   const target = allowedRoot === undefined ? path : await realPathInside(path, file, allowedRoot);
   let handle: FileHandle;
   try {

@@ -8,7 +8,8 @@
  *   parseNotebookOutput(mime, data) → Selection        a notebook cell output
  *   aggregateRecords(records, request, options)        Records → Aggregate (counts, table, moments)
  *   aggregateFile(path, request, options, control)     ./file: a file of any size, streamed
- *   aggregateFileMany(path, requests, options, control) ./file: several requests in one pass
+ *   aggregateFileMany(path, requests, options, control) ./file: several requests in one pass; .xlsx and .parquet
+ *                                                       paths go to ./xlsx and ./parquet (they read files too)
  *
  * Long counts (two category columns and a count column) are a `crosstab` request with `weight` set
  * to the count column; one category column with counts is a `categories` request with `weight`.

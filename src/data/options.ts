@@ -70,4 +70,8 @@ export interface IntakeOptions {
    * Undefined: no folder check (the user allowed paths outside the workspace, or named the file directly).
    */
   readonly allowedRoot?: string;
+  /** A workbook's sheet (`.xlsx` files only). */
+  readonly sheet?: string;
+  /** A workbook's range: `B2:F40`, a defined name or a table (`.xlsx` files only). */
+  readonly range?: string;
 }

@@ -8,6 +8,8 @@ import { sha256Hex } from './delimited';
 import { aggregateFile, MAX_TEXT_FILE_BYTES, readTextFile } from './file';
 import { readJsonData, type JsonData } from './json';
 import { parseMarkdownTable } from './markdown';
+import { aggregateParquet, previewParquet } from './parquet';
+import { aggregateWorkbook, previewWorkbook, workbookChoices } from './xlsx';
 import { readDelimitedPreview, readDelimitedRecords } from './preview';
 import type { IntakeOptions } from './options';
 import type { Records } from './records';
@@ -42,7 +44,36 @@ export interface FileReaderEntry {
   /** Hosts inject their own call of this reader (the streaming reader with their progress display). */
   readonly hostInjected?: boolean;
   /** The file for the editor's planner: its first records (`whole`: all of them). `file` names it in messages. */
-  readonly view: (path: string, file: string, whole: boolean) => Promise<FileView>;
+  readonly view: (path: string, file: string, whole: boolean, part?: FilePart['source']) => Promise<FileView>;
+  /** A file of several tables (a workbook's sheets, defined names, tables): the parts to choose from. */
+  readonly parts?: (path: string, file: string) => Promise<readonly FilePart[]>;
+}
+
+/** One table inside a file, and the `source` fields that select it. */
+export interface FilePart {
+  readonly label: string;
+  /** "sheet", "defined name · 'Line 2'!B2:H302", … */
+  readonly detail?: string;
+  readonly source: { readonly sheet?: string; readonly range?: string };
+}
+
+/** Rows of a workbook or Parquet file shown to the planner (about what 64 KB of CSV holds). */
+const PREVIEW_ROWS = 2000;
+/** Rows read when a procedure keeps every record inline. */
+const WHOLE_ROWS = 1_000_000;
+
+/** The typed readers report bytes and rows; the table's callers want a fraction. */
+const typedControl = (control: ReadControl) => ({ signal: control.signal, onProgress: (p: { bytesRead: number; totalBytes: number }) => { if (p.totalBytes) control.onProgress?.(p.bytesRead / p.totalBytes); } });
+const workbook: ReadAggregate = async (path, request, options, control) => (await aggregateWorkbook(path, [request], options, typedControl(control))).aggregates[0];
+const parquet: ReadAggregate = async (path, request, options, control) => (await aggregateParquet(path, [request], options, typedControl(control)))[0];
+
+async function workbookParts(path: string, file: string): Promise<readonly FilePart[]> {
+  const kinds = { sheet: 'sheet', name: 'defined name', table: 'table' } as const;
+  return (await workbookChoices(path, file)).map((c) => ({
+    label: c.label,
+    detail: c.detail ? `${kinds[c.kind]} · ${c.detail}` : kinds[c.kind],
+    source: c.kind === 'sheet' || c.range === undefined ? { sheet: c.sheet } : { sheet: c.sheet, range: c.range },
+  }));
 }
 
 /** A SQL source: the server counts; the read itself is injected by the host (it holds the passwords). */
@@ -95,6 +126,10 @@ const ALL: readonly Delivery[] = ['records', 'counts', 'moments', 'values'];
 export const FILE_READERS: readonly FileReaderEntry[] = [
   { name: 'JSON records', extensions: ['.json'], delivers: ALL, read: wholeText(jsonRecords), view: wholeView((text, file) => readJsonData(text, { file })) },
   { name: 'markdown table', extensions: ['.md', '.markdown'], delivers: ALL, read: wholeText(markdownRecords), view: wholeView((text, file) => ({ kind: 'records', records: markdownRecords(text, file) })) },
+  { name: 'Excel workbook', extensions: ['.xlsx'], delivers: ALL, read: workbook, parts: workbookParts,
+    view: async (path, file, whole, part = {}) => { const { records, complete } = await previewWorkbook(path, part, whole ? WHOLE_ROWS : PREVIEW_ROWS, file); return { data: { kind: 'records', records }, complete }; } },
+  { name: 'Parquet', extensions: ['.parquet'], delivers: ALL, read: parquet,
+    view: async (path, file, whole) => { const { records, complete } = await previewParquet(path, whole ? WHOLE_ROWS : PREVIEW_ROWS, file); return { data: { kind: 'records', records }, complete }; } },
   { name: 'delimited text', extensions: ['.csv', '.tsv', '.tab', '.txt', ''], delivers: ALL, read: delimited, hostInjected: true, view: delimitedView },
 ];
 

@@ -4,6 +4,7 @@
  * so `stats/` never knows where the data came from.
  */
 import type { MomentSummary } from '../stats/moments';
+import type { Notice } from '../stats/result';
 
 /** An r×c table of counts with its labels. */
 export interface CountTable {
@@ -31,6 +32,8 @@ export interface Provenance {
   readonly dropped: number;
   /** Columns used, in the order they were used. */
   readonly columns: readonly string[];
+  /** What the reader had to say about the data (a formula without a stored value, a merged header). */
+  readonly notices?: readonly Notice[];
 }
 
 /** What a reader is asked to produce. */

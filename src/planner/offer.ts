@@ -25,7 +25,13 @@ export type Offer =
        * `complete`: the records are the whole file. `readAll` reads every record, for procedures whose saved
        * form holds the counts inline (stratified tables).
        */
-      readonly file?: { readonly path: string; readonly complete: boolean; readonly readAll?: () => Promise<Records> };
+      readonly file?: {
+        readonly path: string;
+        readonly complete: boolean;
+        readonly readAll?: () => Promise<Records>;
+        /** More `source` fields that select the table inside the file (a workbook's `sheet` and `range`). */
+        readonly source?: { readonly sheet?: string; readonly range?: string };
+      };
     }
   | { readonly kind: 'counted'; readonly data: Exclude<JsonData, { kind: 'records' }>; readonly description: string }
   | {

@@ -153,9 +153,9 @@ export async function plan(request: PlanRequest): Promise<Plan> {
     const file = offer.kind === 'records' ? offer.file : undefined;
     if (file && view.form === 'table' && (test === 'independence' || test === 'post-hoc')) {
       // A counted table in a file: the saved test reads the file, so a re-run sees its changes.
-      data = { ...data, fields: { source: { path: relativePath(request.specFolder, file.path) } } };
+      data = { ...data, fields: { source: { path: relativePath(request.specFolder, file.path), ...file.source } } };
     } else if (file && view.form === 'categories' && test === 'goodness-of-fit' && view.labelColumn && view.countColumn) {
-      data = { ...data, fields: { source: { path: relativePath(request.specFolder, file.path), columns: [view.labelColumn], weight: view.countColumn } } };
+      data = { ...data, fields: { source: { path: relativePath(request.specFolder, file.path), ...file.source, columns: [view.labelColumn], weight: view.countColumn } } };
     }
   }
   Object.assign(fields, data.fields);
@@ -232,7 +232,7 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   await checkCategoryColumns(view, roles, columns, weight, questions);
   if (view.records && !measured) checkNotOnePerRow(view.records, columns, weight, proposal.test, view.columns, offer.description);
 
-  const source = offer.kind === 'records' && offer.file ? { path: relativePath(request.specFolder, offer.file.path) } : offer.kind === 'catalogue' ? { sql: offer.sql } : undefined;
+  const source = offer.kind === 'records' && offer.file ? { path: relativePath(request.specFolder, offer.file.path), ...offer.file.source } : offer.kind === 'catalogue' ? { sql: offer.sql } : undefined;
   const decimal = columns.map((c) => view.columns.find((x) => x.name === c)?.profile?.decimal).find((d) => d === ',');
   const sourceWith = () => ({ ...source, columns, ...(weight ? { weight } : {}), ...(decimal ? { decimal } : {}), ...(offer.kind === 'catalogue' && given.where ? { where: given.where } : {}) });
   // A procedure whose field table has a `source` reads the file or the database itself when run.
@@ -351,7 +351,7 @@ async function askOptions(test: string, fields: Record<string, unknown>, data: D
 }
 
 /** Answers that are not fields of the saved test. */
-const NOT_FIELDS = ['test', 'columns', 'weight', 'proportions', 'where'];
+const NOT_FIELDS = ['test', 'columns', 'weight', 'proportions', 'where', 'sheet', 'range'];
 
 async function askProportions(questions: Questions, levels: readonly string[] | undefined, remembered: unknown): Promise<'equal' | number[]> {
   const k = levels?.length;

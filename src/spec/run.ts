@@ -31,8 +31,10 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
       return aggregate;
     },
   };
-  const result = await handler.run(spec, ctx);
+  const computed = await handler.run(spec, ctx);
   throwIfAborted(options.signal);
+  // What the reader noticed (a formula without a stored value, a merged header) goes with the result's notices.
+  const result = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
   const data: DataFingerprint = provenance
     ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }
     : inlineFingerprint(spec);
@@ -63,6 +65,8 @@ export function intakeOptionsOf(source: SourceSpec, levels?: Pick<CategoryOption
   };
   return {
     dialect,
+    ...(source.sheet !== undefined ? { sheet: source.sheet } : {}),
+    ...(source.range !== undefined ? { range: source.range } : {}),
     ...(missing ? { missing } : {}),
     categories,
     ...(source.path !== undefined ? { file: source.path, description: source.path } : {}),

@@ -41,6 +41,28 @@ describe('commands on data', () => {
     assert.ok(payload.assumptions.some((a) => a.id === 'normality'));
   });
 
+  it('runs on a sheet and range of an Excel workbook, and the spec it builds names them', async () => {
+    const payload = await panelFrom(() =>
+      vscode.commands.executeCommand('countercheck.runOnFile', vscode.Uri.file(workspacePath('data', 'glass-inspections.xlsx')), { sheet: 'Line 2', range: 'B3:G483', test: 'independence', columns: ['shift', 'defect'] }),
+    );
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'independence');
+    // scipy 1.10.1 chi2_contingency on the same cells read by pandas.read_excel (test/fixtures/scipy/demo-specs.json, glass-line2-defects).
+    closeTo(r.statistic, 31.132622733616767, 1e-9, 'X²');
+    assert.equal(r.n, 476);
+  });
+
+  it('runs on a Parquet file', async () => {
+    const payload = await panelFrom(() =>
+      vscode.commands.executeCommand('countercheck.runOnFile', vscode.Uri.file(workspacePath('data', 'tea-shipments.parquet')), { test: 'variance', columns: ['weight_g'], sigma0: 2, alternative: 'two-sided' }),
+    );
+    const r = payload.result as TestResult;
+    assert.equal(r.test, 'variance');
+    // scipy on the values read by DuckDB (test/fixtures/scipy/demo-specs.json, tea-parcel-weight-spread).
+    closeTo(r.statistic, 12243.52785033325, 1e-9, 'χ²');
+    assert.equal(r.df, 11852);
+  });
+
   it('tests goodness of fit of one column against equal proportions', async () => {
     const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'goodness-of-fit', columns: ['dock'], proportions: 'equal' }));
     const r = payload.result as TestResult;

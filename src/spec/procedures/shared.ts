@@ -48,7 +48,9 @@ export function checkLambda(spec: { readonly lambda?: number; readonly statistic
 export function sourceField(columnsHelp: string, minColumns: number, maxColumns: number) {
   return field(
     obj({
-      path: field(str({ nonEmpty: true }), 'Data file, relative to this spec file (absolute paths and paths leading out of the workspace are refused unless allowed).'),
+      path: field(str({ nonEmpty: true }), 'Data file, relative to this spec file (absolute paths and paths leading out of the workspace are refused unless allowed): delimited text, JSON, an Excel workbook (.xlsx) or a Parquet file (.parquet).'),
+      sheet: field(str({ nonEmpty: true }), 'Sheet of an Excel workbook (.xlsx). May be left out when the workbook has one sheet.'),
+      range: field(str({ nonEmpty: true }), 'Part of the sheet to read (.xlsx): a range such as "B2:F40", a defined name or a table name; its first row holds the column names. Default: every cell of the sheet.'),
       columns: field(arr(str({ nonEmpty: true }), { minItems: minColumns, maxItems: maxColumns }), columnsHelp),
       weight: field(str({ nonEmpty: true }), 'Frequency-weight column: each record counts as many times as this whole number says.'),
       delimiter: field(str({ enum: [',', ';', '\t', '|', 'auto'] }), 'Field delimiter. Default: detected from the first lines.'),
