@@ -83,7 +83,7 @@ describe('results panel', () => {
     const doc = await vscode.workspace.openTextDocument(uri);
     const editor = await vscode.window.showTextDocument(doc);
     editor.selection = new vscode.Selection(1, 0, 1, 0);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
     await vscode.window.showTextDocument(doc, { viewColumn: editor.viewColumn });
     const a = await api();
     await a.panelAction('insert');
