@@ -335,19 +335,25 @@ async function askOptions(test: string, fields: Record<string, unknown>, data: D
     }
   }
   for (const [k, v] of Object.entries(given)) if (!NOT_FIELDS.includes(k) && v !== undefined) fields[k] = v;
-  for (const q of procedureFor(test)?.planning?.questions ?? []) {
-    if (fields[q.field] !== undefined || (q.when && !q.when(fields))) continue;
-    const all = procedureFor(test)?.planning?.questions ?? [];
+  const all = procedureFor(test)?.planning?.questions ?? [];
+  // Fields whose value is asked after the others (`valueLater`), and rivals already decided against.
+  const later: typeof all[number][] = [];
+  const decided = new Set<string>();
+  for (const q of all) {
+    if (decided.has(q.field) || fields[q.field] !== undefined || (q.when && !q.when(fields))) continue;
     const rival = q.orElse !== undefined && fields[q.orElse] === undefined ? all.find((r) => r.field === q.orElse) : undefined;
     if (rival) {
-      // Two fields that exclude each other (n or power, x or p): which one first.
+      // Two fields that exclude each other (n or power, x or p): which one first, so no number is read as the other.
       const which = await questions.choose({ title: 'What to give', placeholder: `${q.title}, or ${rival.title.toLowerCase()}?`, choices: [q, rival].map((x) => ({ label: x.title, value: x })), remembered: (x) => remembered[x.field] !== undefined });
-      fields[which.field] = answers[which.field] = await askField(questions, test, which.field, which.title, { remembered: remembered[which.field], choiceLabels: which.choiceLabels });
+      decided.add(q.field).add(rival.field);
+      if (q.valueLater) later.push(which);
+      else fields[which.field] = answers[which.field] = await askField(questions, test, which.field, which.title, { remembered: remembered[which.field] ?? which.preset, choiceLabels: which.choiceLabels });
       continue;
     }
     const extraPrompt = q.field === 'sigma0' && data.variable ? `(in the units of "${data.variable}")` : undefined;
-    fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field], choiceLabels: q.choiceLabels, extraPrompt });
+    fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels, extraPrompt });
   }
+  for (const q of later) fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels });
 }
 
 /** Answers that are not fields of the saved test. */

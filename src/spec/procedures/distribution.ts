@@ -33,9 +33,11 @@ export const distributionProcedure = defineProcedure({
     detail: 'Tail probabilities and critical values for some degrees of freedom',
     accepts: ['anything'],
     questions: [
+      // What is wanted first, so a number is never read as the other kind (a statistic or an α).
+      { field: 'x', title: 'Probability for a statistic', orElse: 'p', valueLater: true, when: (spec) => spec.p === undefined },
+      // α = 0.05 offered: common practice, not a rule.
+      { field: 'p', title: 'Critical value for α', preset: 0.05, when: (spec) => spec.x === undefined },
       { field: 'df', title: 'Degrees of freedom' },
-      { field: 'x', title: 'Value of the statistic', orElse: 'p', when: (spec) => spec.p === undefined },
-      { field: 'p', title: 'Probability', when: (spec) => spec.x === undefined },
     ],
   },
   fields: {

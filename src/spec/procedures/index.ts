@@ -72,6 +72,10 @@ export interface FieldQuestion {
   readonly when?: (spec: Readonly<Record<string, unknown>>) => boolean;
   /** A field that may be given instead of this one: the user first chooses which of the two to give. */
   readonly orElse?: string;
+  /** With `orElse`: the choice is asked at this point, the chosen field's value after the other questions. */
+  readonly valueLater?: boolean;
+  /** The value offered when the field has no default and nothing was answered before. */
+  readonly preset?: unknown;
   /** Labels for the values of an enumerated field. */
   readonly choiceLabels?: Readonly<Record<string, string>>;
 }

@@ -21,7 +21,7 @@ const SCRIPTS: Record<string, Record<string, string | boolean | readonly string[
   paired: { 'Which test?': 'Paired classifications', 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' },
   stratified: { 'Which test?': 'Stratified tables (Cochran–Mantel–Haenszel)', 'Choose the strata': 'oven', 'Choose the rows': 'shift', 'Choose the columns': 'defect' },
   power: { 'Which test?': 'Power or sample size', 'Which test the power is for': 'independence', "Effect size (Cohen's w)": '0.3', 'Degrees of freedom': '4', 'What to give': 'Target power', 'Target power': '0.8' },
-  distribution: { 'Which test?': 'Chi-square distribution', 'Degrees of freedom': '3', 'What to give': 'Probability', Probability: '0.05' },
+  distribution: { 'Which test?': 'Chi-square distribution', 'Degrees of freedom': '3', 'What to give': 'Critical value for α', 'Critical value for α': '0.05' },
 };
 
 function selectionOffer(): Offer {
