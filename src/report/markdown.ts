@@ -6,6 +6,7 @@
 import type { CellGrid, CategoryRow, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
 import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPExact, formatProbability } from './format';
 import { CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
+import { evidenceLines } from './evidence';
 
 /** Escapes text for a markdown table cell or inline text. */
 export function escapeMarkdown(text: string): string {
@@ -77,6 +78,7 @@ export function testMarkdown(result: TestResult, options: ReportOptions = DEFAUL
   const extra = [
     ...rest.map((e) => `- ${escapeMarkdown(estimateText(e, options))}`),
     ...result.otherStatistics.map((s) => `- ${escapeMarkdown(statisticLineText(s, result.n, options))}${s.note ? ` (${escapeMarkdown(s.note)})` : ''}`),
+    ...evidenceLines(result, options).map((line) => `- ${escapeMarkdown(line)}`),
   ];
   if (extra.length) parts.push(extra.join('\n'));
   const notes = [

@@ -18,6 +18,7 @@ import {
   formatProbability,
   type FormatOptions,
 } from './format';
+import { evidenceLines } from './evidence';
 
 /** Closes every report. */
 export const CAUTION =
@@ -101,6 +102,7 @@ export function testText(result: TestResult, options: ReportOptions = DEFAULT_FO
   if (main) lines.push(`Estimate: ${estimateText(main, options)}${main.note ? ` (${main.note})` : ''}`);
   for (const e of rest) lines.push(`Estimate: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
   for (const s of result.otherStatistics) lines.push(`Also: ${statisticLineText(s, result.n, options)}${s.note ? ` (${s.note})` : ''}`);
+  lines.push(...evidenceLines(result, options));
   lines.push(...noticeLines(result.notices));
   const failed = result.assumptions.filter((a) => a.status === 'failed');
   if (failed.length) {

@@ -9,6 +9,7 @@ import { sha256Hex } from '../data/delimited';
 import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/options';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
+import { withEvidence } from './evidence';
 import { resolveSourcePath } from './paths';
 import { procedureFor } from './procedures/index';
 import type { DataFingerprint, RunContext, RunOptions, SourceSpec, SpecRun, SpecV1 } from './types';
@@ -30,7 +31,8 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
       return aggregate;
     },
   };
-  const result = await handler.run(spec, ctx);
+  const computed = await handler.run(spec, ctx);
+  const result = computed.kind === 'test' ? withEvidence(computed, spec) : computed;
   throwIfAborted(options.signal);
   const data: DataFingerprint = provenance
     ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }

@@ -166,7 +166,7 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
   const significant = startLogP < logAlpha;
   const flipped = (lp: number): boolean => (significant ? !(lp < logAlpha) : lp < logAlpha);
   const moves = allowedMoves(problem);
-  const maxTables = problem.maxTables ?? 100_000;
+  const maxTables = problem.maxTables ?? 20_000;
 
   // Breadth-first over distinct tables; the first table that flips is at the smallest number of changes.
   const seen = new Set<string>([key(start)]);

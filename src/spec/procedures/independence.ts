@@ -24,6 +24,7 @@ import {
   requireOneOf,
   sourceField,
 } from './shared';
+import { BAYES_FACTOR_TABLE_FIELD, FRAGILITY_FIELDS } from '../evidence';
 
 export const independenceProcedure: ProcedureHandler = {
   test: 'independence',
@@ -42,6 +43,8 @@ export const independenceProcedure: ProcedureHandler = {
     correction: field(bool, "Apply Yates' continuity correction (2×2 tables only). Effect sizes always use the uncorrected statistic. Default false."),
     ...COUNT_TEST_OPTIONS,
     confidence: CONFIDENCE,
+    ...FRAGILITY_FIELDS,
+    bayesFactor: BAYES_FACTOR_TABLE_FIELD,
   },
   validate(spec: SpecV1, path: string): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];

@@ -10,6 +10,7 @@ import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
 import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength, VARIABLE_NAME } from './shared';
+import { FRAGILITY_FIELDS } from '../evidence';
 
 type Table = readonly (readonly number[])[];
 
@@ -17,6 +18,7 @@ export const stratifiedProcedure: ProcedureHandler = {
   test: 'stratified',
   summary: 'Stratified tables: Cochran–Mantel–Haenszel test across strata of 2×2 tables (with the common odds ratio and Breslow–Day), or generalized CMH for R×C strata.',
   fields: {
+    ...FRAGILITY_FIELDS,
     strata: field(arr(arr(COUNT_ARRAY, { minItems: 2 }), { minItems: 1 }), 'One table of counts per stratum, all of the same size (2×2 for CMH).', true),
     stratumLabels: LABELS('strata'),
     rowLabels: LABELS('rows (the same in every stratum)'),

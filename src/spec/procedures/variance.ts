@@ -9,11 +9,13 @@ import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
 import { ALTERNATIVE, CONFIDENCE, VARIABLE_NAME, aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
+import { EQUIVALENCE_VARIANCE_FIELD } from '../evidence';
 
 export const varianceProcedure: ProcedureHandler = {
   test: 'variance',
   summary: 'Chi-square test for one variance: is the spread σ (or σ²) equal to a target, with its confidence interval?',
   fields: {
+    equivalence: EQUIVALENCE_VARIANCE_FIELD,
     values: field(arr(num(), { minItems: 2 }), 'Raw measurements.', true),
     summary: field(
       obj(
