@@ -2,22 +2,23 @@
  * The command line: the same saved specs as the editor, for a terminal or a pipeline.
  *
  *   countercheck run <specs…> [--json] [--record [--force]] [--decimals N] [--allow-outside]
- *   countercheck check <specs…> [--json] [--allow-outside]
+ *   countercheck check <specs, folders or reports…> [--json] [--adjust holm|bh|bonferroni] [--fragility-threshold N] [--allow-outside]
  *   countercheck report <report.md…> [--check] [--decimals N] [--allow-outside]
  *
  * `main` takes its streams and folder as arguments so tests run it in-process.
  */
-import { readFile, rename, writeFile } from 'node:fs/promises';
+import { readdir, readFile, rename, stat, writeFile } from 'node:fs/promises';
 import * as path from 'node:path';
 import { aggregateFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
 import { errorMessage, isInputError, isInstance } from './errors';
-import { refreshReport } from './report/blocks';
+import { parseReportBlocks, refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultText } from './report/text';
+import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, fragileConclusion, type FamilyMember, type MultiplicityMethod } from './spec/family';
 import { isInside } from './spec/paths';
-import { describeRunError, runReportBlock } from './spec/living';
+import { describeRunError, runReportBlock, type BlockRunOptions } from './spec/living';
 import { parseJsonWithLocations, type LocatedJson } from './spec/json-text';
 import { STATUS_LABEL, TOLERANCE_TEXT, compareWithRecord, cannotRun, describeReview, makeRecord, reviewExitCode, reviewJson, writeRecordedInto, type Review } from './spec/review';
 import { runSpec } from './spec/run';
@@ -53,8 +54,13 @@ Usage:
       --decimals N                decimals for statistics in text output (default 2)
       -                           read one spec from standard input
   countercheck check <spec…>      re-run each spec and compare with its recorded result:
-                                  reproduced / data changed / result differs / cannot run
+                                  reproduced / data changed / result differs / cannot run;
+                                  a folder means its *.countercheck.json files; a recorded significant
+                                  conclusion with a fragility index at most the threshold is flagged
       --json                      one JSON array, an object per spec
+      --adjust holm|bh|bonferroni read the specs (and the blocks of any report.md named) as one family:
+                                  each adjusted p-value, the family size, which conclusions change
+      --fragility-threshold N     flag fragility indices up to N (default ${DEFAULT_FRAGILITY_THRESHOLD})
   countercheck report <file.md…>  refresh the living result blocks (\`\`\`countercheck fences) in place
       --check                     only say what would change
   --allow-outside                 let specs read files outside the current folder (absolute paths, ..)
@@ -78,13 +84,15 @@ interface Flags {
   readonly check: boolean;
   readonly allowOutside: boolean;
   readonly decimals: number;
+  readonly adjust?: MultiplicityMethod;
+  readonly fragilityThreshold: number;
 }
 
 class UsageError extends Error {}
 
 function parseArgs(args: readonly string[]): { command?: string; files: string[]; flags: Flags; help: boolean; version: boolean } {
   const files: string[] = [];
-  const flags = { json: false, record: false, force: false, check: false, allowOutside: false, decimals: 2 };
+  const flags: { -readonly [K in keyof Flags]: Flags[K] } = { json: false, record: false, force: false, check: false, allowOutside: false, decimals: 2, fragilityThreshold: DEFAULT_FRAGILITY_THRESHOLD };
   let command: string | undefined;
   let help = false;
   let version = false;
@@ -102,6 +110,15 @@ function parseArgs(args: readonly string[]): { command?: string; files: string[]
       const d = Number(v);
       if (!Number.isInteger(d) || d < 0 || d > 12) throw new UsageError(`--decimals: expected a whole number from 0 to 12, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
       flags.decimals = d;
+    } else if (a === '--adjust' || a.startsWith('--adjust=')) {
+      const v = a.includes('=') ? a.slice(a.indexOf('=') + 1) : args[++i];
+      if (!MULTIPLICITY_METHODS.includes(v as MultiplicityMethod)) throw new UsageError(`--adjust: expected one of ${MULTIPLICITY_METHODS.join(', ')}, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
+      flags.adjust = v as MultiplicityMethod;
+    } else if (a === '--fragility-threshold' || a.startsWith('--fragility-threshold=')) {
+      const v = a.includes('=') ? a.slice(a.indexOf('=') + 1) : args[++i];
+      const t = Number(v);
+      if (!Number.isInteger(t) || t < 0) throw new UsageError(`--fragility-threshold: expected a whole number ≥ 0, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
+      flags.fragilityThreshold = t;
     } else if (a.startsWith('-') && a !== '-') throw new UsageError(`unknown option ${a} (see countercheck --help)`);
     else if (command === undefined) command = a;
     else files.push(a);
@@ -246,27 +263,77 @@ async function record(loaded: Loaded, run: SpecRun, flags: Flags, io: CliIo): Pr
   return 0;
 }
 
-async function commandCheck(files: readonly string[], flags: Flags, io: CliIo): Promise<number> {
-  const reviews: { file: string; review: Review }[] = [];
-  for (const file of files) {
+async function commandCheck(args: readonly string[], flags: Flags, io: CliIo): Promise<number> {
+  const { specs, reports } = await checkTargets(args, io);
+  const reviews: { file: string; review: Review; fragile?: ReturnType<typeof fragileConclusion> }[] = [];
+  const members: FamilyMember[] = [];
+  for (const file of specs) {
     let review: Review;
+    let fragile: ReturnType<typeof fragileConclusion>;
     try {
       const loaded = await loadSpec(file, io);
       const run = await runLoaded(loaded, io, flags);
       review = compareWithRecord(loaded.spec.recorded, run, TOOL, (io.now ?? (() => new Date()))());
+      fragile = fragileConclusion(review.recorded?.result.significant, run.result, flags.fragilityThreshold);
+      members.push({ name: file, result: run.result });
     } catch (e) {
       review = cannotRun(errorText(e, file));
     }
-    reviews.push({ file, review });
+    reviews.push({ file, review, ...(fragile ? { fragile } : {}) });
   }
-  if (flags.json) io.stdout(JSON.stringify(reviews.map((r) => reviewJson(r.review, r.file)), null, 2) + '\n');
-  else {
-    for (const r of reviews) io.stdout(`${describeReview(r.review, r.file)}\n`);
+  let blocksFailed = false;
+  for (const file of reports) {
+    const absolute = path.resolve(io.cwd, file);
+    for (const block of parseReportBlocks(await readFile(absolute, 'utf8'))) {
+      try {
+        const { run } = await runReportBlock(block, blockOptions(absolute, flags, io));
+        members.push({ name: `${file}:${block.fenceLine}`, result: run.result });
+      } catch (e) {
+        blocksFailed = true;
+        io.stderr(`${file}:${block.fenceLine}: cannot run: ${errorMessage(e)}\n`);
+      }
+    }
+  }
+  const family = flags.adjust ? adjustFamily(members, flags.adjust) : undefined;
+  if (flags.json) {
+    const entries = reviews.map((r) => ({ ...reviewJson(r.review, r.file), ...(r.fragile ? { fragile: r.fragile } : {}) }));
+    io.stdout(JSON.stringify(family ? { reviews: entries, family: familyJson(family) } : entries, null, 2) + '\n');
+  } else {
+    for (const r of reviews) io.stdout(`${describeReview(r.review, r.file)}${r.fragile ? `\n  ${r.fragile.message}` : ''}\n`);
     const counts = new Map<string, number>();
     for (const r of reviews) counts.set(STATUS_LABEL[r.review.status], (counts.get(STATUS_LABEL[r.review.status]) ?? 0) + 1);
-    io.stdout(`${[...counts].map(([label, n]) => `${n} ${label}`).join(', ')} (tolerance: ${TOLERANCE_TEXT})\n`);
+    if (reviews.length) io.stdout(`${[...counts].map(([label, n]) => `${n} ${label}`).join(', ')} (tolerance: ${TOLERANCE_TEXT})\n`);
+    if (family) io.stdout(`${describeFamily(family)}\n`);
   }
-  return reviewExitCode(reviews.map((r) => r.review));
+  return Math.max(reviews.length ? reviewExitCode(reviews.map((r) => r.review)) : 0, blocksFailed ? 2 : 0);
+}
+
+/** Spec files to review and reports whose blocks join the family: a folder stands for its *.countercheck.json files. */
+async function checkTargets(args: readonly string[], io: CliIo): Promise<{ specs: string[]; reports: string[] }> {
+  const specs: string[] = [];
+  const reports: string[] = [];
+  for (const arg of args) {
+    const info = arg === '-' ? undefined : await stat(path.resolve(io.cwd, arg)).catch(() => undefined);
+    if (info?.isDirectory()) {
+      const names = (await readdir(path.resolve(io.cwd, arg))).filter((n) => n.endsWith('.countercheck.json')).sort();
+      specs.push(...names.map((n) => path.join(arg, n)));
+    } else if (arg.toLowerCase().endsWith('.md')) reports.push(arg);
+    else specs.push(arg);
+  }
+  return { specs, reports };
+}
+
+/** How the blocks of the report at `absolute` run (shared by `report` and `check`). */
+function blockOptions(absolute: string, flags: Flags, io: CliIo): BlockRunOptions {
+  return {
+    reportPath: absolute,
+    readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
+    signal: io.signal,
+    readText: (f) => readFile(f, 'utf8'),
+    allowedRoot: allowedRootFor(absolute, io),
+    allowOutsideRoot: flags.allowOutside,
+    format: { decimals: flags.decimals },
+  };
 }
 
 async function commandReport(files: readonly string[], flags: Flags, io: CliIo): Promise<number> {
@@ -282,15 +349,7 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
       continue;
     }
     const outcome = await refreshReport(text, async (block) => {
-      const { markdown } = await runReportBlock(block, {
-        reportPath: absolute,
-        readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
-        signal: io.signal,
-        readText: (f) => readFile(f, 'utf8'),
-        allowedRoot: allowedRootFor(absolute, io),
-        allowOutsideRoot: flags.allowOutside,
-        format: { decimals: flags.decimals },
-      });
+      const { markdown } = await runReportBlock(block, blockOptions(absolute, flags, io));
       return markdown;
     });
     for (const b of outcome.blocks) {

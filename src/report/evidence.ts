@@ -82,6 +82,9 @@ export function bayesFactorLines(result: TestResult, format: FormatOptions = DEF
   ];
 }
 
+/** A limit the user wrote in the spec, shown as written (up to 6 significant digits). */
+const given = (x: number): string => String(Number(x.toPrecision(6)));
+
 export function equivalenceLines(result: TestResult, format: FormatOptions = DEFAULT_FORMAT): string[] {
   const e = result.equivalence;
   if (!e) return [];
@@ -89,12 +92,12 @@ export function equivalenceLines(result: TestResult, format: FormatOptions = DEF
   const interval = `${formatPercent(e.interval.level)} interval ${formatNumber(e.interval.lower, format.decimals + 2)} to ${formatNumber(e.interval.upper, format.decimals + 2)}`;
   const verdict = e.equivalent ? 'shown' : 'not shown';
   if (e.form === 'goodness-of-fit') {
-    return [`Equivalence (Wellek): distance ${formatNumber(e.distance ?? NaN, format.decimals + 2)} from the stated proportions against the margin ε = ${formatNumber(e.margin!, 4)}, ${p}; ${interval} for the distance; equivalence ${verdict}.`];
+    return [`Equivalence (Wellek): distance ${formatNumber(e.distance ?? NaN, format.decimals + 2)} from the stated proportions against the margin ε = ${given(e.margin!)}, ${p}; ${interval} for the distance; equivalence ${verdict}.`];
   }
   if (e.form === 'non-inferiority') {
-    return [`Non-inferiority: σ < ${formatNumber(e.upper!, 4)}, one-sided chi-square test ${p}; ${interval} for σ; ${verdict}.`];
+    return [`Non-inferiority: σ < ${given(e.upper!)}, one-sided chi-square test ${p}; ${interval} for σ; ${verdict}.`];
   }
-  return [`Equivalence: σ within [${formatNumber(e.lower!, 4)}, ${formatNumber(e.upper!, 4)}], two one-sided chi-square tests ${p}; ${interval} for σ; equivalence ${verdict}.`];
+  return [`Equivalence: σ within [${given(e.lower!)}, ${given(e.upper!)}], two one-sided chi-square tests ${p}; ${interval} for σ; equivalence ${verdict}.`];
 }
 
 export function familyLines(result: TestResult): string[] {

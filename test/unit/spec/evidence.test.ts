@@ -1,0 +1,132 @@
+// The sections that say how sure a conclusion is, from a saved spec to the JSON and the text: field names as the
+// format promises, options honoured, bad options refused with their JSON path. The numbers themselves are checked
+// against outside references in test/unit/stats/advanced/{fragility,bayes-factor,equivalence}.test.ts; here the
+// Bayes factor of one table is also compared with R BayesFactor through the whole path.
+import { strict as assert } from 'node:assert';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { main } from '../../../src/cli';
+import { fixture } from '../stats/advanced/check';
+
+const root = join(__dirname, '..', '..', '..');
+
+async function cli(args: string[], stdin = ''): Promise<{ code: number; stdout: string; stderr: string }> {
+  let stdout = '';
+  let stderr = '';
+  const code = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), readStdin: async () => stdin, cwd: root, now: () => new Date('2026-12-03T12:00:00Z') });
+  return { code, stdout, stderr };
+}
+
+async function runJson(spec: unknown): Promise<Record<string, unknown>> {
+  const out = await cli(['run', '-', '--json'], JSON.stringify(spec));
+  assert.equal(out.code, 0, out.stderr);
+  return JSON.parse(out.stdout) as Record<string, unknown>;
+}
+
+const R = fixture<{ BayesFactor: string; contingency: { name: string; table: number[][]; samplingPlan: string; priorConcentration: number; lnBf10: number }[]; pAdjust: { name: string; p: number[]; holm: number[]; bh: number[]; bonferroni: number[] }[] }>('R', 'bayesfactor');
+
+describe('fragility, Bayes factor and equivalence in a run', () => {
+  it('an independence run carries "fragility" and "bayesFactor" with the promised fields (R BayesFactor for the value)', async () => {
+    const ref = R.contingency.find((c) => c.name === 't3x3' && c.samplingPlan === 'rows-fixed' && c.priorConcentration === 2.5)!;
+    const json = await runJson({ version: 1, test: 'independence', table: ref.table, bayesFactor: { samplingPlan: 'rows-fixed', priorConcentration: 2.5 } });
+    const f = json.fragility as Record<string, unknown>;
+    for (const key of ['index', 'quotient', 'reverse', 'method', 'changes']) assert.ok(key in f, `fragility.${key}`);
+    assert.ok(['exact', 'bounded-search'].includes(f.method as string));
+    const bf = json.bayesFactor as Record<string, number | string>;
+    for (const key of ['bf10', 'log10Bf10', 'samplingPlan', 'priorConcentration']) assert.ok(key in bf, `bayesFactor.${key}`);
+    assert.equal(bf.samplingPlan, 'rows-fixed');
+    assert.equal(bf.priorConcentration, 2.5);
+    const expected = ref.lnBf10 / Math.LN10;
+    assert.ok(Math.abs((bf.log10Bf10 as number) - expected) < 1e-9, `log10 BF10 ${bf.log10Bf10} vs R BayesFactor ${R.BayesFactor} ${expected}`);
+  });
+
+  it('a 2×2 fragility change list names cells as [row, column] with counts before and after', async () => {
+    const json = await runJson({ version: 1, test: 'independence', table: [[12, 28], [25, 15]] });
+    const f = json.fragility as { index: number; reverse: boolean; changes: { cell: number[]; from: number; to: number }[] };
+    assert.equal(f.reverse, false);
+    assert.deepEqual(f.changes.map((c) => c.cell), [[0, 0], [0, 1]]);
+    assert.equal(f.changes[0].to - f.changes[0].from, f.index);
+  });
+
+  it('"fragility": false and "bayesFactor": false leave the sections out', async () => {
+    const json = await runJson({ version: 1, test: 'independence', table: [[12, 28], [25, 15]], fragility: false, bayesFactor: false });
+    assert.equal(json.fragility, undefined);
+    assert.equal(json.bayesFactor, undefined);
+  });
+
+  it('goodness of fit: a Bayes factor with no sampling plan, categories named in changes, and Wellek equivalence with its margin', async () => {
+    const json = await runJson({ version: 1, test: 'goodness-of-fit', observed: [252, 247, 249, 252], categories: ['a', 'b', 'c', 'd'], proportions: [0.25, 0.25, 0.25, 0.25], equivalence: { margin: 0.05 } });
+    assert.equal((json.bayesFactor as { samplingPlan: unknown }).samplingPlan, null);
+    const f = json.fragility as { reverse: boolean; changes: { cell: unknown }[] };
+    assert.equal(f.reverse, true);
+    for (const c of f.changes) assert.ok(['a', 'b', 'c', 'd'].includes(c.cell as string));
+    const e = json.equivalence as Record<string, unknown>;
+    for (const key of ['pValue', 'equivalent', 'margin', 'interval']) assert.ok(key in e, `equivalence.${key}`);
+    assert.equal(e.equivalent, true);
+    assert.equal(e.margin, 0.05);
+  });
+
+  it('variance: equivalence with σ limits ("lower", "upper") and the 1 − 2α interval; the text says so', async () => {
+    const spec = { version: 1, test: 'variance', summary: { n: 25, sd: 0.04 }, sigma0: 0.04, equivalence: { lower: 0.03, upper: 0.05 } };
+    const json = await runJson(spec);
+    const e = json.equivalence as { lower: number; upper: number; interval: { level: number }; equivalent: boolean };
+    assert.equal(e.lower, 0.03);
+    assert.equal(e.upper, 0.05);
+    assert.ok(Math.abs(e.interval.level - 0.9) < 1e-15);
+    const text = await cli(['run', '-'], JSON.stringify(spec));
+    assert.match(text.stdout, /Equivalence: σ within \[0\.03, 0\.05\], two one-sided chi-square tests/);
+  });
+
+  it('refuses an unknown sampling plan and a variance band without "upper", naming the JSON path', async () => {
+    const bad = await cli(['run', '-'], JSON.stringify({ version: 1, test: 'independence', table: [[1, 2], [3, 4]], bayesFactor: { samplingPlan: 'fixed' } }));
+    assert.equal(bad.code, 2);
+    assert.match(bad.stderr, /\$\.bayesFactor\.samplingPlan/);
+    const band = await cli(['run', '-'], JSON.stringify({ version: 1, test: 'variance', summary: { n: 5, sd: 1 }, sigma0: 1, equivalence: { lower: 0.5 } }));
+    assert.equal(band.code, 2);
+    assert.match(band.stderr, /upper/);
+  });
+});
+
+describe('check: fragile conclusions and the family of tests', function () {
+  this.timeout(60000);
+  const family = (name: string) => R.pAdjust.find((f) => f.name === name)!;
+
+  it('flags a recorded significant conclusion whose fragility index is at most the threshold (default 2)', async () => {
+    const out = await cli(['check', 'demo/bakery-flavour-mix.countercheck.json']);
+    assert.match(out.stdout, /fragile: .*fragility index 1 ≤ 2/);
+    const none = await cli(['check', 'demo/bakery-flavour-mix.countercheck.json', '--fragility-threshold', '0']);
+    assert.doesNotMatch(none.stdout, /fragile/);
+  });
+
+  it('--adjust on the demo folder agrees with R p.adjust on the same p-values, and names the changed conclusions', async () => {
+    for (const method of ['holm', 'bh', 'bonferroni'] as const) {
+      const out = await cli(['check', 'demo', '--adjust', method, '--json']);
+      const parsed = JSON.parse(out.stdout) as { family: { size: number; members: { name: string; pValue: number; adjustedPValue: number; changed: boolean }[] } };
+      const ref = family('demo_folder');
+      assert.equal(parsed.family.size, ref.p.length);
+      parsed.family.members.forEach((m, i) => {
+        assert.ok(Math.abs(m.pValue - ref.p[i]) <= 1e-9 * ref.p[i], `${m.name}: the fixture's input p ${ref.p[i]} is the demo's p ${m.pValue}`);
+        assert.ok(Math.abs(m.adjustedPValue - ref[method][i]) <= 1e-9 * ref[method][i], `${m.name} ${method}: ${m.adjustedPValue} vs R p.adjust ${ref[method][i]}`);
+      });
+    }
+    const text = await cli(['check', 'demo', '--adjust', 'holm']);
+    assert.match(text.stdout, /family of 10 tests, Holm adjustment/);
+    assert.match(text.stdout, /bakery-flavour-mix.*CHANGES: significant → not significant/);
+  });
+
+  it('--adjust on a report reads its blocks as the family (R p.adjust "BH")', async () => {
+    const out = await cli(['check', 'demo/report.md', '--adjust', 'bh', '--json']);
+    const parsed = JSON.parse(out.stdout) as { family: { size: number; members: { adjustedPValue: number }[] } };
+    const ref = family('demo_report');
+    assert.equal(parsed.family.size, 3);
+    parsed.family.members.forEach((m, i) => assert.ok(Math.abs(m.adjustedPValue - ref.bh[i]) <= 1e-9 * ref.bh[i]));
+    const report = readFileSync(join(root, 'demo', 'report.md'), 'utf8');
+    assert.ok(report.includes('bakery-flavour-mix.countercheck.json'), 'the report still holds the blocks the fixture copied');
+  });
+
+  it('--adjust with an unknown method is a usage error', async () => {
+    const out = await cli(['check', 'demo', '--adjust', 'sidak']);
+    assert.equal(out.code, 2);
+    assert.match(out.stderr, /--adjust: expected one of holm, bh, bonferroni/);
+  });
+});
