@@ -61,6 +61,9 @@ export function fragilityLines(result: TestResult): string[] {
   const source = result.grid && result.grid.observed.length === 2 && result.grid.observed[0].length === 2 && f.basis !== 'reported' ? 'Walsh et al. 2014' : 'Baer et al. 2021';
   const by = BASIS_WORDS[f.basis] ?? f.basis;
   const flip = f.reverse ? 'significant' : 'not significant';
+  if (f.index === null && f.searchStopped) {
+    return [`Fragility: at least ${f.lowerBound} changes of single outcomes would be needed to make the result ${flip}; the bounded search stopped at its work limit before finding them (${source}; by ${by}).`];
+  }
   if (f.index === null) {
     return [`Fragility: no ${f.method === 'exact' ? '' : 'searched '}change of single outcomes makes the result ${flip} (${source}; by ${by}).`];
   }
@@ -124,7 +127,7 @@ export function evidenceJson(result: TestResult): Record<string, unknown> {
       method: f.method,
       changes: f.changes.map((c) => ({ cell: c.cell, from: c.from, to: c.to })),
       basis: f.basis,
-      ...defined({ lowerBound: f.lowerBound }),
+      ...defined({ lowerBound: f.lowerBound, searchStopped: f.searchStopped }),
     };
   }
   if (result.bayesFactor) {

@@ -123,14 +123,14 @@ function fragilityFor(result: TestResult, spec: SpecV1): (Fragility & { basis: F
       if (!spec.table) return undefined;
       const opts = { alpha, correction: spec.correction, method: spec.method as 'asymptotic' | 'exact' | 'mid-p' | undefined };
       const lp = (t: number[][]): number => guarded(() => pairedTest(t, opts).pValue.log10);
-      return { ...generalizedFragility(tableProblem(spec.table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
+      return { ...generalizedFragility(tableProblem(spec.table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
     }
     case 'stratified': {
       const strata = spec.strata as readonly Table[] | undefined;
       if (!strata) return undefined;
       const opts = { alpha, correction: spec.correction, method: spec.method as 'asymptotic' | 'exact' | undefined };
       const lp = (s: number[][][]): number => guarded(() => stratifiedTest(s, opts).pValue.log10);
-      return { ...generalizedFragility(strataProblem(strata, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
+      return { ...generalizedFragility(strataProblem(strata, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
     }
     default:
       return undefined;

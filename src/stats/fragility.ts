@@ -43,6 +43,8 @@ export interface Fragility {
   readonly lowerBound?: number;
   /** Tables examined. */
   readonly tablesExamined: number;
+  /** The bounded search reached its work limit before any change flipped the conclusion (index null). */
+  readonly searchStopped?: boolean;
 }
 
 export type TwoByTwoTest = 'fisher' | 'pearson' | 'yates';
@@ -150,6 +152,8 @@ export interface FragilityProblem {
   readonly minLikelihood?: number;
   /** Upper bound on distinct tables the exact search may examine before it hands over to the greedy search. */
   readonly maxTables?: number;
+  /** Upper bound on the p-values the greedy search may compute; past it the search stops without an index. */
+  readonly maxGreedyEvaluations?: number;
 }
 
 interface Move {
@@ -204,6 +208,7 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
   let table = start.slice();
   let lp = startLogP;
   const visited = new Set<string>([key(table)]);
+  const budget = examined + (problem.maxGreedyEvaluations ?? 200_000);
   for (let step = 1; step <= n * Math.max(1, problem.groups.length); step++) {
     let best: number[] | null = null;
     let bestLp = significant ? -Infinity : Infinity;
@@ -216,6 +221,9 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
       }
     }
     if (best === null) break;
+    if (examined > budget) {
+      return { index: null, quotient: null, reverse: !significant, method: 'bounded-search', changes: [], lowerBound: provenNotEnough + 1, tablesExamined: examined, searchStopped: true };
+    }
     table = best;
     lp = bestLp;
     visited.add(key(table));
@@ -264,12 +272,15 @@ function result(problem: FragilityProblem, start: readonly number[], end: readon
   return { index, quotient: n > 0 ? index / n : null, reverse, method, changes, tablesExamined: examined };
 }
 
+/** The optional settings of a search problem. */
+export type SearchLimits = Pick<FragilityProblem, 'minLikelihood' | 'maxTables' | 'maxGreedyEvaluations'>;
+
 /** Rows of an r×c table as groups: an observation keeps its row and may change its column. */
 export function tableProblem(
   table: readonly (readonly number[])[],
   log10P: (table: number[][]) => number,
   alpha: number,
-  options: { minLikelihood?: number; maxTables?: number } = {},
+  options: SearchLimits = {},
 ): FragilityProblem {
   const r = table.length;
   const c = table[0].length;
@@ -285,7 +296,7 @@ export function categoryProblem(
   labels: readonly string[],
   log10P: (observed: number[]) => number,
   alpha: number,
-  options: { minLikelihood?: number; maxTables?: number } = {},
+  options: SearchLimits = {},
 ): FragilityProblem {
   return { cells: observed.slice(), groups: [observed.map((_, i) => i)], log10P: (x) => log10P(x.slice()), alpha, cellName: (i) => labels[i], ...options };
 }
@@ -295,7 +306,7 @@ export function strataProblem(
   strata: readonly (readonly (readonly number[])[])[],
   log10P: (strata: number[][][]) => number,
   alpha: number,
-  options: { minLikelihood?: number; maxTables?: number } = {},
+  options: SearchLimits = {},
 ): FragilityProblem {
   const r = strata[0].length;
   const c = strata[0][0].length;

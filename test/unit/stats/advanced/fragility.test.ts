@@ -93,3 +93,15 @@ describe('generalized fragility index (Baer et al. 2021)', () => {
     }
   });
 });
+
+describe('generalized fragility index: work limits', () => {
+  it('stops the bounded search at its work limit and says so, keeping the proven lower bound', () => {
+    // 5×5 with N = 1,000 and a strong association: far more than one change is needed.
+    const table = [[80, 30, 30, 30, 30], [30, 80, 30, 30, 30], [30, 30, 80, 30, 30], [30, 30, 30, 80, 30], [30, 30, 30, 30, 80]];
+    const got = generalizedFragility(tableProblem(table, pearsonLog10P, 0.05, { maxTables: 50, maxGreedyEvaluations: 100 }));
+    assert.equal(got.method, 'bounded-search');
+    assert.equal(got.index, null);
+    assert.equal(got.searchStopped, true);
+    assert.ok(got.lowerBound! >= 1);
+  });
+});
