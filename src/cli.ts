@@ -16,7 +16,7 @@ import { errorMessage, isInputError, isInstance } from './errors';
 import { parseReportBlocks, refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultText } from './report/text';
-import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, fragileConclusion, type FamilyMember, type MultiplicityMethod } from './spec/family';
+import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, type FamilyMember, type MultiplicityMethod } from './spec/family';
 import { isInside } from './spec/paths';
 import { describeRunError, runReportBlock, type BlockRunOptions } from './spec/living';
 import { parseJsonWithLocations, type LocatedJson } from './spec/json-text';
@@ -265,21 +265,19 @@ async function record(loaded: Loaded, run: SpecRun, flags: Flags, io: CliIo): Pr
 
 async function commandCheck(args: readonly string[], flags: Flags, io: CliIo): Promise<number> {
   const { specs, reports } = await checkTargets(args, io);
-  const reviews: { file: string; review: Review; fragile?: ReturnType<typeof fragileConclusion> }[] = [];
+  const reviews: { file: string; review: Review }[] = [];
   const members: FamilyMember[] = [];
   for (const file of specs) {
     let review: Review;
-    let fragile: ReturnType<typeof fragileConclusion>;
     try {
       const loaded = await loadSpec(file, io);
       const run = await runLoaded(loaded, io, flags);
-      review = compareWithRecord(loaded.spec.recorded, run, TOOL, (io.now ?? (() => new Date()))());
-      fragile = fragileConclusion(review.recorded?.result.significant, run.result, flags.fragilityThreshold);
+      review = compareWithRecord(loaded.spec.recorded, run, TOOL, (io.now ?? (() => new Date()))(), flags.fragilityThreshold);
       members.push({ name: file, result: run.result });
     } catch (e) {
       review = cannotRun(errorText(e, file));
     }
-    reviews.push({ file, review, ...(fragile ? { fragile } : {}) });
+    reviews.push({ file, review });
   }
   let blocksFailed = false;
   for (const file of reports) {
@@ -296,10 +294,10 @@ async function commandCheck(args: readonly string[], flags: Flags, io: CliIo): P
   }
   const family = flags.adjust ? adjustFamily(members, flags.adjust) : undefined;
   if (flags.json) {
-    const entries = reviews.map((r) => ({ ...reviewJson(r.review, r.file), ...(r.fragile ? { fragile: r.fragile } : {}) }));
+    const entries = reviews.map((r) => reviewJson(r.review, r.file));
     io.stdout(JSON.stringify(family ? { reviews: entries, family: familyJson(family) } : entries, null, 2) + '\n');
   } else {
-    for (const r of reviews) io.stdout(`${describeReview(r.review, r.file)}${r.fragile ? `\n  ${r.fragile.message}` : ''}\n`);
+    for (const r of reviews) io.stdout(`${describeReview(r.review, r.file)}\n`);
     const counts = new Map<string, number>();
     for (const r of reviews) counts.set(STATUS_LABEL[r.review.status], (counts.get(STATUS_LABEL[r.review.status]) ?? 0) + 1);
     if (reviews.length) io.stdout(`${[...counts].map(([label, n]) => `${n} ${label}`).join(', ')} (tolerance: ${TOLERANCE_TEXT})\n`);

@@ -21,6 +21,8 @@ export interface Settings {
   readonly missingValues: readonly string[];
   readonly monteCarloResamples: number;
   readonly allowPathsOutsideWorkspace: boolean;
+  /** Review flags a recorded significant conclusion whose fragility index is at most this. */
+  readonly fragilityThreshold: number;
 }
 
 export function settings(scope?: vscode.Uri): Settings {
@@ -32,6 +34,7 @@ export function settings(scope?: vscode.Uri): Settings {
     missingValues: c.get<string[]>('missingValues', ['', 'NA', 'NaN', 'null', '-']),
     monteCarloResamples: c.get<number>('monteCarloResamples', 10000),
     allowPathsOutsideWorkspace: c.get<boolean>('allowPathsOutsideWorkspace', false),
+    fragilityThreshold: c.get<number>('fragilityThreshold', 2),
   };
 }
 

@@ -85,7 +85,13 @@ export function familyJson(adjustment: FamilyAdjustment): Record<string, unknown
 export const DEFAULT_FRAGILITY_THRESHOLD = 2;
 
 /** A recorded significant conclusion whose fragility index is at most the threshold; undefined when not fragile. */
-export function fragileConclusion(recordedSignificant: boolean | undefined, result: Result, threshold = DEFAULT_FRAGILITY_THRESHOLD): { index: number; threshold: number; message: string } | undefined {
+export interface FragileConclusion {
+  readonly index: number;
+  readonly threshold: number;
+  readonly message: string;
+}
+
+export function fragileConclusion(recordedSignificant: boolean | undefined, result: Result, threshold = DEFAULT_FRAGILITY_THRESHOLD): FragileConclusion | undefined {
   if (result.kind !== 'test' || !recordedSignificant || !result.fragility || result.fragility.reverse) return undefined;
   const index = result.fragility.index;
   if (index === null || index > threshold) return undefined;

@@ -64,8 +64,9 @@ export async function reviewSpec(services: Services, uri: vscode.Uri, signal?: A
     return { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' };
   }
   try {
-    const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: settings(uri).allowPathsOutsideWorkspace, signal });
-    return compareWithRecord(spec.recorded, run, toolName(services.context), new Date());
+    const configured = settings(uri);
+    const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: configured.allowPathsOutsideWorkspace, signal });
+    return compareWithRecord(spec.recorded, run, toolName(services.context), new Date(), configured.fragilityThreshold);
   } catch (e) {
     return { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' };
   }
