@@ -3,7 +3,7 @@
  *
  *   countercheck run <specs…> [--json] [--record [--force]] [--decimals N] [--allow-outside]
  *   countercheck check <specs, folders or reports…> [--json] [--adjust holm|bh|bonferroni] [--fragility-threshold N] [--allow-outside]
- *   countercheck report <report.md…> [--check] [--decimals N] [--allow-outside]
+ *   countercheck report <report.md…> [--check] [--adjust holm|bh|bonferroni] [--decimals N] [--allow-outside]
  *
  * `main` takes its streams and folder as arguments so tests run it in-process.
  */
@@ -13,10 +13,10 @@ import { aggregateFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
 import { errorMessage, isInputError, isInstance } from './errors';
-import { parseReportBlocks, refreshReport } from './report/blocks';
+import { parseReportBlocks, refreshReport, type ReportBlock } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultText } from './report/text';
-import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, type FamilyMember, type MultiplicityMethod } from './spec/family';
+import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, familyRenderer, type FamilyMember, type MultiplicityMethod } from './spec/family';
 import { isInside } from './spec/paths';
 import { describeRunError, runReportBlock, type BlockRunOptions } from './spec/living';
 import { parseJsonWithLocations, type LocatedJson } from './spec/json-text';
@@ -63,6 +63,7 @@ Usage:
       --fragility-threshold N     flag fragility indices up to N (default ${DEFAULT_FRAGILITY_THRESHOLD})
   countercheck report <file.md…>  refresh the living result blocks (\`\`\`countercheck fences) in place
       --check                     only say what would change
+      --adjust holm|bh|bonferroni the blocks are one family: each result shows its adjusted p-value
   --allow-outside                 let specs read files outside the current folder (absolute paths, ..)
   --help, --version
 
@@ -346,10 +347,10 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
       exit = 2;
       continue;
     }
-    const outcome = await refreshReport(text, async (block) => {
-      const { markdown } = await runReportBlock(block, blockOptions(absolute, flags, io));
-      return markdown;
-    });
+    const runBlock = (block: ReportBlock) => runReportBlock(block, blockOptions(absolute, flags, io));
+    const family = flags.adjust ? await familyRenderer(text, runBlock, flags.adjust, { decimals: flags.decimals }) : undefined;
+    const outcome = await refreshReport(text, family ? family.render : async (block) => (await runBlock(block)).markdown);
+    if (family) io.stdout(`${file}: ${describeFamily(family.adjustment).replace(/\n {2}(\d+):/g, (_, i: string) => `\n  block ${Number(i) + 1}:`)}\n`);
     for (const b of outcome.blocks) {
       const state = b.error ? 'cannot run' : b.changed ? (flags.check ? 'would change' : 'updated') : 'unchanged';
       io.stdout(`${file}:${b.fenceLine}: block ${b.index + 1}: ${state}\n`);

@@ -103,11 +103,13 @@ export function equivalenceLines(result: TestResult, format: FormatOptions = DEF
   return [`Equivalence: σ within [${given(e.lower!)}, ${given(e.upper!)}], two one-sided chi-square tests ${p}; ${interval} for σ; equivalence ${verdict}.`];
 }
 
+const FAMILY_METHOD_WORDS: Readonly<Record<string, string>> = { holm: 'Holm', bh: 'Benjamini–Hochberg', bonferroni: 'Bonferroni' };
+
 export function familyLines(result: TestResult): string[] {
   const f = result.family;
   if (!f) return [];
   const p = formatPApa({ value: f.adjustedPValue, log10: Math.log10(f.adjustedPValue) });
-  return [`Family: one of ${f.size} tests; ${f.method}-adjusted ${p}.`];
+  return [`Family: one of ${f.size} tests in this report; ${FAMILY_METHOD_WORDS[f.method] ?? f.method}-adjusted ${p} (own ${formatPApa(result.pValue)}).`];
 }
 
 /** Every section's lines, in report order. */

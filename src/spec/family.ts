@@ -3,8 +3,12 @@
  * p-value adjusted for the number of tests (Holm, Benjamini–Hochberg or Bonferroni), and which conclusions change
  * under the adjustment. Also the review flag for a recorded significant conclusion that is fragile. Pure.
  */
+import { parseReportBlocks, type ReportBlock } from '../report/blocks';
+import type { FormatOptions } from '../report/format';
+import { resultMarkdown } from '../report/markdown';
 import { adjustPValues, MULTIPLICITY_METHODS, type MultiplicityMethod } from '../stats/multiplicity';
 import type { Result, TestResult } from '../stats/result';
+import type { BlockRun } from './living';
 
 export { MULTIPLICITY_METHODS };
 export type { MultiplicityMethod };
@@ -73,7 +77,7 @@ export function describeFamily(adjustment: FamilyAdjustment): string {
     lines.push(`  ${m.name}: p ${p(m.pValue)} → adjusted ${p(m.adjustedPValue)} at α = ${m.alpha}; ${verdict}`);
   }
   const changed = adjustment.members.filter((m) => m.changed).length;
-  lines.push(`  ${changed} of ${adjustment.size} conclusion${adjustment.size === 1 ? '' : 's'} change${changed === 1 ? 's' : ''} under the adjustment`);
+  lines.push(`  conclusions changed by the adjustment: ${changed} of ${adjustment.size}`);
   if (adjustment.leftOut.length) lines.push(`  not tests, left out of the family: ${adjustment.leftOut.join(', ')}`);
   return lines.join('\n');
 }
@@ -97,4 +101,40 @@ export function fragileConclusion(recordedSignificant: boolean | undefined, resu
   if (index === null || index > threshold) return undefined;
   const bound = result.fragility.method === 'exact' ? '' : ' (at most; bounded search)';
   return { index, threshold, message: `fragile: the recorded significant conclusion turns not significant if ${index === 1 ? 'one outcome changes' : `${index} outcomes change`}${bound} (fragility index ${index} ≤ ${threshold})` };
+}
+
+/**
+ * For a living report read as a family: runs every block once, adjusts the family, and returns the adjustment and
+ * a renderer for `refreshReport` that writes each block's result with its family line (a block that failed to run
+ * fails again in the renderer with the same error).
+ */
+export async function familyRenderer(
+  text: string,
+  run: (block: ReportBlock) => Promise<BlockRun>,
+  method: MultiplicityMethod,
+  format: FormatOptions,
+): Promise<{ adjustment: FamilyAdjustment; render: (block: ReportBlock) => Promise<string> }> {
+  const runs = new Map<number, BlockRun | { error: unknown }>();
+  for (const block of parseReportBlocks(text)) {
+    if (block.problem) continue;
+    try {
+      runs.set(block.index, await run(block));
+    } catch (error) {
+      runs.set(block.index, { error });
+    }
+  }
+  const members: FamilyMember[] = [];
+  runs.forEach((r, index) => {
+    if ('run' in r) members.push({ name: String(index), result: r.run.result });
+  });
+  const adjustment = adjustFamily(members, method);
+  const render = async (block: ReportBlock): Promise<string> => {
+    const r = runs.get(block.index);
+    if (r === undefined) return (await run(block)).markdown;
+    if ('error' in r) throw r.error;
+    const result = r.run.result;
+    const family = familySection(adjustment, String(block.index));
+    return resultMarkdown(result.kind === 'test' && family ? { ...result, family } : result, { decimals: format.decimals, title: r.spec.title });
+  };
+  return { adjustment, render };
 }

@@ -3,17 +3,18 @@
 // against outside references in test/unit/stats/advanced/{fragility,bayes-factor,equivalence}.test.ts; here the
 // Bayes factor of one table is also compared with R BayesFactor through the whole path.
 import { strict as assert } from 'node:assert';
-import { readFileSync } from 'node:fs';
+import { cpSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli';
 import { fixture } from '../stats/advanced/check';
 
 const root = join(__dirname, '..', '..', '..');
 
-async function cli(args: string[], stdin = ''): Promise<{ code: number; stdout: string; stderr: string }> {
+async function cli(args: string[], stdin = '', cwd = root): Promise<{ code: number; stdout: string; stderr: string }> {
   let stdout = '';
   let stderr = '';
-  const code = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), readStdin: async () => stdin, cwd: root, now: () => new Date('2026-12-03T12:00:00Z') });
+  const code = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), readStdin: async () => stdin, cwd, now: () => new Date('2026-12-03T12:00:00Z') });
   return { code, stdout, stderr };
 }
 
@@ -122,6 +123,22 @@ describe('check: fragile conclusions and the family of tests', function () {
     parsed.family.members.forEach((m, i) => assert.ok(Math.abs(m.adjustedPValue - ref.bh[i]) <= 1e-9 * ref.bh[i]));
     const report = readFileSync(join(root, 'demo', 'report.md'), 'utf8');
     assert.ok(report.includes('bakery-flavour-mix.countercheck.json'), 'the report still holds the blocks the fixture copied');
+  });
+
+  it('report --adjust writes each block\'s adjusted p-value beside its own (R p.adjust "holm"), in a copy of the demo report', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'countercheck-family-'));
+    try {
+      for (const f of ['report.md', 'bakery-flavour-mix.countercheck.json', 'bakery-oven-defects.countercheck.json', 'data']) cpSync(join(root, 'demo', f), join(dir, f), { recursive: true });
+      const out = await cli(['report', 'report.md', '--adjust', 'holm'], '', dir);
+      assert.equal(out.code, 0, out.stderr);
+      assert.match(out.stdout, /family of 3 tests, Holm adjustment/);
+      const text = readFileSync(join(dir, 'report.md'), 'utf8');
+      const lines = text.split('\n').filter((l) => l.startsWith('- Family: one of 3 tests in this report; Holm-adjusted p = '));
+      assert.equal(lines.length, 3);
+      family('demo_report').holm.forEach((p, i) => assert.ok(lines[i].includes(`Holm-adjusted p = ${p.toFixed(3).replace(/^0/, '')}`), `${lines[i]} vs R p.adjust ${p}`));
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it('--adjust with an unknown method is a usage error', async () => {
