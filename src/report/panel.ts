@@ -10,6 +10,7 @@ import { formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEs
 import { resultMarkdown } from './markdown';
 import { plotsFor, residualShade } from './plots';
 import { apaLine, CAUTION, estimateText, resultText, statisticLineText } from './text';
+import { evidenceLines } from './evidence';
 
 /** A string translator with `{0}`-style placeholders, as vscode.l10n.t. */
 export type Translate = (message: string, ...args: (string | number | boolean)[]) => string;
@@ -170,6 +171,8 @@ export function buildPanelPayload(result: Result, options: PayloadOptions, t: Tr
       otherStatistics: [
         ...result.otherStatistics.map((s) => ({ name: s.name, value: statisticLineText(s, result.n, f).replace(`${s.name}: `, '') + (s.note ? ` — ${s.note}` : '') })),
         ...result.estimates.map((e) => ({ name: e.name, value: estimateText(e, f).replace(`${e.name} = `, '') })),
+        // Fragility, Bayes factor, equivalence and family: each line is "Name: reading".
+        ...evidenceLines(result, f).map((line) => ({ name: line.slice(0, line.indexOf(': ')), value: line.slice(line.indexOf(': ') + 2) })),
       ],
     };
   }
