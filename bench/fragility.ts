@@ -34,6 +34,7 @@ export async function run(): Promise<void> {
   const twoByTwo: Record<string, number[][]> = {
     '2×2 N=10,000 significant (Fisher)': [[380, 4620], [460, 4540]],
     '2×2 N=10,000 not significant (Fisher, reverse)': [[400, 4600], [430, 4570]],
+    '2×2 N=10,000 very significant (Fisher)': [[250, 4750], [520, 4480]],
   };
   for (const [name, table] of Object.entries(twoByTwo)) {
     const r = timed(() => fragilityIndex2x2(table), 5);
