@@ -1,6 +1,7 @@
 import { strict as assert } from 'node:assert';
 import { pearsonTable } from '../../../../src/stats/advanced-common';
 import { chiSquareUpperProbability } from '../../../../src/stats/chisquare';
+import { pairedTest } from '../../../../src/stats/paired';
 import { categoryProblem, fragilityIndex2x2, generalizedFragility, tableProblem, type TwoByTwoTest } from '../../../../src/stats/fragility';
 import { fixture } from './check';
 
@@ -11,6 +12,7 @@ const SP = fixture<{
   walsh: ({ table: number[][] } & Record<TwoByTwoTest, Outcome>)[];
   generalized: ({ table: number[][]; minLikelihood: number } & Outcome)[];
   goodnessOfFit: ({ observed: number[]; proportions: number[] } & Outcome)[];
+  paired: ({ table: number[][] } & Outcome)[];
 }>('scipy', 'fragility');
 const source = `scipy ${SP.scipy} brute-force enumeration (scripts/fixtures/fragility.py)`;
 
@@ -70,6 +72,15 @@ describe('generalized fragility index (Baer et al. 2021)', () => {
     for (const c of SP.goodnessOfFit) {
       const got = generalizedFragility(categoryProblem(c.observed, c.observed.map((_, k) => `c${k}`), fitLog10P(c.proportions), SP.alpha));
       assert.equal(got.index, c.index, `${JSON.stringify(c.observed)} against ${JSON.stringify(c.proportions)}`);
+    }
+  });
+
+  it(`exact search with McNemar's test (our pairedTest) agrees with ${source} on ${SP.paired.length} paired 2×2 tables`, () => {
+    const lp = (t: number[][]): number => (t[0][1] + t[1][0] === 0 ? 0 : pairedTest(t).pValue.log10);
+    for (const c of SP.paired) {
+      const got = generalizedFragility(tableProblem(c.table, lp, SP.alpha));
+      assert.equal(got.index, c.index, `${JSON.stringify(c.table)}`);
+      assert.equal(got.reverse, !c.significant);
     }
   });
 
