@@ -16,7 +16,7 @@ import { errorMessage, isInputError, isInstance } from './errors';
 import { parseReportBlocks, refreshReport, type ReportBlock } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultText } from './report/text';
-import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, familyRenderer, type FamilyMember, type MultiplicityMethod } from './spec/family';
+import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, familyRenderer, familySection, type FamilyMember, type MultiplicityMethod } from './spec/family';
 import { isInside } from './spec/paths';
 import { describeRunError, runReportBlock, type BlockRunOptions } from './spec/living';
 import { parseJsonWithLocations, type LocatedJson } from './spec/json-text';
@@ -52,6 +52,8 @@ Usage:
       --record                    store the result seen in the spec ("recorded"); a different earlier
                                   record is only replaced with --force, and what changes is printed
       --decimals N                decimals for statistics in text output (default 2)
+      --adjust holm|bh|bonferroni the specs named are one family: each result gains "family" (size,
+                                  method, adjustedPValue)
       -                           read one spec from standard input
   countercheck check <spec…>      re-run each spec and compare with its recorded result:
                                   reproduced / data changed / result differs / cannot run;
@@ -214,21 +216,35 @@ async function replaceFile(file: string, text: string): Promise<void> {
 
 async function commandRun(files: readonly string[], flags: Flags, io: CliIo): Promise<number> {
   let exit = 0;
-  const outputs: unknown[] = [];
+  const runs: { loaded: Loaded; run: SpecRun }[] = [];
   for (const file of files) {
     try {
       const loaded = await loadSpec(file, io);
-      const run = await runLoaded(loaded, io, flags);
-      const data = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
-      if (flags.json) outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(run.result), data });
-      else {
-        const text = resultText(run.result, { decimals: flags.decimals, title: loaded.spec.title, data });
-        io.stdout(`${files.length > 1 ? `== ${loaded.name}\n` : ''}${text}${files.length > 1 ? '\n' : ''}`);
-      }
-      if (flags.record) exit = Math.max(exit, await record(loaded, run, flags, io));
+      runs.push({ loaded, run: await runLoaded(loaded, io, flags) });
     } catch (e) {
       io.stderr(`${errorText(e, file)}\n`);
       exit = 2;
+    }
+  }
+  // With --adjust the specs named are one family: each test's result carries its adjusted p-value.
+  const family = flags.adjust ? adjustFamily(runs.map((r) => ({ name: r.loaded.name, result: r.run.result })), flags.adjust) : undefined;
+  const outputs: unknown[] = [];
+  for (const { loaded, run } of runs) {
+    const section = family && run.result.kind === 'test' ? familySection(family, loaded.name) : undefined;
+    const result = section && run.result.kind === 'test' ? { ...run.result, family: section } : run.result;
+    const data = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
+    if (flags.json) outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(result), data });
+    else {
+      const text = resultText(result, { decimals: flags.decimals, title: loaded.spec.title, data });
+      io.stdout(`${files.length > 1 ? `== ${loaded.name}\n` : ''}${text}${files.length > 1 ? '\n' : ''}`);
+    }
+    if (flags.record) {
+      try {
+        exit = Math.max(exit, await record(loaded, run, flags, io));
+      } catch (e) {
+        io.stderr(`${errorText(e, loaded.name)}\n`);
+        exit = 2;
+      }
     }
   }
   if (flags.json) io.stdout(JSON.stringify(files.length === 1 ? (outputs[0] ?? null) : outputs, null, 2) + '\n');

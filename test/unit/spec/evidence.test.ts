@@ -141,6 +141,21 @@ describe('check: fragile conclusions and the family of tests', function () {
     }
   });
 
+  it('run --json --adjust gives each test result "family": {size, method, adjustedPValue} (R p.adjust "bonferroni"); a distribution query stays out', async () => {
+    const specs = ['bakery-flavour-mix', 'bakery-oven-defects', 'cider-fill-spread', 'audit-critical-values'].map((n) => `demo/${n}.countercheck.json`);
+    const out = await cli(['run', '--json', '--adjust', 'bonferroni', ...specs]);
+    assert.equal(out.code, 0, out.stderr);
+    const parsed = JSON.parse(out.stdout) as { family?: { size: number; method: string; adjustedPValue: number } }[];
+    const ref = family('demo_report');
+    parsed.slice(0, 3).forEach((r, i) => {
+      assert.deepEqual(Object.keys(r.family!).sort(), ['adjustedPValue', 'method', 'size']);
+      assert.equal(r.family!.size, 3);
+      assert.equal(r.family!.method, 'bonferroni');
+      assert.ok(Math.abs(r.family!.adjustedPValue - ref.bonferroni[i]) <= 1e-9 * ref.bonferroni[i], `${specs[i]}: ${r.family!.adjustedPValue} vs R p.adjust ${ref.bonferroni[i]}`);
+    });
+    assert.equal(parsed[3].family, undefined);
+  });
+
   it('--adjust with an unknown method is a usage error', async () => {
     const out = await cli(['check', 'demo', '--adjust', 'sidak']);
     assert.equal(out.code, 2);
