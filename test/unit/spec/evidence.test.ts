@@ -49,6 +49,15 @@ describe('fragility, Bayes factor and equivalence in a run', () => {
     assert.equal(f.changes[0].to - f.changes[0].from, f.index);
   });
 
+  it('"fragilityMinLikelihood" allows only sufficiently likely changes: never fewer changes than with every change allowed', async () => {
+    const table = [[30, 2, 8], [12, 14, 14]];
+    const all = (await runJson({ version: 1, test: 'independence', table })).fragility as { index: number };
+    const likely = (await runJson({ version: 1, test: 'independence', table, fragilityMinLikelihood: 0.2 })).fragility as { index: number | null; changes: { cell: number[]; from: number; to: number }[] };
+    // Row 1's second column holds 2 of 40 (5% < 20%): no observation of row 1 may move into it.
+    for (const c of likely.changes) if (c.cell[0] === 0 && c.cell[1] === 1) assert.ok(c.to <= c.from, 'no change into an unlikely outcome');
+    assert.ok(likely.index === null || likely.index >= all.index, `restricted ${likely.index} < unrestricted ${all.index}`);
+  });
+
   it('"fragility": false and "bayesFactor": false leave the sections out', async () => {
     const json = await runJson({ version: 1, test: 'independence', table: [[12, 28], [25, 15]], fragility: false, bayesFactor: false });
     assert.equal(json.fragility, undefined);
