@@ -1,13 +1,32 @@
 // Bundles the extension host code, the webview script, the command line and the benchmarks with esbuild.
+// Every library is inlined, so the published package and the .vsix need no node_modules. The PostgreSQL
+// client and the HTML tokenizer are chunks of their own (see lazyChunks), loaded only when used: opening a
+// markdown file activates the extension without parsing either.
 import { build } from 'esbuild';
 import { existsSync, mkdirSync, copyFileSync } from 'node:fs';
+import { alias } from './bundle-options.mjs';
 
 const production = process.argv.includes('--production');
-const common = { bundle: true, sourcemap: !production, minify: production, logLevel: 'warning', target: 'node20' };
+const common = { alias, bundle: true, sourcemap: !production, minify: production, logLevel: 'warning', target: 'node20' };
+
+/**
+ * Libraries loaded on first use, each its own bundle beside the one that requires it: `require('pg')` (a SQL
+ * source) and `require('htmlparser2')` (a notebook's HTML table) resolve to dist/pg.js and dist/htmlparser2.js
+ * instead of being inlined, so activation parses neither.
+ */
+const lazyChunks = {
+  name: 'lazy-chunks',
+  setup(b) {
+    b.onResolve({ filter: /^(pg|htmlparser2)$/ }, (args) => (args.kind === 'require-call' ? { path: `./${args.path}.js`, external: true } : undefined));
+  },
+};
 
 const entries = [
-  { entryPoints: ['src/host/extension.ts'], outfile: 'dist/extension.js', platform: 'node', format: 'cjs', external: ['vscode'] },
-  { entryPoints: ['src/cli.ts'], outfile: 'dist/cli.js', platform: 'node', format: 'cjs' },
+  { entryPoints: ['src/host/extension.ts'], outfile: 'dist/extension.js', platform: 'node', format: 'cjs', external: ['vscode'], plugins: [lazyChunks] },
+  { entryPoints: ['src/cli.ts'], outfile: 'dist/cli.js', platform: 'node', format: 'cjs', plugins: [lazyChunks] },
+  // pg's optional native binding is never used (pure JavaScript protocol).
+  { entryPoints: ['scripts/chunks/pg.cjs'], outfile: 'dist/pg.js', platform: 'node', format: 'cjs', external: ['pg-native'] },
+  { entryPoints: ['scripts/chunks/htmlparser2.mjs'], outfile: 'dist/htmlparser2.js', platform: 'node', format: 'cjs' },
   // The byte scanner's thread for big files (src/data/parallel.ts finds it beside the bundle that starts it).
   { entryPoints: ['src/data/scanWorker.ts'], outfile: 'dist/scanWorker.js', platform: 'node', format: 'cjs' },
   { entryPoints: ['src/webview/main.ts'], outfile: 'dist/webview.js', platform: 'browser', format: 'iife', target: 'es2022' },

@@ -10,5 +10,11 @@ const installed = join(root, 'node_modules', '.package-lock.json');
 const lock = join(root, 'package-lock.json');
 if (!existsSync(installed) || statSync(installed).mtimeMs < statSync(lock).mtimeMs) {
   console.log('installing npm packages (npm ci)…');
-  execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: root, stdio: 'inherit' });
+  try {
+    execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: root, stdio: 'inherit' });
+  } catch {
+    // npm has printed its own error above; one line on what to do, never a stack trace.
+    console.error('countercheck setup: `npm ci` failed (see the npm error above); check the network and that Node 20 or later is on the PATH, then retry');
+    process.exit(1);
+  }
 }

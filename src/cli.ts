@@ -1,30 +1,40 @@
 /**
  * The command line: the same saved specs as the editor, for a terminal or a pipeline.
  *
- *   countercheck run <specs…> [--json] [--record [--force]] [--decimals N] [--allow-outside]
- *   countercheck check <specs, folders or reports…> [--json] [--adjust holm|bh|bonferroni] [--fragility-threshold N] [--allow-outside]
- *   countercheck report <report.md…> [--check] [--adjust holm|bh|bonferroni] [--decimals N] [--allow-outside]
+ *   countercheck run <inputs…> [--format text|markdown|json|csv | --json] [--record [--force]] [--decimals N] [--data FILE|-] [--plots DIR]
+ *   countercheck check <inputs…> [--json] [--junit FILE] [--fail-on result,conclusion,data] [--data FILE|-] [--adjust holm|bh|bonferroni]
+ *   countercheck report <report.md…> [--check] [--decimals N]
+ *   (every command: --quiet, --allow-outside, --help; options in src/cli/options.ts)
  *
  * `main` takes its streams and folder as arguments so tests run it in-process.
  */
-import { readdir, readFile, rename, stat, writeFile } from 'node:fs/promises';
+import { mkdtemp, readFile, rename, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
 import * as path from 'node:path';
-import { aggregateFile } from './data/file';
+import { expandInputs, type InputFile } from './cli/inputs';
+import { junitXml, type JunitCase } from './cli/junit';
+import { helpText, parseCommandLine, UsageError, USAGE, type AdjustMethod, type CheckFlags, type CommandFlags, type ReportFlags, type RunFlags } from './cli/options';
+import { PlotsUnavailableError, writeResultPlots } from './cli/plots';
+import { aggregateFile, MAX_TEXT_FILE_BYTES, readTextFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
-import { errorMessage, isInputError, isInstance } from './errors';
-import { parseReportBlocks, refreshReport, type ReportBlock } from './report/blocks';
+import { errorMessage, InputError, isInputError, isInstance, type InputLocation } from './errors';
+import { refreshReport } from './report/blocks';
 import { resultJson } from './report/json';
+import { resultMarkdown } from './report/markdown';
 import { resultText } from './report/text';
-import { DEFAULT_FRAGILITY_THRESHOLD, MULTIPLICITY_METHODS, adjustFamily, describeFamily, familyJson, familyRenderer, familySection, type FamilyMember, type MultiplicityMethod } from './spec/family';
+import { adjustPValues, type Adjustment } from './stats/posthoc';
 import { isInside } from './spec/paths';
-import { describeRunError, runReportBlock, type BlockRunOptions } from './spec/living';
-import { parseJsonWithLocations, type LocatedJson } from './spec/json-text';
-import { STATUS_LABEL, TOLERANCE_TEXT, compareWithRecord, cannotRun, describeReview, makeRecord, reviewExitCode, reviewJson, writeRecordedInto, type Review } from './spec/review';
+import { describeRunError, runReportBlock } from './spec/living';
+import { locatePath, parseJsonWithLocations, type LocatedJson } from './spec/json-text';
+import { STATUS_LABEL, TOLERANCE_TEXT, compareWithRecord, cannotRun, changesOf, describeReview, makeRecord, reviewExitCode, reviewFails, reviewJson, writeRecordedInto, type Review } from './spec/review';
 import { runSpec } from './spec/run';
 import type { SpecReaders, SpecRun, SpecV1 } from './spec/types';
 import { loadSpecText } from './spec/validate';
 import packageJson from '../package.json';
+import { adjustFamily, describeFamily, familyRenderer, familySection } from './spec/family';
+import type { ReportBlock } from './report/blocks';
+import type { Result } from './stats/result';
 
 export const VERSION: string = packageJson.version;
 export const TOOL = `countercheck ${VERSION}`;
@@ -44,90 +54,7 @@ export interface CliIo {
   readonly progress?: (line: string) => void;
 }
 
-export const HELP = `countercheck ${VERSION}: chi-square procedures from saved test specs (*.countercheck.json)
-
-Usage:
-  countercheck run <spec…>        run each spec and print a plain-text summary
-      --json                      machine output: one JSON object (a JSON array for several specs)
-      --record                    store the result seen in the spec ("recorded"); a different earlier
-                                  record is only replaced with --force, and what changes is printed
-      --decimals N                decimals for statistics in text output (default 2)
-      --adjust holm|bh|bonferroni the specs named are one family: each result gains "family" (size,
-                                  method, adjustedPValue)
-      -                           read one spec from standard input
-  countercheck check <spec…>      re-run each spec and compare with its recorded result:
-                                  reproduced / data changed / result differs / cannot run;
-                                  a folder means its *.countercheck.json files; a recorded significant
-                                  conclusion with a fragility index at most the threshold is flagged
-      --json                      one JSON array, an object per spec
-      --adjust holm|bh|bonferroni read the specs (and the blocks of any report.md named) as one family:
-                                  each adjusted p-value, the family size, which conclusions change
-      --fragility-threshold N     flag fragility indices up to N (default ${DEFAULT_FRAGILITY_THRESHOLD})
-  countercheck report <file.md…>  refresh the living result blocks (\`\`\`countercheck fences) in place
-      --check                     only say what would change
-      --adjust holm|bh|bonferroni the blocks are one family: each result shows its adjusted p-value
-  --allow-outside                 let specs read files outside the current folder (absolute paths, ..)
-  --help, --version
-
-Database sources: a connection name is looked up in "countercheck.connections" of the nearest
-.vscode/settings.json at or above the spec's folder, else in COUNTERCHECK_CONNECTION_<NAME> (a
-postgresql:// URL); the password comes from PGPASSWORD or ~/.pgpass.
-
-Exit codes:
-  run, report: 0 success; 2 a bad spec or bad data (message on stderr with file:line:column and JSON path)
-  run --record: 1 when an earlier record differs and --force was not given
-  check: 0 all reproduced; 1 some data changed or results differ; 2 some cannot run
-  report --check: 1 when a block would change; 2 when a block cannot run
-`;
-
-interface Flags {
-  readonly json: boolean;
-  readonly record: boolean;
-  readonly force: boolean;
-  readonly check: boolean;
-  readonly allowOutside: boolean;
-  readonly decimals: number;
-  readonly adjust?: MultiplicityMethod;
-  readonly fragilityThreshold: number;
-}
-
-class UsageError extends Error {}
-
-function parseArgs(args: readonly string[]): { command?: string; files: string[]; flags: Flags; help: boolean; version: boolean } {
-  const files: string[] = [];
-  const flags: { -readonly [K in keyof Flags]: Flags[K] } = { json: false, record: false, force: false, check: false, allowOutside: false, decimals: 2, fragilityThreshold: DEFAULT_FRAGILITY_THRESHOLD };
-  let command: string | undefined;
-  let help = false;
-  let version = false;
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i];
-    if (a === '--help' || a === '-h') help = true;
-    else if (a === '--version' || a === '-v') version = true;
-    else if (a === '--json') flags.json = true;
-    else if (a === '--record') flags.record = true;
-    else if (a === '--force') flags.force = true;
-    else if (a === '--check') flags.check = true;
-    else if (a === '--allow-outside') flags.allowOutside = true;
-    else if (a === '--decimals' || a.startsWith('--decimals=')) {
-      const v = a.includes('=') ? a.slice(a.indexOf('=') + 1) : args[++i];
-      const d = Number(v);
-      if (!Number.isInteger(d) || d < 0 || d > 12) throw new UsageError(`--decimals: expected a whole number from 0 to 12, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
-      flags.decimals = d;
-    } else if (a === '--adjust' || a.startsWith('--adjust=')) {
-      const v = a.includes('=') ? a.slice(a.indexOf('=') + 1) : args[++i];
-      if (!MULTIPLICITY_METHODS.includes(v as MultiplicityMethod)) throw new UsageError(`--adjust: expected one of ${MULTIPLICITY_METHODS.join(', ')}, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
-      flags.adjust = v as MultiplicityMethod;
-    } else if (a === '--fragility-threshold' || a.startsWith('--fragility-threshold=')) {
-      const v = a.includes('=') ? a.slice(a.indexOf('=') + 1) : args[++i];
-      const t = Number(v);
-      if (!Number.isInteger(t) || t < 0) throw new UsageError(`--fragility-threshold: expected a whole number ≥ 0, found ${v === undefined ? 'nothing' : JSON.stringify(v)}`);
-      flags.fragilityThreshold = t;
-    } else if (a.startsWith('-') && a !== '-') throw new UsageError(`unknown option ${a} (see countercheck --help)`);
-    else if (command === undefined) command = a;
-    else files.push(a);
-  }
-  return { command, files, flags, help, version };
-}
+export const HELP = helpText(VERSION);
 
 /** A file's text, or undefined when there is no such file. */
 async function readIfExists(file: string): Promise<string | undefined> {
@@ -181,30 +108,68 @@ async function loadSpec(file: string, io: CliIo): Promise<Loaded> {
   const absolute = path.resolve(io.cwd, file);
   let text: string;
   try {
-    text = await readFile(absolute, 'utf8');
+    text = await readTextFile(absolute, file, MAX_TEXT_FILE_BYTES);
   } catch (e) {
-    throw new Error(`${file}: cannot read the spec: ${(e as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
+    // A refusal of the file itself (a FIFO, a device, a folder, too large, outside the workspace) keeps its own message.
+    if (isInputError(e) && e.code !== 'file-not-found') throw e;
+    const code = (e as NodeJS.ErrnoException).code;
+    const missing = isInputError(e) || code === 'ENOENT';
+    const why = missing ? 'no such file' : code === 'EISDIR' ? 'a folder, not a file' : (e as Error).message;
+    throw new InputError(`${file}: cannot read the spec: ${why}`, { file }, 'unreadable-spec');
   }
   return { name: file, absolute, ...loadSpecText(text, file) };
 }
 
-async function runLoaded(loaded: Loaded, io: CliIo, flags: Flags): Promise<SpecRun> {
-  try {
-    return await runSpec(loaded.spec, {
-      readers: io.readers ?? defaultReaders(io, loaded.absolute ? path.dirname(loaded.absolute) : io.cwd),
-      signal: io.signal,
-      specPath: loaded.absolute,
-      allowedRoot: allowedRootFor(loaded.absolute, io),
-      allowOutsideRoot: flags.allowOutside,
-    });
-  } catch (e) {
-    throw new Error(describeRunError(e, loaded.name, loaded.located));
-  }
+/** What replaces a spec's data file (`--data FILE` or `--data -`). */
+interface DataOverride {
+  /** The file read (a temporary copy of standard input for `-`). */
+  readonly path: string;
+  /** The name shown in messages and provenance. */
+  readonly name: string;
 }
 
-function errorText(e: unknown, file: string): string {
-  if (isInputError(e)) return describeRunError(e, file);
-  return errorMessage(e);
+async function runLoaded(loaded: Loaded, io: CliIo, flags: CommandFlags, data?: DataOverride): Promise<SpecRun> {
+  let readers = io.readers ?? defaultReaders(io, loaded.absolute ? path.dirname(loaded.absolute) : io.cwd);
+  if (data) {
+    if (typeof loaded.spec.source?.path !== 'string') {
+      throw new InputError(`--data replaces the data file a spec reads ("source": {"path": …}); this spec has none`, { jsonPath: loaded.spec.source ? '$.source' : '$' }, 'no-file-source');
+    }
+    const base = readers;
+    readers = { ...base, aggregateFile: (_file, request, options, control) => base.aggregateFile(data.path, request, { ...options, file: data.name, description: data.name }, control) };
+  }
+  return runSpec(loaded.spec, {
+    readers,
+    signal: io.signal,
+    specPath: loaded.absolute,
+    allowedRoot: allowedRootFor(loaded.absolute, io),
+    // With --data the spec's own path is never read, so its place does not matter.
+    allowOutsideRoot: flags.allowOutside || data !== undefined,
+  });
+}
+
+/** One line (or several for a spec with several problems) naming the input and the place. */
+function errorText(e: unknown, name: string, located?: LocatedJson): string {
+  if (isInputError(e) && e.message.startsWith(`${name}:`)) return e.message;
+  if (isInputError(e) || (isInstance(e, Error) && e.name === 'AbortError')) return describeRunError(e, name, located);
+  return `${name}: ${errorMessage(e)}`;
+}
+
+/** The machine form of a failed input: {"file", "error": {code, message, location}}. */
+/** Where a failed input's problem is: the spec (line, column number, JSON path) or its data (line, column name). */
+type ErrorLocation = Omit<InputLocation, 'column'> & { readonly column?: string | number };
+
+function errorEntry(e: unknown, name: string, located?: LocatedJson): { file: string; error: { code: string; message: string; location: ErrorLocation } } {
+  let location: ErrorLocation = { file: name };
+  let code = 'error';
+  if (isInputError(e)) {
+    code = e.code;
+    const jsonPath = e.location.jsonPath;
+    const at = located && jsonPath ? locatePath(located, jsonPath) : undefined;
+    // A data error is located in the data file; a spec error in the spec.
+    location = e.location.file !== undefined && e.location.file !== name ? { ...e.location, ...(jsonPath ? { jsonPath } : {}) } : { file: name, ...(at ?? { line: e.location.line, column: /^\d+$/.test(e.location.column ?? '') ? Number(e.location.column) : e.location.column }), ...(jsonPath ? { jsonPath } : {}) };
+    location = Object.fromEntries(Object.entries(location).filter(([, v]) => v !== undefined)) as ErrorLocation;
+  } else if (isInstance(e, Error) && e.name === 'AbortError') code = 'cancelled';
+  return { file: name, error: { code, message: errorText(e, name, located), location } };
 }
 
 /** Writes a file by renaming a sibling temporary file over it, so a crash never leaves half a spec. */
@@ -214,44 +179,113 @@ async function replaceFile(file: string, text: string): Promise<void> {
   await rename(temporary, file);
 }
 
-async function commandRun(files: readonly string[], flags: Flags, io: CliIo): Promise<number> {
-  let exit = 0;
-  const runs: { loaded: Loaded; run: SpecRun }[] = [];
-  for (const file of files) {
-    try {
-      const loaded = await loadSpec(file, io);
-      runs.push({ loaded, run: await runLoaded(loaded, io, flags) });
-    } catch (e) {
-      io.stderr(`${errorText(e, file)}\n`);
-      exit = 2;
-    }
+/** Standard input saved to a temporary file for `--data -` (the file readers stream from a path); removed after. */
+async function withDataOverride<T>(flag: string | undefined, io: CliIo, use: (data: DataOverride | undefined) => Promise<T>): Promise<T> {
+  if (flag === undefined) return use(undefined);
+  if (flag !== '-') return use({ path: path.resolve(io.cwd, flag), name: flag });
+  const folder = await mkdtemp(path.join(tmpdir(), 'countercheck-stdin-'));
+  try {
+    const file = path.join(folder, 'stdin.csv');
+    await writeFile(file, await io.readStdin(), 'utf8');
+    return await use({ path: file, name: '<stdin>' });
+  } finally {
+    await rm(folder, { recursive: true, force: true });
   }
-  // With --adjust the specs named are one family: each test's result carries its adjusted p-value.
-  const family = flags.adjust ? adjustFamily(runs.map((r) => ({ name: r.loaded.name, result: r.run.result })), flags.adjust) : undefined;
-  const outputs: unknown[] = [];
-  for (const { loaded, run } of runs) {
-    const section = family && run.result.kind === 'test' ? familySection(family, loaded.name) : undefined;
-    const result = section && run.result.kind === 'test' ? { ...run.result, family: section } : run.result;
-    const data = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
-    if (flags.json) outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(result), data });
-    else {
-      const text = resultText(result, { decimals: flags.decimals, title: loaded.spec.title, data });
-      io.stdout(`${files.length > 1 ? `== ${loaded.name}\n` : ''}${text}${files.length > 1 ? '\n' : ''}`);
-    }
-    if (flags.record) {
+}
+
+const CSV_COLUMNS = ['file', 'title', 'test', 'statistic', 'df', 'n', 'pValue', 'alpha', 'significant', 'effectSize', 'effectSizeValue', 'error'] as const;
+
+function csvField(value: unknown): string {
+  const text = value === undefined || value === null ? '' : String(value);
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** One CSV row per input: the headline numbers, or the error. */
+function csvRow(entry: Record<string, unknown>): string {
+  const effect = (entry.effectSize ?? undefined) as { name?: string; value?: number } | undefined;
+  const error = entry.error as { message?: string } | undefined;
+  const row: Record<(typeof CSV_COLUMNS)[number], unknown> = {
+    file: entry.file,
+    title: entry.title,
+    test: entry.test,
+    statistic: entry.statistic,
+    df: entry.df,
+    n: entry.n,
+    pValue: entry.pValue,
+    alpha: entry.alpha,
+    significant: entry.significant,
+    effectSize: effect?.name,
+    effectSizeValue: effect?.value,
+    error: error?.message,
+  };
+  return CSV_COLUMNS.map((c) => csvField(row[c])).join(',');
+}
+
+async function commandRun(files: readonly InputFile[], flags: RunFlags & CommandFlags, io: CliIo, single: boolean): Promise<number> {
+  let exit = 0;
+  let plotsRefused = false;
+  const outputs: Record<string, unknown>[] = [];
+  const texts: string[] = [];
+  // With --adjust: every result, where its JSON and text went, to add the family once all have run.
+  const members: { name: string; result: Result; output: number; text: number; render: (r: Result) => string }[] = [];
+  await withDataOverride(flags.data, io, async (data) => {
+    for (const input of files) {
+      let loaded: Loaded | undefined;
       try {
-        exit = Math.max(exit, await record(loaded, run, flags, io));
+        if (input.error) throw new InputError(input.error.message, { file: input.name }, input.error.code);
+        loaded = await loadSpec(input.name, io);
+        const run = await runLoaded(loaded, io, flags, data);
+        const dataJson = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
+        outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(run.result), data: dataJson });
+        const title = loaded.spec.title;
+        const name = loaded.name;
+        const render = (result: Result): string =>
+          flags.format === 'markdown'
+            ? `${resultMarkdown(result, { decimals: flags.decimals, title })}\n`
+            : `${single ? '' : `== ${name}\n`}${resultText(result, { decimals: flags.decimals, title, data: dataJson })}${single ? '' : '\n'}`;
+        if (flags.format === 'text' || flags.format === 'markdown') texts.push(render(run.result));
+        members.push({ name, result: run.result, output: outputs.length - 1, text: texts.length - 1, render });
+        if (flags.plots !== undefined && !plotsRefused) {
+          try {
+            const base = path.basename(loaded.name).replace(/\.countercheck\.json$|\.json$/, '') || 'stdin';
+            const written = await writeResultPlots(path.resolve(io.cwd, flags.plots), base, run.result, flags.decimals);
+            if (!flags.quiet) for (const f of written) io.stderr(`${loaded.name}: plot written to ${f}\n`);
+          } catch (e) {
+            if (!isInstance(e, PlotsUnavailableError)) throw e;
+            plotsRefused = true;
+            io.stderr(`${e.message}\n`);
+            exit = 2;
+          }
+        }
+        if (flags.record) exit = Math.max(exit, await record(loaded, run, flags, io));
       } catch (e) {
-        io.stderr(`${errorText(e, loaded.name)}\n`);
+        const name = loaded?.name ?? (input.name === '-' ? '<stdin>' : input.name);
+        const entry = errorEntry(e, name, loaded?.located);
+        outputs.push(entry);
+        io.stderr(`${entry.error.message}\n`);
         exit = 2;
       }
     }
+  });
+  if (flags.adjust) {
+    const adjustment = adjustFamily(members, flags.adjust);
+    for (const m of members) {
+      const section = familySection(adjustment, m.name);
+      if (!section || m.result.kind !== 'test') continue;
+      outputs[m.output] = { ...outputs[m.output], family: section };
+      if (m.text >= 0 && texts[m.text] !== undefined) texts[m.text] = m.render({ ...m.result, family: section });
+    }
   }
-  if (flags.json) io.stdout(JSON.stringify(files.length === 1 ? (outputs[0] ?? null) : outputs, null, 2) + '\n');
+  if (flags.format === 'json') io.stdout(JSON.stringify(single ? (outputs[0] ?? null) : outputs, null, 2) + '\n');
+  else if (flags.format === 'csv') io.stdout([CSV_COLUMNS.join(','), ...outputs.map(csvRow)].join('\n') + '\n');
+  else if (!flags.quiet) io.stdout(texts.join(flags.format === 'markdown' ? '\n' : ''));
   return exit;
 }
 
-async function record(loaded: Loaded, run: SpecRun, flags: Flags, io: CliIo): Promise<number> {
+async function record(loaded: Loaded, run: SpecRun, flags: RunFlags & CommandFlags, io: CliIo): Promise<number> {
+  const note = (text: string) => {
+    if (!flags.quiet) io.stderr(text);
+  };
   if (!loaded.absolute) {
     io.stderr('--record: a spec read from standard input cannot be updated; save it to a file first\n');
     return 2;
@@ -260,14 +294,14 @@ async function record(loaded: Loaded, run: SpecRun, flags: Flags, io: CliIo): Pr
   if (loaded.spec.recorded !== undefined) {
     const review = compareWithRecord(loaded.spec.recorded, run, TOOL, now);
     if (review.status === 'reproduced') {
-      io.stderr(`${loaded.name}: the recorded result is reproduced; the spec is unchanged\n`);
+      note(`${loaded.name}: the recorded result is reproduced; the spec is unchanged\n`);
       return 0;
     }
     if (!flags.force) {
       io.stderr(`${describeReview(review, loaded.name)}\n${loaded.name}: not overwritten; run again with --record --force to replace the earlier record\n`);
       return 1;
     }
-    io.stderr(`${describeReview(review, loaded.name)}\n${loaded.name}: the earlier record is replaced (--force)\n`);
+    note(`${describeReview(review, loaded.name)}\n${loaded.name}: the earlier record is replaced (--force)\n`);
   }
   const updated = writeRecordedInto(loaded.located, makeRecord(run, TOOL, now));
   // Safety: the rewritten file must parse and differ from the original in "recorded" only.
@@ -276,103 +310,162 @@ async function record(loaded: Loaded, run: SpecRun, flags: Flags, io: CliIo): Pr
   const { recorded: _after, ...after } = reparsed;
   if (JSON.stringify(before) !== JSON.stringify(after)) throw new Error(`${loaded.name}: internal check failed while writing the record; the spec was not changed`);
   await replaceFile(loaded.absolute, updated);
-  io.stderr(`${loaded.name}: recorded (${run.data.description}, ${run.data.rows} rows, sha256 ${run.data.sha256.slice(0, 12)}…)\n`);
+  note(`${loaded.name}: recorded (${run.data.description}, ${run.data.rows} rows, sha256 ${run.data.sha256.slice(0, 12)}…)\n`);
   return 0;
 }
 
-async function commandCheck(args: readonly string[], flags: Flags, io: CliIo): Promise<number> {
-  const { specs, reports } = await checkTargets(args, io);
-  const reviews: { file: string; review: Review }[] = [];
-  const members: FamilyMember[] = [];
-  for (const file of specs) {
-    let review: Review;
-    try {
-      const loaded = await loadSpec(file, io);
-      const run = await runLoaded(loaded, io, flags);
-      review = compareWithRecord(loaded.spec.recorded, run, TOOL, (io.now ?? (() => new Date()))(), flags.fragilityThreshold);
-      members.push({ name: file, result: run.result });
-    } catch (e) {
-      review = cannotRun(errorText(e, file));
-    }
-    reviews.push({ file, review });
-  }
-  let blocksFailed = false;
-  for (const file of reports) {
-    const absolute = path.resolve(io.cwd, file);
-    for (const block of parseReportBlocks(await readFile(absolute, 'utf8'))) {
+const ADJUSTMENT: Readonly<Record<AdjustMethod, { readonly method: Adjustment; readonly label: string }>> = {
+  holm: { method: 'holm', label: 'Holm' },
+  bh: { method: 'benjamini-hochberg', label: 'Benjamini–Hochberg' },
+  bonferroni: { method: 'bonferroni', label: 'Bonferroni' },
+};
+
+interface Adjusted {
+  readonly method: AdjustMethod;
+  readonly family: number;
+  readonly pValue: number;
+  readonly alpha?: number;
+  readonly significant?: boolean;
+  /** The conclusion at α differs before and after the adjustment. */
+  readonly changed?: boolean;
+}
+
+/** Adjusts the current p-values of the reviews that have one, across them all (one family). */
+function adjustAcross(reviews: readonly Review[], method: AdjustMethod): (Adjusted | undefined)[] {
+  const members = reviews.map((r, i) => ({ i, p: r.current?.result.pValue })).filter((m): m is { i: number; p: number } => typeof m.p === 'number' && Number.isFinite(m.p));
+  const adjusted = adjustPValues(members.map((m) => m.p), ADJUSTMENT[method].method);
+  const out: (Adjusted | undefined)[] = reviews.map(() => undefined);
+  members.forEach((m, k) => {
+    const alpha = reviews[m.i].current?.result.alpha;
+    const before = reviews[m.i].current?.result.significant;
+    const after = alpha !== undefined ? adjusted[k] < alpha : undefined;
+    out[m.i] = { method, family: members.length, pValue: adjusted[k], ...(alpha !== undefined ? { alpha, significant: after } : {}), ...(before !== undefined && after !== undefined ? { changed: before !== after } : {}) };
+  });
+  return out;
+}
+
+function adjustedText(a: Adjusted): string {
+  const verdict = a.significant === undefined ? '' : `; ${a.significant ? 'significant' : 'not significant'} at α = ${a.alpha} after adjustment${a.changed ? ' (the conclusion CHANGES)' : ''}`;
+  return `  adjusted p (${ADJUSTMENT[a.method].label}, ${a.family} p-values): ${Number(a.pValue.toPrecision(4))}${verdict}`;
+}
+
+/** The comparison on one line, for a JUnit failure message: "data changed (data, conclusion): n 100 → 101; …". */
+function comparisonLine(review: Review, changes: readonly string[]): string {
+  const [, ...lines] = describeReview(review, '').split('\n');
+  const head = `${STATUS_LABEL[review.status]}${changes.length ? ` (${changes.join(', ')})` : ''}`;
+  return `${head}: ${lines.map((l) => l.trim()).join('; ')}`;
+}
+
+async function commandCheck(files: readonly InputFile[], flags: CheckFlags & CommandFlags, io: CliIo): Promise<number> {
+  const reviews: { file: string; title?: string; review: Review; seconds: number; error?: ReturnType<typeof errorEntry> }[] = [];
+  await withDataOverride(flags.data, io, async (data) => {
+    for (const input of files) {
+      const started = performance.now();
+      let loaded: Loaded | undefined;
+      let review: Review;
+      let error: ReturnType<typeof errorEntry> | undefined;
       try {
-        const { run } = await runReportBlock(block, blockOptions(absolute, flags, io));
-        members.push({ name: `${file}:${block.fenceLine}`, result: run.result });
+        if (input.error) throw new InputError(input.error.message, { file: input.name }, input.error.code);
+        loaded = await loadSpec(input.name, io);
+        const run = await runLoaded(loaded, io, flags, data);
+        review = compareWithRecord(loaded.spec.recorded, run, TOOL, (io.now ?? (() => new Date()))(), flags.fragilityThreshold);
       } catch (e) {
-        blocksFailed = true;
-        io.stderr(`${file}:${block.fenceLine}: cannot run: ${errorMessage(e)}\n`);
+        error = errorEntry(e, loaded?.name ?? (input.name === '-' ? '<stdin>' : input.name), loaded?.located);
+        review = cannotRun(error.error.message);
       }
+      reviews.push({ file: loaded?.name ?? input.name, title: loaded?.spec.title, review, seconds: (performance.now() - started) / 1000, error });
     }
-  }
-  const family = flags.adjust ? adjustFamily(members, flags.adjust) : undefined;
+  });
+  const adjusted = flags.adjust ? adjustAcross(reviews.map((r) => r.review), flags.adjust) : [];
   if (flags.json) {
-    const entries = reviews.map((r) => reviewJson(r.review, r.file));
-    io.stdout(JSON.stringify(family ? { reviews: entries, family: familyJson(family) } : entries, null, 2) + '\n');
-  } else {
-    for (const r of reviews) io.stdout(`${describeReview(r.review, r.file)}\n`);
+    io.stdout(
+      JSON.stringify(
+        reviews.map((r, i) => ({ ...reviewJson(r.review, r.file), ...(r.error ? { error: r.error.error } : {}), fails: reviewFails(r.review, flags.failOn), ...(adjusted[i] ? { adjusted: adjusted[i] } : {}) })),
+        null,
+        2,
+      ) + '\n',
+    );
+  } else if (!flags.quiet) {
+    reviews.forEach((r, i) => {
+      const ignored = r.review.status !== 'cannot-run' && r.review.status !== 'reproduced' && !reviewFails(r.review, flags.failOn) ? `\n  (does not fail the check: --fail-on ${[...flags.failOn].join(',')})` : '';
+      io.stdout(`${describeReview(r.review, r.file)}${adjusted[i] ? `\n${adjustedText(adjusted[i]!)}` : ''}${ignored}\n`);
+    });
     const counts = new Map<string, number>();
     for (const r of reviews) counts.set(STATUS_LABEL[r.review.status], (counts.get(STATUS_LABEL[r.review.status]) ?? 0) + 1);
-    if (reviews.length) io.stdout(`${[...counts].map(([label, n]) => `${n} ${label}`).join(', ')} (tolerance: ${TOLERANCE_TEXT})\n`);
-    if (family) io.stdout(`${describeFamily(family)}\n`);
+    io.stdout(`${[...counts].map(([label, n]) => `${n} ${label}`).join(', ')} (tolerance: ${TOLERANCE_TEXT})\n`);
+  } else {
+    for (const r of reviews) if (r.review.status === 'cannot-run') io.stderr(`${r.review.reason}\n`);
   }
-  return Math.max(reviews.length ? reviewExitCode(reviews.map((r) => r.review)) : 0, blocksFailed ? 2 : 0);
-}
-
-/** Spec files to review and reports whose blocks join the family: a folder stands for its *.countercheck.json files. */
-async function checkTargets(args: readonly string[], io: CliIo): Promise<{ specs: string[]; reports: string[] }> {
-  const specs: string[] = [];
-  const reports: string[] = [];
-  for (const arg of args) {
-    const info = arg === '-' ? undefined : await stat(path.resolve(io.cwd, arg)).catch(() => undefined);
-    if (info?.isDirectory()) {
-      const names = (await readdir(path.resolve(io.cwd, arg))).filter((n) => n.endsWith('.countercheck.json')).sort();
-      specs.push(...names.map((n) => path.join(arg, n)));
-    } else if (arg.toLowerCase().endsWith('.md')) reports.push(arg);
-    else specs.push(arg);
-  }
-  return { specs, reports };
-}
-
-/** How the blocks of the report at `absolute` run (shared by `report` and `check`). */
-function blockOptions(absolute: string, flags: Flags, io: CliIo): BlockRunOptions {
-  return {
-    reportPath: absolute,
-    readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
-    signal: io.signal,
-    readText: (f) => readFile(f, 'utf8'),
-    allowedRoot: allowedRootFor(absolute, io),
-    allowOutsideRoot: flags.allowOutside,
-    format: { decimals: flags.decimals },
-  };
-}
-
-async function commandReport(files: readonly string[], flags: Flags, io: CliIo): Promise<number> {
-  let exit = 0;
-  for (const file of files) {
-    const absolute = path.resolve(io.cwd, file);
-    let text: string;
+  if (flags.junit !== undefined) {
+    const cases: JunitCase[] = reviews.map((r) => {
+      const fails = reviewFails(r.review, flags.failOn);
+      const changes = changesOf(r.review);
+      return {
+        file: r.file,
+        title: r.title,
+        seconds: r.seconds,
+        outcome: r.review.status === 'cannot-run' ? 'error' : fails ? 'failed' : 'passed',
+        summary: comparisonLine(r.review, changes),
+        details: describeReview(r.review, r.file),
+      };
+    });
     try {
-      text = await readFile(absolute, 'utf8');
+      await writeFile(path.resolve(io.cwd, flags.junit), junitXml('countercheck check', cases, (io.now ?? (() => new Date()))()), 'utf8');
     } catch (e) {
-      io.stderr(`${file}: cannot read the report: ${(e as Error).message}\n`);
+      io.stderr(`--junit: cannot write ${flags.junit}: ${errorMessage(e)}\n`);
+      return 2;
+    }
+  }
+  return reviewExitCode(reviews.map((r) => r.review), flags.failOn);
+}
+
+async function commandReport(files: readonly InputFile[], flags: ReportFlags & CommandFlags, io: CliIo): Promise<number> {
+  let exit = 0;
+  const say = (text: string) => {
+    if (!flags.quiet) io.stdout(text);
+  };
+  for (const input of files) {
+    const file = input.name;
+    if (input.error) {
+      io.stderr(`${input.error.message}\n`);
       exit = 2;
       continue;
     }
-    const runBlock = (block: ReportBlock) => runReportBlock(block, blockOptions(absolute, flags, io));
+    if (file === '-') {
+      io.stderr('report: a report is refreshed in place; name its file (standard input cannot be refreshed)\n');
+      exit = 2;
+      continue;
+    }
+    const absolute = path.resolve(io.cwd, file);
+    let text: string;
+    try {
+      text = await readTextFile(absolute, file, MAX_TEXT_FILE_BYTES);
+    } catch (e) {
+      const missing = isInputError(e) ? e.code === 'file-not-found' : (e as NodeJS.ErrnoException).code === 'ENOENT';
+      io.stderr(`${file}: cannot read the report: ${missing ? 'no such file' : errorMessage(e)}\n`);
+      exit = 2;
+      continue;
+    }
+    const runBlock = (block: ReportBlock) =>
+      runReportBlock(block, {
+        reportPath: absolute,
+        readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
+        signal: io.signal,
+        readText: (f) => readTextFile(f, path.relative(path.dirname(absolute), f), MAX_TEXT_FILE_BYTES),
+        allowedRoot: allowedRootFor(absolute, io),
+        allowOutsideRoot: flags.allowOutside,
+        format: { decimals: flags.decimals },
+      });
+    // With --adjust the blocks are one family: each result is written with its adjusted p-value.
     const family = flags.adjust ? await familyRenderer(text, runBlock, flags.adjust, { decimals: flags.decimals }) : undefined;
+    if (family) say(`${file}: ${describeFamily(family.adjustment).replace(/\n {2}(\d+):/g, (_, i: string) => `\n  block ${Number(i) + 1}:`)}\n`);
     const outcome = await refreshReport(text, family ? family.render : async (block) => (await runBlock(block)).markdown);
-    if (family) io.stdout(`${file}: ${describeFamily(family.adjustment).replace(/\n {2}(\d+):/g, (_, i: string) => `\n  block ${Number(i) + 1}:`)}\n`);
     for (const b of outcome.blocks) {
       const state = b.error ? 'cannot run' : b.changed ? (flags.check ? 'would change' : 'updated') : 'unchanged';
-      io.stdout(`${file}:${b.fenceLine}: block ${b.index + 1}: ${state}\n`);
+      say(`${file}:${b.fenceLine}: block ${b.index + 1}: ${state}\n`);
       if (b.error) io.stderr(`${b.error.split('\n').map((l) => l.replace(absolute, file)).join('\n')}\n`);
     }
-    if (outcome.blocks.length === 0) io.stdout(`${file}: no \`\`\`countercheck blocks\n`);
+    if (outcome.blocks.length === 0) say(`${file}: no \`\`\`countercheck blocks\n`);
     const changed = outcome.text !== text;
     if (flags.check) {
       if (changed) exit = Math.max(exit, 1);
@@ -385,36 +478,33 @@ async function commandReport(files: readonly string[], flags: Flags, io: CliIo):
 }
 
 export async function main(args: readonly string[], io: CliIo): Promise<number> {
-  let parsed: ReturnType<typeof parseArgs>;
+  let parsed: ReturnType<typeof parseCommandLine>;
   try {
-    parsed = parseArgs(args);
+    parsed = parseCommandLine(args);
   } catch (e) {
-    io.stderr(`${(e as Error).message}\n`);
+    if (!isInstance(e, UsageError)) throw e;
+    const usage = e.command ? USAGE[e.command] : HELP;
+    io.stderr(`countercheck${e.command ? ` ${e.command}` : ''}: ${e.message}\n\n${usage}\n`);
     return 2;
   }
-  const { command, files, flags } = parsed;
-  if (parsed.version) {
+  if (parsed.kind === 'version') {
     io.stdout(`${VERSION}\n`);
     return 0;
   }
-  if (parsed.help || command === undefined || command === 'help') {
-    (command === undefined && !parsed.help ? io.stderr : io.stdout)(HELP);
-    return command === undefined && !parsed.help ? 2 : 0;
+  if (parsed.kind === 'help') {
+    io.stdout(parsed.command ? `${USAGE[parsed.command]}\n` : HELP);
+    return 0;
   }
-  if (!['run', 'check', 'report'].includes(command)) {
-    io.stderr(`unknown command "${command}"; expected run, check or report (see countercheck --help)\n`);
+  const { flags, inputs } = parsed;
+  const files = await expandInputs(inputs, io.cwd, flags.command === 'report' ? undefined : '.countercheck.json');
+  if (flags.command !== 'report' && flags.data !== undefined && files.filter((f) => !f.error).length !== 1) {
+    io.stderr(`countercheck ${flags.command}: --data replaces one spec's data; name exactly one spec (found ${files.filter((f) => !f.error).length})\n\n${USAGE[flags.command]}\n`);
     return 2;
   }
-  if (files.length === 0) {
-    io.stderr(`countercheck ${command}: name at least one ${command === 'report' ? 'markdown file' : 'spec file (or - for standard input)'}\n`);
-    return 2;
-  }
-  if (files.filter((f) => f === '-').length > 1) {
-    io.stderr('standard input (-) can be read only once\n');
-    return 2;
-  }
-  if (command === 'run') return commandRun(files, flags, io);
-  if (command === 'check') return commandCheck(files, flags, io);
+  // One plain file named: its JSON output is one object; anything that may name several gives an array.
+  const single = inputs.length === 1 && files.length === 1 && files[0].name === inputs[0];
+  if (flags.command === 'run') return commandRun(files, flags, io, single);
+  if (flags.command === 'check') return commandCheck(files, flags, io);
   return commandReport(files, flags, io);
 }
 
@@ -425,10 +515,20 @@ async function readAll(stream: NodeJS.ReadableStream): Promise<string> {
   return text;
 }
 
+/** Exit status when standard output is closed early (`| head`): 128 + SIGPIPE, as a shell reports a tool killed by it. */
+export const CLOSED_PIPE_EXIT = 141;
+
 // Run when executed as a program: `node dist/cli.js …` or through bin/countercheck.js.
 if (require.main === module || /[\\/]bin[\\/]countercheck(\.js)?$/.test(require.main?.filename ?? '')) {
   const interrupt = new AbortController();
   process.once('SIGINT', () => interrupt.abort());
+  // A reader that stops early (`countercheck run --json … | head -c 10`) closes the pipe: stop quietly.
+  for (const stream of [process.stdout, process.stderr]) {
+    stream.on('error', (e: NodeJS.ErrnoException) => {
+      if (e.code === 'EPIPE') process.exit(CLOSED_PIPE_EXIT);
+      throw e;
+    });
+  }
   let progressShown = false;
   main(process.argv.slice(2), {
     stdout: (t) => process.stdout.write(t),
@@ -451,7 +551,7 @@ if (require.main === module || /[\\/]bin[\\/]countercheck(\.js)?$/.test(require.
       process.exitCode = code;
     },
     (e: unknown) => {
-      process.stderr.write(`countercheck: unexpected error: ${isInstance(e, Error) ? (e.stack ?? e.message) : String(e)}\n`);
+      process.stderr.write(`countercheck: unexpected error: ${errorMessage(e)}\n`);
       process.exitCode = 2;
     },
   );

@@ -3,6 +3,7 @@
 import { build } from 'esbuild';
 import { readdirSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
+import { alias } from '../bundle-options.mjs';
 import { repoRoot } from './host.mjs';
 
 export async function buildIntegrationTests() {
@@ -13,6 +14,7 @@ export async function buildIntegrationTests() {
   await build({
     entryPoints: entries,
     outdir,
+    alias,
     bundle: true,
     platform: 'node',
     format: 'cjs',

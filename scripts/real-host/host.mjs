@@ -23,16 +23,16 @@ export function isHostSetupError(e) {
 }
 
 /** Throws (never skips) when the host is not installed: a missing host must fail the run loudly. */
-export function checkHostInstalled() {
+export function checkHostInstalled({ browser = true } = {}) {
   const missing = [
     [node24, 'Node 24'],
     [codeServerEntry, 'code-server'],
-    [chromiumPath, 'Chromium'],
+    ...(browser ? [[chromiumPath, 'Chromium']] : []),
   ].filter(([path]) => !existsSync(path));
   if (missing.length > 0) {
     throw new HostSetupError(
       `The real VS Code host is not installed (missing ${missing.map(([p, what]) => `${what} at ${p}`).join(', ')}).\n` +
-        `Run: sudo bash scripts/ci/host.setup.sh   (installs Chromium, Node 24 and code-server into ${cacheDir})`,
+        `\`npm test\` and \`npm run demo\` install it (scripts/ci/host.setup.sh, cached in ${cacheDir}).`,
     );
   }
 }
@@ -68,8 +68,8 @@ export const baseSettings = {
  * Starts code-server in its own process group on 127.0.0.1 with private config, data and extension folders.
  * `workspace`: a folder to copy into the temp area (so tests never change the repository), or null to use `folder` as is.
  */
-export async function startHost({ settings = {}, copyWorkspaceFrom = null, extraCopies = [], folder = null, log = () => {}, extensionsDir = null } = {}) {
-  checkHostInstalled();
+export async function startHost({ settings = {}, copyWorkspaceFrom = null, extraCopies = [], folder = null, log = () => {}, extensionsDir = null, browser = true } = {}) {
+  checkHostInstalled({ browser });
   const temp = mkdtempSync(join(tmpdir(), 'countercheck-host-'));
   const userDataDir = join(temp, 'user-data');
   const extDir = extensionsDir ?? join(temp, 'extensions');

@@ -134,6 +134,8 @@ async function session({ name, theme, scheme }) {
     await check(`${name}: palette runs the test on a counted table`, async () => {
       await quickOpen(page, 'oven-defects.csv');
       await palette(page, 'Countercheck: Test This Data File');
+      // Every procedure that fits is offered; independence, the first, is already highlighted.
+      await answer(page, '');
       await waitForPanel(page, /associated/);
       const apa = await panelFrame(page).locator('#apa-line').textContent();
       if (!/χ²\(4, N = 91\) = 13\.79/.test(apa ?? '')) throw new Error(`APA line "${apa}"`);
@@ -147,7 +149,7 @@ async function session({ name, theme, scheme }) {
 
     if (name === 'light') {
       await check(`${name}: the variance flow is keyboard-only through QuickPicks`, async () => {
-        await testFileByKeyboard(page, 'bike-trips.csv', ['Variance', 'trip_minutes', '6', ''], /standard deviation|variance/i);
+        await testFileByKeyboard(page, 'bike-trips.csv', ['Variance of one', 'trip_minutes', '6', ''], /standard deviation|variance/i);
         await maximized(page, () => page.screenshot({ path: join(media, `panel-variance-${name}.png`) }));
       });
 

@@ -7,7 +7,7 @@ import { MomentAccumulator } from '../stats/moments';
 import type { Aggregate, AggregateRequest, CountTable } from './types';
 import { CategoryCoder, MISSING, missingTokens } from './categories';
 import { wholeCount } from './counts';
-import { parseDecimal } from './numbers';
+import { parseDecimal, parseMeasurement } from './numbers';
 import type { DecimalMark, IntakeOptions } from './options';
 import type { Records } from './records';
 import { InputError } from '../errors';
@@ -183,7 +183,7 @@ export class Aggregator {
   /** A number, or NaN when missing. */
   readNumber(text: string, line: number): number {
     if (this.isMissing(text)) return NaN;
-    const x = parseDecimal(text, this.decimal);
+    const x = parseMeasurement(text, this.decimal);
     if (Number.isNaN(x)) {
       const where = { ...this.where, line, column: this.columns[this.numberIndex] };
       const hint =

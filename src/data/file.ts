@@ -4,7 +4,9 @@
  * does I/O. Memory stays bounded: one read buffer (grown only for a longer line) and the counts.
  */
 import { createHash, type Hash } from 'node:crypto';
-import { open, type FileHandle } from 'node:fs/promises';
+import { constants as fsConstants, type Stats } from 'node:fs';
+import { open, realpath, type FileHandle } from 'node:fs/promises';
+import { isAbsolute, relative as relativePath, sep } from 'node:path';
 import { Readable } from 'node:stream';
 import { parse } from 'csv-parse';
 import { Aggregator, type SourceInfo } from './aggregate';
@@ -43,6 +45,8 @@ type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'latin1';
 const SAMPLE_BYTES = 64 * 1024;
 
 interface Opened {
+  /** The path opened: the real path when it was checked against an allowed folder. */
+  readonly path: string;
   readonly handle: FileHandle;
   readonly size: number;
   /** Modification time when opened, to notice a file that changes while it is read. */
@@ -95,16 +99,59 @@ function decoderFor(encoding: TextEncoding): (bytes: Uint8Array, final: boolean)
   return (bytes, final) => decoder.decode(bytes, { stream: !final });
 }
 
-async function openData(path: string, file: string, options: IntakeOptions): Promise<Opened> {
+/**
+ * The real path of `path` (symbolic links in every component followed), refused when it lies outside the real
+ * path of `allowedRoot`. Nothing of the file is read, and the message names neither its content nor its target.
+ */
+async function realPathInside(path: string, file: string, allowedRoot: string): Promise<string> {
+  let real: string;
+  let root: string;
+  try {
+    [real, root] = await Promise.all([realpath(path), realpath(allowedRoot)]);
+  } catch (e) {
+    return fileFailure(e, file);
+  }
+  const relative = relativePath(root, real);
+  if (relative === '..' || relative.startsWith('..' + sep) || isAbsolute(relative)) {
+    fail({ file }, 'this path leads, through a symbolic link, outside the folder the test may read from; the file was not opened', 'path-outside-root');
+  }
+  return real;
+}
+
+/** What a path that is not a regular file is, for the message. */
+function kindOf(stat: Stats): string {
+  if (stat.isDirectory()) return 'this is a folder; expected a data file';
+  if (stat.isFIFO()) return 'this is a named pipe (FIFO), which could block forever; expected a regular data file';
+  if (stat.isCharacterDevice() || stat.isBlockDevice()) return 'this is a device, not a file; expected a regular data file';
+  if (stat.isSocket()) return 'this is a socket; expected a regular data file';
+  return 'this is not a regular file; expected a data file';
+}
+
+/**
+ * Opens a data file for reading: the real path is checked against the allowed folder first; the open does not
+ * block (O_NONBLOCK, so a FIFO without a writer returns at once) and anything but a regular file is refused.
+ */
+async function openRegularFile(path: string, file: string, allowedRoot: string | undefined): Promise<{ target: string; handle: FileHandle; stat: Stats }> {
+  const target = allowedRoot === undefined ? path : await realPathInside(path, file, allowedRoot);
   let handle: FileHandle;
   try {
-    handle = await open(path, 'r');
+    handle = await open(target, fsConstants.O_RDONLY | fsConstants.O_NONBLOCK);
   } catch (e) {
     return fileFailure(e, file);
   }
   try {
     const stat = await handle.stat();
-    if (stat.isDirectory()) fail({ file }, 'this is a folder; expected a data file', 'not-a-file');
+    if (!stat.isFile()) fail({ file }, kindOf(stat), 'not-a-file');
+    return { target, handle, stat };
+  } catch (e) {
+    await handle.close();
+    throw e;
+  }
+}
+
+async function openData(path: string, file: string, options: IntakeOptions): Promise<Opened> {
+  const { target, handle, stat } = await openRegularFile(path, file, options.allowedRoot);
+  try {
     const head = new Uint8Array(Math.min(SAMPLE_BYTES, stat.size));
     const { bytesRead } = await handle.read(head, 0, head.length, 0);
     const { encoding, bomLength } = encodingOf(head.subarray(0, bytesRead), options);
@@ -123,7 +170,7 @@ async function openData(path: string, file: string, options: IntakeOptions): Pro
     }
     const sample = decoderFor(encoding)(body, true);
     const dialect = detectDialect(sample, options.dialect ?? {}, bytesRead < stat.size);
-    return { handle, size: stat.size, modified: stat.mtimeMs, encoding, bomLength, dialect };
+    return { path: target, handle, size: stat.size, modified: stat.mtimeMs, encoding, bomLength, dialect };
   } catch (e) {
     await handle.close();
     throw e;
@@ -252,7 +299,7 @@ export async function aggregateFileMany(
     if (scannable) {
       try {
         const parallel = parallelWanted(opened.size, opened.dialect, control)
-          ? await scanParallel({ ...opened, path, file, encoding: opened.encoding === 'latin1' ? 'latin1' : 'utf-8', intake, requests, makeAggregators, signal: control.signal, chunkSize: control.chunkSize, tick: progressOf(opened, control) }, control)
+          ? await scanParallel({ ...opened, file, encoding: opened.encoding === 'latin1' ? 'latin1' : 'utf-8', intake, requests, makeAggregators, signal: control.signal, chunkSize: control.chunkSize, tick: progressOf(opened, control) }, control)
           : undefined;
         if (parallel) [aggregators, hash] = [parallel.results, parallel.hash];
         else aggregators = await scanBytes(opened, makeAggregators, file, control, hash);
@@ -285,3 +332,29 @@ export async function aggregateFile(
   const { aggregates, reader } = await aggregateFileMany(path, [request], options, control);
   return { ...aggregates[0], reader };
 }
+
+/**
+ * Reads a small text file (a saved test, a report) whole, as UTF-8: only a regular file (a FIFO or a device
+ * such as /dev/zero would block or never end) of at most `maxBytes` bytes, refused before its content is read.
+ */
+export async function readTextFile(path: string, file: string, maxBytes: number, allowedRoot?: string): Promise<string> {
+  const { handle, stat } = await openRegularFile(path, file, allowedRoot);
+  try {
+    if (stat.size > maxBytes) {
+      fail({ file }, `the file has ${stat.size} bytes, more than the ${maxBytes} this reader accepts; expected a saved test or report of ordinary size`, 'file-too-large');
+    }
+    const bytes = new Uint8Array(stat.size);
+    let at = 0;
+    while (at < bytes.length) {
+      const { bytesRead } = await handle.read(bytes, at, bytes.length - at, at);
+      if (bytesRead === 0) break;
+      at += bytesRead;
+    }
+    return new TextDecoder('utf-8').decode(bytes.subarray(0, at));
+  } finally {
+    await handle.close();
+  }
+}
+
+/** Largest saved test or report read whole: 16 MiB. */
+export const MAX_TEXT_FILE_BYTES = 16 * 1024 * 1024;

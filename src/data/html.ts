@@ -1,8 +1,15 @@
 /**
- * A small reader for the HTML table a data-frame library renders in a notebook output: `<table>`
- * with `<thead>`/`<tbody>`, an index column (cells in `<th>`), column and index names, multi-level
- * headers (`colspan`) and multi-level indexes (`rowspan`). No DOM in Node, so it tokenises tags itself.
+ * The HTML table a data-frame library renders in a notebook output: `<table>` with `<thead>`/`<tbody>`, an
+ * index column (cells in `<th>`), column and index names, multi-level headers (`colspan`), multi-level indexes
+ * (`rowspan`), and polars' column-type row and quoted text. Tags, attributes and entities are read by
+ * htmlparser2's tokenizer.
+ *
+ * Bundle cost, measured 2026-12-03 with esbuild's metafile of a minified build: htmlparser2 60 KB and the
+ * entity tables of `entities` 77 KB, 140 KB in all (dist/extension.js 340 KB → 479 KB if inlined). It is
+ * therefore loaded on first use (`require` here; scripts/build.mjs makes it the chunk dist/htmlparser2.js),
+ * so activation does not pay for it. parse5 carries the same entity tables.
  */
+import type { Parser as HtmlParser } from 'htmlparser2';
 import { numberedColumns } from './delimited';
 import type { Records } from './records';
 import { fail } from './where';
@@ -19,75 +26,94 @@ interface Row {
   readonly section: 'head' | 'body';
 }
 
-const ENTITIES: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"', apos: "'", nbsp: ' ', '#39': "'" };
-
-function decodeEntities(text: string): string {
-  return text.replace(/&(#x[0-9a-f]+|#\d+|[a-z]+\d*);/gi, (whole, name: string) => {
-    if (name[0] === '#') {
-      const code = name[1] === 'x' || name[1] === 'X' ? parseInt(name.slice(2), 16) : parseInt(name.slice(1), 10);
-      return Number.isFinite(code) && code > 0 && code < 0x110000 ? String.fromCodePoint(code) : whole;
-    }
-    return ENTITIES[name.toLowerCase()] ?? whole;
-  });
-}
-
-function spanOf(attributes: string, name: string): number {
-  const m = new RegExp(`${name}\\s*=\\s*["']?(\\d+)`, 'i').exec(attributes);
+function spanOf(attributes: Readonly<Record<string, string>>, name: string): number {
+  const m = /^\s*(\d+)/.exec(attributes[name] ?? '');
   const n = m ? Number(m[1]) : 1;
   return n >= 1 && n <= 1000 ? n : 1;
 }
 
-/** The rows of the first table in the HTML (nested tables are not expected and are refused). */
+/**
+ * The rows of the first table in the HTML (nested tables are refused). htmlparser2's tokenizer does the HTML:
+ * every named and numeric character reference, attributes holding `>`, comments, raw-text elements (style,
+ * script) and the end tags HTML lets a writer omit (`</td>`, `</th>`, `</tr>`, `</tbody>`).
+ */
 function tableRows(html: string, file: string | undefined): Row[] {
   const rows: Row[] = [];
-  const tag = /<!--[\s\S]*?-->|<(style|script)\b[\s\S]*?<\/\1\s*>|<(\/?)([a-zA-Z][a-zA-Z0-9]*)([^>]*)>/g;
   let depth = 0;
   let done = false;
+  let closedExplicitly = false;
   let section: 'head' | 'body' = 'body';
   let row: Cell[] | undefined;
   let cell: { header: boolean; colspan: number; rowspan: number } | undefined;
   let text = '';
-  let last = 0;
-  for (let m = tag.exec(html); m !== null && !done; m = tag.exec(html)) {
-    if (cell) text += html.slice(last, m.index);
-    last = tag.lastIndex;
-    const closing = m[2] === '/';
-    const name = (m[3] ?? '').toLowerCase();
-    if (name === '') continue;
-    if (name === 'table') {
-      if (!closing) {
-        depth++;
-        if (depth > 1) fail({ file }, 'found a table inside a table cell; expected one flat table', 'nested-table');
-      } else if (depth > 0) {
-        depth--;
-        done = depth === 0;
-      }
-      continue;
-    }
-    if (depth === 0) continue;
-    const endCell = () => {
-      if (cell && row) row.push({ text: decodeEntities(text).replace(/\s+/g, ' ').trim(), header: cell.header, colspan: cell.colspan, rowspan: cell.rowspan });
-      cell = undefined;
-      text = '';
-    };
-    if (name === 'thead' || name === 'tbody' || name === 'tfoot') {
-      endCell();
-      section = !closing && name === 'thead' ? 'head' : 'body';
-    } else if (name === 'tr') {
-      endCell();
-      if (row) rows.push({ cells: row, section });
-      row = closing ? undefined : [];
-    } else if (name === 'th' || name === 'td') {
-      endCell();
-      if (!closing) {
-        row ??= [];
-        cell = { header: name === 'th', colspan: spanOf(m[4], 'colspan'), rowspan: spanOf(m[4], 'rowspan') };
-      }
-    } else if (name === 'br' && cell) text += ' ';
-  }
-  if (depth > 0 && !done) fail({ file }, 'the table is not closed; expected `</table>`', 'bad-html');
-  if (row && row.length > 0) rows.push({ cells: row, section });
+  const endCell = () => {
+    if (cell && row) row.push({ text: text.replace(/\s+/g, ' ').trim(), header: cell.header, colspan: cell.colspan, rowspan: cell.rowspan });
+    cell = undefined;
+    text = '';
+  };
+  const endRow = () => {
+    endCell();
+    if (row) rows.push({ cells: row, section });
+    row = undefined;
+  };
+  const { Parser } = require('htmlparser2') as { Parser: typeof HtmlParser }; // eslint-disable-line @typescript-eslint/no-require-imports
+  const parser = new Parser(
+    {
+      onopentag(name, attributes) {
+        if (done) return;
+        if (name === 'table') {
+          depth++;
+          if (depth > 1) fail({ file }, 'found a table inside a table cell; expected one flat table', 'nested-table');
+          return;
+        }
+        if (depth === 0) return;
+        if (name === 'thead' || name === 'tbody' || name === 'tfoot') {
+          endRow();
+          section = name === 'thead' ? 'head' : 'body';
+        } else if (name === 'tr') {
+          endRow();
+          row = [];
+        } else if (name === 'th' || name === 'td') {
+          endCell();
+          row ??= [];
+          cell = { header: name === 'th', colspan: spanOf(attributes, 'colspan'), rowspan: spanOf(attributes, 'rowspan') };
+        } else if (name === 'br' && cell) text += ' ';
+      },
+      ontext(chunk) {
+        if (!done && cell) text += chunk;
+      },
+      onclosetag(name, isImplied) {
+        if (done || depth === 0) return;
+        if (name === 'table') {
+          endRow();
+          depth--;
+          done = depth === 0;
+          closedExplicitly = !isImplied;
+        } else if (name === 'th' || name === 'td') endCell();
+        else if (name === 'tr') endRow();
+        else if (name === 'thead' || name === 'tbody' || name === 'tfoot') {
+          endRow();
+          section = 'body';
+        }
+      },
+    },
+    { decodeEntities: true, lowerCaseTags: true, lowerCaseAttributeNames: true },
+  );
+  parser.end(html);
+  if (!closedExplicitly) fail({ file }, 'the table is not closed; expected `</table>`', 'bad-html');
   return rows;
+}
+
+/**
+ * Polars writes the column types as a second header row of `<td>` cells ("str", "i64", "f64", "datetime[μs]")
+ * and shows text values in double quotes. Returns the types when the last head row is such a row.
+ */
+const DTYPE = /^(str|cat|enum|bool|null|object|binary|decimal(\[\d+, *\d+\])?|[iu](8|16|32|64|128)|f(32|64)|date|time|duration\[\w+\]|datetime\[[^\]]+\]|list\[.+\]|array\[.+\]|struct\[\d+\])$/;
+function dtypeRow(rows: readonly Row[]): string[] | undefined {
+  const head = rows.filter((r) => r.section === 'head');
+  const last = head[head.length - 1];
+  if (head.length < 2 || !last || last.cells.some((c) => c.header || c.colspan !== 1) || !last.cells.every((c) => DTYPE.test(c.text))) return undefined;
+  return last.cells.map((c) => c.text);
 }
 
 /** Lays cells out on a grid, repeating spanned cells, so every row has the same width. */
@@ -132,7 +158,13 @@ export interface HtmlTableOptions {
 export function parseHtmlTable(html: string, options: HtmlTableOptions = {}): Records {
   const file = options.file;
   if (!/<table\b/i.test(html)) fail({ file }, 'found no `<table>`; expected an HTML table', 'no-table');
-  const rows = tableRows(html, file);
+  let rows = tableRows(html, file);
+  const dtypes = dtypeRow(rows);
+  if (dtypes) {
+    rows = rows.filter((r) => r !== rows.filter((h) => h.section === 'head').at(-1));
+    // Text columns show their values quoted: "A" → A (only a value quoted at both ends).
+    rows = rows.map((r) => (r.section === 'head' ? r : { ...r, cells: r.cells.map((c, j) => (dtypes[j] === 'str' && /^".*"$/s.test(c.text) && c.text.length >= 2 ? { ...c, text: c.text.slice(1, -1) } : c)) }));
+  }
   const hasHead = rows.some((r) => r.section === 'head');
   // Without <thead>, leading rows made only of <th> cells are the header.
   let headCount = hasHead ? rows.filter((r) => r.section === 'head').length : 0;

@@ -112,7 +112,7 @@ function byLabel(v: Json | undefined, order: readonly string[], path: string, fi
   for (const key of Object.keys(v))
     if (!order.includes(key)) fail({ file, jsonPath: `${path}.${key}` }, `found the category \`${key}\`, which is not among the observed categories`, 'unknown-category');
   return order.map((label) => {
-    if (!(label in v)) return fail({ file, jsonPath: path }, `expected a value for the category \`${label}\`, found none`, 'missing-category');
+    if (!Object.prototype.hasOwnProperty.call(v, label)) return fail({ file, jsonPath: path }, `expected a value for the category \`${label}\`, found none`, 'missing-category');
     return numberAt(v[label], { file, jsonPath: `${path}.${label}` });
   });
 }

@@ -1,6 +1,10 @@
 /**
  * Markdown pipe tables (GitHub style): a header row, an alignment row (`| --- | :-: |`), then
  * rows. A selection may also hold rows without the header; then the header is detected.
+ *
+ * Kept rather than a markdown library, measured 2026-12-03 (2 shared cores): markdown-it 14 finds no table in a
+ * selection of rows without the header and alignment lines (a fragment is what users select), and on a full
+ * 20,000-row table (429 KB) it takes 231 ms to tokenise against 29 ms for this reader (median of 5).
  */
 import { detectHeader } from './dialect';
 import { numberedColumns, headerNames, raggedRecord } from './delimited';

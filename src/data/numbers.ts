@@ -39,3 +39,9 @@ function readDecimal(t: string, decimal: DecimalMark): number {
 export function looksNumeric(text: string, decimal: DecimalMark = '.'): boolean {
   return !Number.isNaN(parseDecimal(text, decimal));
 }
+
+/** A measurement cell: a decimal number, optionally followed by a percent sign (the number is kept as written: "12.5 %" is 12.5). */
+export function parseMeasurement(text: string, decimal: DecimalMark = '.'): number {
+  const t = text.trim();
+  return parseDecimal(t.endsWith('%') ? t.slice(0, -1) : t, decimal);
+}

@@ -65,4 +65,9 @@ export interface IntakeOptions {
   readonly description?: string;
   /** For a numeric request, also return the values themselves (small inputs only). */
   readonly keepValues?: boolean;
+  /**
+   * The folder a file must lie in, checked on its real path (symbolic links followed) before it is opened.
+   * Undefined: no folder check (the user allowed paths outside the workspace, or named the file directly).
+   */
+  readonly allowedRoot?: string;
 }

@@ -5,6 +5,10 @@
  * rare number form is decoded to a string. Quoted fields on one line are handled; a quote it cannot
  * handle (a field spanning lines, a quote inside an unquoted field, a lone CR) raises
  * `ScannerFallback`, and the caller reads the file again with csv-parse.
+ *
+ * Kept rather than a CSV library because it is measured fastest (bench/csv.ts, 10,000,000 rows, 278 MB, one
+ * thread, 2026-12-01): this scanner 2.00 s and 65 MB against uDSV 5.5 s, Papa Parse 10.6 s, csv-parser 13.9 s,
+ * csv-parse 19.5 s and fast-csv 40.8 s. csv-parse stays as the general reader for what the scanner leaves.
  */
 import { MISSING } from './categories';
 import { splitOutsideQuotes } from './dialect';

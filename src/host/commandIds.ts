@@ -4,9 +4,11 @@ export const COMMANDS = {
   runOnSelection: 'countercheck.runOnSelection',
   runOnCellOutput: 'countercheck.runOnCellOutput',
   distributionLookup: 'countercheck.distributionLookup',
+  planWithoutData: 'countercheck.planWithoutData',
   runSavedSpec: 'countercheck.runSavedSpec',
   rerunAndCompare: 'countercheck.rerunAndCompare',
   refreshAllBlocks: 'countercheck.refreshAllBlocks',
   refreshBlock: 'countercheck.refreshBlock',
   openSpecResult: 'countercheck.openSpecResult',
+  openSampleData: 'countercheck.openSampleData',
 } as const;

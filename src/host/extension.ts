@@ -2,7 +2,7 @@
 import * as vscode from 'vscode';
 import type { PanelPayload } from '../protocol';
 import { COMMANDS } from './commandIds';
-import { distributionLookup } from './commands/distributionLookup';
+import { distributionLookup, planWithoutData } from './commands/distributionLookup';
 import { refreshBlocks } from './commands/reportBlocks';
 import { runOnCellOutput } from './commands/runOnCellOutput';
 import { runOnFile } from './commands/runOnFile';
@@ -15,6 +15,7 @@ import { Services } from './services';
 import { registerSqlCommands } from './sqlCommand';
 import { registerTesting, type SavedTests } from './testing';
 import { isInstance } from '../errors';
+import type { Answers } from '../planner/plan';
 
 /** What activate returns: used by the integration tests and by other extensions. */
 export interface CountercheckApi {
@@ -43,16 +44,19 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
   const command = (id: string, run: (...args: never[]) => unknown) => context.subscriptions.push(vscode.commands.registerCommand(id, run as (...args: unknown[]) => unknown));
 
   // From the explorer the second argument is the list of selected files, not answers.
-  const answersFrom = (value: unknown) => (value && typeof value === 'object' && !Array.isArray(value) && !(isInstance(value, vscode.Uri)) ? value : {});
+  const answersFrom = (value: unknown): Answers => (value && typeof value === 'object' && !Array.isArray(value) && !isInstance(value, vscode.Uri) ? (value as Answers) : {});
   command(COMMANDS.runOnFile, (uri?: vscode.Uri, answers?: object) => runOnFile(services, uri, answersFrom(answers)));
   command(COMMANDS.runOnSelection, (answers?: object) => runOnSelection(services, answersFrom(answers)));
   command(COMMANDS.runOnCellOutput, (cell?: vscode.NotebookCell, answers?: object) => runOnCellOutput(services, cell, answersFrom(answers)));
   command(COMMANDS.distributionLookup, (args?: { df?: number; x?: number; p?: number }) => distributionLookup(services, args));
+  command(COMMANDS.planWithoutData, (answers?: object) => planWithoutData(services, answersFrom(answers)));
   command(COMMANDS.runSavedSpec, (uri?: vscode.Uri) => runSavedSpec(services, uri));
   command(COMMANDS.rerunAndCompare, (uri?: vscode.Uri) => rerunAndCompare(services, uri));
   command(COMMANDS.refreshAllBlocks, (uri?: vscode.Uri) => refreshBlocks(services, uri));
   command(COMMANDS.refreshBlock, (uri: vscode.Uri, index: number) => refreshBlocks(services, uri, index));
   command(COMMANDS.openSpecResult, (uri: vscode.Uri) => openSpecResult(services, uri));
+  // The Getting Started walkthrough's sample: the demo bakery log shipped in the extension.
+  command(COMMANDS.openSampleData, () => vscode.window.showTextDocument(vscode.Uri.joinPath(context.extensionUri, 'media', 'walkthrough', 'bakery-defects.csv')));
   registerSqlCommands(context, services);
 
   context.subscriptions.push(

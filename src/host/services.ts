@@ -3,7 +3,9 @@
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { aggregateFile } from '../data/file';
+import { detectDialect } from '../data/dialect';
 import { errorMessage, isInputError, isInstance, type InputError } from '../errors';
+import { Cancelled } from '../planner/questions';
 import type { PanelOrigin } from '../protocol';
 import { runSpec } from '../spec/run';
 import type { SpecReaders, SpecRun } from '../spec/types';
@@ -47,7 +49,7 @@ export const extensionReaders: SpecReaders = {
   aggregateSql: hostAggregateSql,
 };
 
-export class Cancelled extends Error {}
+export { Cancelled } from '../planner/questions';
 
 export class Services {
   readonly output = vscode.window.createOutputChannel('Countercheck', { log: true });
@@ -164,7 +166,7 @@ export class Services {
 function columnOffset(doc: vscode.TextDocument, column: string | undefined, line: number): number {
   if (!column) return 0;
   const header = doc.lineAt(0).text;
-  const delimiter = [',', '\t', ';', '|'].find((d) => header.includes(d)) ?? ',';
+  const delimiter = detectDialect(doc.getText(new vscode.Range(0, 0, Math.min(doc.lineCount, 50), 0)), {}, true).delimiter;
   const index = header.split(delimiter).map((c) => c.trim().replace(/^"|"$/g, '')).indexOf(column);
   if (index <= 0) return 0;
   const text = doc.lineAt(line).text;

@@ -1,26 +1,24 @@
 // "Test a database table or query…": pick a configured connection, a table or view from its
-// catalogue (information_schema) or one of the connection's saved queries, a test, its columns
-// (with their server types) and an optional filter; the engine counts, the panel shows the result.
-import * as path from 'node:path';
+// catalogue (information_schema) or one of the connection's saved queries, and an optional filter;
+// the columns and their server types go to the one wizard, which plans the test; the engine counts.
 import * as vscode from 'vscode';
 import { isInputError, isInstance } from '../errors';
 import { listColumns, listTables, resolveConnection, type ResolvedConnection, type SqlSource } from '../data/sql/index';
-import { Cancelled, settings, type Services } from './services';
+import type { Offer } from '../planner/offer';
+import type { Answers } from '../planner/plan';
+import { Cancelled, type Services } from './services';
+import { runWizard } from './wizard';
 import { askPassword, configuredConnections, storedPassword, useSecretStorage } from './sqlSource';
 
 const t = vscode.l10n.t;
 export const RUN_ON_DATABASE = 'countercheck.runOnDatabase';
 
-type TestKind = 'independence' | 'goodness-of-fit' | 'variance';
-
-interface DatabaseAnswers {
+/** Where the data is (asked here), then any answer the planner would otherwise ask (test, columns, sigma0…). */
+interface DatabaseAnswers extends Answers {
   connection?: string;
   table?: string;
   query?: string;
-  test?: TestKind;
-  columns?: string[];
   where?: string;
-  sigma0?: number;
 }
 
 function cancelled(): never {
@@ -71,17 +69,13 @@ async function askSource(name: string, remembered: DatabaseAnswers): Promise<{ t
   return item.table !== undefined ? { table: item.table } : { query: item.query };
 }
 
-const TESTS: { key: TestKind; label: () => string; detail: () => string; columns: number; numeric: boolean }[] = [
-  { key: 'independence', label: () => t('Independence of two categorical columns'), detail: () => t('The server cross-tabulates them (GROUP BY); Pearson χ²'), columns: 2, numeric: false },
-  { key: 'goodness-of-fit', label: () => t('Goodness of fit of one categorical column'), detail: () => t('The server counts its levels; equal proportions expected'), columns: 1, numeric: false },
-  { key: 'variance', label: () => t('Variance of one numeric column'), detail: () => t('The server computes n, mean and variance; χ² test against σ0'), columns: 1, numeric: true },
-];
-
 export async function runOnDatabase(services: Services, given: DatabaseAnswers = {}): Promise<void> {
+  let offer: Offer;
+  let answers: DatabaseAnswers;
   try {
     const connections = configuredConnections();
     const names = Object.keys(connections);
-    const remembered = services.context.workspaceState.get<DatabaseAnswers>('answers:database') ?? {};
+    const remembered = services.context.workspaceState.get<DatabaseAnswers>('answers:database-source') ?? {};
     let name = given.connection;
     if (!name) {
       if (names.length === 0) {
@@ -92,30 +86,10 @@ export async function runOnDatabase(services: Services, given: DatabaseAnswers =
       }
       name = names.length === 1 ? names[0] : (await choose(names.map((n) => ({ label: n, description: connections[n].host ?? '' })), t('Database connection'), t('Which connection?'), (i) => i.label === remembered.connection)).label;
     }
-    const answers: DatabaseAnswers = { ...given, connection: name };
+    answers = { ...given, connection: name };
     if (answers.table === undefined && answers.query === undefined) Object.assign(answers, await askSource(name, remembered));
     const sqlSource: SqlSource = { sql: { connection: name, ...(answers.table !== undefined ? { table: answers.table } : { query: answers.query as string }) } };
-    const key =
-      answers.test ??
-      (await choose(TESTS.map((x) => ({ key: x.key, label: x.label(), detail: x.detail() })), t('Which test?'), t('What to test on {0}', answers.table ?? t('the query')), (i) => i.key === remembered.test)).key;
-    const test = TESTS.find((x) => x.key === key)!;
-    answers.test = test.key;
-    if (!answers.columns) {
-      const columns = await withPassword(name, (c, signal) => listColumns(c, sqlSource, signal), t('Countercheck: reading the columns'));
-      const eligible = test.numeric ? columns.filter((c) => c.numeric) : columns;
-      const chosen: string[] = [];
-      for (let k = 0; k < test.columns; k++) {
-        const which = test.columns === 2 ? (k === 0 ? t('the rows') : t('the columns')) : t('the column');
-        const item = await choose(
-          eligible.filter((c) => !chosen.includes(c.name)).map((c) => ({ label: c.name, description: c.type })),
-          test.label(),
-          t('Choose {0}', which),
-          (i) => remembered.test === test.key && i.label === remembered.columns?.[k],
-        );
-        chosen.push(item.label);
-      }
-      answers.columns = chosen;
-    }
+    const columns = await withPassword(name, (c, signal) => listColumns(c, sqlSource, signal), t('Countercheck: reading the columns'));
     if (answers.where === undefined) {
       const where = await vscode.window.showInputBox({
         title: t('Filter (optional)'),
@@ -126,35 +100,15 @@ export async function runOnDatabase(services: Services, given: DatabaseAnswers =
       if (where === undefined) cancelled();
       answers.where = where.trim() === '' ? undefined : where.trim();
     }
-    const options: Record<string, unknown> = { alpha: settings().alpha };
-    if (test.key === 'variance') {
-      if (answers.sigma0 === undefined) {
-        const text = await vscode.window.showInputBox({
-          title: t('Hypothesised standard deviation σ0'),
-          prompt: t('σ0 in the units of "{0}"', answers.columns[0]),
-          value: remembered.sigma0 !== undefined ? String(remembered.sigma0) : undefined,
-          validateInput: (v) => (Number(v) > 0 && Number.isFinite(Number(v)) ? undefined : t('σ0 must be a number greater than 0')),
-        });
-        if (text === undefined) cancelled();
-        answers.sigma0 = Number(text);
-      }
-      Object.assign(options, { sigma0: answers.sigma0, alternative: 'two-sided' });
-    }
-    await services.context.workspaceState.update('answers:database', answers);
-    const spec = {
-      version: 1,
-      test: test.key,
-      source: { sql: sqlSource.sql, columns: answers.columns, ...(answers.where ? { where: answers.where } : {}) },
-      ...options,
-    };
-    const folder = vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? process.cwd();
-    const specPath = path.join(folder, 'untitled.countercheck.json');
-    const label = `${name}: ${answers.table ?? t('query')}`;
-    const run = await services.run(spec, specPath, label);
-    services.showResult(run.result, { spec, specPath, saved: false }, `${test.label()} — ${label}`, run.data.description);
+    await services.context.workspaceState.update('answers:database-source', { connection: answers.connection, table: answers.table, query: answers.query, where: answers.where });
+    offer = { kind: 'catalogue', sql: sqlSource.sql, columns, description: `${name}: ${answers.table ?? t('query')}` };
   } catch (e) {
     await services.reportError(e);
+    return;
   }
+  const planAnswers: Answers = Object.fromEntries(Object.entries(answers).filter(([k]) => !['connection', 'table', 'query'].includes(k)));
+  const folder = vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? process.cwd();
+  await runWizard(services, offer, planAnswers, { key: `database:${offer.description}`, specFolder: folder, label: offer.description });
 }
 
 /** The one line activate() calls: the command, and where passwords are kept. */

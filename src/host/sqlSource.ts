@@ -52,7 +52,7 @@ export async function askPassword(connection: string, why: string): Promise<stri
 /** In an untrusted workspace: show what would run and ask. Throws when the user declines. */
 async function confirmUntrusted(source: SqlSpecSource, request: Parameters<NonNullable<SpecReaders['aggregateSql']>>[1], intake: Parameters<NonNullable<SpecReaders['aggregateSql']>>[2]): Promise<void> {
   if (vscode.workspace.isTrusted || !source.sql) return;
-  const statements = previewSql({ sql: source.sql, where: source.where, parameters: source.parameters }, request, { missing: intake.missing, categories: intake.categories });
+  const statements = previewSql({ sql: source.sql, where: source.where, parameters: source.parameters }, request, { missing: intake.missing, categories: intake.categories, keepValues: intake.keepValues });
   const run = t('Run on "{0}"', source.sql.connection);
   const choice = await vscode.window.showWarningMessage(
     t('This workspace is not trusted. A saved test wants to run SQL on your connection "{0}".', source.sql.connection),

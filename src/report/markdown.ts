@@ -8,15 +8,23 @@ import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateIn
 import { CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
 import { evidenceLines } from './evidence';
 
-/** Escapes text for a markdown table cell or inline text. */
+/**
+ * Escapes text for a markdown table cell or inline text, so that it reads as the same plain text and nothing
+ * else: every line break (CR, CRLF, LF: CommonMark ends a line at a lone CR too) becomes a space; characters
+ * that open markup anywhere (\\ | * _ ` [ ] ~, < before a tag or autolink, & before an entity) are
+ * backslash-escaped, and so are those that open a block only at the start (# > + = - and an ordered-list number's
+ * dot or parenthesis); leading spaces and tabs, which a paragraph drops and which from four on would open a code
+ * block, are removed. Checked against markdown-it by a property test.
+ */
 export function escapeMarkdown(text: string): string {
   return text
-    .replace(/\\/g, '\\\\')
-    .replace(/\|/g, '\\|')
-    .replace(/([*_`[\]])/g, '\\$1')
+    .replace(/\r\n|\r|\n/g, ' ')
+    .replace(/^[ \t]+/, '')
+    .replace(/[\\|*_`[\]~]/g, '\\$&')
     .replace(/<(?=[A-Za-z/!?])/g, '\\<')
-    .replace(/^([#>+-])/, '\\$1')
-    .replace(/\r?\n/g, ' ');
+    .replace(/&(?=#?[A-Za-z0-9]+;)/g, '\\&')
+    .replace(/^([#>+=-])/, '\\$1')
+    .replace(/^(\d+)([.)])/, '$1\\$2');
 }
 
 /** A pipe table; numeric columns are right-aligned. */

@@ -62,10 +62,27 @@ export const FRAGILITY_FIELDS = { fragility: FRAGILITY_FIELD, fragilityMinLikeli
 /** Tables the exact search may examine when each p-value is a whole procedure (paired, stratified): about a second. */
 const EXPENSIVE_TEST_TABLES = 2000;
 
-type Table = readonly (readonly number[])[];
+/**
+ * The fields these sections read, as the procedures' field tables declare and check them (runSpec validates the
+ * whole spec against the table before any procedure or section runs).
+ */
+interface EvidenceFields {
+  readonly fragility?: boolean;
+  readonly fragilityMinLikelihood?: number;
+  readonly bayesFactor?: boolean | { readonly samplingPlan?: SamplingPlan; readonly priorConcentration?: number };
+  readonly equivalence?: { readonly lower?: number; readonly upper?: number; readonly margin?: number };
+  readonly method?: 'asymptotic' | 'exact' | 'monte-carlo' | 'mid-p';
+  readonly statistic?: 'pearson' | 'likelihood-ratio' | 'cressie-read';
+  readonly lambda?: number;
+  readonly correction?: boolean;
+  readonly table?: readonly (readonly number[])[];
+  readonly strata?: readonly (readonly (readonly number[])[])[];
+  readonly estimatedParameters?: number;
+}
 
 /** Adds the sections the spec asks for (or that are on by default) to a test result. */
-export function withEvidence(result: TestResult, spec: SpecV1): TestResult {
+export function withEvidence(result: TestResult, validated: SpecV1): TestResult {
+  const spec = validated as SpecV1 & EvidenceFields;
   let out = result;
   const fragility = spec.fragility !== false ? fragilityFor(result, spec) : undefined;
   if (fragility) out = { ...out, fragility };
@@ -86,9 +103,9 @@ function guarded(f: () => number): number {
   }
 }
 
-function fragilityFor(result: TestResult, spec: SpecV1): (Fragility & { basis: FragilityBasis }) | undefined {
+function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { basis: FragilityBasis }) | undefined {
   const alpha = result.alpha;
-  const options = { minLikelihood: typeof spec.fragilityMinLikelihood === 'number' ? spec.fragilityMinLikelihood : undefined };
+  const options = { minLikelihood: spec.fragilityMinLikelihood };
   const resampled = spec.method === 'monte-carlo' || (spec.method === 'exact' && result.test !== 'independence' && result.test !== 'paired' && result.test !== 'stratified');
   switch (result.test) {
     case 'independence': {
@@ -126,7 +143,7 @@ function fragilityFor(result: TestResult, spec: SpecV1): (Fragility & { basis: F
       return { ...generalizedFragility(tableProblem(spec.table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
     }
     case 'stratified': {
-      const strata = spec.strata as readonly Table[] | undefined;
+      const strata = spec.strata;
       if (!strata) return undefined;
       const opts = { alpha, correction: spec.correction, method: spec.method as 'asymptotic' | 'exact' | undefined };
       const lp = (s: number[][][]): number => guarded(() => stratifiedTest(s, opts).pValue.log10);
@@ -149,8 +166,8 @@ function independenceLog10P(t: number[][], lambda: number): number {
   return chiSquareUpperProbability(statistic, (kept.length - 1) * (kept[0].length - 1)).log10;
 }
 
-function bayesFactorFor(result: TestResult, spec: SpecV1): TestResult['bayesFactor'] {
-  const option = spec.bayesFactor as false | true | { samplingPlan?: SamplingPlan; priorConcentration?: number } | undefined;
+function bayesFactorFor(result: TestResult, spec: EvidenceFields): TestResult['bayesFactor'] {
+  const option = spec.bayesFactor;
   if (option === false) return undefined;
   const chosen = typeof option === 'object' ? option : {};
   const a = chosen.priorConcentration ?? 1;
@@ -168,8 +185,8 @@ function bayesFactorFor(result: TestResult, spec: SpecV1): TestResult['bayesFact
   return undefined;
 }
 
-function equivalenceFor(result: TestResult, spec: SpecV1): EquivalenceSection | undefined {
-  const option = spec.equivalence as { lower?: number; upper?: number; margin?: number } | undefined;
+function equivalenceFor(result: TestResult, spec: EvidenceFields): EquivalenceSection | undefined {
+  const option = spec.equivalence;
   if (!option) return undefined;
   const alpha = result.alpha;
   if (result.test === 'variance') {

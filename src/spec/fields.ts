@@ -22,8 +22,8 @@ export type FieldType =
   /** Anything (used for the recorded result, whose shape is checked by the review code). */
   | { readonly kind: 'any' };
 
-export interface Field {
-  readonly type: FieldType;
+export interface Field<T extends FieldType = FieldType> {
+  readonly type: T;
   /** One or two sentences for hovers and the schema. */
   readonly description: string;
   /** The field holds data (its canonical JSON is the fingerprint of inline data). */
@@ -36,20 +36,59 @@ export interface SpecProblem {
   readonly message: string;
 }
 
-// Shorthands so that field tables stay readable.
-export const num = (o: Omit<Extract<FieldType, { kind: 'number' }>, 'kind'> = {}): FieldType => ({ kind: 'number', ...o });
-export const str = (o: Omit<Extract<FieldType, { kind: 'string' }>, 'kind'> = {}): FieldType => ({ kind: 'string', ...o });
-export const bool: FieldType = { kind: 'boolean' };
-export const nul: FieldType = { kind: 'null' };
-export const any: FieldType = { kind: 'any' };
-export const arr = (items: FieldType, o: { minItems?: number; maxItems?: number } = {}): FieldType => ({ kind: 'array', items, ...o });
-export const oneOf = (...options: FieldType[]): FieldType => ({ kind: 'oneOf', options });
-export const obj = (properties: Record<string, Field>, o: { required?: string[]; additional?: FieldType } = {}): FieldType => ({
-  kind: 'object',
-  properties,
-  ...o,
-});
-export const field = (type: FieldType, description: string, data?: boolean): Field => (data ? { type, description, data } : { type, description });
+// Shorthands so that field tables stay readable. Each keeps its literal type (an enum's values, an array's
+// items, an object's members), so that `SpecOf` below derives the TypeScript type of a saved test from its table.
+type NumberOptions = Omit<Extract<FieldType, { kind: 'number' }>, 'kind'>;
+export const num = (o: NumberOptions = {}) => ({ kind: 'number' as const, ...o });
+export function str(): { readonly kind: 'string' };
+export function str<const E extends readonly string[]>(o: { readonly enum: E; readonly nonEmpty?: boolean }): { readonly kind: 'string'; readonly enum: E; readonly nonEmpty?: boolean };
+export function str(o: { readonly nonEmpty?: boolean }): { readonly kind: 'string'; readonly nonEmpty?: boolean };
+export function str(o: { readonly enum?: readonly string[]; readonly nonEmpty?: boolean } = {}): FieldType {
+  return { kind: 'string', ...o };
+}
+export const bool = { kind: 'boolean' } as const;
+export const nul = { kind: 'null' } as const;
+export const any = { kind: 'any' } as const;
+export const arr = <I extends FieldType>(items: I, o: { minItems?: number; maxItems?: number } = {}) => ({ kind: 'array' as const, items, ...o });
+export const oneOf = <const O extends readonly FieldType[]>(...options: O) => ({ kind: 'oneOf' as const, options });
+export const obj = <P extends Readonly<Record<string, Field>>, const R extends readonly (keyof P & string)[] = [], A extends FieldType | undefined = undefined>(
+  properties: P,
+  o: { required?: R; additional?: A } = {},
+) => ({ kind: 'object' as const, properties, ...(o as { required?: R; additional?: A }) });
+export const field = <T extends FieldType>(type: T, description: string, data?: boolean): Field<T> => (data ? { type, description, data } : { type, description });
+
+/** The TypeScript type of a value that a field type accepts. */
+export type ValueOf<T> = [FieldType] extends [T] ? unknown : KnownValueOf<T>;
+
+type KnownValueOf<T> = T extends { readonly kind: 'number' }
+  ? number
+  : T extends { readonly kind: 'string'; readonly enum: readonly (infer E)[] }
+    ? E
+    : T extends { readonly kind: 'string' }
+      ? string
+      : T extends { readonly kind: 'boolean' }
+        ? boolean
+        : T extends { readonly kind: 'null' }
+          ? null
+          : T extends { readonly kind: 'array'; readonly items: infer I }
+            ? readonly ValueOf<I>[]
+            : T extends { readonly kind: 'oneOf'; readonly options: readonly (infer O)[] }
+              ? ValueOf<O>
+              : T extends { readonly kind: 'object'; readonly properties: infer P }
+                ? ObjectOf<P, T extends { readonly required?: infer R } ? (R extends readonly string[] ? R[number] : never) : never> &
+                    (T extends { readonly additional?: infer A } ? ([A] extends [FieldType] ? Readonly<Record<string, ValueOf<A>>> : unknown) : unknown)
+                : unknown;
+
+type ObjectOf<P, R extends string> = string extends keyof P ? Readonly<Record<string, unknown>> : KnownObjectOf<P, R>;
+
+type KnownObjectOf<P, R extends string> = {
+  readonly [K in keyof P as K extends R ? K : never]-?: P[K] extends Field<infer T> ? ValueOf<T> : unknown;
+} & {
+  readonly [K in keyof P as K extends R ? never : K]?: P[K] extends Field<infer T> ? ValueOf<T> : unknown;
+};
+
+/** The TypeScript type of the fields a table describes, each optional (the handler's `validate` says which are required together). */
+export type FieldsValue<F> = string extends keyof F ? Readonly<Record<string, unknown>> : { readonly [K in keyof F]?: F[K] extends Field<infer T> ? ValueOf<T> : unknown };
 
 /** How a value looks, for messages: "a string (\"abc\")", "an array of 3 items", "null". */
 export function describeFound(value: unknown): string {
@@ -158,13 +197,13 @@ export function checkValue(type: FieldType, value: unknown, path: string, proble
       if (typeof value !== 'object' || value === null || Array.isArray(value)) return bad();
       const record = value as Record<string, unknown>;
       for (const [key, member] of Object.entries(record)) {
-        const known = type.properties[key];
+        const known = ownMember(type.properties, key);
         if (known) checkValue(known.type, member, childPath(path, key), problems);
         else if (type.additional) checkValue(type.additional, member, childPath(path, key), problems);
         else problems.push({ path: childPath(path, key), message: unknownFieldMessage(key, Object.keys(type.properties)) });
       }
       for (const key of type.required ?? []) {
-        if (!(key in record)) problems.push({ path, message: `missing required field "${key}"` });
+        if (!Object.prototype.hasOwnProperty.call(record, key)) problems.push({ path, message: `missing required field "${key}"` });
       }
       return;
     }
@@ -260,4 +299,9 @@ export function toJsonSchema(type: FieldType, description?: string): Record<stri
     case 'any':
       return withDescription({});
   }
+}
+
+/** `table[key]` when it is the table's own member: never a name every object inherits (constructor, toString…). */
+export function ownMember<T>(table: Readonly<Record<string, T>>, key: string): T | undefined {
+  return Object.prototype.hasOwnProperty.call(table, key) ? table[key] : undefined;
 }

@@ -4,9 +4,10 @@
  * written back into the spec's text without disturbing anything else in the file. Pure: the clock and the
  * tool version are passed in.
  */
+import { applyEdits, modify } from 'jsonc-parser';
 import type { Result } from '../stats/result';
 import { DEFAULT_FRAGILITY_THRESHOLD, fragileConclusion, type FragileConclusion } from './family';
-import { childPath, lineColumnOf, type LocatedJson } from './json-text';
+import { childPath, lineColumnOf, maskByteOrderMark, type LocatedJson } from './json-text';
 import type { DataFingerprint, SpecRun } from './types';
 
 /** Numbers are equal when |a − b| ≤ relative · max(|a|, |b|) + absolute. */
@@ -215,43 +216,67 @@ export function reviewJson(review: Review, file: string): Record<string, unknown
   };
 }
 
-/** Exit code for a pipeline: 0 all reproduced, 1 some changed or differ, 2 some cannot run. */
-export function reviewExitCode(reviews: readonly Review[]): number {
+/** The kinds of change a pipeline may choose to fail on (`check --fail-on`). */
+export type ChangeKind = 'result' | 'conclusion' | 'data';
+export const ALL_CHANGES: ReadonlySet<ChangeKind> = new Set<ChangeKind>(['result', 'conclusion', 'data']);
+
+/** What changed since the record: the data's fingerprint, the numbers on the same data, the conclusion at α. */
+export function changesOf(review: Review): ChangeKind[] {
+  const kinds: ChangeKind[] = [];
+  if (review.status === 'data-changed') kinds.push('data');
+  if (review.status === 'result-differs') kinds.push('result');
+  if (review.conclusionFlipped === true && review.status !== 'reproduced') kinds.push('conclusion');
+  return kinds;
+}
+
+/** Whether a review fails a check that fails on `failOn` (a test that cannot run always fails). */
+export function reviewFails(review: Review, failOn: ReadonlySet<ChangeKind> = ALL_CHANGES): boolean {
+  return review.status === 'cannot-run' || changesOf(review).some((k) => failOn.has(k));
+}
+
+/** Exit code for a pipeline: 0 nothing failing, 1 some change named in `failOn`, 2 some cannot run. */
+export function reviewExitCode(reviews: readonly Review[], failOn: ReadonlySet<ChangeKind> = ALL_CHANGES): number {
   if (reviews.some((r) => r.status === 'cannot-run')) return 2;
-  if (reviews.some((r) => r.status !== 'reproduced')) return 1;
+  if (reviews.some((r) => reviewFails(r, failOn))) return 1;
   return 0;
 }
 
 /**
  * Writes `recorded` into the spec's text: replaces the value of an existing top-level "recorded" member,
- * or adds the member at the end of the root object. Every other byte of the file stays as it was.
+ * or adds the member at the end of the root object. jsonc-parser's `modify` decides where the member goes
+ * and which comma it needs, as one edit; every byte outside that edit stays as it was. Only the edit's text
+ * is ours: the record serialised with the file's own indentation and line ending (the library's formatter
+ * would also reformat the neighbouring member's line).
  */
 export function writeRecordedInto(located: LocatedJson, recorded: RecordedResult): string {
   const text = located.text;
   const newline = text.includes('\r\n') ? '\r\n' : '\n';
-  const root = located.spans.get('$')!;
-  const existing = located.spans.get(childPath('$', 'recorded'));
   const memberIndent = detectMemberIndent(located);
   const serialise = (indent: string | undefined): string => {
     if (indent === undefined) return JSON.stringify(recorded);
     const unit = indentUnitOf(indent);
     return JSON.stringify(recorded, null, unit).split('\n').join(newline + indent);
   };
-  if (existing) {
-    const indent = memberIndent === undefined ? undefined : indentOfLine(text, existing.keyStart ?? existing.start);
-    return text.slice(0, existing.start) + serialise(indent) + text.slice(existing.end);
+  const edits = modify(maskByteOrderMark(text), ['recorded'], 0, {});
+  if (edits.length !== 1) throw new Error(`internal: expected one edit to write "recorded", got ${edits.length}`);
+  const [edit] = edits;
+  let content: string;
+  if (edit.length > 0) {
+    // Replacing the earlier record's value.
+    const existing = located.spans.get(childPath('$', 'recorded'));
+    content = serialise(memberIndent === undefined ? undefined : indentOfLine(text, existing?.keyStart ?? edit.offset));
+  } else if (memberIndent === undefined) {
+    content = `${edit.content.startsWith(',') ? ',' : ''}"recorded":${serialise(undefined)}`;
+  } else if (edit.content.startsWith(',')) {
+    content = `,${newline}${memberIndent}"recorded": ${serialise(memberIndent)}`;
+  } else {
+    // An empty root object: the member on its own line, the closing brace on the next.
+    const closing = text.indexOf('}', edit.offset);
+    const closingIndent = indentOfLine(text, closing);
+    const between = text.slice(edit.offset, closing);
+    content = `${newline}${memberIndent}"recorded": ${serialise(memberIndent)}${between.includes('\n') ? '' : newline + closingIndent}`;
   }
-  // Insert after the last member (or into an empty object), before the closing brace.
-  const members = [...located.spans.entries()].filter(([p]) => /^\$(\.[A-Za-z_$][\w$]*|\["(?:[^"\\]|\\.)*"\])$/.test(p)).map(([, s]) => s);
-  const last = members.reduce<{ end: number } | undefined>((a, s) => (!a || s.end > a.end ? s : a), undefined);
-  const closing = text.lastIndexOf('}', root.end - 1);
-  if (memberIndent === undefined) {
-    const at = last ? last.end : closing;
-    return text.slice(0, at) + (last ? ',' : '') + `"recorded":${serialise(undefined)}` + text.slice(at);
-  }
-  const closingIndent = indentOfLine(text, closing);
-  if (!last) return text.slice(0, closing) + `${newline}${memberIndent}"recorded": ${serialise(memberIndent)}${newline}${closingIndent}` + text.slice(closing);
-  return text.slice(0, last.end) + `,${newline}${memberIndent}"recorded": ${serialise(memberIndent)}` + text.slice(last.end);
+  return applyEdits(text, [{ ...edit, content }]);
 }
 
 /** Indentation of the root object's members, or undefined when the spec is written on one line. */

@@ -7,12 +7,13 @@
 import * as path from 'node:path';
 import { sha256Hex } from '../data/delimited';
 import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/options';
+import { deliveryNeeded, fileReaderFor, SQL_READER } from '../data/readers';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
 import { withEvidence } from './evidence';
 import { resolveSourcePath } from './paths';
 import { procedureFor } from './procedures/index';
-import type { DataFingerprint, RunContext, RunOptions, SourceSpec, SpecRun, SpecV1 } from './types';
+import type { DataFingerprint, RunContext, RunOptions, SourceNeeds, SourceSpec, SpecRun, SpecV1 } from './types';
 import { assertValidSpec } from './validate';
 
 export async function runSpec(value: unknown, options: RunOptions): Promise<SpecRun> {
@@ -24,9 +25,9 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
     signal: options.signal,
     onProgress: options.onProgress,
     hasSource: spec.source !== undefined,
-    async aggregate(request, levels) {
+    async aggregate(request, levels, needs) {
       if (!spec.source) throw new InputError('$.source: this spec has no source to read', { jsonPath: '$.source' }, 'no-source');
-      const aggregate = await readSource(spec.source, request, levels, options);
+      const aggregate = await readSource(spec.source, request, levels, options, needs);
       provenance = aggregate.provenance;
       return aggregate;
     },
@@ -75,9 +76,15 @@ async function readSource(
   request: AggregateRequest,
   levels: Pick<CategoryOptions, 'levels' | 'rowLevels' | 'columnLevels'> | undefined,
   options: RunOptions,
+  needs: SourceNeeds = {},
 ): Promise<Aggregate> {
-  const intake = intakeOptionsOf(source, levels);
+  const intake = { ...intakeOptionsOf(source, levels), ...(needs.values ? { keepValues: true } : {}) };
   const control = { signal: options.signal, onProgress: options.onProgress };
+  const reader = source.sql ? SQL_READER : fileReaderFor(source.path!);
+  const needed = deliveryNeeded(request, intake);
+  if (!reader.delivers.includes(needed)) {
+    throw new InputError(`$.source: the ${reader.name} reader cannot deliver ${needed}, which this test needs`, { jsonPath: '$.source' }, 'reader-cannot-deliver');
+  }
   if (source.sql) {
     if (!options.readers.aggregateSql) {
       throw new InputError('$.source.sql: database sources are not available here', { jsonPath: '$.source.sql' }, 'sql-unavailable');
@@ -92,8 +99,13 @@ async function readSource(
       'no-base-folder',
     );
   }
-  const file = resolveSourcePath(specFolder, source.path!, { allowedRoot: options.allowedRoot ?? specFolder, allowOutsideRoot: options.allowOutsideRoot });
-  return options.readers.aggregateFile(file, request, intake, control);
+  const allowedRoot = options.allowedRoot ?? specFolder;
+  const file = resolveSourcePath(specFolder, source.path!, { allowedRoot, allowOutsideRoot: options.allowOutsideRoot });
+  // The textual check above cannot see symbolic links: each reader checks the real path before it opens the file.
+  const checkedIntake = options.allowOutsideRoot ? intake : { ...intake, allowedRoot };
+  // The streaming delimited reader comes from the host (its progress display); the others read small files whole.
+  const fileReader = fileReaderFor(file);
+  return fileReader.hostInjected ? options.readers.aggregateFile(file, request, checkedIntake, control) : fileReader.read(file, request, checkedIntake, control);
 }
 
 /** JSON with object keys sorted at every level: the same data always gives the same bytes. */

@@ -3,6 +3,7 @@
  * the cell named, statistic lines, and the assembly of a TestResult.
  */
 import { InputError } from '../errors';
+import { requireCount, requireCountTotal } from './assumptions';
 import { chiSquareUpperProbability } from './chisquare';
 import { compensatedSum } from './moments';
 import type { Notice, Probability, StatisticLine, TestResult } from './result';
@@ -13,7 +14,7 @@ export function requireCountTable(table: unknown, jsonPath: string, what = 'tabl
     throw new InputError(`${what}: expected an array of rows of counts, found ${JSON.stringify(table)}`, { jsonPath }, 'table-too-small');
   }
   const width = Array.isArray(table[0]) ? table[0].length : -1;
-  return table.map((row: unknown, i: number) => {
+  const counts = table.map((row: unknown, i: number) => {
     if (!Array.isArray(row)) throw new InputError(`${what}, row ${i + 1}: expected an array of counts, found ${JSON.stringify(row)}`, { jsonPath: `${jsonPath}[${i}]` }, 'invalid-row');
     if (row.length !== width) {
       throw new InputError(`${what}, row ${i + 1}: expected ${width} counts like row 1, found ${row.length}`, { jsonPath: `${jsonPath}[${i}]` }, 'ragged-row');
@@ -22,9 +23,12 @@ export function requireCountTable(table: unknown, jsonPath: string, what = 'tabl
       if (typeof x !== 'number' || !Number.isFinite(x) || x < 0 || !Number.isInteger(x)) {
         throw new InputError(`${what}, row ${i + 1}, column ${j + 1}: expected a count (a whole number ≥ 0), found ${JSON.stringify(x)}`, { jsonPath: `${jsonPath}[${i}][${j}]` }, 'invalid-count');
       }
+      requireCount(x, `${what}, row ${i + 1}, column ${j + 1}`, `${jsonPath}[${i}][${j}]`);
       return x;
     });
   });
+  requireCountTotal(sum(counts.flat()), what, jsonPath);
+  return counts;
 }
 
 /** Neumaier-compensated sum; the one in moments.ts, under the short name these procedures use. */

@@ -130,6 +130,20 @@ export function requireCount(value: number, where: string, jsonPath: string): vo
     const found = typeof value === 'number' ? String(value) : JSON.stringify(value);
     throw new InputError(`${where}: expected a count (a whole number ≥ 0), found ${found}`, { jsonPath }, 'invalid-count');
   }
+  if (value > MAX_COUNT) throw new InputError(`${where}: found ${value}, above the largest exactly representable count (2^53 − 1)`, { jsonPath }, 'count-too-large');
+}
+
+/**
+ * The largest count (and total of counts) accepted anywhere: 2^53 − 1. Above it a double no longer holds every
+ * whole number, so a count would be rounded and a loop stepping by one would never end.
+ */
+export const MAX_COUNT = Number.MAX_SAFE_INTEGER;
+
+/** Refuses a total of counts above MAX_COUNT (each count being below it). */
+export function requireCountTotal(total: number, what: string, jsonPath: string): void {
+  if (total > MAX_COUNT) {
+    throw new InputError(`${what}: the total count ${total} is above the largest exactly representable count (2^53 − 1); counts this large cannot be tested exactly`, { jsonPath }, 'count-too-large');
+  }
 }
 
 /** A number for sentences and notes: four significant digits, no trailing zeros. */

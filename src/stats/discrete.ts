@@ -4,7 +4,7 @@
  * summed relative to their largest term so that tails far below the double range keep a log10.
  */
 import { deviance, logChoose, stirlingError } from './gamma';
-import { probabilityFromLog } from './probability';
+import { log1mExp, probabilityFromLog } from './probability';
 import type { Probability } from './result';
 
 const LN_2PI = Math.log(2 * Math.PI);
@@ -51,14 +51,37 @@ export function logSumExp(terms: readonly number[]): number {
   return max + Math.log(sum);
 }
 
-/** P(X ≤ k), X ~ Binomial(n, p). */
+/**
+ * P(X ≤ k), X ~ Binomial(n, p), in O(1) memory: summed from the start of the tail outwards (from k down when k is
+ * at or below the mode, else the upper tail from k + 1 up, complemented), by the ratio of successive terms,
+ * re-anchored on the exact log term every 1024 steps, until a term no longer changes the sum. The cost is
+ * about 9 standard deviations of terms at most (≈ 2e8 for n = 2e15), whatever k is; n ≤ 2^53 − 1.
+ */
 export function binomialLowerTail(k: number, n: number, p: number): Probability {
   const top = Math.min(Math.floor(k), n);
   if (top < 0) return probabilityFromLog(-Infinity);
   if (top >= n) return probabilityFromLog(0);
-  const terms: number[] = [];
-  for (let i = 0; i <= top; i++) terms.push(logBinomialPmf(i, n, p));
-  return probabilityFromLog(Math.min(0, logSumExp(terms)));
+  const q = 1 - p;
+  const mode = Math.min(n, Math.floor((n + 1) * p));
+  if (top <= mode) return probabilityFromLog(Math.min(0, logBinomialTailFrom(top, n, p, q, -1)));
+  return probabilityFromLog(Math.min(0, log1mExp(logBinomialTailFrom(top + 1, n, p, q, 1))));
+}
+
+/** ln Σ P(X = i) for i from `start` outwards (step −1 or +1), where the terms do not increase. */
+function logBinomialTailFrom(start: number, n: number, p: number, q: number, step: 1 | -1): number {
+  const logStart = logBinomialPmf(start, n, p, q);
+  if (logStart === -Infinity) return -Infinity;
+  const odds = p / q;
+  let sum = 0;
+  let w = 1;
+  for (let i = start, done = 0; i >= 0 && i <= n; i += step, done++) {
+    if ((done & 1023) === 0 && done > 0) w = Math.exp(logBinomialPmf(i, n, p, q) - logStart);
+    sum += w;
+    if (w <= 1e-17 * sum) break;
+    // P(i − 1)/P(i) = i / ((n − i + 1)·odds); P(i + 1)/P(i) = (n − i)·odds / (i + 1)
+    w *= step === -1 ? i / ((n - i + 1) * odds) : ((n - i) * odds) / (i + 1);
+  }
+  return logStart + Math.log(sum);
 }
 
 /**

@@ -16,10 +16,10 @@
  */
 import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, sum, testResult } from './advanced-common';
-import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
-import { logBinomialPmf } from './discrete';
+import { MAX_COUNT, describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
+import { binomialLowerTail, logBinomialPmf } from './discrete';
 import { powerDivergence } from './divergence';
-import { logFactorial, regularizedGammaLower } from './gamma';
+import { logFactorial, regularizedGammaLower, regularizedGammaUpper } from './gamma';
 import { normalLowerTail, normalQuantile, normalUpperTail } from './normal';
 import type { CategoryRow, Notice, TestResult } from './result';
 
@@ -34,6 +34,11 @@ export interface DistributionFitOptions {
   /** Smallest expected count per pooled bin. Default 5. */
   readonly minExpected?: number;
   readonly alpha?: number;
+  /**
+   * Largest support (0 … top) binned value by value without gathering the tails first; default MAX_DISCRETE_BINS.
+   * Tests set it to 0 to check that gathering the tails gives the same pooled groups.
+   */
+  readonly singleBinsUpTo?: number;
 }
 
 interface Bin {
@@ -53,9 +58,9 @@ export interface PooledGroup {
 function requireValues(values: readonly number[], integer: boolean, family: FitFamily, upper?: number): void {
   if (!Array.isArray(values) || values.length < 2) throw new InputError(`values: expected at least 2 values, found ${Array.isArray(values) ? values.length : 0}`, { jsonPath: '$.values' }, 'too-few-values');
   values.forEach((x, i) => {
-    const ok = typeof x === 'number' && Number.isFinite(x) && (!integer || (Number.isInteger(x) && x >= 0 && (upper === undefined || x <= upper)));
+    const ok = typeof x === 'number' && Number.isFinite(x) && (!integer || (Number.isInteger(x) && x >= 0 && x <= (upper ?? MAX_COUNT)));
     if (!ok) {
-      const want = integer ? `a whole number from 0${upper !== undefined ? ` to ${upper}` : ''} (${family} counts)` : 'a finite number';
+      const want = integer ? `a whole number from 0 to ${upper ?? '2^53 − 1'} (${family} counts)` : 'a finite number';
       throw new InputError(`values[${i}]: expected ${want}, found ${JSON.stringify(x)}`, { jsonPath: `$.values[${i}]` }, 'invalid-value');
     }
   });
@@ -70,6 +75,61 @@ function discreteBins(values: readonly number[], top: number, logPmf: (k: number
   for (const v of values) counts[Math.min(v, top)]++;
   const probabilities = counts.map((_, k) => (k === top && upperTail ? upperTail(k) : Math.exp(logPmf(k))));
   return counts.map((o, k) => ({ label: k === top && upperTail ? `≥ ${k}` : String(k), observed: o, probability: probabilities[k] }));
+}
+
+/** Tails of a discrete family on 0, 1, 2, …: P(X ≤ k) and P(X ≥ k). */
+interface DiscreteTails {
+  lower(k: number): number;
+  upper(k: number): number;
+}
+
+/**
+ * Largest number of single-value bins a discrete fit builds. With more values in the support (binomial trials
+ * or counts in the millions), the values whose expected counts would all be pooled anyway are gathered first:
+ * one bin "≤ low" for the lower tail and one "≥ high" for the upper tail, each with expected count below the
+ * pooling minimum, which left-to-right pooling would have merged into the same groups. If the bins between
+ * still number more than this, the fit is refused.
+ */
+export const MAX_DISCRETE_BINS = 100_000;
+
+/** The bins of a discrete family with a wide support: a lower-tail bin, single values, an upper-tail bin. */
+function cappedDiscreteBins(values: readonly number[], top: number, logPmf: (k: number) => number, tails: DiscreteTails, minimum: number, family: FitFamily): Bin[] {
+  const n = values.length;
+  // Smallest k in [0, top] with n·P(X ≥ k) < minimum (top when none), and largest k with n·P(X ≤ k) < minimum (−1 when none).
+  let a = 0;
+  let b = top;
+  while (a < b) {
+    const mid = Math.floor((a + b) / 2);
+    if (n * tails.upper(mid) < minimum) b = mid;
+    else a = mid + 1;
+  }
+  const high = Math.max(a, 1);
+  a = -1;
+  b = high - 1;
+  while (a < b) {
+    const mid = Math.ceil((a + b) / 2);
+    if (n * tails.lower(mid) < minimum) a = mid;
+    else b = mid - 1;
+  }
+  const low = a;
+  const single = high - low - 1;
+  if (single > MAX_DISCRETE_BINS) {
+    throw new InputError(
+      `values: the fitted ${FAMILY_NAMES[family]} distribution spreads over ${single} values with expected counts that matter, more than the ${MAX_DISCRETE_BINS} bins a fit builds; group the values into classes and test the class counts with "goodness-of-fit"`,
+      { jsonPath: '$.values' },
+      'too-many-bins',
+    );
+  }
+  const counts = new Map<number, number>();
+  for (const v of values) {
+    const k = v <= low ? low : v >= high ? high : v;
+    counts.set(k, (counts.get(k) ?? 0) + 1);
+  }
+  const bins: Bin[] = [];
+  if (low >= 0) bins.push({ label: `≤ ${low}`, observed: counts.get(low) ?? 0, probability: tails.lower(low) });
+  for (let k = low + 1; k < high; k++) bins.push({ label: String(k), observed: counts.get(k) ?? 0, probability: Math.exp(logPmf(k)) });
+  bins.push({ label: `≥ ${high}`, observed: counts.get(high) ?? 0, probability: tails.upper(high) });
+  return bins;
 }
 
 /** Pools adjacent bins left to right until every group's expected count reaches `minimum`. */
@@ -99,6 +159,8 @@ export function poolAdjacent(bins: readonly { label: string; observed: number; e
 }
 
 function joinLabels(first: string, last: string): string {
+  if (first.startsWith('≤') && last.startsWith('≥')) return 'all values';
+  if (first.startsWith('≤')) return `≤ ${last}`;
   if (last.startsWith('≥')) return `≥ ${first.replace(/^≥ /, '')}`;
   if (first.startsWith('(')) return `${first.split(',')[0]}, ${last.split(', ')[1]}`;
   return `${first}–${last}`;
@@ -135,6 +197,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   const minimum = options.minExpected ?? 5;
   if (!(minimum > 0 && Number.isFinite(minimum))) throw new InputError(`minExpected: expected a positive number, found ${String(options.minExpected)}`, { jsonPath: '$.minExpected' }, 'invalid-min-expected');
   const n = values.length;
+  const uncapped = options.singleBinsUpTo ?? MAX_DISCRETE_BINS;
   let bins: Bin[];
   let estimated: { id: string; name: string; value: number }[];
   const notices: Notice[] = [];
@@ -162,9 +225,14 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   } else if (family === 'binomial') {
     const m = options.trials;
     if (m === undefined || !Number.isInteger(m) || m < 1) throw new InputError(`trials: the binomial fit needs the number of trials, a whole number ≥ 1, found ${String(m)}`, { jsonPath: '$.trials' }, 'invalid-trials');
+    if (m > MAX_COUNT) throw new InputError(`trials: expected at most 2^53 − 1 trials, found ${m}`, { jsonPath: '$.trials' }, 'invalid-trials');
     requireValues(values, true, family, m);
     const p = sum(values) / (n * m);
-    bins = discreteBins(values, m, (k) => logBinomialPmf(k, m, p));
+    const logPmf = (k: number): number => logBinomialPmf(k, m, p);
+    bins =
+      m + 1 <= uncapped
+        ? discreteBins(values, m, logPmf)
+        : cappedDiscreteBins(values, m, logPmf, { lower: (k) => binomialLowerTail(k, m, p).value, upper: (k) => (k <= 0 ? 1 : binomialLowerTail(m - k, m, 1 - p).value) }, minimum, family);
     estimated = [{ id: 'p', name: `p (success probability, ${m} trials)`, value: p }];
   } else {
     requireValues(values, true, family);
@@ -173,12 +241,22 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     if (family === 'poisson') {
       if (mean === 0) throw new InputError('values: all values are 0, so a Poisson distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
       // P(X ≥ k) for the Poisson is the regularised lower incomplete gamma P(k, λ).
-      bins = discreteBins(values, Math.max(top, 1), (k) => k * Math.log(mean) - mean - logFactorial(k), (k) => regularizedGammaLower(k, mean));
+      const logPmf = (k: number): number => k * Math.log(mean) - mean - logFactorial(k);
+      const upper = (k: number): number => (k <= 0 ? 1 : regularizedGammaLower(k, mean));
+      bins =
+        top + 1 <= uncapped
+          ? discreteBins(values, Math.max(top, 1), logPmf, upper)
+          : cappedDiscreteBins(values, top, logPmf, { lower: (k) => regularizedGammaUpper(k + 1, mean), upper }, minimum, family);
       estimated = [{ id: 'lambda', name: 'λ (mean)', value: mean }];
     } else {
       const p = 1 / (1 + mean);
       if (p === 1) throw new InputError('values: all values are 0, so a geometric distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
-      bins = discreteBins(values, Math.max(top, 1), (k) => Math.log(p) + k * Math.log1p(-p), (k) => Math.exp(k * Math.log1p(-p)));
+      const logPmf = (k: number): number => Math.log(p) + k * Math.log1p(-p);
+      const upper = (k: number): number => Math.exp(k * Math.log1p(-p));
+      bins =
+        top + 1 <= uncapped
+          ? discreteBins(values, Math.max(top, 1), logPmf, upper)
+          : cappedDiscreteBins(values, top, logPmf, { lower: (k) => -Math.expm1((k + 1) * Math.log1p(-p)), upper }, minimum, family);
       estimated = [{ id: 'p', name: 'p (success probability; support 0, 1, 2, … failures before the first success)', value: p }];
     }
   }

@@ -169,7 +169,9 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
       const prefix = new Float64Array(values.length + 1);
       for (let i = 0; i < values.length; i++) prefix[i + 1] = prefix[i] + counts[i] * Math.exp(values[i] - top);
 
-      forEachAllocation(node.rows, columnTotals[s], lf, (childRows, d) => {
+      // The work is counted per allocation, inside the loop: one node alone can have C(39, 19) ≈ 7e10 of them
+      // (a 20×20 table of ones), so a check between nodes would come far too late.
+      const finished = forEachAllocation(node.rows, columnTotals[s], lf, (childRows, d) => {
         const key = keys.of(childRows);
         let b = boundsMemo.get(key);
         if (b === undefined) {
@@ -190,8 +192,9 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
           }
           for (let e = allUpTo; e < someUpTo; e++) target.pasts.add(values[e] + d, counts[e]);
         }
+        return work <= workLimit;
       });
-      if (work > workLimit) return { completed: false, logTableProbability: logObserved, work };
+      if (!finished) return { completed: false, logTableProbability: logObserved, work };
     }
     stage = next;
   }
@@ -220,15 +223,16 @@ class NodeKeys {
 
 /**
  * Calls `visit` for every way of splitting `total` over rows with capacities `rows`, with the sorted rows left
- * afterwards (a scratch array, valid during the call) and −Σ ln x! of the split.
+ * afterwards (a scratch array, valid during the call) and −Σ ln x! of the split. `visit` returns false to stop;
+ * the result says whether every split was visited.
  */
-function forEachAllocation(rows: Int32Array, total: number, lf: Float64Array, visit: (childRows: Int32Array, delta: number) => void): void {
+function forEachAllocation(rows: Int32Array, total: number, lf: Float64Array, visit: (childRows: Int32Array, delta: number) => boolean): boolean {
   const r = rows.length;
   const allocation = new Int32Array(r);
   const child = new Int32Array(r);
   const capacityAfter = new Int32Array(r + 1);
   for (let i = r - 1; i >= 0; i--) capacityAfter[i] = capacityAfter[i + 1] + rows[i];
-  const step = (i: number, left: number, delta: number): void => {
+  const step = (i: number, left: number, delta: number): boolean => {
     if (i === r - 1) {
       allocation[i] = left;
       // Insertion sort of the rows left (r is small).
@@ -241,17 +245,17 @@ function forEachAllocation(rows: Int32Array, total: number, lf: Float64Array, vi
         }
         child[m] = v;
       }
-      visit(child, delta - lf[left]);
-      return;
+      return visit(child, delta - lf[left]);
     }
     const low = Math.max(0, left - capacityAfter[i + 1]);
     const high = Math.min(rows[i], left);
     for (let x = low; x <= high; x++) {
       allocation[i] = x;
-      step(i + 1, left - x, delta - lf[x]);
+      if (!step(i + 1, left - x, delta - lf[x])) return false;
     }
+    return true;
   };
-  step(0, total, 0);
+  return step(0, total, 0);
 }
 
 function singleCompletion(rows: Int32Array, lf: Float64Array): NodeBounds {
@@ -337,7 +341,7 @@ export function exactIndependence(table: readonly (readonly number[])[], options
   const notice: Notice = {
     code: 'exact-too-large',
     severity: 'info',
-    message: `The exact computation for this ${counts.length}×${counts[0].length} table (n = ${counts.flat().reduce((a, b) => a + b, 0)}) would exceed its work limit, so a Monte Carlo p-value of the same test was computed instead (${mc.details.resamples} resamples).`,
+    message: `The exact computation for this ${counts.length}×${counts[0].length} table (n = ${counts.flat().reduce((a, b) => a + b, 0)}) would exceed its work limit (${(options.workLimit ?? DEFAULT_WORK_LIMIT).toLocaleString('en-US')} steps), so a Monte Carlo p-value of the same test was computed instead (${mc.details.resamples} resamples).`,
   };
   return { line: mc.line, notices: [notice, ...mc.notices], details: { ...mc.details, exactAttempted: true } };
 }

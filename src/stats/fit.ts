@@ -4,7 +4,7 @@
  * (Cressie & Read 1984): Pearson X² (default), likelihood-ratio G², or Cressie–Read with a chosen λ.
  */
 import { InputError } from '../errors';
-import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, nameOf, requireCount, requireLevel } from './assumptions';
+import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, nameOf, requireCount, requireCountTotal, requireLevel } from './assumptions';
 import { type DivergenceSettings, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { compensatedSum } from './moments';
 import type { CategoryRow, Notice, TestResult } from './result';
@@ -39,6 +39,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
   const labels = categoryLabels(k, options.labels);
   observed.forEach((o, i) => requireCount(o, `category \`${labels[i]}\``, `$.observed[${i}]`));
   const n = compensatedSum(observed);
+  requireCountTotal(n, 'observed', '$.observed');
   if (n === 0) throw new InputError('observed: every count is 0, so there is nothing to test', { jsonPath: '$.observed' }, 'empty-observed');
 
   const notices: Notice[] = [];

@@ -170,7 +170,8 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
   const significant = startLogP < logAlpha;
   const flipped = (lp: number): boolean => (significant ? !(lp < logAlpha) : lp < logAlpha);
   const moves = allowedMoves(problem);
-  const maxTables = problem.maxTables ?? 20_000;
+  // The cost of a p-value grows with the number of cells: the default limits keep about the same work for any size.
+  const maxTables = problem.maxTables ?? Math.max(100, Math.min(20_000, Math.floor(5e5 / start.length)));
 
   // Breadth-first over distinct tables; the first table that flips is at the smallest number of changes.
   const seen = new Set<string>([key(start)]);
@@ -208,7 +209,7 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
   let table = start.slice();
   let lp = startLogP;
   const visited = new Set<string>([key(table)]);
-  const budget = examined + (problem.maxGreedyEvaluations ?? 200_000);
+  const budget = examined + (problem.maxGreedyEvaluations ?? Math.max(100, Math.min(200_000, Math.floor(1e6 / start.length))));
   for (let step = 1; step <= n * Math.max(1, problem.groups.length); step++) {
     let best: number[] | null = null;
     let bestLp = significant ? -Infinity : Infinity;

@@ -11,10 +11,10 @@
 import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult, warning } from './advanced-common';
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
-import { binomialLowerTail, logBinomialPmf, logSumExp } from './discrete';
+import { binomialLowerTail, logBinomialPmf } from './discrete';
 import { normalUpperQuantile } from './normal';
-import { probabilityFromBoth, probabilityFromValue, twoSidedFromTails } from './probability';
-import type { Estimate, Interval, Notice, Probability, StatisticLine, TestResult } from './result';
+import { probabilityFromLog, probabilityFromValue, twoSidedFromTails } from './probability';
+import type { Estimate, Interval, Notice, StatisticLine, TestResult } from './result';
 
 export type PairedMethod = 'asymptotic' | 'exact' | 'mid-p';
 
@@ -53,30 +53,25 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
   const uncorrected = m === 0 ? NaN : ((b - c) * (b - c)) / m;
   const corrected = m === 0 ? NaN : Math.max(0, Math.abs(b - c) - 1) ** 2 / m;
   const low = Math.min(b, c);
+  // One tail serves both p-values: P(X ≤ low), X ~ Bin(m, ½), summed in O(1) memory (discrete.ts).
+  const lowerTail = m > 0 ? binomialLowerTail(low, m, 0.5) : probabilityFromValue(1);
+  // Exact: P(X ≤ low) + P(X ≥ high) = 2·P(X ≤ low) by symmetry, capped at 1 (binom.test's two-sided p).
+  const exact = twoSidedFromTails(lowerTail, lowerTail);
   let midP = probabilityFromValue(1);
   if (m > 0) {
-    // mid-p = 2·P(X ≤ low) − P(X = low) = 2·P(X ≤ low − 1) + P(X = low), X ~ Bin(m, ½). The value comes from the
-    // first form; its log from the second, summed in logs, so it survives where the value underflows (about 1e-308).
-    const lower = binomialLowerTail(low, m, 0.5).value;
-    const value = Math.min(1, 2 * (lower - 0.5 * Math.exp(logBinomialPmf(low, m, 0.5))));
-    const logTerms = [logBinomialPmf(low, m, 0.5)];
-    for (let i = 0; i < low; i++) logTerms.push(Math.LN2 + logBinomialPmf(i, m, 0.5));
-    midP = probabilityFromBoth(value, logSumExp(logTerms));
+    // mid-p = 2·P(X ≤ low) − P(X = low) = P(X ≤ low)·(2 − P(X = low)/P(X ≤ low)); the factor is in [1, 2], so
+    // neither the value nor its log cancels, and the log survives where the value underflows (about 1e-308).
+    const lnLower = lowerTail.log10 * Math.LN10;
+    const lnMid = lnLower + Math.log(2 - Math.exp(logBinomialPmf(low, m, 0.5) - lnLower));
+    midP = probabilityFromLog(Math.min(0, lnMid));
   }
   return {
     discordant: [b, c],
     uncorrected: chiSquareLine('mcnemar', 'McNemar chi-square', 'X²', uncorrected, 1),
     corrected: chiSquareLine('mcnemar-corrected', 'McNemar chi-square with continuity correction', 'X²', corrected, 1),
-    exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exactBinomialProbability(b, c), `b = ${b} of ${m} discordant pairs, tested against ½`, b, 'b'),
+    exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exact, `b = ${b} of ${m} discordant pairs, tested against ½`, b, 'b'),
     midP: pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', midP, 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b, 'b'),
   };
-}
-
-/** Exact two-sided p-value of b given b + c, p = ½: P(X ≤ b) and P(X ≥ b) = P(X ≤ c) by symmetry. */
-function exactBinomialProbability(b: number, c: number): Probability {
-  const m = b + c;
-  if (m === 0) return probabilityFromValue(1);
-  return twoSidedFromTails(binomialLowerTail(b, m, 0.5), binomialLowerTail(c, m, 0.5));
 }
 
 export function mcnemarTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {

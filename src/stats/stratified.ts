@@ -14,7 +14,7 @@
  */
 import { InputError } from '../errors';
 import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult } from './advanced-common';
-import { describeAlpha, describeP, independenceAssumption, nameOf, requireLevel } from './assumptions';
+import { describeAlpha, describeP, independenceAssumption, nameOf, requireCountTotal, requireLevel } from './assumptions';
 import { hypergeometricSupport, logHypergeometricPmf, logSumExp, pointProbabilityTwoSided } from './discrete';
 import { normalUpperQuantile } from './normal';
 import type { Estimate, Interval, Notice, StatisticLine, TestResult } from './result';
@@ -70,6 +70,7 @@ function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stra
     notices.push(info('strata-dropped', `Strata with fewer than 2 units carry no information and were left out: ${dropped.join(', ')}.`));
   }
   if (kept.length === 0) throw new InputError('strata: every stratum has fewer than 2 units', { jsonPath: '$.strata' }, 'no-strata');
+  requireCountTotal(sum(kept.map((x) => x.n)), 'strata', '$.strata');
   return { strata: kept, notices, r, c };
 }
 
@@ -137,6 +138,28 @@ export function breslowDay(tables: readonly (readonly (readonly number[])[])[], 
     breslowDay: chiSquareLine('breslow-day', 'Breslow–Day test of homogeneous odds ratios', 'X²', bd, df),
     tarone: chiSquareLine('breslow-day-tarone', "Breslow–Day test with Tarone's adjustment", 'X²', tarone, df),
   };
+}
+
+/**
+ * Cost model of the exact conditional test: the convolution costs Σ_k (length so far × support of stratum k)
+ * steps, and the estimate and interval about 600 passes over the final support. Beyond either limit (about half a
+ * second each) the exact line is left out, or refused when it was asked for.
+ */
+export const EXACT_STRATIFIED_WORK_LIMIT = 2e7;
+export const EXACT_STRATIFIED_SUPPORT_LIMIT = 20_000;
+
+/** The convolution's work and final support length, without doing it. */
+function convolutionCost(tables: readonly (readonly (readonly number[])[])[]): { work: number; support: number } {
+  let length = 1;
+  let work = 0;
+  for (const t of tables) {
+    const [[a, b], [c, d]] = t;
+    const [klo, khi] = hypergeometricSupport(a + c, a + b, a + b + c + d);
+    const span = khi - klo + 1;
+    work += length * span;
+    length += span - 1;
+  }
+  return { work, support: length };
 }
 
 /** Exact conditional distribution of Σa_k under a common odds ratio of 1: ln P over [lo, hi]. */
@@ -266,10 +289,15 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   const uncorrectedLine = chiSquareLine('cmh', 'Cochran–Mantel–Haenszel chi-square', 'X²', uncorrected, 1);
   const correctedLine = chiSquareLine('cmh-corrected', 'Cochran–Mantel–Haenszel chi-square with continuity correction', 'X²', corrected, 1);
 
-  const { lo, logPmf } = convolvedLogPmf(tables);
-  const exactP = pointProbabilityTwoSided(logPmf, sumA - lo);
-  const exactLine = pLine('cmh-exact', 'Exact conditional test (common odds ratio 1)', exactP, `Σa = ${sumA}, given every stratum's margins`, sumA, 'Σa');
-  const conditionalOr = conditionalMle(lo, logPmf, sumA);
+  const cost = convolutionCost(tables);
+  const exactFits = cost.work <= EXACT_STRATIFIED_WORK_LIMIT && cost.support <= EXACT_STRATIFIED_SUPPORT_LIMIT;
+  const limitText = `the exact conditional distribution of Σa here has ${cost.support} values and costs ${cost.work.toPrecision(3)} steps; the limits are ${EXACT_STRATIFIED_SUPPORT_LIMIT} values and ${EXACT_STRATIFIED_WORK_LIMIT.toPrecision(1)} steps`;
+  if (!exactFits && method === 'exact') {
+    throw new InputError(`method: ${limitText}, so the exact test is not computed for counts this large; use "asymptotic" (the chi-square approximation is accurate at these sizes)`, { jsonPath: '$.method' }, 'exact-too-large');
+  }
+  if (!exactFits) notices.push(info('exact-too-large', `The exact conditional test and the conditional estimate of the common odds ratio are left out: ${limitText}.`));
+  const exact = exactFits ? convolvedLogPmf(tables) : null;
+  const exactLine = exact ? pLine('cmh-exact', 'Exact conditional test (common odds ratio 1)', pointProbabilityTwoSided(exact.logPmf, sumA - exact.lo), `Σa = ${sumA}, given every stratum's margins`, sumA, 'Σa') : null;
 
   const oddsRatio = rNum / sDen;
   const variance = pr / (2 * rNum * rNum) + psqr / (2 * rNum * sDen) + qs / (2 * sDen * sDen);
@@ -293,10 +321,13 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   }
   const estimates: Estimate[] = [
     finiteRatio ? { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio, interval } : { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio },
-    { id: 'conditionalOddsRatio', name: 'Common odds ratio, conditional maximum likelihood', value: conditionalOr, interval: conditionalInterval(lo, logPmf, sumA, confidence), note: 'The estimate and interval that go with the exact conditional test.' },
   ];
-  const main = method === 'exact' ? exactLine : options.correction ? correctedLine : uncorrectedLine;
-  const others = [uncorrectedLine, correctedLine, exactLine].filter((l) => l !== main);
+  const conditionalOr = exact ? conditionalMle(exact.lo, exact.logPmf, sumA) : NaN;
+  if (exact) {
+    estimates.push({ id: 'conditionalOddsRatio', name: 'Common odds ratio, conditional maximum likelihood', value: conditionalOr, interval: conditionalInterval(exact.lo, exact.logPmf, sumA, confidence), note: 'The estimate and interval that go with the exact conditional test.' });
+  }
+  const main = method === 'exact' && exactLine ? exactLine : options.correction ? correctedLine : uncorrectedLine;
+  const others = [uncorrectedLine, correctedLine, ...(exactLine ? [exactLine] : [])].filter((l) => l !== main);
   const homogeneityTested = homogeneity !== null;
   if (homogeneity !== null) others.push(homogeneity.breslowDay, homogeneity.tarone);
   const pValue = main.pValue;
@@ -339,7 +370,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
         strata: perStratum,
         commonOddsRatio: finiteRatio ? { value: oddsRatio, logStandardError: se, interval } : { value: oddsRatio },
         homogeneity: homogeneity !== null ? { breslowDay: homogeneity.breslowDay, tarone: homogeneity.tarone } : null,
-        exact: { pValue: exactP, conditionalOddsRatio: conditionalOr },
+        exact: exactLine ? { pValue: exactLine.pValue, conditionalOddsRatio: conditionalOr } : null,
         correctionApplied: method === 'asymptotic' && options.correction === true,
       },
     },

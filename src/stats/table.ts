@@ -6,7 +6,7 @@
  * log-scale intervals (Woolf 1955; Katz et al. 1978).
  */
 import { InputError } from '../errors';
-import { capitalise, checkExpectedCounts, describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireCount, requireLevel } from './assumptions';
+import { capitalise, checkExpectedCounts, describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireCount, requireCountTotal, requireLevel } from './assumptions';
 import { chiSquareUpperProbability } from './chisquare';
 import { type DivergenceLine, type DivergenceSettings, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { fisherExact2x2 } from './fisher2x2';
@@ -221,6 +221,7 @@ function prepare(table: readonly (readonly number[])[], options: IndependenceTes
   table.forEach((row, i) =>
     row.forEach((value, j) => requireCount(value, `row ${i + 1} (\`${rowLabels[i]}\`), column ${j + 1} (\`${columnLabels[j]}\`)`, `$.table[${i}][${j}]`)),
   );
+  requireCountTotal(compensatedSum(table.flat()), 'table', '$.table');
 
   const notices: Notice[] = [];
   const keepRows = table.map((row) => row.some((v) => v > 0));

@@ -8,7 +8,7 @@ describe('commands on data', () => {
   afterEach(closeAllEditors);
 
   it('runs the test of independence on a counted table file without asking anything', async () => {
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
     // scipy 1.10.1 stats.chi2_contingency([[12,5,9],[7,14,6],[9,8,21]]): 13.790222727600893, p 0.00799557024064535, dof 4.
@@ -53,7 +53,7 @@ describe('commands on data', () => {
     const doc = await vscode.workspace.openTextDocument(dataUri('report.md'));
     const editor = await vscode.window.showTextDocument(doc);
     editor.selection = new vscode.Selection(4, 0, 9, 0);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnSelection'));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnSelection', { test: 'independence' }));
     const r = payload.result as TestResult;
     // scipy 1.10.1 stats.chi2_contingency([[4,96],[11,89],[6,94]]): 3.993855606758832, p 0.13575169916469682.
     closeTo(r.statistic, 3.993855606758832, 1e-9, 'X²');
@@ -122,7 +122,7 @@ describe('notebook cells', () => {
   it("runs the test on a cell's HTML table output", async () => {
     const nb = await vscode.workspace.openNotebookDocument(vscode.Uri.file(workspacePath('weekend-loaves.ipynb')));
     await vscode.window.showNotebookDocument(nb);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(1)));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(1), { test: 'independence' }));
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
     // scipy 1.10.1 stats.chi2_contingency([[41,18,25],[33,29,19],[52,14,30]]): 11.339110585158599, p 0.023005956745473254, dof 4.
@@ -134,7 +134,7 @@ describe('notebook cells', () => {
     const nb = await vscode.workspace.openNotebookDocument(vscode.Uri.file(workspacePath('weekend-loaves.ipynb')));
     const editor = await vscode.window.showNotebookDocument(nb);
     editor.selection = new vscode.NotebookRange(3, 4);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(3), { sigma0: 0.4, alternative: 'two-sided' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(3), { test: 'variance', sigma0: 0.4, alternative: 'two-sided' }));
     const r = payload.result as TestResult;
     assert.equal(r.test, 'variance');
     assert.equal(r.n, 12);

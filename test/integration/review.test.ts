@@ -31,7 +31,7 @@ describe('saved tests and living reports', () => {
   it('runs saved specs in the Testing view: reproduced passes, a changed file fails with the comparison', async () => {
     const a = await api();
     const spec = vscode.Uri.file(workspacePath('integration-data', 'ovens.countercheck.json'));
-    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
     await a.saveActive(spec);
     await runProfile();
     assert.equal(a.savedTests.outcomes.get(spec.toString())?.status, 'reproduced', `outcomes for ${spec.toString()}: ${JSON.stringify([...a.savedTests.outcomes])}`);

@@ -177,7 +177,7 @@ describe('database command on a live PostgreSQL server', function () {
   });
 
   it('tests the variance of a numeric column: the server’s moments equal the same values given inline', async () => {
-    const payload = await panelFrom(() => database({ test: 'variance', columns: ['minutes'], sigma0: 1.5 }));
+    const payload = await panelFrom(() => database({ test: 'variance', columns: ['minutes'], sigma0: 1.5, alternative: 'two-sided' }));
     const r = payload.result as TestResult;
     const values = data.map((d) => d.minutes).filter((m): m is number => m !== null);
     assert.equal(r.test, 'variance');
@@ -192,6 +192,17 @@ describe('database command on a live PostgreSQL server', function () {
       assert.ok(got, `estimate ${e.id} in the database result`);
       closeTo(got.value, e.value, 1e-12 * Math.abs(e.value), `estimate ${e.id}`);
     }
+  });
+
+  it('fits a distribution to a numeric column: the server sends the values, and the result equals the same values given inline', async () => {
+    const payload = await panelFrom(() => database({ test: 'distribution-fit', columns: ['minutes'], family: 'normal' }));
+    const r = payload.result as TestResult;
+    const values = data.map((d) => d.minutes).filter((m): m is number => m !== null);
+    assert.equal(r.test, 'distribution-fit');
+    const inline = await runInlineSpec('van-minutes-fit-inline.countercheck.json', { test: 'distribution-fit', values, family: 'normal' });
+    assert.equal(r.n, inline.n);
+    assert.equal(r.df, inline.df);
+    closeTo(r.statistic, inline.statistic, 1e-9 * inline.statistic, 'X² of the normal fit through PostgreSQL vs inline values');
   });
 
   it('a column that is not in the table: a notification naming it and the real columns, no panel, nothing thrown', async () => {

@@ -1,7 +1,7 @@
 /**
  * The live PostgreSQL server the tests in test/pg run against. COUNTERCHECK_PG_ENV names a file of
- * PG* lines written by scripts/pg/start.sh (in CI by scripts/ci/postgres.setup.sh, which .ci/run
- * exports). When the variable is set, every failure to reach the server FAILS the tests; when it is
+ * PG* lines written by scripts/pg/start.sh (`npm run test:pg`, scripts/pg/run-tests.mjs, starts one and
+ * sets it). When the variable is set, every failure to reach the server FAILS the tests; when it is
  * unset (a developer's machine without a server), the suite is skipped with a message saying how to run it.
  */
 import { execFile } from 'node:child_process';

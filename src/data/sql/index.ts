@@ -112,7 +112,7 @@ export async function aggregateSql(source: SqlSource, request: AggregateRequest,
     case 'categories':
       return { kind: 'categories', counts: decoded.counts, provenance };
     case 'moments':
-      return { kind: 'moments', moments: decoded.moments, provenance };
+      return { kind: 'moments', moments: decoded.moments, provenance, ...(decoded.values ? { values: decoded.values } : {}) };
   }
 }
 
@@ -133,7 +133,7 @@ export function sqlSpecReader(context: Omit<SqlReaderContext, 'signal' | 'option
   return async (
     source: SqlSpecSource,
     request: AggregateRequest,
-    intake: Pick<IntakeOptions, 'missing' | 'categories'>,
+    intake: Pick<IntakeOptions, 'missing' | 'categories' | 'keepValues'>,
     control: { readonly signal?: AbortSignal; readonly onProgress?: (fraction: number) => void },
   ): Promise<Aggregate> => {
     if (!source.sql) throw new InputError('$.source.sql: expected a SQL source', { jsonPath: '$.source.sql' }, 'sql-source-shape');
@@ -144,7 +144,7 @@ export function sqlSpecReader(context: Omit<SqlReaderContext, 'signal' | 'option
       ...context,
       password,
       signal: control.signal,
-      options: { missing: intake.missing, categories: intake.categories },
+      options: { missing: intake.missing, categories: intake.categories, ...(intake.keepValues ? { keepValues: true } : {}) },
     });
     control.onProgress?.(1);
     return aggregate;

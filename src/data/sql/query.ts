@@ -15,6 +15,7 @@
  *    var_samp (plus two-pass third and fourth central moments) for a numeric column. Never Σx, Σx².
  */
 import { InputError, type InputLocation } from '../../errors';
+import { MomentAccumulator } from '../../stats/moments';
 import type { Aggregate, AggregateRequest, Provenance } from '../types';
 import { CategoryCoder, MISSING, missingTokens } from '../categories';
 import type { CategoryOptions, MissingOptions } from '../options';
@@ -51,7 +52,12 @@ export interface SqlAggregateOptions {
   readonly categories?: CategoryOptions;
   /** Also compute the third and fourth central moments (a second pass over the data). Default true. */
   readonly higherMoments?: boolean;
+  /** For a numeric request, transfer the values themselves (a distribution fit bins them); at most MAX_SQL_VALUES rows. */
+  readonly keepValues?: boolean;
 }
+
+/** The most rows a numeric column may have when its values themselves are transferred. */
+export const MAX_SQL_VALUES = 1_000_000;
 
 const sqlLocation: InputLocation = { jsonPath: '$.source.sql' };
 
@@ -259,6 +265,10 @@ export function planAggregate(source: SqlSource, request: AggregateRequest, opti
     // NaN is a missing value, as in the file readers; casting to double precision makes integer,
     // numeric and real columns behave alike (PostgreSQL's float8 var_samp uses Youngs–Cramer updates).
     const inner = `SELECT NULLIF((${x})::double precision, 'NaN'::double precision) AS x ${from}`;
+    if (options.keepValues) {
+      // One row per record (NULL for a missing value), one more than the limit so that going over it is seen.
+      return { text: `${inner}\nLIMIT ${MAX_SQL_VALUES + 1}`, values, columns: [request.column], numericColumns: [request.column] };
+    }
     const first = `SELECT count(*) AS records, count(x) AS n, avg(x) AS mean, var_samp(x) AS variance, min(x) AS min, max(x) AS max FROM (\n${inner}\n) AS v`;
     // Second pass (default): deviations from the first pass's mean, summed on the server — the
     // corrected two-pass m2 = Σd² − (Σd)²/n (Chan, Golub & LeVeque 1983) stays accurate when the
@@ -311,7 +321,24 @@ type Described = Omit<Provenance, 'sha256' | 'description'>;
 export type DecodedAggregate =
   | { readonly kind: 'table'; readonly table: Extract<Aggregate, { kind: 'table' }>['table']; readonly provenance: Described }
   | { readonly kind: 'categories'; readonly counts: Extract<Aggregate, { kind: 'categories' }>['counts']; readonly provenance: Described }
-  | { readonly kind: 'moments'; readonly moments: Extract<Aggregate, { kind: 'moments' }>['moments']; readonly provenance: Described };
+  | { readonly kind: 'moments'; readonly moments: Extract<Aggregate, { kind: 'moments' }>['moments']; readonly provenance: Described; readonly values?: readonly number[] };
+
+/** The rows of a values query: the column's values, NULL for missing; their moments computed here, in double precision as on the server. */
+function decodeValues(column: string, rows: readonly AggregateRow[]): DecodedAggregate {
+  if (rows.length > MAX_SQL_VALUES) {
+    throw new InputError(
+      `the source has more than ${MAX_SQL_VALUES.toLocaleString('en-US')} rows; a test on the values themselves (a distribution fit) transfers every value, so narrow it with "where"`,
+      { jsonPath: '$.source.where' },
+      'sql-too-many-values',
+    );
+  }
+  const values: number[] = [];
+  for (const r of rows) {
+    const x = toReal(r.x);
+    if (!Number.isNaN(x)) values.push(x);
+  }
+  return { kind: 'moments', moments: MomentAccumulator.of(values).summary(), values, provenance: { rows: rows.length, dropped: rows.length - values.length, columns: [column] } };
+}
 
 // PostgreSQL text never holds U+0000, so this stands for SQL NULL among the missing-value tokens.
 const NULL_TOKEN = '\u0000';
@@ -325,6 +352,7 @@ const byCodeUnits = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 
  */
 export function decodeAggregate(request: AggregateRequest, rows: readonly AggregateRow[], options: SqlAggregateOptions = {}): DecodedAggregate {
   if (request.kind === 'counted-table') throw new InputError('a SQL source cannot read an already counted table', sqlLocation, 'sql-counted-table');
+  if (request.kind === 'numeric' && options.keepValues) return decodeValues(request.column, rows);
   if (request.kind === 'numeric') {
     const r = rows[0] ?? {};
     const records = toCount(r.records, 'the record count');
@@ -428,5 +456,5 @@ export function canonicalAggregate(decoded: DecodedAggregate): string {
   if (decoded.kind === 'categories') return JSON.stringify({ kind: 'categories', ...head, ...decoded.counts });
   const m = decoded.moments;
   const r = (x: number): string => (Number.isFinite(x) ? x.toPrecision(12) : String(x));
-  return JSON.stringify({ kind: 'moments', ...head, n: m.n, mean: r(m.mean), m2: r(m.m2), min: r(m.min), max: r(m.max) });
+  return JSON.stringify({ kind: 'moments', ...head, n: m.n, mean: r(m.mean), m2: r(m.m2), min: r(m.min), max: r(m.max), ...(decoded.values ? { values: decoded.values } : {}) });
 }

@@ -1,53 +1,56 @@
 /**
  * The named connections of a workspace's `.vscode/settings.json` (`countercheck.connections`), for the
  * command line: the same names the editor uses, so a saved spec runs from a terminal unchanged.
- * Settings files are JSON with comments and trailing commas. Passwords are never read from them
+ * Settings files are JSON with comments and trailing commas, read with jsonc-parser. Passwords are never read from them
  * (resolveConnection refuses a `password` member). Pure: the walk reads through the function it is given.
  */
 import * as path from 'node:path';
+import { parse as parseJsonc, printParseErrorCode, type ParseError } from 'jsonc-parser';
 import { InputError } from '../../errors';
+import { innermostContainerAt, lineColumnOf, maskByteOrderMark } from '../jsonText';
 import type { ConnectionSettings } from './connection';
 
 const KEY = 'countercheck.connections';
 
-/** JSON with `//` and `/* *\/` comments and trailing commas → plain JSON (strings untouched). */
-export function jsonWithCommentsToJson(text: string): string {
-  let out = '';
-  let i = text.charCodeAt(0) === 0xfeff ? 1 : 0;
-  const dropTrailingComma = (): void => {
-    let at = out.length - 1;
-    while (at >= 0 && /\s/.test(out[at])) at--;
-    if (out[at] === ',') out = out.slice(0, at) + out.slice(at + 1);
-  };
-  while (i < text.length) {
-    const c = text[i];
-    if (c === '"') {
-      const start = i++;
-      while (i < text.length && text[i] !== '"') i += text[i] === '\\' ? 2 : 1;
-      out += text.slice(start, ++i);
-    } else if (c === '/' && text[i + 1] === '/') {
-      while (i < text.length && text[i] !== '\n') i++;
-    } else if (c === '/' && text[i + 1] === '*') {
-      const end = text.indexOf('*/', i + 2);
-      i = end < 0 ? text.length : end + 2;
-      out += ' ';
-    } else {
-      if (c === '}' || c === ']') dropTrailingComma();
-      out += c;
-      i++;
-    }
+/** Settings files as the editor reads them: comments and trailing commas allowed. */
+const SETTINGS_PARSE = { disallowComments: false, allowTrailingComma: true, allowEmptyContent: true } as const;
+
+/**
+ * A settings file's value (jsonc-parser, the editor's own reader); a syntax error names its line and column.
+ * An empty file is an empty object.
+ */
+export function parseSettingsText(text: string, file: string): unknown {
+  const errors: ParseError[] = [];
+  const scanned = maskByteOrderMark(text);
+  const value: unknown = parseJsonc(scanned, errors, SETTINGS_PARSE);
+  if (errors.length > 0) {
+    const { offset, error } = errors[0];
+    const { line, column } = lineColumnOf(text, offset);
+    const found = offset >= text.length ? 'the end of the file' : `\`${text.slice(offset, offset + Math.min(Math.max(errors[0].length, 1), 20))}\``;
+    const expected = printParseErrorCode(error) === 'CommaExpected' ? `expected \`,\` or \`${innermostContainerAt(scanned, offset, true) === 'array' ? ']' : '}'}\`` : (SETTINGS_ERROR[printParseErrorCode(error)] ?? printParseErrorCode(error));
+    throw new InputError(`${file}:${line}:${column}: not valid JSON (with comments): ${expected}, found ${found}`, { file, line, column: String(column) }, 'settings-json');
   }
-  return out;
+  return value === undefined ? {} : value;
 }
+
+const SETTINGS_ERROR: Readonly<Record<string, string>> = {
+  InvalidSymbol: 'expected a value',
+  InvalidNumberFormat: 'malformed number',
+  PropertyNameExpected: 'expected a setting name in double quotes',
+  ValueExpected: 'expected a value',
+  ColonExpected: 'expected `:` after the setting name',
+  CloseBraceExpected: 'expected `,` or `}`',
+  CloseBracketExpected: 'expected `,` or `]`',
+  EndOfFileExpected: 'expected the end of the file',
+  UnexpectedEndOfComment: 'unterminated comment',
+  UnexpectedEndOfString: 'unterminated string',
+  InvalidEscapeCharacter: 'bad escape sequence in a string',
+  InvalidCharacter: 'control character inside a string',
+};
 
 /** `countercheck.connections` of one settings file's text; undefined when the file does not set it. */
 export function connectionsFromSettings(text: string, file: string): Record<string, ConnectionSettings> | undefined {
-  let settings: unknown;
-  try {
-    settings = text.trim() === '' ? {} : JSON.parse(jsonWithCommentsToJson(text));
-  } catch (e) {
-    throw new InputError(`${file}: not valid JSON (with comments): ${(e as Error).message}`, { file }, 'settings-json');
-  }
+  const settings = parseSettingsText(text, file);
   if (typeof settings !== 'object' || settings === null || Array.isArray(settings)) {
     throw new InputError(`${file}: expected an object of settings`, { file }, 'settings-json');
   }

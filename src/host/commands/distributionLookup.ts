@@ -1,7 +1,9 @@
-// "Look up the χ² distribution": p-value for a statistic, or the critical value for α, with df.
-import * as path from 'node:path';
+// Palette entries that need no data: the chi-square distribution lookup, and power or sample size.
+// Both go through the one wizard with nothing offered; the planner asks for what the procedure needs.
 import * as vscode from 'vscode';
+import type { Answers } from '../../planner/plan';
 import type { Services } from '../services';
+import { runWizard } from '../wizard';
 
 export interface LookupArgs {
   df?: number;
@@ -9,31 +11,17 @@ export interface LookupArgs {
   p?: number;
 }
 
+function paletteTarget(services: Services, label: string) {
+  const root = vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? process.cwd();
+  return { key: `palette:${label}`, specFolder: services.workspaceRootFor(root), label };
+}
+
 export async function distributionLookup(services: Services, args: LookupArgs = {}): Promise<void> {
-  const t = vscode.l10n.t;
-  try {
-    let { df, x, p } = args;
-    if (df === undefined) {
-      const text = await vscode.window.showInputBox({ title: t('χ² distribution'), prompt: t('Degrees of freedom (> 0)'), validateInput: (v) => (Number(v) > 0 ? undefined : t('Enter a number greater than 0')) });
-      if (text === undefined) return;
-      df = Number(text);
-    }
-    if (x === undefined && p === undefined) {
-      const text = await vscode.window.showInputBox({
-        title: t('χ² distribution, df = {0}', df),
-        prompt: t('A statistic (for its tail probabilities), or "p=0.05" (for critical values)'),
-        validateInput: (v) => (/^\s*p\s*=\s*(0?\.\d+|1)\s*$/i.test(v) || Number(v) >= 0 ? undefined : t('Enter x ≥ 0, or p=0.05')),
-      });
-      if (text === undefined) return;
-      const m = /^\s*p\s*=\s*(.+)$/i.exec(text);
-      if (m) p = Number(m[1]); else x = Number(text);
-    }
-    const spec: Record<string, unknown> = { version: 1, test: 'distribution', df, ...(x !== undefined ? { x } : {}), ...(p !== undefined ? { p } : {}) };
-    const root = vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? process.cwd();
-    const specPath = path.join(root, 'untitled.countercheck.json');
-    const run = await services.run(spec, specPath, t('χ² distribution'));
-    services.showResult(run.result, { spec, specPath, saved: false }, t('χ² distribution, df = {0}', df), t('distribution lookup'));
-  } catch (e) {
-    await services.reportError(e);
-  }
+  const given: Answers = { test: 'distribution', ...Object.fromEntries(Object.entries(args).filter(([, v]) => v !== undefined)) };
+  await runWizard(services, { kind: 'nothing', description: vscode.l10n.t('distribution lookup') }, given, paletteTarget(services, vscode.l10n.t('χ² distribution')));
+}
+
+/** "Power, Sample Size or Chi-Square Lookup…": the procedures that need no data. */
+export async function planWithoutData(services: Services, given: Answers = {}): Promise<void> {
+  await runWizard(services, { kind: 'nothing', description: vscode.l10n.t('no data') }, given, paletteTarget(services, vscode.l10n.t('planning')));
 }

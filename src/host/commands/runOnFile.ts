@@ -1,28 +1,22 @@
-// "Run a test on this file": explorer or editor on a CSV/TSV/JSON file.
-import { open } from 'node:fs/promises';
+// "Test This Data File…": explorer or editor on a CSV/TSV/JSON file. The data layer reads the file's first
+// records (a JSON file whole); the one wizard does the rest.
+import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { parseDelimited } from '../../data/delimited';
-import type { Answers } from '../flow';
-import { runOnTable } from '../flow';
-import type { Services } from '../services';
-import { sourceFromText } from '../selectionRecords';
+import { readDelimitedPreview, readDelimitedRecords } from '../../data/preview';
 import { isInstance } from '../../errors';
+import { offerFromText, type Offer } from '../../planner/offer';
+import type { Answers } from '../../planner/plan';
+import type { Services } from '../services';
+import { runWizard } from '../wizard';
 
-const PREVIEW_BYTES = 64 * 1024;
-
-/** The first records of a file (up to 64 KB, cut at a line end), for column profiles and previews. */
-async function preview(file: string) {
-  const handle = await open(file, 'r');
-  try {
-    const buf = new Uint8Array(PREVIEW_BYTES);
-    const { bytesRead } = await handle.read(buf, 0, PREVIEW_BYTES, 0);
-    let text = new TextDecoder().decode(buf.subarray(0, bytesRead));
-    const complete = bytesRead < PREVIEW_BYTES;
-    if (!complete) text = text.slice(0, text.lastIndexOf('\n') + 1);
-    return { records: parseDelimited(text, { file: vscode.workspace.asRelativePath(file) }), complete };
-  } finally {
-    await handle.close();
+async function offerForFile(file: string, name: string, documentUri: string): Promise<Offer> {
+  if (/\.json$/i.test(file)) {
+    // A JSON data file is small by nature: read it whole.
+    const text = Buffer.from(await vscode.workspace.fs.readFile(vscode.Uri.parse(documentUri))).toString('utf8');
+    return offerFromText(text, { file, description: name });
   }
+  const { records, complete } = await readDelimitedPreview(file, name);
+  return { kind: 'records', records, description: name, file: { path: file, complete, readAll: () => readDelimitedRecords(file, name) } };
 }
 
 export async function runOnFile(services: Services, uri?: vscode.Uri, answers: Answers = {}): Promise<void> {
@@ -31,17 +25,13 @@ export async function runOnFile(services: Services, uri?: vscode.Uri, answers: A
     void vscode.window.showWarningMessage(vscode.l10n.t('Countercheck: open or select a CSV, TSV or JSON file first.'));
     return;
   }
+  const name = vscode.workspace.asRelativePath(target);
+  let offer: Offer;
   try {
-    if (/\.json$/i.test(target.fsPath)) {
-      // A JSON data file is small by nature: read it whole and run on its records.
-      const text = Buffer.from(await vscode.workspace.fs.readFile(target)).toString('utf8');
-      const name = vscode.workspace.asRelativePath(target);
-      await runOnTable(services, sourceFromText(text, { file: target.fsPath, description: name, documentUri: target.toString() }), answers);
-      return;
-    }
-    const { records, complete } = await preview(target.fsPath);
-    await runOnTable(services, { kind: 'file', file: target.fsPath, preview: records, complete }, answers);
+    offer = await offerForFile(target.fsPath, name, target.toString());
   } catch (e) {
     await services.reportError(e);
+    return;
   }
+  await runWizard(services, offer, answers, { key: target.fsPath, specFolder: path.dirname(target.fsPath), label: name, documentUri: /\.json$/i.test(target.fsPath) ? target.toString() : undefined });
 }

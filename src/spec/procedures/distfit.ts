@@ -3,17 +3,25 @@
  * Poisson, binomial, geometric or normal distribution whose parameters are estimated from the same values.
  */
 import { InputError } from '../../errors';
-import { distributionFitTest, type FitFamily } from '../../stats/distfit';
+import { distributionFitTest } from '../../stats/distfit';
 import type { TestResult } from '../../stats/result';
 import { arr, field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
 
-export const distributionFitProcedure: ProcedureHandler = {
+export const distributionFitProcedure = defineProcedure({
   test: 'distribution-fit',
   summary: 'Goodness of fit of raw values to a Poisson, binomial, geometric or normal distribution with parameters estimated from the data (df reduced, sparse bins pooled).',
+  planning: {
+    label: 'Fit of a distribution to the values',
+    detail: 'Poisson, binomial, geometric or normal, parameters estimated from the values',
+    accepts: ['values', 'numeric-column'],
+    questions: [
+      { field: 'family', title: 'Distribution family' },
+      { field: 'trials', title: 'Number of trials of the binomial', when: (spec) => spec.family === 'binomial' },
+    ],
+  },
   fields: {
     values: field(arr(num(), { minItems: 2 }), 'Raw values: counts (whole numbers ≥ 0) for the discrete families, measurements for the normal.', true),
     source: sourceField('The one numeric column.', 1, 1),
@@ -22,7 +30,7 @@ export const distributionFitProcedure: ProcedureHandler = {
     cuts: field(arr(num(), { minItems: 1 }), 'Cut points between bins for the normal (increasing). Default: equiprobable bins under the fitted normal.'),
     minExpected: field(num({ exclusiveMin: 0 }), 'Adjacent bins are pooled until each expected count reaches this. Default 5 (common practice).'),
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['values', 'source'], problems);
     checkSourceColumns(spec, path, [1], 'one numeric column', problems);
@@ -32,19 +40,19 @@ export const distributionFitProcedure: ProcedureHandler = {
     if (spec.family !== 'normal' && spec.cuts !== undefined) problems.push({ path: childPath(path, 'cuts'), message: '"cuts" applies only to "family": "normal"; discrete families are binned by value' });
     return problems;
   },
-  async run(spec: SpecV1, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<TestResult> {
     let values = spec.values;
     if (!values) {
-      const aggregate = await aggregateOf(ctx, { kind: 'numeric', column: spec.source!.columns![0] }, 'moments');
+      const aggregate = await aggregateOf(ctx, { kind: 'numeric', column: spec.source!.columns![0] }, 'moments', undefined, { values: true });
       if (!aggregate.values) throw new InputError('$.source: this reader summarised the column without keeping the values, which a distribution fit needs', { jsonPath: '$.source' }, 'values-unavailable');
       values = aggregate.values;
     }
     return distributionFitTest(values, {
-      family: spec.family as FitFamily,
-      trials: spec.trials as number | undefined,
-      cuts: spec.cuts as readonly number[] | undefined,
-      minExpected: spec.minExpected as number | undefined,
+      family: spec.family!,
+      trials: spec.trials,
+      cuts: spec.cuts,
+      minExpected: spec.minExpected,
       alpha: spec.alpha,
     });
   },
-};
+});

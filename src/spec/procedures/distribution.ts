@@ -14,8 +14,7 @@ import {
 } from '../../stats/chisquare';
 import type { DistributionResult } from '../../stats/result';
 import { arr, field, num, oneOf, type SpecProblem } from '../fields';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 
 /** `{ [key]: log10 }` when a positive value underflowed to 0 and its logarithm is finite; otherwise nothing. */
 function underflowLog<K extends string>(key: K, value: number, log10: () => number): Partial<Record<K, number>> {
@@ -26,9 +25,19 @@ function underflowLog<K extends string>(key: K, value: number, log10: () => numb
 
 const asList = (v: number | readonly number[] | undefined): readonly number[] => (v === undefined ? [] : typeof v === 'number' ? [v] : v);
 
-export const distributionProcedure: ProcedureHandler = {
+export const distributionProcedure = defineProcedure({
   test: 'distribution',
   summary: 'Tail probabilities of observed values and critical values of the chi-square distribution with "df" degrees of freedom.',
+  planning: {
+    label: 'Chi-square distribution',
+    detail: 'Tail probabilities and critical values for some degrees of freedom',
+    accepts: ['anything'],
+    questions: [
+      { field: 'df', title: 'Degrees of freedom' },
+      { field: 'x', title: 'Value of the statistic', orElse: 'p', when: (spec) => spec.p === undefined },
+      { field: 'p', title: 'Probability', when: (spec) => spec.x === undefined },
+    ],
+  },
   fields: {
     df: field(num({ exclusiveMin: 0 }), 'Degrees of freedom (any real number > 0).', true),
     x: field(oneOf(num({ min: 0 }), arr(num({ min: 0 }), { minItems: 1 })), 'Observed value(s) of the statistic: gives the lower and upper tail probabilities.', true),
@@ -38,13 +47,13 @@ export const distributionProcedure: ProcedureHandler = {
       true,
     ),
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     if (spec.df === undefined) problems.push({ path, message: 'missing required field "df"' });
     if (spec.x === undefined && spec.p === undefined) problems.push({ path, message: 'give "x" (values of the statistic), "p" (probabilities), or both' });
     return problems;
   },
-  async run(spec: SpecV1): Promise<DistributionResult> {
+  async run(spec): Promise<DistributionResult> {
     const df = spec.df!;
     return {
       kind: 'distribution',
@@ -77,4 +86,4 @@ export const distributionProcedure: ProcedureHandler = {
       notices: [],
     };
   },
-};
+});

@@ -5,10 +5,10 @@
 import { InputError } from '../../errors';
 import { goodnessOfFit } from '../../stats/fit';
 import type { TestResult } from '../../stats/result';
-import { arr, field, num, obj, oneOf, str, type SpecProblem } from '../fields';
+import { arr, field, num, obj, oneOf, ownMember, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1, WeightsByLevel } from '../types';
-import type { ProcedureHandler } from './index';
+import type { WeightsByLevel } from '../types';
+import { defineProcedure } from './index';
 import { applyMethod } from './method';
 import {
   COUNT_ARRAY,
@@ -20,14 +20,25 @@ import {
   requireLength,
   requireOneOf,
   sourceField,
+  MONTE_CARLO,
 } from './shared';
 import { BAYES_FACTOR_FIT_FIELD, EQUIVALENCE_FIT_FIELD, FRAGILITY_FIELDS } from '../evidence';
 
 const weightsByLevel = oneOf(arr(num({ min: 0 }), { minItems: 2 }), obj({}, { additional: num({ min: 0 }) }));
 
-export const goodnessOfFitProcedure: ProcedureHandler = {
+export const goodnessOfFitProcedure = defineProcedure({
   test: 'goodness-of-fit',
   summary: 'Chi-square goodness of fit: do the observed counts of k categories match expected counts, proportions or ratios?',
+  planning: {
+    label: 'Goodness of fit of one categorical variable',
+    detail: 'Observed level counts against expected proportions',
+    accepts: ['category-counts', 'categorical-columns'],
+    roles: ['the column'],
+    variants: [
+      { label: 'Goodness of fit, Monte Carlo p-value', detail: 'The same test with a p-value from random samples (small expected counts)', preset: MONTE_CARLO },
+      { label: 'Goodness of fit, exact p-value', detail: 'Exact multinomial p-value (small samples)', preset: { method: 'exact' } },
+    ],
+  },
   fields: {
     ...FRAGILITY_FIELDS,
     bayesFactor: BAYES_FACTOR_FIT_FIELD,
@@ -42,7 +53,7 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
     estimatedParameters: field(num({ integer: true, min: 0 }), 'Number of parameters of the expected distribution estimated from these data; df = k − 1 − this. Default 0.'),
     ...COUNT_TEST_OPTIONS,
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['observed', 'source'], problems);
     requireOneOf(spec, path, ['expected', 'proportions', 'ratios'], problems, true);
@@ -109,7 +120,8 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
         }
         return w;
       }
-      return labels!.map((l) => (w as Readonly<Record<string, number>>)[l]);
+      // Own members only: a level named like an inherited property ("constructor") is a missing weight, not a function.
+      return labels!.map((l) => ownMember(w as Readonly<Record<string, number>>, l) as number);
     };
     return applyMethod(
       goodnessOfFit(observed, {
@@ -127,11 +139,11 @@ export const goodnessOfFitProcedure: ProcedureHandler = {
       { signal: ctx.signal, onProgress: ctx.onProgress },
     );
   },
-};
+});
 
-function keyedWeights(spec: SpecV1): { key: string; weights: Readonly<Record<string, number>> } | undefined {
+function keyedWeights(spec: { readonly proportions?: WeightsByLevel; readonly ratios?: WeightsByLevel }): { key: string; weights: Readonly<Record<string, number>> } | undefined {
   for (const key of ['proportions', 'ratios'] as const) {
-    const w: WeightsByLevel | undefined = spec[key];
+    const w = spec[key];
     if (w !== undefined && !Array.isArray(w)) return { key, weights: w as Readonly<Record<string, number>> };
   }
   return undefined;

@@ -7,8 +7,7 @@ import { independenceTest } from '../../stats/table';
 import type { TestResult } from '../../stats/result';
 import { arr, bool, field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { applyMethod } from './method';
 import {
   CONFIDENCE,
@@ -16,19 +15,29 @@ import {
   LABELS,
   VARIABLE_NAME,
   COUNT_TEST_OPTIONS,
-  aggregateOf,
   checkLambda,
   checkSourceColumns,
-  placeCounts,
+  tableFromSource,
   requireLength,
   requireOneOf,
   sourceField,
+  MONTE_CARLO,
 } from './shared';
 import { BAYES_FACTOR_TABLE_FIELD, FRAGILITY_FIELDS } from '../evidence';
 
-export const independenceProcedure: ProcedureHandler = {
+export const independenceProcedure = defineProcedure({
   test: 'independence',
   summary: 'Chi-square test of independence (or homogeneity) on an r×c table of counts.',
+  planning: {
+    label: 'Independence of two categorical variables',
+    detail: 'Pearson χ² on their cross-tabulation',
+    accepts: ['counted-table', 'categorical-columns'],
+    roles: ['the rows', 'the columns'],
+    variants: [
+      { label: 'Independence, Monte Carlo p-value', detail: 'The same test with a p-value from random tables with these margins (small expected counts)', preset: MONTE_CARLO },
+      { label: 'Independence, exact p-value', detail: 'Fisher–Freeman–Halton exact conditional test (small tables)', preset: { method: 'exact' } },
+    ],
+  },
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
     rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
@@ -46,7 +55,7 @@ export const independenceProcedure: ProcedureHandler = {
     ...FRAGILITY_FIELDS,
     bayesFactor: BAYES_FACTOR_TABLE_FIELD,
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['table', 'source'], problems);
     checkSourceColumns(spec, path, [0, 2], 'two columns (rows, columns), or none for an already-counted table', problems);
@@ -62,7 +71,7 @@ export const independenceProcedure: ProcedureHandler = {
       requireLength(spec, path, 'columnLabels', width, 'one per column of "table"', problems);
     }
     if (spec.source && (spec.source.columns?.length ?? 0) === 0) {
-      for (const key of ['rowLabels', 'columnLabels']) {
+      for (const key of ['rowLabels', 'columnLabels'] as const) {
         if (spec[key] !== undefined) problems.push({ path: childPath(path, key), message: `a counted table in a file carries its own labels; remove "${key}"` });
       }
     }
@@ -70,29 +79,8 @@ export const independenceProcedure: ProcedureHandler = {
     return problems;
   },
   async run(spec, ctx): Promise<TestResult> {
-    let counts: readonly (readonly number[])[];
-    let rowLabels = spec.rowLabels;
-    let columnLabels = spec.columnLabels;
     const columns = spec.source?.columns ?? [];
-    if (spec.source) {
-      const request =
-        columns.length === 2
-          ? ({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight: spec.source.weight } as const)
-          : ({ kind: 'counted-table' } as const);
-      const { table } = await aggregateOf(ctx, request, 'table', { rowLevels: rowLabels, columnLevels: columnLabels });
-      counts = table.counts;
-      if (columns.length === 2) {
-        // Listed levels give the order (a listed level the data lacks counts 0); without a list, the data's order.
-        rowLabels = rowLabels ?? table.rowLabels;
-        columnLabels = columnLabels ?? table.columnLabels;
-        counts = placeCounts(table, rowLabels, columnLabels, [columns[0], columns[1]], ['rowLabels', 'columnLabels']);
-      } else {
-        rowLabels = table.rowLabels;
-        columnLabels = table.columnLabels;
-      }
-    } else {
-      counts = spec.table!;
-    }
+    const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
     if (spec.correction && (counts.length !== 2 || counts[0].length !== 2)) {
       throw new InputError(
         `$.correction: Yates' continuity correction applies to 2×2 tables only; this table is ${counts.length}×${counts[0]?.length ?? 0}`,
@@ -116,4 +104,4 @@ export const independenceProcedure: ProcedureHandler = {
       { signal: ctx.signal, onProgress: ctx.onProgress },
     );
   },
-};
+});

@@ -8,7 +8,15 @@ import { exactIndependence, exactMultinomialFit, outcomeCount, tryExactIndepende
 import { DEFAULT_RESAMPLES, monteCarloFitInSlices, monteCarloIndependenceInSlices, type ResamplingResult, type ResamplingStatistic } from '../../stats/montecarlo';
 import { DEFAULT_SEED } from '../../stats/random';
 import type { StatisticLine, TestResult } from '../../stats/result';
-import type { SpecV1 } from '../types';
+/** The fields of a count test that choose and tune its p-value method. */
+export interface MethodFields {
+  readonly method?: 'asymptotic' | 'exact' | 'monte-carlo';
+  readonly statistic?: ResamplingStatistic;
+  readonly lambda?: number;
+  readonly resamples?: number;
+  readonly seed?: number;
+  readonly estimatedParameters?: number;
+}
 
 /** Lets the event loop run between Monte Carlo slices, so progress is shown and a cancel is seen. */
 const pause = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -19,7 +27,7 @@ export interface MethodControl {
 }
 
 /** Applies the spec's "method" to an asymptotic goodness-of-fit or independence result. */
-export async function applyMethod(result: TestResult, spec: SpecV1, control: MethodControl = {}): Promise<TestResult> {
+export async function applyMethod(result: TestResult, spec: MethodFields, control: MethodControl = {}): Promise<TestResult> {
   const method = spec.method ?? 'asymptotic';
   if (method === 'asymptotic') return spec.method === undefined ? withExactBeside(result, spec) : result;
   const statistic: ResamplingStatistic = spec.statistic ?? 'pearson';
@@ -95,11 +103,19 @@ const BESIDE_OUTCOMES = 2e5;
  * When the expected-count rule fails and no method was chosen, the exact p-value is added beside the
  * asymptotic one (if it is quick to compute), so the reader sees both without asking.
  */
-function withExactBeside(result: TestResult, spec: SpecV1): TestResult {
+function withExactBeside(result: TestResult, spec: MethodFields): TestResult {
   if (!result.notices.some((n) => n.code === 'small-expected')) return result;
   let exact: ResamplingResult | null = null;
   if (result.grid && !(result.grid.observed.length === 2 && result.grid.observed[0].length === 2)) {
     exact = tryExactIndependence(result.grid.observed, BESIDE_WORK);
+    if (exact === null) {
+      const notice = {
+        code: 'exact-beside-skipped',
+        severity: 'info' as const,
+        message: `Expected counts are small, but the exact p-value for this ${result.grid.observed.length}×${result.grid.observed[0].length} table would exceed its work limit (${BESIDE_WORK.toLocaleString('en-US')} steps, under a second), so it is not shown; set "method": "monte-carlo" for a resampled p-value.`,
+      };
+      return { ...result, notices: [...result.notices, notice] };
+    }
   } else if (result.categories) {
     const observed = result.categories.map((c) => c.observed);
     const n = observed.reduce((a, b) => a + b, 0);

@@ -6,14 +6,20 @@ import { pairedTest } from '../../stats/paired';
 import type { TestResult } from '../../stats/result';
 import { arr, bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { RunContext, SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
-import { CONFIDENCE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
+import type { RunContext } from '../types';
+import { defineProcedure } from './index';
+import { CONFIDENCE, COUNT_ARRAY, LABELS, type SourceSpec, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 import { FRAGILITY_FIELDS } from '../evidence';
 
-export const pairedProcedure: ProcedureHandler = {
+export const pairedProcedure = defineProcedure({
   test: 'paired',
   summary: "Paired classifications: McNemar's test for a 2×2 table, Bowker's test of symmetry for k×k (rows: first classification, columns: second).",
+  planning: {
+    label: 'Paired classifications',
+    detail: "McNemar's test (2×2) or Bowker's symmetry test: the same units classified twice",
+    accepts: ['square-table', 'categorical-columns'],
+    roles: ['the first classification', 'the second classification'],
+  },
   fields: {
     ...FRAGILITY_FIELDS,
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
@@ -24,7 +30,7 @@ export const pairedProcedure: ProcedureHandler = {
     method: field(str({ enum: ['asymptotic', 'exact', 'mid-p'] }), 'Main p-value for a 2×2 table: "asymptotic" chi-square (default), "exact" binomial, or "mid-p". All are reported.'),
     confidence: CONFIDENCE,
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['table', 'source'], problems, false, 'missing data: give "table", a square table of counts, or a "source" with two columns');
     checkSourceColumns(spec, path, [2], 'two columns (first classification, second classification)', problems);
@@ -45,7 +51,7 @@ export const pairedProcedure: ProcedureHandler = {
     }
     return problems;
   },
-  async run(spec: SpecV1, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<TestResult> {
     const data = spec.table ? { counts: spec.table, labels: spec.rowLabels ?? spec.columnLabels } : await squareFromSource(spec, ctx);
     return pairedTest(data.counts, {
       alpha: spec.alpha,
@@ -55,13 +61,13 @@ export const pairedProcedure: ProcedureHandler = {
       labels: data.labels,
     });
   },
-};
+});
 
 /**
  * Cross-tabulates the two classification columns into a square table whose rows and columns list the same
  * categories in the same order: the spec's labels, or the levels of the first column then any new ones of the second.
  */
-async function squareFromSource(spec: SpecV1, ctx: RunContext): Promise<{ counts: number[][]; labels: string[] }> {
+async function squareFromSource(spec: { readonly source?: SourceSpec; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<{ counts: number[][]; labels: string[] }> {
   const [first, second] = spec.source!.columns!;
   const given = spec.rowLabels ?? spec.columnLabels;
   const { table } = await aggregateOf(ctx, { kind: 'crosstab', rowColumn: first, columnColumn: second, weight: spec.source!.weight }, 'table', given ? { rowLevels: given, columnLevels: given } : undefined);

@@ -2,17 +2,29 @@
  * `"test": "power"`: power for a given n, or the smallest n for a given power, for the goodness-of-fit and
  * independence tests (Cohen's w, `"df"`) and the test for one variance (`"sigmaRatio"` = σ1/σ0).
  */
-import { powerAnalysis, type PowerTarget } from '../../stats/power';
+import { powerAnalysis } from '../../stats/power';
 import type { PowerResult } from '../../stats/result';
 import { field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { ALTERNATIVE } from './shared';
 
-export const powerProcedure: ProcedureHandler = {
+export const powerProcedure = defineProcedure({
   test: 'power',
   summary: 'Power for a sample size, or the smallest sample size for a power, for chi-square goodness of fit, independence, or the test for one variance.',
+  planning: {
+    label: 'Power or sample size',
+    detail: 'Power of a χ² test for an effect size, or the sample size for a power',
+    accepts: ['anything'],
+    questions: [
+      { field: 'target', title: 'Which test the power is for' },
+      { field: 'sigmaRatio', title: 'Ratio σ1/σ0', when: (spec) => spec.target === 'variance' },
+      { field: 'effectSize', title: "Effect size (Cohen's w)", when: (spec) => spec.target !== 'variance' },
+      { field: 'df', title: 'Degrees of freedom', when: (spec) => spec.target !== 'variance' },
+      { field: 'n', title: 'Sample size', orElse: 'power', when: (spec) => spec.power === undefined },
+      { field: 'power', title: 'Target power', when: (spec) => spec.n === undefined },
+    ],
+  },
   fields: {
     target: field(str({ enum: ['goodness-of-fit', 'independence', 'variance'] }), 'Which test the power is for. Default "goodness-of-fit" with "effectSize", "variance" with "sigmaRatio".'),
     effectSize: field(num({ exclusiveMin: 0 }), "Cohen's w (0.1 small, 0.3 medium, 0.5 large by Cohen's convention)."),
@@ -22,7 +34,7 @@ export const powerProcedure: ProcedureHandler = {
     power: field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Target power: gives the smallest sample size that reaches it.'),
     alternative: { ...ALTERNATIVE, description: 'Alternative of the variance test. Default "two-sided".' },
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     const hasW = spec.effectSize !== undefined;
     const hasRatio = spec.sigmaRatio !== undefined;
@@ -36,17 +48,17 @@ export const powerProcedure: ProcedureHandler = {
     if (target !== 'variance' && spec.alternative !== undefined) problems.push({ path: childPath(path, 'alternative'), message: 'chi-square tests of fit and independence are one-tailed by nature; "alternative" is for the variance test' });
     return problems;
   },
-  async run(spec: SpecV1): Promise<PowerResult> {
-    const target = (spec.target as PowerTarget | undefined) ?? (spec.sigmaRatio !== undefined ? 'variance' : 'goodness-of-fit');
+  async run(spec): Promise<PowerResult> {
+    const target = spec.target ?? (spec.sigmaRatio !== undefined ? 'variance' : 'goodness-of-fit');
     return powerAnalysis({
       target,
-      effectSize: spec.effectSize as number | undefined,
-      sigmaRatio: spec.sigmaRatio as number | undefined,
+      effectSize: spec.effectSize,
+      sigmaRatio: spec.sigmaRatio,
       df: spec.df,
       alpha: spec.alpha,
-      n: spec.n as number | undefined,
-      power: spec.power as number | undefined,
+      n: spec.n,
+      power: spec.power,
       alternative: spec.alternative,
     });
   },
-};
+});

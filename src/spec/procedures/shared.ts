@@ -4,9 +4,9 @@
  */
 import { InputError } from '../../errors';
 import type { Aggregate, CountTable } from '../../data/types';
-import { arr, bool, field, nul, num, obj, oneOf, str, type Field, type SpecProblem } from '../fields';
+import { arr, bool, field, nul, num, obj, oneOf, str, type SpecProblem, type ValueOf } from '../fields';
 import { childPath } from '../json-text';
-import type { RunContext, SpecV1 } from '../types';
+import type { RunContext } from '../types';
 
 export const ALPHA = field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Significance level for the conclusion. Default 0.05.');
 export const CONFIDENCE = field(num({ exclusiveMin: 0, exclusiveMax: 1 }), 'Confidence level of the intervals, e.g. 0.95 (the default).');
@@ -22,24 +22,30 @@ export const METHOD = field(
 );
 export const RESAMPLES = field(num({ integer: true, min: 1 }), 'Number of Monte Carlo resamples (with "method": "monte-carlo").');
 export const SEED = field(num({ integer: true, min: 0 }), 'Seed of the Monte Carlo random stream, so that the p-value is reproducible.');
-export const LABELS = (what: string): Field => field(arr(str()), `Labels of the ${what}, in order.`, true);
+export const LABELS = (what: string) => field(arr(str()), `Labels of the ${what}, in order.`, true);
 /** A variable's name for the conclusion sentence; with a source it defaults to the column's name. */
-export const VARIABLE_NAME = (what: string): Field =>
+export const VARIABLE_NAME = (what: string) =>
   field(str(), `Name of ${what}, used in the conclusion (e.g. "oven"). Default: the name of the source column, if any; otherwise the wording stays generic.`);
 export const COUNT_ARRAY = arr(num({ min: 0 }));
+
+/** The Monte Carlo variant of a count test, as the editor offers it (10,000 resamples, seed 1: reproducible). */
+export const MONTE_CARLO = { method: 'monte-carlo', resamples: 10000, seed: 1 } as const;
 
 /** The statistic and p-value method options shared by the count tests (goodness of fit, r×c tables). */
 export const COUNT_TEST_OPTIONS = { statistic: STATISTIC, lambda: LAMBDA, method: METHOD, resamples: RESAMPLES, seed: SEED } as const;
 
+/** A saved test seen only by its field names (checks that look at presence and lengths). */
+export type SpecFields = Readonly<Record<string, unknown>>;
+
 /** "lambda" only means something for the Cressie–Read statistic. */
-export function checkLambda(spec: SpecV1, path: string, problems: SpecProblem[]): void {
+export function checkLambda(spec: { readonly lambda?: number; readonly statistic?: string }, path: string, problems: SpecProblem[]): void {
   if (spec.lambda !== undefined && spec.statistic !== 'cressie-read') {
     problems.push({ path: childPath(path, 'lambda'), message: '"lambda" applies only with "statistic": "cressie-read"' });
   }
 }
 
 /** `source`: a delimited file (relative path) or a SQL source, with the reader's dialect options. */
-export function sourceField(columnsHelp: string, minColumns: number, maxColumns: number): Field {
+export function sourceField(columnsHelp: string, minColumns: number, maxColumns: number) {
   return field(
     obj({
       path: field(str({ nonEmpty: true }), 'Data file, relative to this spec file (absolute paths and paths leading out of the workspace are refused unless allowed).'),
@@ -82,9 +88,12 @@ export function sourceField(columnsHelp: string, minColumns: number, maxColumns:
   );
 }
 
+/** The TypeScript type of a `source`, from its field table. */
+export type SourceSpec = ValueOf<ReturnType<typeof sourceField>['type']>;
+
 /** Reports a problem unless exactly one (or, with `optional`, at most one) of `keys` is present. */
 export function requireOneOf(
-  spec: SpecV1,
+  spec: SpecFields,
   path: string,
   keys: readonly string[],
   problems: SpecProblem[],
@@ -100,7 +109,7 @@ export function requireOneOf(
 }
 
 /** Checks that an array field has the length another one implies. */
-export function requireLength(spec: SpecV1, path: string, key: string, length: number, ofWhat: string, problems: SpecProblem[]): void {
+export function requireLength(spec: SpecFields, path: string, key: string, length: number, ofWhat: string, problems: SpecProblem[]): void {
   const v = spec[key];
   if (Array.isArray(v) && v.length !== length) {
     problems.push({ path: childPath(path, key), message: `expected ${length} item${length === 1 ? '' : 's'} (${ofWhat}), found ${v.length}` });
@@ -108,7 +117,7 @@ export function requireLength(spec: SpecV1, path: string, key: string, length: n
 }
 
 /** Checks the number of columns a source names for this test. */
-export function checkSourceColumns(spec: SpecV1, path: string, allowed: readonly number[], what: string, problems: SpecProblem[]): void {
+export function checkSourceColumns(spec: { readonly source?: SourceSpec }, path: string, allowed: readonly number[], what: string, problems: SpecProblem[]): void {
   const source = spec.source;
   if (!source) return;
   const n = source.columns?.length ?? 0;
@@ -132,8 +141,9 @@ export async function aggregateOf<K extends Aggregate['kind']>(
   request: Parameters<RunContext['aggregate']>[0],
   kind: K,
   levels?: Parameters<RunContext['aggregate']>[1],
+  needs?: Parameters<RunContext['aggregate']>[2],
 ): Promise<Extract<Aggregate, { kind: K }>> {
-  const aggregate = await ctx.aggregate(request, levels);
+  const aggregate = await ctx.aggregate(request, levels, needs);
   if (aggregate.kind !== kind) {
     throw new InputError(`$.source: expected the reader to produce ${kind}, got ${aggregate.kind}`, { jsonPath: '$.source' }, 'unexpected-aggregate');
   }
@@ -170,4 +180,19 @@ export function placeCounts(
     }),
   );
   return counts;
+}
+
+/**
+ * The table of counts a spec's `source` gives: two columns cross-tabulated in the order of "rowLabels" and
+ * "columnLabels" (a listed level the data lacks counts 0), or no columns for a file that is already a counted table.
+ */
+export async function tableFromSource(spec: { readonly source?: SourceSpec; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<{ counts: readonly (readonly number[])[]; rowLabels?: readonly string[]; columnLabels?: readonly string[] }> {
+  const source = spec.source!;
+  const columns = source.columns ?? [];
+  const request = columns.length === 2 ? ({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight: source.weight } as const) : ({ kind: 'counted-table' } as const);
+  const { table } = await aggregateOf(ctx, request, 'table', { rowLevels: spec.rowLabels, columnLevels: spec.columnLabels });
+  if (columns.length !== 2) return { counts: table.counts, rowLabels: table.rowLabels, columnLabels: table.columnLabels };
+  const rowLabels = spec.rowLabels ?? table.rowLabels;
+  const columnLabels = spec.columnLabels ?? table.columnLabels;
+  return { counts: placeCounts(table, rowLabels, columnLabels, [columns[0], columns[1]], ['rowLabels', 'columnLabels']), rowLabels, columnLabels };
 }

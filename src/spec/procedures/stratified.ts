@@ -7,16 +7,20 @@ import type { TestResult } from '../../stats/result';
 import { stratifiedTest } from '../../stats/stratified';
 import { arr, bool, field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength, VARIABLE_NAME } from './shared';
 import { FRAGILITY_FIELDS } from '../evidence';
 
-type Table = readonly (readonly number[])[];
 
-export const stratifiedProcedure: ProcedureHandler = {
+export const stratifiedProcedure = defineProcedure({
   test: 'stratified',
   summary: 'Stratified tables: Cochran–Mantel–Haenszel test across strata of 2×2 tables (with the common odds ratio and Breslow–Day), or generalized CMH for R×C strata.',
+  planning: {
+    label: 'Stratified tables (Cochran–Mantel–Haenszel)',
+    detail: 'The same cross-classification in each stratum of a third variable',
+    accepts: ['categorical-columns'],
+    roles: ['the strata', 'the rows', 'the columns'],
+  },
   fields: {
     ...FRAGILITY_FIELDS,
     strata: field(arr(arr(COUNT_ARRAY, { minItems: 2 }), { minItems: 1 }), 'One table of counts per stratum, all of the same size (2×2 for CMH).', true),
@@ -31,9 +35,9 @@ export const stratifiedProcedure: ProcedureHandler = {
     columnScores: field(arr(num()), 'Column scores for the generalized CMH row-mean and correlation statistics. Default 1, 2, …'),
     confidence: CONFIDENCE,
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
-    const strata = spec.strata as readonly Table[] | undefined;
+    const strata = spec.strata;
     if (!strata) {
       problems.push({ path, message: 'missing data: give "strata", an array of tables of counts' });
       return problems;
@@ -52,19 +56,19 @@ export const stratifiedProcedure: ProcedureHandler = {
     if (spec.method === 'exact' && (r !== 2 || c !== 2)) problems.push({ path: childPath(path, 'method'), message: `the exact conditional test needs 2×2 strata; these are ${r}×${c}` });
     return problems;
   },
-  async run(spec: SpecV1): Promise<TestResult> {
-    return stratifiedTest(spec.strata as readonly Table[], {
+  async run(spec): Promise<TestResult> {
+    return stratifiedTest(spec.strata!, {
       alpha: spec.alpha,
       confidence: spec.confidence,
       correction: spec.correction,
       method: spec.method as 'asymptotic' | 'exact' | undefined,
-      stratumLabels: spec.stratumLabels as readonly string[] | undefined,
+      stratumLabels: spec.stratumLabels,
       rowLabels: spec.rowLabels,
       columnLabels: spec.columnLabels,
-      rowScores: spec.rowScores as readonly number[] | undefined,
-      columnScores: spec.columnScores as readonly number[] | undefined,
+      rowScores: spec.rowScores,
+      columnScores: spec.columnScores,
       rowVariable: spec.rowVariable,
       columnVariable: spec.columnVariable,
     });
   },
-};
+});

@@ -7,13 +7,19 @@ import type { TestResult } from '../../stats/result';
 import { cochranArmitageTest, linearByLinearTest } from '../../stats/trend';
 import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { RunContext, SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
-import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
+import type { RunContext } from '../types';
+import { defineProcedure } from './index';
+import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
 
-export const trendProcedure: ProcedureHandler = {
+export const trendProcedure = defineProcedure({
   test: 'trend',
   summary: 'Trend across ordered groups: Cochran–Armitage for a 2×k table (first row: events), or linear-by-linear association for two ordinal variables.',
+  planning: {
+    label: 'Trend across ordered groups',
+    detail: 'Cochran–Armitage (2×k) or linear-by-linear association',
+    accepts: ['counted-table', 'categorical-columns'],
+    roles: ['the outcome (rows)', 'the ordered groups (columns)'],
+  },
   fields: {
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Counts: 2 rows (events, non-events) by ordered groups, or an r×c table of two ordinal variables.', true),
     scores: field(arr(num()), 'Scores of the ordered groups (columns) for Cochran–Armitage. Default 1, 2, …, k (equally spaced).'),
@@ -24,12 +30,12 @@ export const trendProcedure: ProcedureHandler = {
     columnLabels: LABELS('ordered groups (columns; with a source: every group level, in order)'),
     alternative: { ...ALTERNATIVE, description: 'Two-sided (default); "greater": the first row’s proportion (or the column score) rises with the score; "less": it falls.' },
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['table', 'source'], problems);
     checkSourceColumns(spec, path, [2], 'two columns (outcome, ordered group)', problems);
     if (spec.source) {
-      for (const key of ['rowLabels', 'columnLabels']) {
+      for (const key of ['rowLabels', 'columnLabels'] as const) {
         if (spec[key] === undefined) problems.push({ path, message: `with a "source", give "${key}": the order of the levels matters for a trend test` });
       }
     }
@@ -47,28 +53,28 @@ export const trendProcedure: ProcedureHandler = {
     requireLength(spec, path, 'columnLabels', width, 'one per column', problems);
     return problems;
   },
-  async run(spec: SpecV1, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<TestResult> {
     const table = spec.table ?? (await orderedTableFromSource(spec, ctx));
     if (table.length > 2 || spec.rowScores !== undefined) {
       return linearByLinearTest(table, {
         alpha: spec.alpha,
         alternative: spec.alternative,
-        rowScores: spec.rowScores as readonly number[] | undefined,
-        columnScores: spec.columnScores as readonly number[] | undefined,
+        rowScores: spec.rowScores,
+        columnScores: spec.columnScores,
       });
     }
     return cochranArmitageTest(table, {
       alpha: spec.alpha,
       alternative: spec.alternative,
-      scores: (spec.scores ?? spec.columnScores) as readonly number[] | undefined,
+      scores: spec.scores ?? spec.columnScores,
       rowLabels: spec.rowLabels,
       columnLabels: spec.columnLabels,
     });
   },
-};
+});
 
 /** Cross-tabulates outcome × ordered group from the source, in the order the spec gives (unlisted levels are an error). */
-async function orderedTableFromSource(spec: SpecV1, ctx: RunContext): Promise<number[][]> {
+async function orderedTableFromSource(spec: { readonly source?: SourceSpec; readonly rowLabels?: readonly string[]; readonly columnLabels?: readonly string[] }, ctx: RunContext): Promise<number[][]> {
   const [outcome, group] = spec.source!.columns!;
   const rows = spec.rowLabels!;
   const columns = spec.columnLabels!;

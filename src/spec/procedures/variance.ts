@@ -6,14 +6,22 @@ import { varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValue
 import type { TestResult } from '../../stats/result';
 import { arr, field, num, obj, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import type { SpecV1 } from '../types';
-import type { ProcedureHandler } from './index';
+import { defineProcedure } from './index';
 import { ALTERNATIVE, CONFIDENCE, VARIABLE_NAME, aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
 import { EQUIVALENCE_VARIANCE_FIELD } from '../evidence';
 
-export const varianceProcedure: ProcedureHandler = {
+export const varianceProcedure = defineProcedure({
   test: 'variance',
   summary: 'Chi-square test for one variance: is the spread σ (or σ²) equal to a target, with its confidence interval?',
+  planning: {
+    label: 'Variance of one numeric variable',
+    detail: 'χ² test of σ against a hypothesised σ0, with a confidence interval',
+    accepts: ['values', 'numeric-column'],
+    questions: [
+      { field: 'sigma0', title: 'Hypothesised standard deviation σ0' },
+      { field: 'alternative', title: 'Alternative hypothesis', choiceLabels: { 'two-sided': 'σ differs from σ0', greater: 'σ is larger than σ0', less: 'σ is smaller than σ0' } },
+    ],
+  },
   fields: {
     equivalence: EQUIVALENCE_VARIANCE_FIELD,
     values: field(arr(num(), { minItems: 2 }), 'Raw measurements.', true),
@@ -37,7 +45,7 @@ export const varianceProcedure: ProcedureHandler = {
     alternative: ALTERNATIVE,
     confidence: CONFIDENCE,
   },
-  validate(spec: SpecV1, path: string): readonly SpecProblem[] {
+  validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
     requireOneOf(spec, path, ['values', 'summary', 'source'], problems);
     requireOneOf(spec, path, ['sigma0', 'variance0'], problems, false, 'missing the hypothesised spread: give "sigma0" (σ0) or "variance0" (σ0²)');
@@ -71,4 +79,4 @@ export const varianceProcedure: ProcedureHandler = {
     const aggregate = await aggregateOf(ctx, { kind: 'numeric', column: spec.source!.columns![0] }, 'moments');
     return aggregate.values ? varianceTestFromValues(aggregate.values, options) : varianceTestFromMoments(aggregate.moments, options);
   },
-};
+});

@@ -39,6 +39,18 @@ describe('architecture boundaries', () => {
     assert.deepEqual(offenders, []);
   });
 
+  it('the planner is pure and sits between the saved-test layer and the host', () => {
+    const planner = tsFiles(join(root, 'planner'));
+    const io = planner.filter((f) => importsOf(f).some((m) => nodeIo.test(m) || m === 'pg'));
+    assert.deepEqual(io, [], 'the planner reads nothing itself (the host hands it what a source offers)');
+    const upward = planner.filter((f) => importsOf(f).some((m) => /(^|\/)(host|webview|cli)(\/|$)/.test(m)));
+    assert.deepEqual(upward, [], 'the planner imports data/, spec/ and errors, never the host, the webview or the CLI');
+    const users = tsFiles(root)
+      .filter((f) => !f.includes(join('src', 'planner')) && !f.includes(join('src', 'host')))
+      .filter((f) => importsOf(f).some((m) => /(^|\/)planner\//.test(m)));
+    assert.deepEqual(users, [], 'only the host asks the planner');
+  });
+
   it('stats never reads the clock or an unseeded random source', () => {
     const offenders = tsFiles(join(root, 'stats')).filter((f) => /Date\.now|new Date\(|Math\.random|performance\.now/.test(readFileSync(f, 'utf8')));
     assert.deepEqual(offenders, []);

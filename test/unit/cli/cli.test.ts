@@ -6,28 +6,11 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync, appendFileSync, mkdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../../src/cli';
-
-interface Outcome {
-  code: number;
-  stdout: string;
-  stderr: string;
-}
+import { runCli, type Outcome } from './run-cli';
 
 let dir: string;
 
-async function cli(args: string[], stdin = ''): Promise<Outcome> {
-  let stdout = '';
-  let stderr = '';
-  const code = await main(args, {
-    stdout: (t) => (stdout += t),
-    stderr: (t) => (stderr += t),
-    readStdin: async () => stdin,
-    cwd: dir,
-    now: () => new Date('2026-11-30T12:00:00Z'),
-  });
-  return { code, stdout, stderr };
-}
+const cli = (args: string[], stdin = ''): Promise<Outcome> => runCli(dir, args, stdin);
 
 function write(name: string, text: string): void {
   writeFileSync(join(dir, name), text);

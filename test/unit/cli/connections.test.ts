@@ -69,6 +69,6 @@ describe('command line: SQL connections from the workspace settings', function (
     writeFileSync(settings, '{ "countercheck.connections": { ');
     const broken = await cli(['run', 'specs/weekly/crates.countercheck.json']);
     assert.equal(broken.code, 2);
-    assert.ok(broken.stderr.includes(`${settings}: not valid JSON`), broken.stderr);
+    assert.ok(broken.stderr.includes(`${settings}:1:33: not valid JSON (with comments)`), broken.stderr);
   });
 });

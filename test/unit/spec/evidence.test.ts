@@ -3,7 +3,7 @@
 // against outside references in test/unit/stats/advanced/{fragility,bayes-factor,equivalence}.test.ts; here the
 // Bayes factor of one table is also compared with R BayesFactor through the whole path.
 import { strict as assert } from 'node:assert';
-import { cpSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { cpSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli';
@@ -108,30 +108,21 @@ describe('check: fragile conclusions and the family of tests', function () {
     assert.doesNotMatch(none.stdout, /fragile/);
   });
 
-  it('--adjust on the demo folder agrees with R p.adjust on the same p-values, and names the changed conclusions', async () => {
+  it('--adjust on the demo specs agrees with R p.adjust on the same p-values, and marks the conclusions that change', async () => {
+    const specs = readdirSync(join(root, 'demo')).filter((f) => f.endsWith('.countercheck.json') && !f.startsWith('audit-')).sort().map((f) => `demo/${f}`);
     for (const method of ['holm', 'bh', 'bonferroni'] as const) {
-      const out = await cli(['check', 'demo', '--adjust', method, '--json']);
-      const parsed = JSON.parse(out.stdout) as { family: { size: number; members: { name: string; pValue: number; adjustedPValue: number; changed: boolean }[] } };
+      const out = await cli(['check', '--adjust', method, '--json', ...specs]);
+      const entries = JSON.parse(out.stdout) as { file: string; current: { result: { pValue: number } }; adjusted: { family: number; pValue: number } }[];
       const ref = family('demo_folder');
-      assert.equal(parsed.family.size, ref.p.length);
-      parsed.family.members.forEach((m, i) => {
-        assert.ok(Math.abs(m.pValue - ref.p[i]) <= 1e-9 * ref.p[i], `${m.name}: the fixture's input p ${ref.p[i]} is the demo's p ${m.pValue}`);
-        assert.ok(Math.abs(m.adjustedPValue - ref[method][i]) <= 1e-9 * ref[method][i], `${m.name} ${method}: ${m.adjustedPValue} vs R p.adjust ${ref[method][i]}`);
+      assert.equal(entries.length, ref.p.length);
+      entries.forEach((e, i) => {
+        assert.equal(e.adjusted.family, ref.p.length);
+        assert.ok(Math.abs(e.current.result.pValue - ref.p[i]) <= 1e-9 * ref.p[i], `${e.file}: the fixture's input p ${ref.p[i]} is the demo's p ${e.current.result.pValue}`);
+        assert.ok(Math.abs(e.adjusted.pValue - ref[method][i]) <= 1e-9 * ref[method][i], `${e.file} ${method}: ${e.adjusted.pValue} vs R p.adjust ${ref[method][i]}`);
       });
     }
-    const text = await cli(['check', 'demo', '--adjust', 'holm']);
-    assert.match(text.stdout, /family of 10 tests, Holm adjustment/);
-    assert.match(text.stdout, /bakery-flavour-mix.*CHANGES: significant → not significant/);
-  });
-
-  it('--adjust on a report reads its blocks as the family (R p.adjust "BH")', async () => {
-    const out = await cli(['check', 'demo/report.md', '--adjust', 'bh', '--json']);
-    const parsed = JSON.parse(out.stdout) as { family: { size: number; members: { adjustedPValue: number }[] } };
-    const ref = family('demo_report');
-    assert.equal(parsed.family.size, 3);
-    parsed.family.members.forEach((m, i) => assert.ok(Math.abs(m.adjustedPValue - ref.bh[i]) <= 1e-9 * ref.bh[i]));
-    const report = readFileSync(join(root, 'demo', 'report.md'), 'utf8');
-    assert.ok(report.includes('bakery-flavour-mix.countercheck.json'), 'the report still holds the blocks the fixture copied');
+    const text = await cli(['check', '--adjust', 'holm', ...specs]);
+    assert.match(text.stdout, /bakery-flavour-mix[^]*?not significant at α = 0\.05 after adjustment \(the conclusion CHANGES\)/);
   });
 
   it('report --adjust writes each block\'s adjusted p-value beside its own (R p.adjust "holm"), in a copy of the demo report', async () => {
@@ -168,6 +159,9 @@ describe('check: fragile conclusions and the family of tests', function () {
   it('--adjust with an unknown method is a usage error', async () => {
     const out = await cli(['check', 'demo', '--adjust', 'sidak']);
     assert.equal(out.code, 2);
-    assert.match(out.stderr, /--adjust: expected one of holm, bh, bonferroni/);
+    assert.match(out.stderr, /--adjust/);
+    const threshold = await cli(['check', 'demo', '--fragility-threshold', 'two']);
+    assert.equal(threshold.code, 2);
+    assert.match(threshold.stderr, /--fragility-threshold: expected a whole number/);
   });
 });

@@ -61,6 +61,21 @@ describe('recorded results', () => {
     assert.equal(JSON.parse(updated).recorded.tool, 't');
   });
 
+  it('writes into an empty object, a tab-indented spec and a spec with a byte-order mark, changing nothing else', () => {
+    const record = makeRecord(fakeRun(1, 0.6), 't', now);
+    const empty = writeRecordedInto(parseJsonWithLocations('{}\n'), record);
+    assert.ok(empty.startsWith('{\n  "recorded": {\n    "tool": "t",') && empty.endsWith('\n  }\n}\n'), empty);
+    const emptyLines = writeRecordedInto(parseJsonWithLocations('{\n}'), record);
+    assert.ok(emptyLines.startsWith('{\n  "recorded": {') && emptyLines.endsWith('\n  }\n}'), emptyLines);
+    const tabs = '{\n\t"test": "independence",\n\t"table": [[1, 2], [3, 4]]\n}';
+    const tabbed = writeRecordedInto(parseJsonWithLocations(tabs), record);
+    assert.ok(tabbed.startsWith('{\n\t"test": "independence",\n\t"table": [[1, 2], [3, 4]],\n\t"recorded": {\n\t\t"tool": "t",'), tabbed);
+    const bom = '\ufeff{"test": "independence", "table": [[1, 2], [3, 4]]}';
+    const withBom = writeRecordedInto(parseJsonWithLocations(bom), record);
+    assert.ok(withBom.startsWith(bom.slice(0, -1) + ',"recorded":{"tool":"t"'), withBom);
+    assert.equal(JSON.parse(withBom.slice(1)).recorded.tool, 't');
+  });
+
   it('is reproduced when the data and numbers are the same', () => {
     const run = fakeRun(7.5, 0.0235);
     const review = compareWithRecord(record(run), run, 'countercheck 0.1.0', now);

@@ -1,7 +1,7 @@
 // Named connections read from a workspace's .vscode/settings.json for the command line.
 import { strict as assert } from 'node:assert';
 import * as path from 'node:path';
-import { connectionsFromSettings, jsonWithCommentsToJson, workspaceConnections } from '../../../../src/data/sql/settings';
+import { connectionsFromSettings, parseSettingsText, workspaceConnections } from '../../../../src/data/sql/settings';
 import { isInputError } from '../../../../src/errors';
 
 const settingsText = `{
@@ -20,9 +20,9 @@ describe('connections from .vscode/settings.json', () => {
     assert.deepEqual(connectionsFromSettings(settingsText, 'settings.json'), {
       greenhouse: { host: 'db.example', port: 5433, database: 'harvest', user: 'grower', sslmode: 'verify-full' },
     });
-    const plain = JSON.parse(jsonWithCommentsToJson(settingsText)) as Record<string, Record<string, unknown>>;
+    const plain = parseSettingsText(settingsText, 's.json') as Record<string, Record<string, unknown>>;
     assert.deepEqual(plain['files.exclude'], { '**/*.tmp': true, 'a,}': 'b // not a comment' });
-    assert.equal(JSON.parse(jsonWithCommentsToJson('\ufeff["a\\"//", 1,]')).join('|'), 'a"//|1');
+    assert.equal((parseSettingsText('\ufeff["a\\"//", 1,]', 's.json') as string[]).join('|'), 'a"//|1');
   });
 
   it('a file without the setting, or an empty file, gives undefined', () => {
@@ -40,7 +40,10 @@ describe('connections from .vscode/settings.json', () => {
       }
       assert.fail(`accepted: ${text}`);
     };
-    assert.match(refusal('{ "countercheck.connections": { "a": 1 '), /^\/w\/\.vscode\/settings\.json: not valid JSON/);
+    assert.match(refusal('{ "countercheck.connections": { "a": 1 '), /^\/w\/\.vscode\/settings\.json:1:40: not valid JSON \(with comments\): expected `,` or `\}`, found the end of the file/);
+    // A line and column, not an offset into the file.
+    assert.match(refusal('{\n  // proxy\n  "http.proxy": "x",\n  "countercheck.connections": {\n    "greenhouse": { "host": "db" }\n    "bakery": {}\n  }\n}'), /settings\.json:6:5: not valid JSON \(with comments\): expected `,` or `\}`, found `"bakery"`/);
+    assert.match(refusal('{ "a": /* open'), /settings\.json:1:8: not valid JSON \(with comments\): unterminated comment/);
     assert.match(refusal('[1, 2]'), /expected an object of settings/);
     assert.match(refusal('{ "countercheck.connections": ["greenhouse"] }'), /must be an object of named connections/);
     assert.match(refusal('{ "countercheck.connections": { "greenhouse": "postgres://x" } }'), /"greenhouse" must be an object \(host, port/);

@@ -1,0 +1,572 @@
+/**
+ * The planner: from what a source offers to a saved test. It infers what can be inferred (the shape of the
+ * table, a weight column, the columns that fit), proposes the procedures that fit, asks the rest through the
+ * injected `Questions`, refuses misread shapes in words, and returns the spec that `runSpec` runs. Pure: the
+ * host renders the questions and runs the spec; nothing here shows, reads files or runs a test.
+ */
+import * as path from 'node:path';
+import { aggregateRecords } from '../data/aggregate';
+import type { Records } from '../data/records';
+import type { AggregateRequest, CategoryCounts, CountTable } from '../data/types';
+import { InputError } from '../errors';
+import { askField, parseNumberList } from './ask';
+import type { Offer } from './offer';
+import { describeColumn, inferShape, isCategorical, isMeasurement, profileColumns, type ColumnProfile, type Shape } from './profile';
+import type { Choice, Questions } from './questions';
+import { PROCEDURES, procedureFor, type DataShape } from '../spec/procedures/index';
+
+/** Answers given beforehand (keybindings, tests) or remembered from the last run on the same source. */
+export interface Answers {
+  readonly test?: string;
+  readonly columns?: readonly string[];
+  /** A frequency-weight column; null: count each record once even when a count column was found. */
+  readonly weight?: string | null;
+  /** Goodness of fit: 'equal' or one number per category. */
+  readonly proportions?: 'equal' | readonly number[];
+  /** Any other field of the saved test (sigma0, alternative, family, method…). */
+  readonly [field: string]: unknown;
+}
+
+export interface PlanSettings {
+  readonly alpha: number;
+  /** Yates' correction by default on 2×2 tables. */
+  readonly correction: boolean;
+  readonly missingValues: readonly string[];
+  readonly monteCarloResamples: number;
+}
+
+export interface PlanRequest {
+  readonly offer: Offer;
+  readonly questions: Questions;
+  readonly settings: PlanSettings;
+  readonly given?: Answers;
+  readonly remembered?: Answers;
+  /** Folder the saved test would live in: a file source's path is written relative to it. */
+  readonly specFolder: string;
+}
+
+export interface Plan {
+  readonly spec: Readonly<Record<string, unknown>>;
+  readonly test: string;
+  /** "Independence of two categorical columns — demo/data/bakery.csv". */
+  readonly title: string;
+  /** What was asked or given, to remember for the next run on this source. */
+  readonly answers: Answers;
+  /** What was inferred and why ("`riders` is used as the frequency weight: …"), for the output log. */
+  readonly notes: readonly string[];
+}
+
+/** A column as the planner sees it, from a file's records or a database catalogue. */
+interface ColumnInfo {
+  readonly name: string;
+  readonly categorical: boolean;
+  readonly measurement: boolean;
+  readonly detail: string;
+  readonly description: string;
+  readonly profile?: ColumnProfile;
+}
+
+/** The data, once its shape is known. */
+type View =
+  | { readonly form: 'table'; readonly table: CountTable; readonly fromFile?: boolean }
+  | { readonly form: 'categories'; readonly counts: CategoryCounts; readonly expectation?: Readonly<Record<string, unknown>>; readonly labelColumn?: string; readonly countColumn?: string }
+  | { readonly form: 'values'; readonly values: readonly number[] }
+  | { readonly form: 'columns'; readonly columns: readonly ColumnInfo[]; readonly shape: Shape; readonly records?: Records }
+  | { readonly form: 'nothing' };
+
+type Role = { readonly name: string; readonly kind: 'categorical' | 'measurement' };
+
+/** One line of the "Which test?" list. */
+interface Proposal {
+  readonly test: string;
+  readonly label: string;
+  readonly detail: string;
+  /** Fields the choice sets (a p-value method). */
+  readonly preset?: Readonly<Record<string, unknown>>;
+  /** Columns to choose, for data given as columns. */
+  readonly roles?: readonly Role[];
+  /** The procedure needs no data (power, the distribution). */
+  readonly anything?: boolean;
+}
+
+/** Which shapes a view offers: a procedure is proposed when it accepts one of them. */
+function shapesOf(view: View): DataShape[] {
+  switch (view.form) {
+    case 'table':
+      return view.table.rowLabels.length === view.table.columnLabels.length ? ['counted-table', 'square-table', 'anything'] : ['counted-table', 'anything'];
+    case 'categories':
+      return ['category-counts', 'anything'];
+    case 'values':
+      return ['values', 'anything'];
+    case 'columns':
+      return ['categorical-columns', 'numeric-column', 'anything'];
+    case 'nothing':
+      return ['anything'];
+  }
+}
+
+/** The procedures that fit the view, from each procedure's own planning declaration, in registry order of data first. */
+function proposalsFor(view: View, offer: Offer, settings: PlanSettings): Proposal[] {
+  const shapes = shapesOf(view);
+  const categorical = view.form === 'columns' ? view.columns.filter((c) => c.categorical).length : 0;
+  const measurement = view.form === 'columns' ? view.columns.filter((c) => c.measurement).length : 0;
+  const list: Proposal[] = [];
+  for (const handler of PROCEDURES) {
+    const planning = handler.planning;
+    if (!planning) continue;
+    const accepted = planning.accepts.filter((a) => shapes.includes(a));
+    if (accepted.length === 0) continue;
+    const shape = accepted[0];
+    let roles: Role[] | undefined;
+    if (view.form === 'columns' && shape === 'categorical-columns') {
+      const names = planning.roles ?? [];
+      // Counts written inline (a procedure without a `source` field) cannot come from a database.
+      if (names.length > categorical || (!handler.fields.source && offer.kind === 'catalogue')) continue;
+      roles = names.map((name) => ({ name, kind: 'categorical' }));
+    } else if (view.form === 'columns' && shape === 'numeric-column') {
+      if (measurement === 0) continue;
+      roles = [{ name: 'the column', kind: 'measurement' }];
+    }
+    const base = { test: handler.test, roles, anything: shape === 'anything' };
+    list.push({ ...base, label: planning.label, detail: planning.detail });
+    for (const v of planning.variants ?? []) {
+      const preset = v.preset.method === 'monte-carlo' ? { ...v.preset, resamples: settings.monteCarloResamples } : v.preset;
+      list.push({ ...base, label: v.label, detail: v.detail, preset });
+    }
+  }
+  // Procedures on the data first; those that need none (power, the distribution) last.
+  return [...list.filter((p) => !p.anything), ...list.filter((p) => p.anything)];
+}
+
+function relativePath(specFolder: string, file: string): string {
+  return path.relative(specFolder, file).split(path.sep).join('/');
+}
+
+function columnInfo(p: ColumnProfile, weight: string | undefined): ColumnInfo {
+  return {
+    name: p.name,
+    categorical: isCategorical(p) && p.name !== weight,
+    measurement: isMeasurement(p),
+    description: p.stray ? 'numbers, with stray cells' : p.numeric ? 'numbers' : 'categories',
+    detail: p.name === weight ? `frequency weight: ${describeColumn(p)}` : describeColumn(p),
+    profile: p,
+  };
+}
+
+/** The offer read into a view: its shape inferred, with notes saying what was inferred and why. */
+function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): View {
+  switch (offer.kind) {
+    case 'nothing':
+      return { form: 'nothing' };
+    case 'counted': {
+      const d = offer.data;
+      if (d.kind === 'table') return { form: 'table', table: d.table };
+      if (d.kind === 'values') return { form: 'values', values: d.values };
+      const expectation = d.proportions ? { proportions: d.proportions } : d.ratios ? { ratios: d.ratios } : d.expected ? { expected: d.expected } : undefined;
+      return { form: 'categories', counts: d.counts, expectation };
+    }
+    case 'catalogue':
+      return {
+        form: 'columns',
+        shape: { kind: 'raw' },
+        columns: offer.columns.map((c) => ({ name: c.name, categorical: true, measurement: c.numeric, description: c.type, detail: c.numeric ? 'numbers (server type)' : 'categories (server type)' })),
+      };
+    case 'records': {
+      const records = offer.records;
+      const profiles = profileColumns(records, settings.missingValues);
+      const shape = inferShape(records, profiles);
+      if (shape.kind !== 'raw') notes.push(shape.reason);
+      if (shape.kind === 'counted-table') {
+        const aggregate = aggregateRecords(records, { kind: 'counted-table' }, { description: offer.description });
+        if (aggregate.kind === 'table') return { form: 'table', table: aggregate.table, fromFile: offer.file !== undefined };
+      }
+      if (shape.kind === 'category-counts') {
+        const aggregate = aggregateRecords(records, { kind: 'categories', column: shape.labelColumn, weight: shape.countColumn }, { description: offer.description });
+        if (aggregate.kind === 'categories') return { form: 'categories', counts: aggregate.counts, labelColumn: shape.labelColumn, countColumn: shape.countColumn };
+      }
+      const weight = shape.kind === 'long-counts' ? shape.weightColumn : undefined;
+      return { form: 'columns', shape, records, columns: profiles.map((p) => columnInfo(p, weight)) };
+    }
+  }
+}
+
+const sum = (xs: readonly number[]): number => xs.reduce((a, b) => a + b, 0);
+
+/** Plans one saved test for the offer: proposes, asks, checks, builds. */
+export async function plan(request: PlanRequest): Promise<Plan> {
+  const { offer, questions, settings } = request;
+  const given = request.given ?? {};
+  const remembered = request.remembered ?? {};
+  const notes: string[] = [];
+  let view = viewOf(offer, settings, notes);
+  if ((view.form === 'table' || view.form === 'categories') && offer.kind === 'records' && offer.file && !offer.file.complete) {
+    // Counted data seen only in part: count the whole file, never the preview.
+    view = viewOf({ ...offer, records: await allRecords(offer), file: { ...offer.file, complete: true } }, settings, []);
+  }
+  const proposals = proposalsFor(view, offer, settings);
+  const proposal = await chooseProposal(proposals, given, remembered, questions, view);
+  const test = proposal.test;
+  const answers: Record<string, unknown> = { ...given, test };
+  const remember = remembered.test === test ? remembered : {};
+  const fields: Record<string, unknown> = { version: 1, test };
+  if (test !== 'distribution' && test !== 'power') fields.alpha = settings.alpha;
+  Object.assign(fields, proposal.preset);
+  if (proposal.preset?.method !== undefined) answers.method = proposal.preset.method;
+  for (const k of Object.keys(proposal.preset ?? {})) if (given[k] !== undefined) fields[k] = given[k];
+
+  // The data part of the spec.
+  let data: DataFacts;
+  if (view.form === 'columns') {
+    data = await columnsData(request, view, proposal, answers, remember, notes);
+  } else {
+    data = viewData(view, test);
+    const file = offer.kind === 'records' ? offer.file : undefined;
+    if (file && view.form === 'table' && (test === 'independence' || test === 'post-hoc')) {
+      // A counted table in a file: the saved test reads the file, so a re-run sees its changes.
+      data = { ...data, fields: { source: { path: relativePath(request.specFolder, file.path) } } };
+    } else if (file && view.form === 'categories' && test === 'goodness-of-fit' && view.labelColumn && view.countColumn) {
+      data = { ...data, fields: { source: { path: relativePath(request.specFolder, file.path), columns: [view.labelColumn], weight: view.countColumn } } };
+    }
+  }
+  Object.assign(fields, data.fields);
+
+  // The options each procedure needs, asked in the terms of its field table.
+  await askOptions(test, fields, data, answers, given, remember, questions, settings);
+  const label = proposal.label;
+  return { spec: fields, test, title: `${label} — ${offer.description}`, answers, notes };
+}
+
+async function chooseProposal(proposals: readonly Proposal[], given: Answers, remembered: Answers, questions: Questions, view: View): Promise<Proposal> {
+  if (given.test !== undefined) {
+    const method = typeof given.method === 'string' ? given.method : undefined;
+    const match = proposals.find((p) => p.test === given.test && (p.preset?.method ?? undefined) === method) ?? proposals.find((p) => p.test === given.test && !p.preset);
+    if (!match) {
+      const fits = [...new Set(proposals.map((p) => p.test))].join(', ');
+      throw new InputError(`"${given.test}" does not fit this data (${describeView(view)}); what fits: ${fits}`, {}, 'test-does-not-fit');
+    }
+    return match;
+  }
+  const choices: Choice<Proposal>[] = proposals.map((p) => ({ label: p.label, detail: p.detail, value: p }));
+  return questions.choose({
+    title: 'Which test?',
+    placeholder: `Countercheck inferred these from the data (${describeView(view)})`,
+    choices,
+    remembered: (p) => p.test === remembered.test && !p.preset === (remembered.method === undefined),
+  });
+}
+
+function describeView(view: View): string {
+  switch (view.form) {
+    case 'table':
+      return `a ${view.table.rowLabels.length}×${view.table.columnLabels.length} table of counts, N = ${sum(view.table.counts.map((r) => sum(r))).toLocaleString('en-US')}`;
+    case 'categories':
+      return `${view.counts.labels.length} category counts, N = ${sum(view.counts.counts).toLocaleString('en-US')}`;
+    case 'values':
+      return `${view.values.length} values`;
+    case 'columns':
+      return `${view.columns.length} columns${view.shape.kind === 'long-counts' ? `, weighted by \`${view.shape.weightColumn}\`` : ''}`;
+    case 'nothing':
+      return 'no data';
+  }
+}
+
+/** What the planner knows about the data a test will see, for defaults of its options. */
+interface DataFacts {
+  readonly fields: Record<string, unknown>;
+  /** Levels of a goodness-of-fit variable, when known. */
+  readonly levels?: readonly string[];
+  /** The table's size, when known. */
+  readonly rows?: number;
+  readonly columns?: number;
+  readonly n?: number;
+  /** The expectation is part of the data already (a JSON block with proportions). */
+  readonly hasExpectation?: boolean;
+  /** Variable name for prompts ("σ0 in the units of `weight_g`"). */
+  readonly variable?: string;
+}
+
+/** Data already counted, or values: inline fields for the test. */
+function viewData(view: View, test: string): DataFacts {
+  switch (view.form) {
+    case 'table': {
+      const t = view.table;
+      const n = sum(t.counts.map((r) => sum(r)));
+      const facts = { rows: t.rowLabels.length, columns: t.columnLabels.length, n };
+      if (test === 'power' || test === 'distribution') return { fields: {}, ...facts };
+      return { fields: { table: t.counts, rowLabels: t.rowLabels, columnLabels: t.columnLabels }, ...facts };
+    }
+    case 'categories': {
+      const n = sum(view.counts.counts);
+      if (test === 'power' || test === 'distribution') return { fields: {}, levels: view.counts.labels, n };
+      return { fields: { observed: view.counts.counts, categories: view.counts.labels, ...view.expectation }, levels: view.counts.labels, n, hasExpectation: view.expectation !== undefined };
+    }
+    case 'values':
+      if (test === 'power' || test === 'distribution') return { fields: {}, n: view.values.length };
+      return { fields: { values: view.values }, n: view.values.length };
+    default:
+      return { fields: {} };
+  }
+}
+
+/** Columns chosen for the roles of the procedure, then the spec's data: a source (file, database) or inline counts. */
+async function columnsData(request: PlanRequest, view: Extract<View, { form: 'columns' }>, proposal: Proposal, answers: Record<string, unknown>, remembered: Answers, notes: string[]): Promise<DataFacts> {
+  const { offer, questions } = request;
+  const given = request.given ?? {};
+  const roles = proposal.roles ?? [];
+  if (roles.length === 0) return { fields: {} };
+  const columns = given.columns ? [...given.columns] : await chooseColumns(questions, view.columns, roles, proposal.label, remembered.columns);
+  if (columns.length !== roles.length) throw new InputError(`${proposal.test} needs ${roles.length} column${roles.length === 1 ? '' : 's'} (${roles.map((r) => r.name).join(', ')}); found ${columns.length}`, {}, 'column-count');
+  // A database checks the names itself (and says which it has); records are checked here.
+  for (const c of offer.kind === 'catalogue' ? [] : columns) {
+    if (!view.columns.some((x) => x.name === c)) {
+      const records = view.records;
+      throw new InputError(`column "${c}" not found; the columns are ${view.columns.map((x) => x.name).join(', ')}`, { file: records?.file, line: records?.lines[0] ? records.lines[0] - 1 : 1, column: c }, 'unknown-column');
+    }
+  }
+  answers.columns = columns;
+  const shape = view.shape;
+  let weight = given.weight === null ? undefined : (given.weight ?? (shape.kind === 'long-counts' ? shape.weightColumn : undefined));
+  const measured = roles.some((r) => r.kind === 'measurement');
+  if (measured || (weight !== undefined && columns.includes(weight))) weight = undefined;
+  if (weight !== undefined && shape.kind === 'long-counts' && weight === shape.weightColumn) notes.push(`\`${weight}\` is the frequency weight: ${shape.reason}`);
+  await checkCategoryColumns(view, roles, columns, weight, questions);
+  if (view.records && !measured) checkNotOnePerRow(view.records, columns, weight, proposal.test, view.columns, offer.description);
+
+  const source = offer.kind === 'records' && offer.file ? { path: relativePath(request.specFolder, offer.file.path) } : offer.kind === 'catalogue' ? { sql: offer.sql } : undefined;
+  const decimal = columns.map((c) => view.columns.find((x) => x.name === c)?.profile?.decimal).find((d) => d === ',');
+  const hasSourceField = ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'paired', 'trend', 'post-hoc'].includes(proposal.test);
+  const facts: { variable?: string } = { variable: columns[0] };
+  const levelsOf = (c: string): string[] | undefined => view.columns.find((x) => x.name === c)?.profile?.levels.map((l) => l.label);
+
+  if (proposal.test === 'trend') {
+    const givenOrder = (key: 'rowLabels' | 'columnLabels') => (Array.isArray(given[key]) ? (given[key] as string[]) : undefined);
+    const outcome = givenOrder('rowLabels') ?? (await askOrder(questions, levelsOf(columns[0]), `Outcome levels of \`${columns[0]}\`, the event first`, remembered.rowLabels));
+    const groups = givenOrder('columnLabels') ?? (await askOrder(questions, levelsOf(columns[1]), `Order of the groups of \`${columns[1]}\``, remembered.columnLabels));
+    answers.rowLabels = outcome;
+    answers.columnLabels = groups;
+    if (source && hasSourceField) return { fields: { source: { ...source, columns, ...(weight ? { weight } : {}) }, ...(outcome ? { rowLabels: outcome } : {}), ...(groups ? { columnLabels: groups } : {}) }, ...facts };
+    const records = await allRecords(offer);
+    const table = aggregateRecords(records, { kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight }, { description: offer.description, categories: { rowLevels: outcome, columnLevels: groups } });
+    if (table.kind !== 'table') throw new Error('expected a table');
+    return { fields: { table: table.table.counts, rowLabels: table.table.rowLabels, columnLabels: table.table.columnLabels }, ...facts };
+  }
+  if (source && hasSourceField) {
+    return {
+      fields: { source: { ...source, columns, ...(weight ? { weight } : {}), ...(decimal ? { decimal } : {}), ...(offer.kind === 'catalogue' && given.where ? { where: given.where } : {}) } },
+      levels: proposal.test === 'goodness-of-fit' && offer.kind === 'records' && offer.file?.complete ? levelsOf(columns[0]) : undefined,
+      rows: levelsOf(columns[0])?.length,
+      columns: columns[1] ? levelsOf(columns[1])?.length : undefined,
+      ...facts,
+    };
+  }
+  if (offer.kind === 'catalogue') throw new InputError(`${proposal.label} needs the counts in the saved test; it is not available on a database source`, {}, 'not-on-database');
+  const records = await allRecords(offer);
+  return { ...inlineFromRecords(records, proposal.test, columns, weight, offer.description), ...facts };
+}
+
+async function allRecords(offer: Offer): Promise<Records> {
+  if (offer.kind !== 'records') throw new Error('records expected');
+  if (!offer.file || offer.file.complete) return offer.records;
+  if (!offer.file.readAll) throw new InputError(`${offer.description} is larger than the preview, and this place cannot read it whole`, { file: offer.file.path }, 'file-too-large');
+  return offer.file.readAll();
+}
+
+/** Counts from records held in memory, written inline into the spec. */
+function inlineFromRecords(records: Records, test: string, columns: readonly string[], weight: string | undefined, description: string): DataFacts {
+  const read = (req: AggregateRequest, levels?: { rowLevels?: readonly string[]; columnLevels?: readonly string[] }) =>
+    aggregateRecords(records, req, { description, keepValues: true, ...(levels ? { categories: levels } : {}) });
+  switch (test) {
+    case 'goodness-of-fit': {
+      const a = read({ kind: 'categories', column: columns[0], weight });
+      if (a.kind !== 'categories') break;
+      return { fields: { observed: a.counts.counts, categories: a.counts.labels, variable: columns[0] }, levels: a.counts.labels, n: sum(a.counts.counts) };
+    }
+    case 'variance':
+    case 'distribution-fit': {
+      const a = read({ kind: 'numeric', column: columns[0] });
+      if (a.kind !== 'moments' || !a.values) break;
+      return { fields: { values: a.values, ...(test === 'variance' ? { variable: columns[0] } : {}) }, n: a.values.length };
+    }
+    case 'paired': {
+      const a = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight });
+      if (a.kind !== 'table') break;
+      const labels = [...a.table.rowLabels, ...a.table.columnLabels.filter((l) => !a.table.rowLabels.includes(l))];
+      const square = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight }, { rowLevels: labels, columnLevels: labels });
+      if (square.kind !== 'table') break;
+      return { fields: { table: square.table.counts, rowLabels: square.table.rowLabels, columnLabels: square.table.columnLabels } };
+    }
+    case 'stratified': {
+      const [stratum, row, column] = columns;
+      const all = read({ kind: 'crosstab', rowColumn: row, columnColumn: column, weight });
+      const strata = read({ kind: 'categories', column: stratum });
+      if (all.kind !== 'table' || strata.kind !== 'categories') break;
+      const j = records.columns.indexOf(stratum);
+      const tables = strata.counts.labels.map((level) => {
+        const subset: Records = { ...records, rows: records.rows.filter((r) => (r[j] ?? '').trim() === level), lines: records.lines.filter((_, i) => (records.rows[i][j] ?? '').trim() === level) };
+        const t = aggregateRecords(subset, { kind: 'crosstab', rowColumn: row, columnColumn: column, weight }, { description, categories: { rowLevels: all.table.rowLabels, columnLevels: all.table.columnLabels } });
+        return t.kind === 'table' ? t.table.counts : [];
+      });
+      return { fields: { strata: tables, stratumLabels: strata.counts.labels, rowLabels: all.table.rowLabels, columnLabels: all.table.columnLabels, rowVariable: row, columnVariable: column } };
+    }
+    default: {
+      const a = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight });
+      if (a.kind !== 'table') break;
+      const t = a.table;
+      const extra = test === 'independence' ? { rowVariable: columns[0], columnVariable: columns[1] } : {};
+      return { fields: { table: t.counts, rowLabels: t.rowLabels, columnLabels: t.columnLabels, ...extra }, rows: t.rowLabels.length, columns: t.columnLabels.length, n: sum(t.counts.map((r) => sum(r))) };
+    }
+  }
+  throw new Error(`records did not aggregate for ${test}`);
+}
+
+async function chooseColumns(questions: Questions, columns: readonly ColumnInfo[], roles: readonly Role[], title: string, remembered: readonly string[] | undefined): Promise<string[]> {
+  const chosen: string[] = [];
+  for (const [k, role] of roles.entries()) {
+    const eligible = columns.filter((c) => !chosen.includes(c.name) && (role.kind === 'measurement' ? c.measurement : c.categorical));
+    if (eligible.length === 0) throw new InputError(`found no column left for ${role.name}: expected ${role.kind === 'measurement' ? 'a numeric column' : 'a categorical column'}`, {}, 'nothing-to-test');
+    const name = await questions.choose({
+      title,
+      placeholder: `Choose ${role.name}`,
+      choices: eligible.map((c) => ({ label: c.name, description: c.description, detail: c.detail, value: c.name })),
+      remembered: (v) => v === remembered?.[k],
+    });
+    chosen.push(name);
+  }
+  return chosen;
+}
+
+/** Level order for a trend test: as first seen, sorted, or reversed; asked only when there is more than one order. */
+async function askOrder(questions: Questions, levels: readonly string[] | undefined, title: string, remembered: unknown): Promise<string[] | undefined> {
+  if (!levels || levels.length < 2) return undefined;
+  const seen = [...levels];
+  const numeric = seen.every((l) => Number.isFinite(Number(l)));
+  const sorted = [...seen].sort(numeric ? (a, b) => Number(a) - Number(b) : undefined);
+  const orders = [seen, sorted, [...sorted].reverse()].filter((o, i, all) => all.findIndex((x) => x.join('\u0000') === o.join('\u0000')) === i);
+  if (orders.length === 1) return orders[0];
+  return questions.choose({
+    title,
+    placeholder: 'The order matters for a trend test',
+    choices: orders.map((o) => ({ label: o.join(' < '), value: o })),
+    remembered: (o) => Array.isArray(remembered) && o.join('\u0000') === remembered.join('\u0000'),
+  });
+}
+
+/** A categorical role given a column of measurements, or a count column, is refused or confirmed in words. */
+async function checkCategoryColumns(view: Extract<View, { form: 'columns' }>, roles: readonly Role[], columns: readonly string[], weight: string | undefined, questions: Questions): Promise<void> {
+  for (const [k, role] of roles.entries()) {
+    if (role.kind !== 'categorical') continue;
+    const info = view.columns.find((c) => c.name === columns[k]);
+    const p = info?.profile;
+    if (!p) continue;
+    if (p.numeric && p.levels.length > 12) {
+      throw new InputError(
+        `column \`${p.name}\` holds numbers with ${p.levels.length} different values; as a category each value would be a level of its own. Choose a categorical column for ${role.name}, or test the numbers themselves (variance, distribution fit)`,
+        { column: p.name },
+        'numeric-as-category',
+      );
+    }
+    // Small whole numbers repeated across rows are coded categories (a dose 1, 2, 3); the column the shape
+    // took for the frequency weight is not, and saying so is worth a question.
+    const looksLikeCounts = view.shape.kind === 'long-counts' && view.shape.weightColumn === p.name;
+    if (looksLikeCounts && weight === undefined) {
+      const go = await questions.confirm({
+        title: 'A numeric column as a category',
+        message: `\`${p.name}\` holds whole numbers (total ${p.total.toLocaleString('en-US')} over ${p.present} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?`,
+        accept: 'Use as a category',
+      });
+      if (!go) throw new InputError(`stopped: \`${p.name}\` looks like a count column, not a category`, { column: p.name }, 'numeric-as-category');
+    }
+  }
+}
+
+/**
+ * Refuses the misread that gives N = number of rows with every cell 1: each row was counted once, so the rows
+ * were already counts (or labels), and any test on that table would be meaningless.
+ */
+function checkNotOnePerRow(records: Records, columns: readonly string[], weight: string | undefined, test: string, infos: readonly ColumnInfo[], description: string): void {
+  if (weight !== undefined || records.rows.length < 2) return;
+  const request: AggregateRequest = columns.length === 1 ? { kind: 'categories', column: columns[0] } : { kind: 'crosstab', rowColumn: columns[columns.length - 2], columnColumn: columns[columns.length - 1] };
+  const a = aggregateRecords(records, request, { description });
+  const cells = a.kind === 'table' ? a.table.counts.flat() : a.kind === 'categories' ? [...a.counts.counts] : [];
+  const n = sum(cells);
+  if (n !== records.rows.length || !cells.every((c) => c === 0 || c === 1)) return;
+  const counts = infos.filter((c) => c.profile?.counts && !columns.includes(c.name)).map((c) => `\`${c.name}\``);
+  const hint = counts.length ? ` If ${counts.join(' or ')} holds how many times each row occurred, use it as the weight.` : ' Choose columns whose values repeat across rows, or give the counts as a table.';
+  throw new InputError(
+    `${test}: every row of ${description} would count once and every cell would be 1 (N = ${n}, the number of rows): the chosen columns label rows rather than classify observations, and the result would be meaningless.${hint}`,
+    { file: records.file },
+    'one-per-row',
+  );
+}
+
+/**
+ * Options each procedure needs: fixed by the data where it can be (df of a table, n), then the questions its
+ * planning declaration lists, asked through its field table unless given. Goodness of fit asks for its expected
+ * proportions with the levels in view; independence takes the Yates default from the settings.
+ */
+async function askOptions(test: string, fields: Record<string, unknown>, data: DataFacts, answers: Record<string, unknown>, given: Answers, remembered: Answers, questions: Questions, settings: PlanSettings): Promise<void> {
+  if (test === 'independence') {
+    const twoByTwo = data.rows === 2 && data.columns === 2;
+    if (given.correction !== undefined) fields.correction = given.correction;
+    else if (settings.correction && twoByTwo && fields.method === undefined) fields.correction = true;
+  }
+  if (test === 'goodness-of-fit' && !data.hasExpectation) {
+    const proportions = given.proportions ?? (await askProportions(questions, data.levels, remembered.proportions));
+    answers.proportions = proportions;
+    if (Array.isArray(proportions)) fields.proportions = proportions;
+  }
+  if (test === 'power' || test === 'distribution') {
+    // What the data fixes: the df of its table or categories, its size, and which test the power is for.
+    const df = data.levels ? data.levels.length - 1 : data.rows && data.columns ? (data.rows - 1) * (data.columns - 1) : undefined;
+    if (df !== undefined && given.df === undefined) fields.df = df;
+    if (test === 'power') {
+      const target = data.levels ? 'goodness-of-fit' : data.rows ? 'independence' : data.n !== undefined ? 'variance' : undefined;
+      if (target && given.target === undefined) fields.target = target;
+      if (data.n !== undefined && given.n === undefined && given.power === undefined) fields.n = data.n;
+    }
+  }
+  for (const [k, v] of Object.entries(given)) if (!NOT_FIELDS.includes(k) && v !== undefined) fields[k] = v;
+  for (const q of procedureFor(test)?.planning?.questions ?? []) {
+    if (fields[q.field] !== undefined || (q.when && !q.when(fields))) continue;
+    const all = procedureFor(test)?.planning?.questions ?? [];
+    const rival = q.orElse !== undefined && fields[q.orElse] === undefined ? all.find((r) => r.field === q.orElse) : undefined;
+    if (rival) {
+      // Two fields that exclude each other (n or power, x or p): which one first.
+      const which = await questions.choose({ title: 'What to give', placeholder: `${q.title}, or ${rival.title.toLowerCase()}?`, choices: [q, rival].map((x) => ({ label: x.title, value: x })), remembered: (x) => remembered[x.field] !== undefined });
+      fields[which.field] = answers[which.field] = await askField(questions, test, which.field, which.title, { remembered: remembered[which.field], choiceLabels: which.choiceLabels });
+      continue;
+    }
+    const extraPrompt = q.field === 'sigma0' && data.variable ? `(in the units of "${data.variable}")` : undefined;
+    fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field], choiceLabels: q.choiceLabels, extraPrompt });
+  }
+}
+
+/** Answers that are not fields of the saved test. */
+const NOT_FIELDS = ['test', 'columns', 'weight', 'proportions', 'where'];
+
+async function askProportions(questions: Questions, levels: readonly string[] | undefined, remembered: unknown): Promise<'equal' | number[]> {
+  const k = levels?.length;
+  const choice = await questions.choose<'equal' | 'enter'>({
+    title: 'Expected distribution',
+    placeholder: 'What does the null hypothesis expect?',
+    choices: [
+      { label: 'Equal proportions', detail: k ? `Every level is expected equally often (${k} levels)` : 'Every level is expected equally often', value: 'equal' },
+      { label: 'Enter proportions or ratios…', detail: levels ? `One number per level, in order: ${levels.join(', ')}` : 'One number per level, in the order the levels first appear', value: 'enter' },
+    ],
+    remembered: (v) => (remembered === 'equal' ? v === 'equal' : Array.isArray(remembered) ? v === 'enter' : false),
+  });
+  if (choice === 'equal') return 'equal';
+  const text = await questions.enter({
+    title: 'Expected proportions',
+    prompt: levels ? `${levels.length} numbers separated by commas, for ${levels.join(', ')} (ratios such as 9:3:3:1 also work)` : 'Numbers separated by commas, one per level (ratios such as 9:3:3:1 also work)',
+    value: Array.isArray(remembered) ? remembered.join(', ') : undefined,
+    validate: (v) => {
+      const parts = parseNumberList(v);
+      if (k !== undefined && parts.length !== k) return `Expected ${k} numbers, found ${parts.length}`;
+      if (parts.length < 2) return 'Expected at least 2 numbers';
+      if (parts.some((n) => !Number.isFinite(n) || n < 0)) return 'Every number must be ≥ 0';
+      return undefined;
+    },
+  });
+  return parseNumberList(text);
+}

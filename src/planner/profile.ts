@@ -1,0 +1,171 @@
+/**
+ * Shape inference on the first records of a table: which columns hold numbers (with signs, digit grouping,
+ * either decimal mark, or a percent sign), which hold whole counts, which hold categories, and whether the
+ * table is already counted (a counted r×c table, category counts, or long counts with a weight column).
+ * Pure: records in, profiles and a shape with its reason out.
+ */
+import { parseMeasurement } from '../data/numbers';
+import type { DecimalMark } from '../data/options';
+import type { Records } from '../data/records';
+
+
+/** Cells of an otherwise numeric column that are not numbers. */
+export interface StrayCells {
+  readonly count: number;
+  /** 1-based line (or record position) of the first one, and its text. */
+  readonly firstLine: number;
+  readonly firstText: string;
+}
+
+export interface ColumnProfile {
+  readonly name: string;
+  /** Every present cell is a number. */
+  readonly numeric: boolean;
+  /** Every present cell is a whole number ≥ 0 (a count or a frequency weight). */
+  readonly counts: boolean;
+  /** The decimal mark the column's numbers are written with. */
+  readonly decimal: DecimalMark;
+  /** Some cells end in a percent sign. */
+  readonly percent: boolean;
+  /** Sum of the column when it holds counts. */
+  readonly total: number;
+  /** Level counts among the rows looked at, most frequent first. */
+  readonly levels: readonly { readonly label: string; readonly count: number }[];
+  readonly firstValues: readonly string[];
+  /** Present (non-missing) cells. */
+  readonly present: number;
+  /** Set when most cells are numbers but a few are not: the column is offered, with these named. */
+  readonly stray?: StrayCells;
+}
+
+/** A column counts as "numeric except a few cells" when at most this share of its cells are not numbers. */
+const STRAY_SHARE = 0.2;
+
+function numbersIn(values: readonly { text: string; line: number }[], decimal: DecimalMark): { parsed: number[]; bad: { text: string; line: number }[] } {
+  const parsed: number[] = [];
+  const bad: { text: string; line: number }[] = [];
+  for (const v of values) {
+    const x = parseMeasurement(v.text, decimal);
+    if (Number.isNaN(x)) bad.push(v);
+    else parsed.push(x);
+  }
+  return { parsed, bad };
+}
+
+export function profileColumns(records: Records, missing: readonly string[]): ColumnProfile[] {
+  const missingSet = new Set(missing);
+  const preferred: DecimalMark = records.dialect?.decimal ?? '.';
+  return records.columns.map((name, j) => {
+    const cells = records.rows
+      .map((r, i) => ({ text: (r[j] ?? '').trim(), line: records.lines[i] ?? i + 1 }))
+      .filter((c) => !missingSet.has(c.text));
+    const texts = cells.map((c) => c.text);
+    // The column's decimal mark: the dialect's, unless every cell reads only with the other one ("2,5" "3,75").
+    let decimal = preferred;
+    let read = numbersIn(cells, decimal);
+    const other: DecimalMark = preferred === '.' ? ',' : '.';
+    if (read.bad.length > 0) {
+      const alternative = numbersIn(cells, other);
+      if (alternative.bad.length < read.bad.length) {
+        decimal = other;
+        read = alternative;
+      }
+    }
+    const numeric = cells.length > 0 && read.bad.length === 0;
+    const counts = numeric && read.parsed.every((x) => Number.isInteger(x) && x >= 0) && !texts.some((t) => t.endsWith('%'));
+    const strayOk = !numeric && read.parsed.length >= 3 && read.bad.length <= STRAY_SHARE * cells.length;
+    const tally = new Map<string, number>();
+    for (const v of texts) tally.set(v, (tally.get(v) ?? 0) + 1);
+    const levels = [...tally.entries()].map(([label, count]) => ({ label, count })).sort((a, b) => b.count - a.count);
+    return {
+      name,
+      numeric,
+      counts,
+      decimal,
+      percent: texts.some((t) => t.endsWith('%')),
+      total: counts ? read.parsed.reduce((a, b) => a + b, 0) : 0,
+      levels,
+      firstValues: texts.slice(0, 6),
+      present: cells.length,
+      ...(strayOk ? { stray: { count: read.bad.length, firstLine: read.bad[0].line, firstText: read.bad[0].text } } : {}),
+    };
+  });
+}
+
+export type Shape =
+  /** First column row labels, two or more count columns: an r×c table of counts. */
+  | { readonly kind: 'counted-table'; readonly labelColumn: string; readonly countColumns: readonly string[]; readonly reason: string }
+  /** A label column and one count column: category counts. */
+  | { readonly kind: 'category-counts'; readonly labelColumn: string; readonly countColumn: string; readonly reason: string }
+  /** Categorical columns whose combinations each appear once, and a count column: each row stands for `weight` records. */
+  | { readonly kind: 'long-counts'; readonly categoryColumns: readonly string[]; readonly weightColumn: string; readonly reason: string }
+  /** Raw records: one row per observation. */
+  | { readonly kind: 'raw' };
+
+const grouped = (n: number): string => n.toLocaleString('en-US');
+
+export function inferShape(records: Records, profiles: readonly ColumnProfile[]): Shape {
+  if (profiles.length < 2 || records.rows.length === 0) return { kind: 'raw' };
+  const [first, ...rest] = profiles;
+  const labelsUnique = !first.numeric && first.levels.length > 0 && first.levels.every((l) => l.count === 1);
+  if (labelsUnique && rest.every((p) => p.counts) && records.rows.length <= 200) {
+    if (rest.length >= 2) {
+      return {
+        kind: 'counted-table',
+        labelColumn: first.name,
+        countColumns: rest.map((p) => p.name),
+        reason: `every row label of \`${first.name}\` appears once and the other columns hold whole numbers, so the table is already counted`,
+      };
+    }
+    return {
+      kind: 'category-counts',
+      labelColumn: first.name,
+      countColumn: rest[0].name,
+      reason: `every label of \`${first.name}\` appears once and \`${rest[0].name}\` holds whole numbers (total ${grouped(rest[0].total)} over ${records.rows.length} rows), so each row is a category with its count`,
+    };
+  }
+  return longCounts(records, profiles) ?? { kind: 'raw' };
+}
+
+/** Long counts: the categorical columns' combinations are all different and one column holds counts summing to more than the rows. */
+function longCounts(records: Records, profiles: readonly ColumnProfile[]): Shape | undefined {
+  const categorical = profiles.filter((p) => !p.numeric && !p.stray);
+  const countColumns = profiles.filter((p) => p.counts && p.total > records.rows.length);
+  if (categorical.length === 0 || countColumns.length !== 1) return undefined;
+  const index = categorical.map((p) => records.columns.indexOf(p.name));
+  const seen = new Set<string>();
+  for (const row of records.rows) {
+    const key = index.map((j) => row[j] ?? '').join('\u0000');
+    if (seen.has(key)) return undefined;
+    seen.add(key);
+  }
+  const weight = countColumns[0];
+  const names = categorical.map((p) => `\`${p.name}\``).join(' × ');
+  return {
+    kind: 'long-counts',
+    categoryColumns: categorical.map((p) => p.name),
+    weightColumn: weight.name,
+    reason: `each combination of ${names} appears once and \`${weight.name}\` holds whole numbers (total ${grouped(weight.total)} over ${records.rows.length} rows), so \`${weight.name}\` is used as the frequency weight: each row stands for that many records`,
+  };
+}
+
+/** Treated as categories: not numbers, or few distinct whole numbers (a coded category). */
+export function isCategorical(p: ColumnProfile): boolean {
+  return !p.numeric || p.levels.length <= 12;
+}
+
+/** Treated as measurements: numbers with many distinct values, or numbers with a few stray cells. */
+export function isMeasurement(p: ColumnProfile): boolean {
+  return (p.numeric && p.levels.length > 12) || p.stray !== undefined;
+}
+
+/** A line for a choice's detail: "12 levels: Oven A (40), Oven B (33), …", "numbers: 12.1, 12.4, …", with stray cells named. */
+export function describeColumn(p: ColumnProfile): string {
+  if (p.stray) {
+    const s = p.stray;
+    return `numbers, except ${s.count} cell${s.count === 1 ? '' : 's'} that ${s.count === 1 ? 'is' : 'are'} not (first on line ${s.firstLine}: "${s.firstText}"); running on it stops there`;
+  }
+  if (p.numeric && p.levels.length > 12) return `numbers: ${p.firstValues.join(', ')}${p.firstValues.length >= 6 ? ', …' : ''}`;
+  const shown = p.levels.slice(0, 5).map((l) => `${l.label || '(blank)'} (${l.count})`).join(', ');
+  return `${p.levels.length} level${p.levels.length === 1 ? '' : 's'}: ${shown}${p.levels.length > 5 ? ', …' : ''}`;
+}

@@ -1,0 +1,93 @@
+// Translatable strings. Runtime: every user-visible string in src/host goes through vscode.l10n.t, and
+// l10n/bundle.l10n.json lists exactly the messages the code passes to it (UPDATE_L10N=1 rewrites the bundle).
+// Contributions: every %key% in package.json has its English text in package.nls.json, and every entry is used.
+import { strict as assert } from 'node:assert';
+import { readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { join, relative } from 'node:path';
+import * as ts from 'typescript';
+
+const root = join(__dirname, '..', '..', '..');
+
+function tsFiles(dir: string): string[] {
+  return readdirSync(dir).flatMap((name) => {
+    const path = join(dir, name);
+    if (statSync(path).isDirectory()) return tsFiles(path);
+    return name.endsWith('.ts') ? [path] : [];
+  });
+}
+
+const sources = tsFiles(join(root, 'src', 'host')).map((file) => ts.createSourceFile(file, readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true));
+
+/** `vscode.l10n.t(…)`, or `t(…)` where the file binds `const t = vscode.l10n.t`. */
+function isL10nCall(node: ts.Node): node is ts.CallExpression {
+  if (!ts.isCallExpression(node)) return false;
+  const callee = node.expression.getText();
+  return callee === 'vscode.l10n.t' || (callee === 't' && /const t = vscode\.l10n\.t;/.test(node.getSourceFile().text));
+}
+
+function walk(node: ts.Node, visit: (n: ts.Node) => void): void {
+  visit(node);
+  ts.forEachChild(node, (child) => walk(child, visit));
+}
+
+/** Text a reader would see: letters outside `${…}` substitutions and `$(icon)` names. */
+function hasWords(literal: ts.Node): boolean {
+  let text = '';
+  if (ts.isStringLiteral(literal) || ts.isNoSubstitutionTemplateLiteral(literal)) text = literal.text;
+  else if (ts.isTemplateExpression(literal)) text = [literal.head.text, ...literal.templateSpans.map((s) => s.literal.text)].join(' ');
+  else return false;
+  return /\p{L}{2,}/u.test(text.replace(/\$\([a-z-~]+\)/g, ''));
+}
+
+const SHOWN_PROPERTIES = new Set(['title', 'placeHolder', 'prompt', 'label', 'detail', 'description', 'tooltip', 'validationMessage']);
+
+describe('translatable strings', () => {
+  it('every user-visible string literal in src/host goes through vscode.l10n.t', () => {
+    const bypassing: string[] = [];
+    for (const source of sources) {
+      walk(source, (node) => {
+        let shown: ts.Node | undefined;
+        if (ts.isCallExpression(node) && /\.show(Information|Warning|Error)Message$|\.setStatusBarMessage$/.test(node.expression.getText())) shown = node.arguments[0];
+        if (ts.isPropertyAssignment(node) && SHOWN_PROPERTIES.has(node.name.getText())) shown = node.initializer;
+        if (shown && hasWords(shown)) {
+          const { line } = source.getLineAndCharacterOfPosition(shown.getStart());
+          bypassing.push(`${relative(root, source.fileName)}:${line + 1}: ${shown.getText().slice(0, 80)}`);
+        }
+      });
+    }
+    assert.deepEqual(bypassing, []);
+  });
+
+  it('l10n/bundle.l10n.json holds exactly the messages passed to vscode.l10n.t', () => {
+    const messages = new Set<string>();
+    const dynamic: string[] = [];
+    for (const source of sources) {
+      walk(source, (node) => {
+        if (!isL10nCall(node)) return;
+        const first = node.arguments[0];
+        if (first && (ts.isStringLiteral(first) || ts.isNoSubstitutionTemplateLiteral(first))) messages.add(first.text);
+        else dynamic.push(`${relative(root, source.fileName)}: ${node.getText().slice(0, 60)}`);
+      });
+    }
+    assert.deepEqual(dynamic, [], 'a message must be a literal so it can be translated');
+    const bundle = Object.fromEntries([...messages].sort().map((m) => [m, m]));
+    const file = join(root, 'l10n', 'bundle.l10n.json');
+    if (process.env.UPDATE_L10N) writeFileSync(file, JSON.stringify(bundle, null, 2) + '\n');
+    assert.deepEqual(JSON.parse(readFileSync(file, 'utf8')), bundle, 'stale bundle: run UPDATE_L10N=1 npx mocha test/unit/host/l10n.test.ts');
+    assert.ok(messages.size > 50, `only ${messages.size} messages found`);
+  });
+
+  it('package.json takes its contributed strings from package.nls.json', () => {
+    const manifest = readFileSync(join(root, 'package.json'), 'utf8');
+    const nls = JSON.parse(readFileSync(join(root, 'package.nls.json'), 'utf8')) as Record<string, string>;
+    const used = new Set([...manifest.matchAll(/"%([^%"]+)%"/g)].map((m) => m[1]));
+    assert.deepEqual([...used].filter((k) => !(k in nls)), [], 'keys without text');
+    assert.deepEqual(Object.keys(nls).filter((k) => !used.has(k)), [], 'texts no contribution uses');
+    const pkg = JSON.parse(manifest);
+    for (const c of pkg.contributes.commands) assert.match(c.title, /^%command\.[A-Za-z]+\.title%$/, c.command);
+    for (const [name, setting] of Object.entries(pkg.contributes.configuration.properties) as [string, { description?: string; markdownDescription?: string; scope?: string }][]) {
+      assert.match(setting.description ?? setting.markdownDescription ?? '', /^%config\./, name);
+      assert.ok(setting.scope, `${name} has no scope`);
+    }
+  });
+});

@@ -1,0 +1,69 @@
+// Every procedure of the registry is offered and runs from a data file, from a selection and from the palette,
+// through the one planner, with a scripted stand-in for the editor's questions.
+import { strict as assert } from 'node:assert';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { offerFromText, type Offer } from '../../../src/planner/offer';
+import { plan } from '../../../src/planner/plan';
+import { PROCEDURES, TEST_NAMES } from '../../../src/spec/procedures/index';
+import { assertValidSpec } from '../../../src/spec/validate';
+import { ScriptedQuestions } from './fakeQuestions';
+import { demo, fileOffer, planAndRun, settings } from './helpers';
+
+/** The label to pick for each procedure, and the columns of the bakery defect log to use. */
+const SCRIPTS: Record<string, Record<string, string | boolean | readonly string[]>> = {
+  independence: { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'oven', 'Choose the columns': 'defect' },
+  'goodness-of-fit': { 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': 'oven', 'Expected distribution': 'Equal proportions' },
+  variance: { 'Which test?': 'Variance of one numeric variable', 'Choose the column': 'weight_g', 'Hypothesised standard deviation σ0': '10', 'Alternative hypothesis': 'σ differs from σ0' },
+  'distribution-fit': { 'Which test?': 'Fit of a distribution to the values', 'Choose the column': 'weight_g', 'Distribution family': 'normal' },
+  'post-hoc': { 'Which test?': 'Post-hoc comparisons', 'Choose the rows': 'oven', 'Choose the columns': 'defect', 'What to compare': 'Cells (adjusted residuals)', 'Multiplicity adjustment': 'Holm' },
+  trend: { 'Which test?': 'Trend across ordered groups', 'Choose the outcome (rows)': 'shift', 'Choose the ordered groups (columns)': 'oven', 'Outcome levels of `shift`, the event first': '#1', 'Order of the groups of `oven`': '#1' },
+  paired: { 'Which test?': 'Paired classifications', 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' },
+  stratified: { 'Which test?': 'Stratified tables (Cochran–Mantel–Haenszel)', 'Choose the strata': 'oven', 'Choose the rows': 'shift', 'Choose the columns': 'defect' },
+  power: { 'Which test?': 'Power or sample size', 'Which test the power is for': 'independence', "Effect size (Cohen's w)": '0.3', 'Degrees of freedom': '4', 'What to give': 'Target power', 'Target power': '0.8' },
+  distribution: { 'Which test?': 'Chi-square distribution', 'Degrees of freedom': '3', 'What to give': 'Probability', Probability: '0.05' },
+};
+
+function selectionOffer(): Offer {
+  const text = readFileSync(join(demo, 'data', 'bakery-defects.csv'), 'utf8').split('\n').slice(0, 401).join('\n');
+  return offerFromText(text, { file: 'bakery-defects.csv', description: 'selection in bakery-defects.csv' });
+}
+
+describe('the planner reaches every procedure', () => {
+  it('every registered procedure declares how the editor offers it, and its questions name its own fields', () => {
+    for (const h of PROCEDURES) {
+      assert.ok(h.planning, `${h.test} has no planning declaration`);
+      for (const q of h.planning.questions ?? []) assert.ok(h.fields[q.field], `${h.test} asks for "${q.field}", which is not one of its fields`);
+    }
+  });
+
+  it('has a script for every procedure in the registry', () => {
+    assert.deepEqual(Object.keys(SCRIPTS).sort(), [...TEST_NAMES].sort());
+  });
+
+  it('offers every procedure for a file with categorical and numeric columns', async () => {
+    const questions = new ScriptedQuestions({ 'Which test?': false });
+    await assert.rejects(plan({ offer: fileOffer('bakery-defects.csv'), questions, settings, specFolder: demo }));
+    const offered = new Set(questions.asked[0].choices);
+    for (const label of Object.values(SCRIPTS).map((s) => s['Which test?'] as string)) assert.ok(offered.has(label), `"${label}" offered: ${[...offered].join(' | ')}`);
+  });
+
+  for (const [where, offer] of [['a data file', () => fileOffer('bakery-defects.csv')], ['a selection', selectionOffer]] as const) {
+    for (const test of Object.keys(SCRIPTS)) {
+      it(`${test} from ${where}: planned, valid, and run`, async () => {
+        const { planned, run } = await planAndRun(offer(), { ...SCRIPTS[test] });
+        assert.equal(planned.test, test);
+        assertValidSpec(planned.spec);
+        assert.ok(run.result.kind === 'test' || run.result.kind === 'power' || run.result.kind === 'distribution');
+        if (run.result.kind === 'test') assert.equal(run.result.test, test);
+      });
+    }
+  }
+
+  it('power and distribution from the palette (no data)', async () => {
+    for (const test of ['power', 'distribution']) {
+      const { planned } = await planAndRun({ kind: 'nothing', description: 'palette' }, { ...SCRIPTS[test] });
+      assertValidSpec(planned.spec);
+    }
+  });
+});

@@ -1,0 +1,29 @@
+// Shared by the planner tests: the demo folder, plain settings, the Node file readers, and plan-then-run.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { aggregateFile } from '../../../src/data/file';
+import { parseDelimited } from '../../../src/data/delimited';
+import type { Offer } from '../../../src/planner/offer';
+import { plan, type Answers, type PlanSettings } from '../../../src/planner/plan';
+import { runSpec } from '../../../src/spec/run';
+import type { SpecReaders } from '../../../src/spec/types';
+import type { TestResult } from '../../../src/stats/result';
+import { ScriptedQuestions } from './fakeQuestions';
+
+export const demo = join(__dirname, '..', '..', '..', 'demo');
+export const settings: PlanSettings = { alpha: 0.05, correction: false, missingValues: ['', 'NA', 'NaN', 'null', '-'], monteCarloResamples: 2000 };
+export const readers: SpecReaders = { aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }) };
+
+/** The offer the editor makes for a whole (small) demo file. */
+export function fileOffer(name: string): Offer {
+  const file = join(demo, 'data', name);
+  return { kind: 'records', records: parseDelimited(readFileSync(file, 'utf8'), { file }), description: `data/${name}`, file: { path: file, complete: true } };
+}
+
+export async function planAndRun(offer: Offer, answers: Record<string, string | boolean | readonly string[]>, given: Answers = {}) {
+  const questions = new ScriptedQuestions(answers);
+  const planned = await plan({ offer, questions, settings, given, specFolder: demo });
+  const run = await runSpec(planned.spec, { readers, specPath: join(demo, 'untitled.countercheck.json'), allowedRoot: demo });
+  return { planned, run, result: run.result as TestResult, questions };
+}
+
