@@ -6,11 +6,10 @@
 import { parseReportBlocks, type ReportBlock } from '../report/blocks';
 import type { FormatOptions } from '../report/format';
 import { resultMarkdown } from '../report/markdown';
-import { adjustPValues, MULTIPLICITY_METHODS, type MultiplicityMethod } from '../stats/multiplicity';
+import { adjustPValues, type MultiplicityMethod } from '../stats/multiplicity';
 import type { Result, TestResult } from '../stats/result';
 import type { BlockRun } from './living';
 
-export { MULTIPLICITY_METHODS };
 export type { MultiplicityMethod };
 
 const METHOD_NAME: Readonly<Record<MultiplicityMethod, string>> = { holm: 'Holm', bh: 'Benjamini–Hochberg', bonferroni: 'Bonferroni' };
@@ -80,10 +79,6 @@ export function describeFamily(adjustment: FamilyAdjustment): string {
   lines.push(`  conclusions changed by the adjustment: ${changed} of ${adjustment.size}`);
   if (adjustment.leftOut.length) lines.push(`  not tests, left out of the family: ${adjustment.leftOut.join(', ')}`);
   return lines.join('\n');
-}
-
-export function familyJson(adjustment: FamilyAdjustment): Record<string, unknown> {
-  return { method: adjustment.method, size: adjustment.size, members: adjustment.members, leftOut: adjustment.leftOut };
 }
 
 export const DEFAULT_FRAGILITY_THRESHOLD = 2;
