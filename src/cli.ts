@@ -33,6 +33,9 @@ import { runSpec } from './spec/run';
 import type { SpecReaders, SpecRun, SpecV1 } from './spec/types';
 import { loadSpecText } from './spec/validate';
 import { version as packageVersion } from '../package.json';
+import { adjustFamily, describeFamily, familyRenderer, familySection } from './spec/family';
+import type { ReportBlock } from './report/blocks';
+import type { Result } from './stats/result';
 
 export const VERSION: string = packageVersion;
 export const TOOL = `countercheck ${VERSION}`;
@@ -205,6 +208,8 @@ async function commandRun(files: readonly InputFile[], flags: RunFlags & Command
   const outputs: Record<string, unknown>[] = [];
   const csvEntries: Parameters<typeof csvOutput>[0][number][] = [];
   const texts: string[] = [];
+  // With --adjust: every result, where its JSON and text went, to add the family once all have run.
+  const members: { name: string; result: Result; output: number; text: number; render: (r: Result) => string }[] = [];
   await withDataOverride(flags.data, io, async (data) => {
     for (const input of files) {
       let loaded: Loaded | undefined;
@@ -215,8 +220,14 @@ async function commandRun(files: readonly InputFile[], flags: RunFlags & Command
         const dataJson = { ...run.data, ...(run.provenance ? { dropped: run.provenance.dropped } : {}) };
         outputs.push({ file: loaded.name, ...(loaded.spec.title ? { title: loaded.spec.title } : {}), ...resultJson(run.result), data: dataJson });
         if (flags.format === 'csv') csvEntries.push({ file: loaded.name, csv: resultToCsv(run.result, loaded.name) });
-        if (flags.format === 'text') texts.push(`${single ? '' : `== ${loaded.name}\n`}${resultText(run.result, { decimals: flags.decimals, title: loaded.spec.title, data: dataJson })}${single ? '' : '\n'}`);
-        if (flags.format === 'markdown') texts.push(`${resultMarkdown(run.result, { decimals: flags.decimals, title: loaded.spec.title })}\n`);
+        const title = loaded.spec.title;
+        const name = loaded.name;
+        const render = (result: Result): string =>
+          flags.format === 'markdown'
+            ? `${resultMarkdown(result, { decimals: flags.decimals, title })}\n`
+            : `${single ? '' : `== ${name}\n`}${resultText(result, { decimals: flags.decimals, title, data: dataJson })}${single ? '' : '\n'}`;
+        if (flags.format === 'text' || flags.format === 'markdown') texts.push(render(run.result));
+        members.push({ name, result: run.result, output: outputs.length - 1, text: texts.length - 1, render });
         if (flags.plots !== undefined) {
           const base = path.basename(loaded.name).replace(/\.countercheck\.json$|\.json$/, '') || 'stdin';
           const written = await writeResultPlots(path.resolve(io.cwd, flags.plots), base, run.result, flags.decimals);
@@ -233,6 +244,15 @@ async function commandRun(files: readonly InputFile[], flags: RunFlags & Command
       }
     }
   });
+  if (flags.adjust) {
+    const adjustment = adjustFamily(members, flags.adjust);
+    for (const m of members) {
+      const section = familySection(adjustment, m.name);
+      if (!section || m.result.kind !== 'test') continue;
+      outputs[m.output] = { ...outputs[m.output], family: section };
+      if (m.text >= 0 && texts[m.text] !== undefined) texts[m.text] = m.render({ ...m.result, family: section });
+    }
+  }
   if (flags.format === 'json') io.stdout(JSON.stringify(single ? (outputs[0] ?? null) : outputs, null, 2) + '\n');
   else if (flags.format === 'csv') io.stdout(csvOutput(csvEntries));
   else if (!flags.quiet) io.stdout(texts.join(flags.format === 'markdown' ? '\n' : ''));
@@ -283,6 +303,8 @@ interface Adjusted {
   readonly pValue: number;
   readonly alpha?: number;
   readonly significant?: boolean;
+  /** The conclusion at α differs before and after the adjustment. */
+  readonly changed?: boolean;
 }
 
 /** Adjusts the current p-values of the reviews that have one, across them all (one family). */
@@ -292,13 +314,15 @@ function adjustAcross(reviews: readonly Review[], method: AdjustMethod): (Adjust
   const out: (Adjusted | undefined)[] = reviews.map(() => undefined);
   members.forEach((m, k) => {
     const alpha = reviews[m.i].current?.result.alpha;
-    out[m.i] = { method, family: members.length, pValue: adjusted[k], ...(alpha !== undefined ? { alpha, significant: adjusted[k] <= alpha } : {}) };
+    const before = reviews[m.i].current?.result.significant;
+    const after = alpha !== undefined ? adjusted[k] < alpha : undefined;
+    out[m.i] = { method, family: members.length, pValue: adjusted[k], ...(alpha !== undefined ? { alpha, significant: after } : {}), ...(before !== undefined && after !== undefined ? { changed: before !== after } : {}) };
   });
   return out;
 }
 
 function adjustedText(a: Adjusted): string {
-  const verdict = a.significant === undefined ? '' : `; ${a.significant ? 'significant' : 'not significant'} at α = ${a.alpha} after adjustment`;
+  const verdict = a.significant === undefined ? '' : `; ${a.significant ? 'significant' : 'not significant'} at α = ${a.alpha} after adjustment${a.changed ? ' (the conclusion CHANGES)' : ''}`;
   return `  adjusted p (${ADJUSTMENT[a.method].label}, ${a.family} p-values): ${Number(a.pValue.toPrecision(4))}${verdict}`;
 }
 
@@ -321,7 +345,7 @@ async function commandCheck(files: readonly InputFile[], flags: CheckFlags & Com
         if (input.error) throw new InputError(input.error.message, { file: input.name }, input.error.code);
         loaded = await loadSpec(input.name, io);
         const run = await runLoaded(loaded, io, flags, data);
-        review = compareWithRecord(loaded.spec.recorded, run, TOOL, (io.now ?? (() => new Date()))());
+        review = compareWithRecord(loaded.spec.recorded, run, TOOL, (io.now ?? (() => new Date()))(), flags.fragilityThreshold);
       } catch (e) {
         error = errorEntry(e, loaded?.name ?? (input.name === '-' ? '<stdin>' : input.name), loaded?.located);
         review = cannotRun(error.error.message);
@@ -399,8 +423,8 @@ async function commandReport(files: readonly InputFile[], flags: ReportFlags & C
       exit = 2;
       continue;
     }
-    const outcome = await refreshReport(text, async (block) => {
-      const { markdown } = await runReportBlock(block, {
+    const runBlock = (block: ReportBlock) =>
+      runReportBlock(block, {
         reportPath: absolute,
         readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
         signal: io.signal,
@@ -409,8 +433,10 @@ async function commandReport(files: readonly InputFile[], flags: ReportFlags & C
         allowOutsideRoot: flags.allowOutside,
         format: { decimals: flags.decimals },
       });
-      return markdown;
-    });
+    // With --adjust the blocks are one family: each result is written with its adjusted p-value.
+    const family = flags.adjust ? await familyRenderer(text, runBlock, flags.adjust, { decimals: flags.decimals }) : undefined;
+    if (family) say(`${file}: ${describeFamily(family.adjustment).replace(/\n {2}(\d+):/g, (_, i: string) => `\n  block ${Number(i) + 1}:`)}\n`);
+    const outcome = await refreshReport(text, family ? family.render : async (block) => (await runBlock(block)).markdown);
     for (const b of outcome.blocks) {
       const state = b.error ? 'cannot run' : b.changed ? (flags.check ? 'would change' : 'updated') : 'unchanged';
       say(`${file}:${b.fenceLine}: block ${b.index + 1}: ${state}\n`);

@@ -4,6 +4,7 @@
  * UsageError carrying that command's usage (exit 2).
  */
 import { parseArgs, type ParseArgsConfig } from 'node:util';
+import { DEFAULT_FRAGILITY_THRESHOLD } from '../spec/family';
 
 export type Command = 'run' | 'check' | 'report';
 export const COMMANDS: readonly Command[] = ['run', 'check', 'report'];
@@ -36,6 +37,7 @@ export const OPTION_TABLES = {
     decimals: { type: 'string' },
     data: { type: 'string' },
     plots: { type: 'string' },
+    adjust: { type: 'string' },
   },
   check: {
     ...shared,
@@ -44,11 +46,13 @@ export const OPTION_TABLES = {
     'fail-on': { type: 'string' },
     data: { type: 'string' },
     adjust: { type: 'string' },
+    'fragility-threshold': { type: 'string' },
   },
   report: {
     ...shared,
     check: { type: 'boolean' },
     decimals: { type: 'string' },
+    adjust: { type: 'string' },
   },
 } as const satisfies Record<Command, Options>;
 
@@ -78,6 +82,9 @@ Options:
   --data FILE|-         read the data from FILE (- for standard input, as CSV) instead of the spec's
                         source path; one spec only
   --plots DIR           write each result's plots as SVG files into DIR
+  --adjust holm|bh|bonferroni
+                        the specs named are one family: each test result gains "family" (size, method,
+                        adjustedPValue)
 ${COMMON_HELP}
 
 ${INPUTS_HELP}
@@ -107,6 +114,9 @@ Options:
   --adjust holm|bh|bonferroni
                         also adjust the current p-values across the checked specs for multiplicity
                         (Holm, Benjamini–Hochberg or Bonferroni) and show them beside each result
+  --fragility-threshold N
+                        flag a recorded significant conclusion whose fragility index is at most N
+                        (default 2): so few changed outcomes would make it not significant
 ${COMMON_HELP}
 
 ${INPUTS_HELP}
@@ -125,6 +135,8 @@ Refreshes the living result blocks (\`\`\`countercheck fences) of markdown repor
 Options:
   --check               only say what would change; the files stay as they are
   --decimals N          decimals for statistics (${DECIMALS.min} to ${DECIMALS.max}, default ${DECIMALS.default})
+  --adjust holm|bh|bonferroni
+                        the blocks of a report are one family: each result shows its adjusted p-value
 ${COMMON_HELP}
 
 Examples:
@@ -178,6 +190,7 @@ export interface RunFlags {
   readonly decimals: number;
   readonly data?: string;
   readonly plots?: string;
+  readonly adjust?: AdjustMethod;
 }
 export interface CheckFlags {
   readonly command: 'check';
@@ -186,11 +199,13 @@ export interface CheckFlags {
   readonly failOn: ReadonlySet<FailOn>;
   readonly data?: string;
   readonly adjust?: AdjustMethod;
+  readonly fragilityThreshold: number;
 }
 export interface ReportFlags {
   readonly command: 'report';
   readonly check: boolean;
   readonly decimals: number;
+  readonly adjust?: AdjustMethod;
 }
 export type CommandFlags = (RunFlags | CheckFlags | ReportFlags) & { readonly quiet: boolean; readonly allowOutside: boolean };
 
@@ -212,6 +227,13 @@ function ownersOf(option: string): Command[] {
 function oneOf<T extends string>(command: Command, option: string, value: string, allowed: readonly T[]): T {
   if ((allowed as readonly string[]).includes(value)) return value as T;
   throw new UsageError(`--${option}: expected one of ${allowed.join(', ')}, found ${JSON.stringify(value)}`, command);
+}
+
+function fragilityThresholdOf(command: Command, value: string | undefined): number {
+  if (value === undefined) return DEFAULT_FRAGILITY_THRESHOLD;
+  const t = Number(value);
+  if (!Number.isInteger(t) || t < 0) throw new UsageError(`--fragility-threshold: expected a whole number ≥ 0, found ${JSON.stringify(value)}`, command);
+  return t;
 }
 
 function decimalsOf(command: Command, value: string | undefined): number {
@@ -261,7 +283,8 @@ export function parseCommandLine(args: readonly string[]): Parsed {
     if (values.force && !values.record) throw new UsageError('--force only goes with --record', command);
     // A record names the spec's own data (its path and fingerprint); data from elsewhere would contradict it.
     if (values.record && str('data') !== undefined) throw new UsageError('--record records the spec\'s own data; it cannot be combined with --data', command);
-    flags = { command, format, record: values.record === true, force: values.force === true, decimals: decimalsOf(command, str('decimals')), data: str('data'), plots: str('plots'), ...common };
+    const adjust = str('adjust');
+    flags = { command, format, record: values.record === true, force: values.force === true, decimals: decimalsOf(command, str('decimals')), data: str('data'), plots: str('plots'), adjust: adjust === undefined ? undefined : oneOf(command, 'adjust', adjust, ADJUST_METHODS), ...common };
   } else if (command === 'check') {
     const failOn = str('fail-on');
     const kinds = failOn === undefined ? FAIL_ON : failOn.split(',').map((w) => oneOf(command, 'fail-on', w.trim(), FAIL_ON));
@@ -273,10 +296,12 @@ export function parseCommandLine(args: readonly string[]): Parsed {
       failOn: new Set(kinds),
       data: str('data'),
       adjust: adjust === undefined ? undefined : oneOf(command, 'adjust', adjust, ADJUST_METHODS),
+      fragilityThreshold: fragilityThresholdOf(command, str('fragility-threshold')),
       ...common,
     };
   } else {
-    flags = { command, check: values.check === true, decimals: decimalsOf(command, str('decimals')), ...common };
+    const adjust = str('adjust');
+    flags = { command, check: values.check === true, decimals: decimalsOf(command, str('decimals')), adjust: adjust === undefined ? undefined : oneOf(command, 'adjust', adjust, ADJUST_METHODS), ...common };
   }
   for (const name of ['data', 'junit', 'plots'] as const) {
     if (name in flags && (flags as unknown as Record<string, unknown>)[name] === '') throw new UsageError(`--${name}: a file name is missing`, command);

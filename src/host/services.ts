@@ -25,6 +25,8 @@ export interface Settings {
   readonly monteCarloResamples: number;
   readonly allowPathsOutsideWorkspace: boolean;
   readonly keepSeveralPanels: boolean;
+  /** Review flags a recorded significant conclusion whose fragility index is at most this. */
+  readonly fragilityThreshold: number;
 }
 
 export function settings(scope?: vscode.Uri): Settings {
@@ -37,6 +39,7 @@ export function settings(scope?: vscode.Uri): Settings {
     monteCarloResamples: c.get<number>('monteCarloResamples', 10000),
     allowPathsOutsideWorkspace: c.get<boolean>('allowPathsOutsideWorkspace', false),
     keepSeveralPanels: c.get<boolean>('keepSeveralPanels', false),
+    fragilityThreshold: c.get<number>('fragilityThreshold', 2),
   };
 }
 

@@ -6,6 +6,7 @@
  * as null. Pure.
  */
 import type { DistributionResult, Estimate, Interval, PowerResult, Probability, Result, StatisticLine, TestResult } from '../stats/result';
+import { evidenceJson } from './evidence';
 
 export type JsonOutput = Record<string, unknown>;
 
@@ -80,6 +81,7 @@ export function testJson(r: TestResult): JsonOutput {
   out.notices = r.notices;
   out.assumptions = r.assumptions;
   if (r.details) out.details = r.details;
+  Object.assign(out, evidenceJson(r));
   return out;
 }
 

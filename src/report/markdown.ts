@@ -7,6 +7,7 @@ import type { CellGrid, CategoryRow, DistributionResult, PowerResult, Result, Te
 import { DEFAULT_FORMAT, formatCount, formatDf, formatEstimate, formatEstimateInterval, formatEstimateWithLog, formatNumber, formatPExact, formatProbability } from './format';
 import { presentedTest, testHeadline, type Headline } from './headline';
 import { CAUTION, POWER_CAUTION, apaLine, estimateText, intervalText, mainIntervalAndEstimates, statisticLineText, type ReportOptions } from './text';
+import { evidenceLines } from './evidence';
 
 /**
  * Escapes text for a markdown table cell or inline text, so that it reads as the same plain text and nothing
@@ -134,6 +135,7 @@ export function testMarkdown(given: TestResult, options: ReportOptions = DEFAULT
   const extra = [
     ...rest.map((e) => `- ${escapeMarkdown(estimateText(e, options))}`),
     ...result.otherStatistics.map((s) => `- ${escapeMarkdown(statisticLineText(s, result.n, options))}${s.note ? ` (${escapeMarkdown(s.note)})` : ''}`),
+    ...evidenceLines(result, options).map((line) => `- ${escapeMarkdown(line)}`),
   ];
   if (extra.length) parts.push(extra.join('\n'));
   const notes = [

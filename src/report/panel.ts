@@ -13,6 +13,7 @@ import { plotDescription, renderPlotSvg } from './svg';
 import { explain, explanationText } from './explanations';
 import { keyEstimate, pLabel, presentedTest, reportedPMethod, testHeadline } from './headline';
 import { apaLine, CAUTION, estimateText, POWER_CAUTION, resultText, statisticLineText } from './text';
+import { evidenceLines } from './evidence';
 
 /** A string translator with `{0}`-style placeholders, as vscode.l10n.t. */
 export type Translate = (message: string, ...args: (string | number | boolean)[]) => string;
@@ -92,6 +93,17 @@ function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultT
 }
 
 /** The explanation of a key, as tooltip text; undefined when the glossary has none. */
+/** The explanation key of each evidence line's name (src/report/evidence.ts). */
+const EVIDENCE_TERMS: Readonly<Record<string, string>> = {
+  Fragility: 'fragility',
+  'Fragility index': 'fragility',
+  'Reverse fragility index': 'reverseFragility',
+  'Bayes factor': 'bayesFactor',
+  Equivalence: 'equivalence',
+  'Non-inferiority': 'nonInferiority',
+  Family: 'family',
+};
+
 function explained(...keys: (string | undefined)[]): { explain?: string } {
   for (const key of keys) {
     const e = explain(key);
@@ -221,6 +233,11 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
       otherStatistics: [
         ...result.otherStatistics.map((s) => ({ name: s.name, value: statisticLineText(s, result.n, f).replace(`${s.name}: `, ''), ...(s.note ? { note: s.note } : {}), ...explained(s.id, s.symbol) })),
         ...result.estimates.filter((e) => e !== key).map((e) => ({ name: e.name, value: estimateText(e, f).replace(`${e.name} = `, ''), ...(e.note ? { note: e.note } : {}), ...explained(e.id) })),
+        // Fragility, Bayes factor, equivalence and family: each line is "Name: reading".
+        ...evidenceLines(result, f).map((line) => {
+          const name = line.slice(0, line.indexOf(': '));
+          return { name, value: line.slice(line.indexOf(': ') + 2), ...explained(EVIDENCE_TERMS[name.replace(/ \(.*\)$/, '')] ?? name) };
+        }),
       ],
     };
   }

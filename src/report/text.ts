@@ -19,6 +19,7 @@ import {
   type FormatOptions,
 } from './format';
 import { alternativeText, headlineText, pLabel, presentedTest, reportedPMethod, testHeadline } from './headline';
+import { evidenceLines } from './evidence';
 
 /** Closes every report. */
 export const CAUTION =
@@ -114,6 +115,7 @@ export function testText(given: TestResult, options: ReportOptions = DEFAULT_FOR
   if (main) lines.push(`Estimate: ${estimateText(main, options)}${main.note ? ` (${main.note})` : ''}`);
   for (const e of rest) lines.push(`Estimate: ${estimateText(e, options)}${e.note ? ` (${e.note})` : ''}`);
   for (const s of result.otherStatistics) lines.push(`Also: ${statisticLineText(s, result.n, options)}${s.note ? ` (${s.note})` : ''}`);
+  lines.push(...evidenceLines(result, options));
   lines.push(...noticeLines(result.notices));
   const failed = result.assumptions.filter((a) => a.status === 'failed');
   if (failed.length) {

@@ -6,6 +6,7 @@
  */
 import { applyEdits, modify } from 'jsonc-parser';
 import type { Result } from '../stats/result';
+import { DEFAULT_FRAGILITY_THRESHOLD, fragileConclusion, type FragileConclusion } from './family';
 import { childPath, lineColumnOf, maskByteOrderMark, type LocatedJson } from './json-text';
 import type { DataFingerprint, SpecRun } from './types';
 
@@ -103,6 +104,8 @@ export interface Review {
   /** Data changed or result differs: whether the conclusion at α changed between significant and not. */
   readonly conclusionFlipped?: boolean;
   readonly tolerance: string;
+  /** The recorded conclusion is significant and the re-run's fragility index is at most the threshold. */
+  readonly fragile?: FragileConclusion;
 }
 
 export function cannotRun(reason: string): Review {
@@ -143,7 +146,7 @@ export function readRecorded(value: unknown): RecordedResult | string {
 }
 
 /** Compares a re-run with the spec's recorded result. */
-export function compareWithRecord(recordedValue: unknown, run: SpecRun, tool: string, now: Date): Review {
+export function compareWithRecord(recordedValue: unknown, run: SpecRun, tool: string, now: Date, fragilityThreshold = DEFAULT_FRAGILITY_THRESHOLD): Review {
   const recorded = readRecorded(recordedValue);
   if (typeof recorded === 'string') return cannotRun(recorded);
   const current = makeRecord(run, tool, now);
@@ -152,7 +155,8 @@ export function compareWithRecord(recordedValue: unknown, run: SpecRun, tool: st
     typeof recorded.result.significant === 'boolean' && typeof current.result.significant === 'boolean'
       ? recorded.result.significant !== current.result.significant
       : undefined;
-  const base = { recorded, current, differences, tolerance: TOLERANCE_TEXT, ...(flipped !== undefined ? { conclusionFlipped: flipped } : {}) };
+  const fragile = fragileConclusion(recorded.result.significant, run.result, fragilityThreshold);
+  const base = { recorded, current, differences, tolerance: TOLERANCE_TEXT, ...(flipped !== undefined ? { conclusionFlipped: flipped } : {}), ...(fragile ? { fragile } : {}) };
   if (recorded.data.sha256 !== current.data.sha256) return { status: 'data-changed', ...base };
   return { status: differences.length === 0 ? 'reproduced' : 'result-differs', ...base };
 }
@@ -192,6 +196,7 @@ export function describeReview(review: Review, name: string): string {
         : `  conclusion unchanged at α = ${alpha} (${word(c.result.significant)})`,
     );
   }
+  if (review.fragile) lines.push(`  ${review.fragile.message}`);
   lines.push(`  recorded ${r.recordedAt} by ${r.tool}`);
   return lines.join('\n');
 }
@@ -203,6 +208,7 @@ export function reviewJson(review: Review, file: string): Record<string, unknown
     status: review.status,
     ...(review.reason ? { reason: review.reason } : {}),
     ...(review.conclusionFlipped !== undefined ? { conclusionFlipped: review.conclusionFlipped } : {}),
+    ...(review.fragile ? { fragile: review.fragile } : {}),
     tolerance: TOLERANCE,
     differences: review.differences,
     ...(review.recorded ? { recorded: review.recorded } : {}),

@@ -10,6 +10,7 @@ import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/opt
 import { deliveryNeeded, fileReaderFor, SQL_READER } from '../data/readers';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
+import { withEvidence } from './evidence';
 import { resolveSourcePath } from './paths';
 import { procedureFor } from './procedures/index';
 import type { DataFingerprint, RunContext, RunOptions, SourceNeeds, SourceSpec, SpecRun, SpecV1 } from './types';
@@ -34,7 +35,9 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   const computed = await handler.run(spec, ctx);
   throwIfAborted(options.signal);
   // What the reader noticed (a formula without a stored value, a merged header) goes with the result's notices.
-  const result = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
+  const withNotices = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
+  // Fragility, Bayes factor, equivalence: the sections a count-based test gets beside its p-value.
+  const result = withNotices.kind === 'test' ? withEvidence(withNotices, spec) : withNotices;
   const data: DataFingerprint = provenance
     ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }
     : inlineFingerprint(spec);

@@ -199,3 +199,9 @@ export function fisherExact2x2(table: readonly (readonly number[])[]): FisherExa
     conditionalOddsRatio: n <= 1e6 ? distribution.conditionalMle(a) : NaN,
   };
 }
+
+/** Only the two-sided p-value of Fisher's exact test on [[a, b], [c, d]] (no odds ratio): for searches that test many tables. */
+export function fisherTwoSided2x2(table: readonly (readonly number[])[]): Probability {
+  const [[a, b], [c, d]] = table;
+  return new Hypergeometric(a + b, c + d, a + c).twoSided(a);
+}

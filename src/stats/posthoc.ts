@@ -14,32 +14,12 @@ import { normalLowerProbability, normalUpperProbability } from './normal';
 import { probabilityFromValue, twoSidedFromTails } from './probability';
 import { adjustedResidual } from './table';
 import type { Notice, Probability, StatisticLine, TestResult } from './result';
+import { adjustPValues } from './multiplicity';
 
 export type Adjustment = 'bonferroni' | 'holm' | 'benjamini-hochberg';
 export type Comparison = 'rows' | 'columns' | 'cells';
 
-/** Adjusted p-values in the input order (as R's p.adjust, capped at 1). */
-export function adjustPValues(p: readonly number[], method: Adjustment): number[] {
-  const m = p.length;
-  if (method === 'bonferroni') return p.map((x) => Math.min(1, x * m));
-  const order = p.map((_, i) => i).sort((a, b) => p[a] - p[b]);
-  const adjusted = new Array<number>(m);
-  if (method === 'holm') {
-    let running = 0;
-    order.forEach((idx, rank) => {
-      running = Math.max(running, Math.min(1, (m - rank) * p[idx]));
-      adjusted[idx] = running;
-    });
-    return adjusted;
-  }
-  let running = 1;
-  for (let rank = m - 1; rank >= 0; rank--) {
-    const idx = order[rank];
-    running = Math.min(running, (m / (rank + 1)) * p[idx]);
-    adjusted[idx] = Math.min(1, running);
-  }
-  return adjusted;
-}
+export { adjustPValues } from './multiplicity';
 
 export interface PostHocOptions {
   readonly compare?: Comparison;

@@ -3,6 +3,8 @@
  * Types only: no behaviour lives here. Every field is plain data so a result can be
  * serialised to JSON, sent to the webview, and recorded in a saved test unchanged.
  */
+import type { BayesFactor } from './bayes-factor';
+import type { Fragility } from './fragility';
 
 export type Alternative = 'two-sided' | 'greater' | 'less';
 
@@ -139,6 +141,35 @@ export interface TestResult {
   readonly assumptions: readonly Assumption[];
   /** Procedure-specific extras for machine output (named fields, plain JSON). */
   readonly details?: Readonly<Record<string, unknown>>;
+  /** How many single-observation changes flip the conclusion (count-based tests; src/stats/fragility.ts). */
+  readonly fragility?: Fragility & { readonly basis: FragilityBasis };
+  /** Bayes factor beside the p-value (src/stats/bayes-factor.ts). */
+  readonly bayesFactor?: BayesFactor;
+  /** Equivalence test asked for in the spec (src/stats/equivalence.ts). */
+  readonly equivalence?: EquivalenceSection;
+  /** Set when the test is read as one of a family (a report or a folder of saved tests). */
+  readonly family?: { readonly size: number; readonly method: string; readonly adjustedPValue: number };
+}
+
+/**
+ * The p-value the fragility search recomputed: the reported test itself ("reported"), Fisher's exact, Pearson's
+ * X² with or without Yates' correction, or the chi-square approximation of the reported statistic when the
+ * reported p-value is resampled ("asymptotic").
+ */
+export type FragilityBasis = 'reported' | 'fisher' | 'pearson' | 'yates' | 'asymptotic';
+
+export interface EquivalenceSection {
+  readonly pValue: number;
+  readonly pValueLog10: number;
+  readonly equivalent: boolean;
+  readonly lower?: number;
+  readonly upper?: number;
+  readonly margin?: number;
+  readonly interval: { readonly lower: number; readonly upper: number; readonly level: number };
+  /** "equivalence" (two-sided band), "non-inferiority" (σ ≤ σmax), or "goodness-of-fit" (Wellek). */
+  readonly form: 'equivalence' | 'non-inferiority' | 'goodness-of-fit';
+  /** Goodness of fit: the observed Euclidean distance. */
+  readonly distance?: number;
 }
 
 /** Result of a distribution query. */

@@ -72,8 +72,9 @@ export async function reviewWithRun(services: Services, uri: vscode.Uri, signal?
     return { review: { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' } };
   }
   try {
-    const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: settings(uri).allowPathsOutsideWorkspace, signal });
-    return { review: compareWithRecord(spec.recorded, run, toolName(services.context), new Date()), run, spec };
+    const configured = settings(uri);
+    const run = await runSpec(spec, { readers: extensionReaders, specPath: uri.fsPath, allowedRoot: services.workspaceRootFor(uri.fsPath), allowOutsideRoot: configured.allowPathsOutsideWorkspace, signal });
+    return { review: compareWithRecord(spec.recorded, run, toolName(services.context), new Date(), configured.fragilityThreshold), run, spec };
   } catch (e) {
     return { review: { status: 'cannot-run', reason: errorMessage(e), differences: [], tolerance: '' } };
   }

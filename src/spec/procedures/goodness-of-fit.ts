@@ -22,6 +22,7 @@ import {
   sourceField,
   MONTE_CARLO,
 } from './shared';
+import { BAYES_FACTOR_FIT_FIELD, EQUIVALENCE_FIT_FIELD, FRAGILITY_FIELDS } from '../evidence';
 
 const weightsByLevel = oneOf(arr(num({ min: 0 }), { minItems: 2 }), obj({}, { additional: num({ min: 0 }) }));
 
@@ -39,6 +40,9 @@ export const goodnessOfFitProcedure = defineProcedure({
     ],
   },
   fields: {
+    ...FRAGILITY_FIELDS,
+    bayesFactor: BAYES_FACTOR_FIT_FIELD,
+    equivalence: EQUIVALENCE_FIT_FIELD,
     observed: field(COUNT_ARRAY, 'Observed counts, one per category.', true),
     categories: field(arr(str(), { minItems: 2 }), 'The category labels in order: the full set of levels (a level never observed still counts, with 0).', true),
     expected: field(COUNT_ARRAY, 'Expected counts, one per category (rescaled, with a note, when their total differs from the observed total).', true),

@@ -23,6 +23,7 @@ import {
   sourceField,
   MONTE_CARLO,
 } from './shared';
+import { BAYES_FACTOR_TABLE_FIELD, FRAGILITY_FIELDS } from '../evidence';
 
 export const independenceProcedure = defineProcedure({
   test: 'independence',
@@ -51,6 +52,8 @@ export const independenceProcedure = defineProcedure({
     correction: field(bool, "Apply Yates' continuity correction (2×2 tables only). Effect sizes always use the uncorrected statistic. Default false."),
     ...COUNT_TEST_OPTIONS,
     confidence: CONFIDENCE,
+    ...FRAGILITY_FIELDS,
+    bayesFactor: BAYES_FACTOR_TABLE_FIELD,
   },
   validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];

@@ -9,6 +9,7 @@ import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './index';
 import { CONFIDENCE, COUNT_ARRAY, LABELS, type SourceSpec, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
+import { FRAGILITY_FIELDS } from '../evidence';
 
 export const pairedProcedure = defineProcedure({
   test: 'paired',
@@ -20,6 +21,7 @@ export const pairedProcedure = defineProcedure({
     roles: ['the first classification', 'the second classification'],
   },
   fields: {
+    ...FRAGILITY_FIELDS,
     table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
     source: sourceField('Two categorical columns: the first classification and the second, one record per unit.', 2, 2),
     rowLabels: LABELS('categories (the same for rows and columns)'),

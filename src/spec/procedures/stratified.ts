@@ -9,6 +9,7 @@ import { arr, bool, field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
 import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength, VARIABLE_NAME } from './shared';
+import { FRAGILITY_FIELDS } from '../evidence';
 
 
 export const stratifiedProcedure = defineProcedure({
@@ -21,6 +22,7 @@ export const stratifiedProcedure = defineProcedure({
     roles: ['the strata', 'the rows', 'the columns'],
   },
   fields: {
+    ...FRAGILITY_FIELDS,
     strata: field(arr(arr(COUNT_ARRAY, { minItems: 2 }), { minItems: 1 }), 'One table of counts per stratum, all of the same size (2×2 for CMH).', true),
     stratumLabels: LABELS('strata'),
     rowLabels: LABELS('rows (the same in every stratum)'),

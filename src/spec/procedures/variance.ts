@@ -8,6 +8,7 @@ import { arr, field, num, obj, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
 import { ALTERNATIVE, CONFIDENCE, VARIABLE_NAME, aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
+import { EQUIVALENCE_VARIANCE_FIELD } from '../evidence';
 
 export const varianceProcedure = defineProcedure({
   test: 'variance',
@@ -22,6 +23,7 @@ export const varianceProcedure = defineProcedure({
     ],
   },
   fields: {
+    equivalence: EQUIVALENCE_VARIANCE_FIELD,
     values: field(arr(num(), { minItems: 2 }), 'Raw measurements.', true),
     summary: field(
       obj(

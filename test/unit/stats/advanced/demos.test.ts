@@ -1,5 +1,6 @@
 // Every demo spec in demo/advanced runs through runSpec (the path of the command line and the editor) and agrees
-// with R on the same data (test/fixtures/R/advanced.json, "demos", written by scripts/fixtures/advanced.R).
+// with R on the same data (test/fixtures/R/advanced.json, "demos", written by scripts/fixtures/advanced.R; and for
+// the fragility, Bayes factor and equivalence demos test/fixtures/R/bayesfactor.json, written by scripts/fixtures/bayesfactor.R).
 import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -10,8 +11,10 @@ import { loadSpecText } from '../../../../src/spec/validate';
 import type { PowerResult, TestResult } from '../../../../src/stats/result';
 import { closeTo, fixture } from './check';
 
-interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[]; z?: number }
-const R = fixture<{ rVersion: string; demos: Demo[] }>('R', 'advanced');
+interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[]; z?: number; bayesFactorLog10?: number; equivalencePValue?: number }
+const advanced = fixture<{ rVersion: string; demos: Demo[] }>('R', 'advanced');
+const evidence = fixture<{ BayesFactor: string; demos: Demo[] }>('R', 'bayesfactor');
+const R = { rVersion: advanced.rVersion, demos: [...advanced.demos, ...evidence.demos] };
 const folder = join(__dirname, '..', '..', '..', '..', 'demo', 'advanced');
 const readers: SpecReaders = { aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }) };
 const files = readdirSync(folder).filter((f) => f.endsWith('.countercheck.json')).sort();
@@ -31,7 +34,7 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       assert.ok(ref, `no R reference for ${file}`);
       // An entry must carry the values this check compares: an empty or misspelt entry fails instead of passing.
       const claimed = Object.keys(ref).filter((k) => k !== 'file');
-      const comparable = ['data', 'statistic', 'pValue', 'oddsRatio', 'n', 'power', 'df', 'cellHolm', 'z'];
+      const comparable = ['data', 'statistic', 'pValue', 'oddsRatio', 'n', 'power', 'df', 'cellHolm', 'z', 'bayesFactorLog10', 'equivalencePValue'];
       assert.deepEqual(claimed.filter((k) => !comparable.includes(k)), [], `unknown fields in the R reference for ${file}`);
       const main = spec.test === 'power' ? 'power' : spec.test === 'post-hoc' ? 'cellHolm' : 'pValue';
       assert.ok(main === 'cellHolm' ? Array.isArray(ref.cellHolm) && ref.cellHolm.length > 0 : typeof ref[main] === 'number', `the R reference for ${file} lacks ${main}`);
@@ -55,6 +58,8 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       if (ref.df !== undefined) assert.equal(r.df, ref.df);
       if (ref.z !== undefined) closeTo(r.statistic, ref.z, 1e-10, 'z', file);
       if (ref.oddsRatio !== undefined) closeTo(r.estimates[0].value, ref.oddsRatio, 1e-12, 'common odds ratio', file);
+      if (ref.bayesFactorLog10 !== undefined) closeTo(r.bayesFactor!.log10Bf10, ref.bayesFactorLog10, 1e-10, `log10 BF10 (R BayesFactor ${evidence.BayesFactor})`, file);
+      if (ref.equivalencePValue !== undefined) closeTo(r.equivalence!.pValue, ref.equivalencePValue, 1e-9, 'equivalence p (R pchisq / pnorm)', file);
       if (ref.cellHolm !== undefined) ref.cellHolm.forEach((p, k) => closeTo(r.otherStatistics[k].pValue.value, p, 1e-9, `cell ${k} Holm p`, file));
     });
   }
