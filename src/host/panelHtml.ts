@@ -35,6 +35,7 @@ button[disabled] { opacity: 0.5; cursor: default; }
 .figures dt { color: var(--vscode-descriptionForeground); font-size: 0.88em; }
 .figures dd { margin: 0; font-family: var(--vscode-editor-font-family); font-variant-numeric: tabular-nums; }
 .has-explain { position: relative; text-decoration: underline dotted var(--vscode-descriptionForeground); text-underline-offset: 3px; cursor: help; }
+li.has-explain, summary.has-explain { text-decoration: none; }
 .has-explain:focus-visible { outline: 1px solid var(--vscode-focusBorder); outline-offset: 2px; }
 .tip { display: none; position: absolute; z-index: 10; left: 0; top: 100%; margin-top: 4px; width: max-content; max-width: min(420px, 80vw); padding: 6px 9px; font-size: 0.92em; font-weight: normal; text-align: left; white-space: normal; line-height: 1.4; color: var(--vscode-editorHoverWidget-foreground, var(--vscode-foreground)); background: var(--vscode-editorHoverWidget-background, var(--vscode-editor-background)); border: 1px solid var(--vscode-editorHoverWidget-border, var(--vscode-widget-border)); border-radius: 3px; box-shadow: 0 2px 8px var(--vscode-widget-shadow, transparent); text-decoration: none; }
 .has-explain:hover > .tip, .has-explain:focus > .tip, .has-explain:focus-within > .tip { display: block; }
@@ -70,7 +71,7 @@ table.counts thead th { font-weight: 600; border-bottom: 2px solid var(--vscode-
 .sign { color: var(--vscode-descriptionForeground); font-size: 0.85em; }
 .plots { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 520px), 1fr)); gap: 10px 24px; }
 figure.plot { margin: 8px 0; }
-figure.plot svg { display: block; width: 100%; height: auto; }
+figure.plot svg { display: block; width: 100%; max-width: 720px; height: auto; }
 figcaption { color: var(--vscode-descriptionForeground); font-size: 0.9em; }
 svg text { fill: var(--vscode-foreground); font-family: var(--vscode-font-family); }
 svg .tick { font-size: 11px; fill: var(--vscode-descriptionForeground); }
