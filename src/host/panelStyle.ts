@@ -8,8 +8,8 @@ body { font-family: var(--vscode-font-family); font-size: var(--vscode-font-size
 h1 { font-size: 1.35em; font-weight: 600; margin: 4px 0 6px; }
 h2 { font-size: 1.05em; font-weight: 600; margin: 22px 0 8px; color: var(--vscode-descriptionForeground); text-transform: none; }
 .headline { border-left: 4px solid var(--vscode-charts-foreground, var(--vscode-foreground)); padding: 14px 0 6px 14px; margin: 16px 0 10px; }
-.headline.signal { border-left-color: var(--vscode-charts-orange); }
-.headline.quiet { border-left-color: var(--vscode-charts-blue); }
+.headline.signal { border-left-color: var(--vscode-charts-orange, #f38518); }
+.headline.quiet { border-left-color: var(--vscode-charts-blue, #3794ff); }
 .eyebrow { color: var(--vscode-descriptionForeground); font-size: 0.92em; }
 .key-estimate { margin: 2px 0 4px; font-variant-numeric: tabular-nums; }
 .key-estimate .key-label { color: var(--vscode-descriptionForeground); }
@@ -57,8 +57,8 @@ table.counts td { white-space: nowrap; }
 table.counts thead th { overflow-wrap: anywhere; }
 table.counts th.label { text-align: left; }
 table.counts thead th { font-weight: 600; border-bottom: 2px solid var(--vscode-foreground); }
-.tint-above { background: color-mix(in srgb, var(--vscode-charts-orange) var(--tint), transparent); }
-.tint-below { background: color-mix(in srgb, var(--vscode-charts-blue) var(--tint), transparent); }
+.tint-above { background: color-mix(in srgb, var(--vscode-charts-orange, #f38518) var(--tint), transparent); }
+.tint-below { background: color-mix(in srgb, var(--vscode-charts-blue, #3794ff) var(--tint), transparent); }
 .band-3, .band-2 { font-weight: 600; }
 .sign { color: var(--vscode-descriptionForeground); font-size: 0.85em; }
 .plots { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 520px), 1fr)); gap: 10px 24px; }
@@ -71,7 +71,7 @@ svg .label { font-size: 12px; }
 svg .axis, svg .grid { stroke: var(--vscode-charts-lines, var(--vscode-foreground)); stroke-width: 1; }
 svg .grid { stroke-opacity: 0.35; }
 svg .curve { fill: none; stroke: var(--vscode-charts-foreground, var(--vscode-foreground)); stroke-width: 1.8; }
-svg .tail { fill: var(--vscode-charts-orange); fill-opacity: 0.55; stroke: var(--vscode-charts-orange); stroke-width: 1; }
+svg .tail { fill: var(--vscode-charts-orange, #f38518); fill-opacity: 0.55; stroke: var(--vscode-charts-orange, #f38518); stroke-width: 1; }
 svg .tail-hatch { display: none; }
 svg .hatch-line { stroke: var(--vscode-foreground); stroke-width: 1.4; }
 body.vscode-high-contrast svg .tail, body.vscode-high-contrast-light svg .tail { fill: none; stroke: var(--vscode-contrastBorder, var(--vscode-foreground)); stroke-width: 1.5; }
@@ -82,18 +82,18 @@ svg .marker-label { font-size: 12px; font-weight: 600; }
 svg .band { fill: var(--vscode-descriptionForeground); fill-opacity: 0.18; }
 svg .zero { stroke: var(--vscode-foreground); stroke-width: 1.4; }
 svg .stem { stroke-width: 3; }
-svg .above { stroke: var(--vscode-charts-orange); fill: var(--vscode-charts-orange); }
-svg .below { stroke: var(--vscode-charts-blue); fill: var(--vscode-charts-blue); }
+svg .above { stroke: var(--vscode-charts-orange, #f38518); fill: var(--vscode-charts-orange, #f38518); }
+svg .below { stroke: var(--vscode-charts-blue, #3794ff); fill: var(--vscode-charts-blue, #3794ff); }
 svg .none { stroke: var(--vscode-descriptionForeground); fill: var(--vscode-descriptionForeground); }
 svg .strong { font-weight: 700; }
 svg .cell { stroke: var(--vscode-widget-border, var(--vscode-panel-border)); fill: transparent; }
-svg .cell.tint-above { fill: var(--vscode-charts-orange); }
-svg .cell.tint-below { fill: var(--vscode-charts-blue); }
+svg .cell.tint-above { fill: var(--vscode-charts-orange, #f38518); }
+svg .cell.tint-below { fill: var(--vscode-charts-blue, #3794ff); }
 svg .cell-label { font-size: 12px; }
-svg .interval { stroke: var(--vscode-charts-blue); stroke-width: 3; fill: var(--vscode-charts-blue); }
-svg .estimate { fill: var(--vscode-charts-blue); }
+svg .interval { stroke: var(--vscode-charts-blue, #3794ff); stroke-width: 3; fill: var(--vscode-charts-blue, #3794ff); }
+svg .estimate { fill: var(--vscode-charts-blue, #3794ff); }
 svg .reference { stroke: var(--vscode-charts-red); stroke-width: 2; stroke-dasharray: 5 3; }
-svg .power { fill: none; stroke: var(--vscode-charts-blue); stroke-width: 2; }
+svg .power { fill: none; stroke: var(--vscode-charts-blue, #3794ff); stroke-width: 2; }
 svg .marker { fill: var(--vscode-charts-red); }
 .assumption { margin: 4px 0; border: 1px solid var(--vscode-widget-border, var(--vscode-panel-border)); border-radius: 3px; padding: 4px 10px; }
 .assumption summary { cursor: pointer; }
