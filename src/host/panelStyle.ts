@@ -43,6 +43,7 @@ dl.two-column dd .note { display: block; color: var(--vscode-descriptionForegrou
 .comparison h2 { margin: 6px 0; }
 table.compare tr.changed td:last-child { font-weight: 600; }
 table.compare tr.flipped { background: color-mix(in srgb, var(--vscode-editorWarning-foreground) 22%, transparent); outline: 2px solid var(--vscode-editorWarning-foreground); }
+.category-order { color: var(--vscode-descriptionForeground); font-size: 0.88em; margin: -4px 0 10px; }
 .notices { list-style: none; padding: 0; margin: 8px 0; }
 .notices li { padding: 3px 8px; margin: 2px 0; background: var(--vscode-textBlockQuote-background); border-left: 2px solid var(--vscode-textBlockQuote-border); }
 .notices li.warning { border-left-color: var(--vscode-editorWarning-foreground); }

@@ -71,6 +71,7 @@ function render(payload: PanelPayload): void {
     root.append(list);
   }
   payload.tables.forEach((table, i) => root.append(renderTable(table, i)));
+  if (payload.categoryOrder && payload.tables.length > 0) root.append(el('p', { class: 'category-order', id: 'category-order' }, icon('list-ordered'), ` ${payload.categoryOrder}`));
   if (payload.plots.length > 0) {
     const plots = el('section', { class: 'plots', 'aria-label': s('plots', 'Plots') });
     payload.plots.forEach((plot, i) => plots.append(renderPlot(plot, i, payload)));
