@@ -31,7 +31,7 @@ li.has-explain, summary.has-explain { text-decoration: none; }
 .has-explain:focus-visible { outline: 1px solid var(--vscode-focusBorder); outline-offset: 2px; }
 .tip { display: none; position: absolute; z-index: 10; left: 0; top: 100%; margin-top: 4px; width: max-content; max-width: min(420px, 80vw); padding: 6px 9px; font-size: 0.92em; font-weight: normal; text-align: left; white-space: normal; line-height: 1.4; color: var(--vscode-editorHoverWidget-foreground, var(--vscode-foreground)); background: var(--vscode-editorHoverWidget-background, var(--vscode-editor-background)); border: 1px solid var(--vscode-editorHoverWidget-border, var(--vscode-widget-border)); border-radius: 3px; box-shadow: 0 2px 8px var(--vscode-widget-shadow, transparent); text-decoration: none; }
 .has-explain:hover > .tip, .has-explain:focus > .tip, .has-explain:focus-within > .tip { display: block; }
-th.has-explain > .tip { right: 0; left: auto; }
+.has-explain.tip-left > .tip { right: 0; left: auto; }
 dl.two-column { display: grid; grid-template-columns: minmax(12em, 2fr) 3fr; gap: 6px 18px; margin: 6px 0 12px; }
 dl.two-column dt { color: var(--vscode-descriptionForeground); }
 dl.two-column dd { margin: 0; font-variant-numeric: tabular-nums; }

@@ -37,6 +37,10 @@ function explainable<T extends HTMLElement>(node: T, text: string | undefined): 
   if (!node.hasAttribute('tabindex') && !(node instanceof HTMLButtonElement)) node.setAttribute('tabindex', '0');
   node.setAttribute('aria-describedby', id);
   node.append(el('span', { class: 'tip', role: 'tooltip', id }, text));
+  // Near the right edge the tip opens leftwards, so it is never cut off by the panel's edge.
+  const place = () => node.classList.toggle('tip-left', node.getBoundingClientRect().left > window.innerWidth / 2);
+  node.addEventListener('mouseenter', place);
+  node.addEventListener('focus', place);
   return node;
 }
 
