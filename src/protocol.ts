@@ -182,6 +182,8 @@ export interface PanelPayload {
   readonly strings: PanelStrings;
   /** ISO time the result was computed. */
   readonly computedAt: string;
+  /** How the categories are ordered, in words (src/report/panel.ts categoryOrderText). */
+  readonly categoryOrder?: string;
   /** Set after "Re-run and compare": the recorded result beside this run. */
   readonly comparison?: Comparison;
   /** The spec that produced the result (plain JSON) and where it lives, so a restored panel can still re-run and save. */

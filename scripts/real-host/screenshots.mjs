@@ -103,12 +103,18 @@ function panelFrame(page) {
   return page.frameLocator('iframe.webview').last().frameLocator('#active-frame');
 }
 
+/** Waits until the newest panel's headline matches (a panel being replaced or opened may show the older one for a moment). */
 async function waitForPanel(page, pattern) {
-  const headline = panelFrame(page).locator('#headline');
-  await headline.waitFor({ state: 'visible', timeout: 30_000 });
-  const text = await headline.textContent();
-  if (!pattern.test(text ?? '')) throw new Error(`panel headline "${text}" does not match ${pattern}`);
-  return text;
+  const deadline = Date.now() + 30_000;
+  let text = '';
+  for (;;) {
+    const headline = panelFrame(page).locator('#headline');
+    await headline.waitFor({ state: 'visible', timeout: Math.max(1000, deadline - Date.now()) });
+    text = (await headline.textContent().catch(() => '')) ?? '';
+    if (pattern.test(text)) return text;
+    if (Date.now() > deadline) throw new Error(`panel headline "${text}" does not match ${pattern}`);
+    await sleep(500);
+  }
 }
 
 async function session({ name, theme, scheme }) {

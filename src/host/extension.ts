@@ -30,6 +30,8 @@ export interface CountercheckApi {
   lastError(): { message: string; code?: string; file?: string; line?: number } | undefined;
   /** Saves the active panel's spec to `target` with its recorded result (the panel's "save" button without the dialog). */
   saveActive(target: vscode.Uri): Promise<vscode.Uri | undefined>;
+  /** The active panel's "Save plot…" without the dialog: SVG, or PNG drawn by the webview when target ends in .png. */
+  savePlotOfActive(index: number, target: vscode.Uri): Promise<void>;
   /** Cancels the runs in progress, as the progress notification's Cancel button does; returns how many. */
   cancelRunning(): number;
   /** Restores a panel from serialized state, as the workbench does after a reload. */
@@ -85,6 +87,11 @@ export function activate(context: vscode.ExtensionContext): CountercheckApi {
     },
     savedTests,
     lastError: () => services.lastError,
+    savePlotOfActive: async (index, target) => {
+      const panel = services.panels.active;
+      if (!panel) throw new Error('no result panel is open');
+      await savePlot(panel, index, target);
+    },
     saveActive: async (target) => {
       const origin = services.panels.active?.payload.origin;
       if (!origin) throw new Error('the active panel has no spec to save');

@@ -122,13 +122,13 @@ export async function saveSpec(services: Services, origin: PanelOrigin, target?:
 }
 
 /** "Save plot…": the standalone SVG, or a PNG drawn by the panel's canvas when the name ends in .png. */
-export async function savePlot(panel: ResultPanel, index: number): Promise<void> {
+export async function savePlot(panel: ResultPanel, index: number, target?: vscode.Uri): Promise<void> {
   const plot = panel.payload.plots[index];
   if (!plot) return;
   const origin = panel.payload.origin;
   const folder = origin ? path.dirname(origin.specPath) : (vscode.workspace.workspaceFolders?.[0]?.uri.fsPath ?? '');
   const base = origin?.saved ? path.basename(origin.specPath) : panel.payload.title;
-  const uri = await vscode.window.showSaveDialog({
+  const uri = target ?? await vscode.window.showSaveDialog({
     defaultUri: vscode.Uri.file(path.join(folder, plotFileName(base, index, plot))),
     filters: { [t('SVG image')]: ['svg'], [t('PNG image')]: ['png'] },
     title: t('Save plot'),

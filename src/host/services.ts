@@ -13,6 +13,7 @@ import type { SpecReaders, SpecRun } from '../spec/types';
 import type { Result } from '../stats/result';
 import { PanelManager, type PanelActions, type ResultPanel } from './panel';
 import { buildPayload } from './payload';
+import { categoryOrderText } from '../report/panel';
 import { hostAggregateSql } from './sqlSource';
 
 const t = vscode.l10n.t;
@@ -131,7 +132,8 @@ export class Services {
     });
     // One panel per source: a new run replaces the result of the same source unless panels are kept.
     const same = reuse ?? (s.keepSeveralPanels ? undefined : this.panels.forSource(sourceKey({ ...payload, origin })));
-    return this.panels.show({ ...payload, origin }, same);
+    const order = origin && (payload.tables.length > 0) ? categoryOrderText(origin.spec, t) : undefined;
+    return this.panels.show({ ...payload, origin, ...(order ? { categoryOrder: order } : {}) }, same);
   }
 
   /** Shows any failure as a notification; an InputError gets a button that opens its file at the line. Never rethrows. */

@@ -109,7 +109,9 @@ export function apaSymbol(symbol: string): string {
 export function formatApaLine(symbol: string, statistic: number, df: number | null, n: number | null, p: Probability, format: FormatOptions = DEFAULT_FORMAT, pName = 'p'): string {
   const inside = df === null ? [] : [formatDf(df, format.decimals), ...(n !== null ? [`N = ${formatCount(n, format.decimals)}`] : [])];
   const head = inside.length > 0 ? `${apaSymbol(symbol)}(${inside.join(', ')})` : apaSymbol(symbol);
-  const stat = Number.isNaN(statistic) ? '' : ` = ${formatNumber(statistic, format.decimals)}`;
+  // A count used as the statistic (McNemar's b, the exact conditional test's Σa) is written as a count.
+  const isCount = Number.isInteger(statistic) && /^(b|c|Σa)$/.test(symbol);
+  const stat = Number.isNaN(statistic) ? '' : ` = ${isCount ? formatCount(statistic) : formatNumber(statistic, format.decimals)}`;
   return `${head}${stat}, ${formatPApa(p).replace(/^p/, pName)}`;
 }
 

@@ -49,7 +49,10 @@ export function presentedTest(result: TestResult): TestResult {
       ? { ...a, explanation: `${a.explanation} The ${used} reported here does not rely on this approximation.`, alternative: `used here: the ${used}` }
       : a,
   );
-  return { ...result, notices, assumptions };
+  // The conclusion names the reported p-value as the APA line does ("exact p = 0.031", "mid-p = 0.029").
+  const label = pLabel(method);
+  const conclusion = result.conclusion.includes(label) ? result.conclusion : result.conclusion.replace(/(^|[\s(])p ([=<≈])/g, `$1${label} $2`);
+  return { ...result, conclusion, notices, assumptions };
 }
 
 /** "Consider: Fisher's exact test." or, when the alternative is the one reported, "Used here: the exact p-value." */

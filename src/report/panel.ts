@@ -174,6 +174,20 @@ export function panelStrings(t: Translate = untranslated): Record<string, string
   };
 }
 
+/**
+ * How the categories of a result are ordered, said in words (so the reader knows whether an order is data or
+ * chance): the order the spec gives, sorted, or the order first seen in the file. Undefined when the data come
+ * as a table or list in the spec itself (their order is the spec's).
+ */
+export function categoryOrderText(spec: Readonly<Record<string, unknown>>, t: Translate = untranslated): string | undefined {
+  const source = spec.source as { categories?: unknown } | undefined;
+  if (!source || typeof source !== 'object') return undefined;
+  const given = ['categories', 'rowLabels', 'columnLabels', 'labels'].filter((k) => Array.isArray(spec[k]));
+  if (given.length > 0) return t('Categories in the order the test lists them ({0}).', given.join(', '));
+  if (source.categories === 'sorted') return t('Categories sorted (numerically when every label is a number).');
+  return t('Categories in the order first seen in the data; list them in the test, or set "categories": "sorted", to fix the order.');
+}
+
 /** Payload fields that travel as plain text or data (copied, saved, re-run): their exponents stay in caret form. */
 const VERBATIM = new Set(['text', 'markdown', 'result', 'origin', 'strings', 'id', 'computedAt']);
 

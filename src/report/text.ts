@@ -53,7 +53,8 @@ export function apaLine(result: TestResult, format: FormatOptions = DEFAULT_FORM
 /** The same for a secondary statistic (G², the Yates-corrected X², Fisher's exact test…). */
 export function statisticLineText(line: StatisticLine, n: number | null, format: FormatOptions = DEFAULT_FORMAT): string {
   if (Number.isNaN(line.statistic)) return `${line.name}: p = ${formatProbability(line.pValue)}`;
-  return `${line.name}: ${formatApaLine(line.symbol, line.statistic, line.df, n, line.pValue, format)}`;
+  const pName = line.id.endsWith('-monte-carlo') ? 'Monte Carlo p' : line.id.endsWith('-exact') ? 'exact p' : line.id.endsWith('-mid-p') ? 'mid-p' : 'p';
+  return `${line.name}: ${formatApaLine(line.symbol, line.statistic, line.df, n, line.pValue, format, pName)}`;
 }
 
 /**

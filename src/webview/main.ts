@@ -37,6 +37,10 @@ function explainable<T extends HTMLElement>(node: T, text: string | undefined): 
   if (!node.hasAttribute('tabindex') && !(node instanceof HTMLButtonElement)) node.setAttribute('tabindex', '0');
   node.setAttribute('aria-describedby', id);
   node.append(el('span', { class: 'tip', role: 'tooltip', id }, text));
+  // Near the right edge the tip opens leftwards, so it is never cut off by the panel's edge.
+  const place = () => node.classList.toggle('tip-left', node.getBoundingClientRect().left > window.innerWidth / 2);
+  node.addEventListener('mouseenter', place);
+  node.addEventListener('focus', place);
   return node;
 }
 
@@ -71,6 +75,7 @@ function render(payload: PanelPayload): void {
     root.append(list);
   }
   payload.tables.forEach((table, i) => root.append(renderTable(table, i)));
+  if (payload.categoryOrder && payload.tables.length > 0) root.append(el('p', { class: 'category-order', id: 'category-order' }, icon('list-ordered'), ` ${payload.categoryOrder}`));
   if (payload.plots.length > 0) {
     const plots = el('section', { class: 'plots', 'aria-label': s('plots', 'Plots') });
     payload.plots.forEach((plot, i) => plots.append(renderPlot(plot, i, payload)));

@@ -97,4 +97,22 @@ describe('results panel', () => {
     await vscode.workspace.fs.delete(uri);
     await vscode.workspace.fs.delete(vscode.Uri.file(workspacePath('integration-data', 'notes.plots')), { recursive: true });
   });
+
+  it("saves a plot as a standalone SVG, and as a PNG drawn by the panel's canvas at twice its size", async () => {
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    const a = await api();
+    const svgUri = vscode.Uri.file(workspacePath('integration-data', 'plot-1.svg'));
+    const pngUri = vscode.Uri.file(workspacePath('integration-data', 'plot-1.png'));
+    await a.savePlotOfActive(0, svgUri);
+    const svg = Buffer.from(await vscode.workspace.fs.readFile(svgUri)).toString('utf8');
+    assert.match(svg, /^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" width="600" height="(\d+)"/);
+    const height = Number(/height="(\d+)"/.exec(svg)?.[1]);
+    await a.savePlotOfActive(0, pngUri);
+    const png = Buffer.from(await vscode.workspace.fs.readFile(pngUri));
+    assert.equal(png.subarray(1, 4).toString('latin1'), 'PNG');
+    assert.equal(png.readUInt32BE(16), 1200, 'PNG width: 600 px at scale 2');
+    assert.equal(png.readUInt32BE(20), 2 * height, 'PNG height: the SVG height at scale 2');
+    await vscode.workspace.fs.delete(svgUri);
+    await vscode.workspace.fs.delete(pngUri);
+  });
 });

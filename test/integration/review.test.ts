@@ -92,6 +92,26 @@ describe('saved tests and living reports', () => {
     assert.deepEqual(second?.changed, []);
     assert.equal(doc.getText(), afterFirst, 'second refresh gives identical text');
     assert.ok(afterFirst.startsWith(original.slice(0, original.indexOf('```countercheck'))), 'text before the first block kept byte for byte');
+
+    // Each block's plots: SVG files beside the report, linked, rendered as images by the markdown preview's
+    // renderer, and rewritten when a refresh finds them stale.
+    const links = [...afterFirst.matchAll(/\]\((report\.plots\/[^)]+\.svg)\)/g)].map((m) => m[1]);
+    assert.ok(links.length >= 2, `plot links in the report: ${links.join(', ')}`);
+    const fileOf = (link: string) => vscode.Uri.file(workspacePath('integration-data', link));
+    const drawn = Buffer.from(await vscode.workspace.fs.readFile(fileOf(links[0]))).toString('utf8');
+    assert.match(drawn, /^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" width="600"/);
+    const html = await vscode.commands.executeCommand<string>('markdown.api.render', afterFirst);
+    for (const link of links) assert.match(html, new RegExp(`<img [^>]*src="[^"]*${link.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}"`), `the preview renders ${link}`);
+    await vscode.workspace.fs.writeFile(fileOf(links[0]), new TextEncoder().encode('stale'));
+    await vscode.commands.executeCommand('countercheck.refreshAllBlocks', doc.uri);
+    assert.equal(Buffer.from(await vscode.workspace.fs.readFile(fileOf(links[0]))).toString('utf8'), drawn, 'a stale plot is rewritten with its block');
+
+    // The same explanations as the panel, as a hover over a term in a result block.
+    const resultLine = doc.getText().split('\n').findIndex((l) => /^χ²\(/.test(l));
+    assert.ok(resultLine >= 0, 'an APA line in a result block');
+    const hovers = await vscode.commands.executeCommand<vscode.Hover[]>('vscode.executeHoverProvider', doc.uri, new vscode.Position(resultLine, 1));
+    const texts = hovers.flatMap((h) => h.contents.map((c) => (typeof c === 'string' ? c : 'value' in c ? c.value : '')));
+    assert.ok(texts.some((t) => /χ² statistic|Pearson X²/.test(t)), JSON.stringify(texts));
   });
 
   it('offers run / re-run and compare / open result lenses and field hovers on a spec file', async () => {

@@ -47,6 +47,11 @@ describe('report number formatting', () => {
     assert.equal(scientificFromLog10(Math.log10(9.996e-5), 3), '1.00 × 10^-4');
   });
 
+  it('writes a count used as the statistic as a count', () => {
+    assert.equal(formatApaLine('b', 9, null, null, { value: 0.029, log10: Math.log10(0.029) }), 'b = 9, p = .029');
+    assert.equal(formatApaLine('X²', 4, 1, 100, { value: 0.0461, log10: Math.log10(0.0461) }), 'χ²(1, N = 100) = 4.00, p = .046');
+  });
+
   it('writes exponents as superscripts for the panel only', () => {
     assert.equal(superscriptExponents('5.1 × 10^-5 and 2.0 × 10^12'), '5.1 × 10⁻⁵ and 2.0 × 10¹²');
     assert.equal(superscriptExponents('no exponent'), 'no exponent');

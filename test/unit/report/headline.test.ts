@@ -55,6 +55,17 @@ describe('headline', () => {
     assert.match(resultMarkdown(result), /exact p = \.026/);
   });
 
+  it('mid-p and Monte Carlo results name their p-value in the conclusion, the APA line and the statistic line', async () => {
+    const paired = buildPanelPayload((await demoResult('advanced/cafe-panel-from-file.countercheck.json')).result, options);
+    assert.match(paired.headline, /\(mid-p = 0\.029\)/);
+    assert.match(paired.apaLine, /mid-p = \.029$/);
+    const { result } = await demoResult('advanced/market-stall-days-montecarlo.countercheck.json');
+    const text = resultText(result);
+    assert.match(text, /^Conclusion: .*\(Monte Carlo p = 0\.125\)/m);
+    assert.match(text, /^Result: χ²\(3, N = 26\) = 5\.69, Monte Carlo p = \.125$/m);
+    assert.match(text, /^Also: Pearson chi-square, Monte Carlo p-value: .*Monte Carlo p = \.125/m);
+  });
+
   it('an asymptotic result with small expected counts still advises the exact test', async () => {
     const { result } = await demoResult('advanced/seedling-blight-exact.countercheck.json');
     const test = result as TestResult;

@@ -1,7 +1,7 @@
 // Tables that travel: tab-separated cells a spreadsheet pastes as cells (numbers without thousands
 // separators, exponents in E notation, the minus sign as "-"), and CSV fields quoted per RFC 4180.
 import { strict as assert } from 'node:assert';
-import { buildPanelPayload } from '../../../src/report/panel';
+import { buildPanelPayload, categoryOrderText } from '../../../src/report/panel';
 import { csvField, spreadsheetCell, tableToTsv } from '../../../src/report/tables';
 import { demoResult } from './demoResults';
 
@@ -34,6 +34,13 @@ describe('tables that travel', () => {
     const shares = payload.tables[0].rows.map((r) => Number(r.cells[2].text.replace(' %', '')));
     assert.ok(Math.abs(shares.reduce((a, b) => a + b, 0) - 100) < 0.3, `shares add up to 100 %: ${shares.join(', ')}`);
     assert.equal(payload.plots.find((p) => p.kind === 'deviation')?.kind, 'deviation', 'deviation chart, not paired bars');
+  });
+
+  it('says how the categories are ordered', () => {
+    assert.match(categoryOrderText({ source: { path: 'a.csv', columns: ['x', 'y'] }, rowLabels: ['b', 'a'] }) ?? '', /order the test lists them \(rowLabels\)/);
+    assert.match(categoryOrderText({ source: { path: 'a.csv', columns: ['x'], categories: 'sorted' } }) ?? '', /^Categories sorted/);
+    assert.match(categoryOrderText({ source: { path: 'a.csv', columns: ['x'] } }) ?? '', /first seen in the data/);
+    assert.equal(categoryOrderText({ table: [[1, 2], [3, 4]] }), undefined, 'inline tables keep the order they are written in');
   });
 
   it('csv fields are quoted when they hold a comma, quote or line break', () => {
