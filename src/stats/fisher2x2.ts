@@ -157,14 +157,12 @@ class Hypergeometric {
     const support = this.effectiveSupport(x);
     const logBase = support.map((y) => this.logProbability(y));
     const meanAt = (logPsi: number): number => {
-      let maxLog = -Infinity;
-      for (let i = 0; i < support.length; i++) maxLog = Math.max(maxLog, logBase[i] + support[i] * logPsi);
+      const w = tiltedWeights(support, logBase, logPsi);
       let s0 = 0;
       let s1 = 0;
       for (let i = 0; i < support.length; i++) {
-        const w = Math.exp(logBase[i] + support[i] * logPsi - maxLog);
-        s0 += w;
-        s1 += w * support[i];
+        s0 += w[i];
+        s1 += w[i] * support[i];
       }
       return s1 / s0;
     };
@@ -185,14 +183,12 @@ class Hypergeometric {
     const logBase = support.map((y) => this.logProbability(y));
     // P_ψ(X ≥ x) (upper = true) or P_ψ(X ≤ x), as ln, under the weights P(y)·ψ^y normalised.
     const logTail = (logPsi: number, upper: boolean): number => {
-      let maxLog = -Infinity;
-      for (let i = 0; i < support.length; i++) maxLog = Math.max(maxLog, logBase[i] + support[i] * logPsi);
+      const w = tiltedWeights(support, logBase, logPsi);
       let all = 0;
       let tail = 0;
       for (let i = 0; i < support.length; i++) {
-        const w = Math.exp(logBase[i] + support[i] * logPsi - maxLog);
-        all += w;
-        if (upper ? support[i] >= x : support[i] <= x) tail += w;
+        all += w[i];
+        if (upper ? support[i] >= x : support[i] <= x) tail += w[i];
       }
       return Math.log(tail) - Math.log(all);
     };
@@ -221,6 +217,15 @@ class Hypergeometric {
     for (let y = from; y <= to; y++) support.push(y);
     return support;
   }
+}
+
+/** Weights P(y)·ψ^y of the noncentral hypergeometric over `support`, scaled so the largest is 1. */
+function tiltedWeights(support: readonly number[], logBase: readonly number[], logPsi: number): Float64Array {
+  let maxLog = -Infinity;
+  for (let i = 0; i < support.length; i++) maxLog = Math.max(maxLog, logBase[i] + support[i] * logPsi);
+  const w = new Float64Array(support.length);
+  for (let i = 0; i < support.length; i++) w[i] = Math.exp(logBase[i] + support[i] * logPsi - maxLog);
+  return w;
 }
 
 /**
