@@ -10,7 +10,7 @@ import { loadSpecText } from '../../../../src/spec/validate';
 import type { PowerResult, TestResult } from '../../../../src/stats/result';
 import { closeTo, fixture } from './check';
 
-interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[]; z?: number }
+interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; pValueUpperBound?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[]; z?: number }
 const R = fixture<{ rVersion: string; demos: Demo[] }>('R', 'advanced');
 const folder = join(__dirname, '..', '..', '..', '..', 'demo', 'advanced');
 const readers: SpecReaders = { aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }) };
@@ -31,7 +31,7 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       assert.ok(ref, `no R reference for ${file}`);
       // An entry must carry the values this check compares: an empty or misspelt entry fails instead of passing.
       const claimed = Object.keys(ref).filter((k) => k !== 'file');
-      const comparable = ['data', 'statistic', 'pValue', 'oddsRatio', 'n', 'power', 'df', 'cellHolm', 'z'];
+      const comparable = ['data', 'statistic', 'pValue', 'pValueUpperBound', 'oddsRatio', 'n', 'power', 'df', 'cellHolm', 'z'];
       assert.deepEqual(claimed.filter((k) => !comparable.includes(k)), [], `unknown fields in the R reference for ${file}`);
       const main = spec.test === 'power' ? 'power' : spec.test === 'post-hoc' ? 'cellHolm' : 'pValue';
       assert.ok(main === 'cellHolm' ? Array.isArray(ref.cellHolm) && ref.cellHolm.length > 0 : typeof ref[main] === 'number', `the R reference for ${file} lacks ${main}`);
@@ -53,6 +53,13 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       if (ref.statistic !== undefined) closeTo(r.statistic, ref.statistic, 1e-10, 'statistic', file);
       if (ref.pValue !== undefined) closeTo(r.pValue.value, ref.pValue, 1e-9, 'p-value', file);
       if (ref.df !== undefined) assert.equal(r.df, ref.df);
+      if (spec.test === 'distribution-fit') {
+        // The Chernoff–Lehmann upper bound of p (R pchisq on k − 1 df), which every distribution fit reports.
+        assert.equal(typeof ref.pValueUpperBound, 'number', `the R reference for ${file} lacks pValueUpperBound`);
+        const line = r.otherStatistics.find((l) => l.id === 'pearson-chernoff-lehmann');
+        assert.ok(line, 'the Chernoff–Lehmann line');
+        closeTo(line.pValue.value, ref.pValueUpperBound!, 1e-9, 'Chernoff–Lehmann upper bound of p', file);
+      }
       if (ref.z !== undefined) closeTo(r.statistic, ref.z, 1e-10, 'z', file);
       if (ref.oddsRatio !== undefined) closeTo(r.estimates[0].value, ref.oddsRatio, 1e-12, 'common odds ratio', file);
       if (ref.cellHolm !== undefined) ref.cellHolm.forEach((p, k) => closeTo(r.otherStatistics[k].pValue.value, p, 1e-9, `cell ${k} Holm p`, file));
