@@ -137,7 +137,19 @@ export async function aggregateOf<K extends Aggregate['kind']>(
   if (aggregate.kind !== kind) {
     throw new InputError(`$.source: expected the reader to produce ${kind}, got ${aggregate.kind}`, { jsonPath: '$.source' }, 'unexpected-aggregate');
   }
+  // Nothing to test: refused here, at the source the spec names, rather than later at a field ("$.table") it lacks.
+  if (isEmptyAggregate(aggregate)) {
+    const dropped = aggregate.provenance.dropped > 0 ? ` (${aggregate.provenance.dropped} dropped for missing values)` : '';
+    throw new InputError(`$.source: ${aggregate.provenance.description} gave no records to test${dropped}; expected at least one (a query or "where" that matches nothing?)`, { jsonPath: '$.source' }, 'no-rows');
+  }
   return aggregate as Extract<Aggregate, { kind: K }>;
+}
+
+function isEmptyAggregate(aggregate: Aggregate): boolean {
+  const total = (counts: readonly number[]): number => counts.reduce((a, b) => a + b, 0);
+  if (aggregate.kind === 'table') return total(aggregate.table.counts.flat()) === 0;
+  if (aggregate.kind === 'categories') return total(aggregate.counts.counts) === 0;
+  return aggregate.moments.n === 0;
 }
 
 function list(keys: readonly string[]): string {
