@@ -5,31 +5,18 @@
 import { InputError } from '../../errors';
 import { independenceTest } from '../../stats/table';
 import type { TestResult } from '../../stats/result';
-import { arr, bool, field, type SpecProblem } from '../fields';
+import { bool, field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
 import { applyMethod } from './method';
-import {
-  CONFIDENCE,
-  COUNT_ARRAY,
-  LABELS,
-  VARIABLE_NAME,
-  COUNT_TEST_OPTIONS,
-  aggregateOf,
-  checkLambda,
-  checkSourceColumns,
-  placeCounts,
-  requireLength,
-  requireOneOf,
-  sourceField,
-} from './shared';
+import { aggregateOf, checkLambda, checkSourceColumns, CONFIDENCE, COUNT_TABLE, COUNT_TEST_OPTIONS, LABELS, placeCounts, requireLength, requireOneOf, sourceField, VARIABLE_NAME } from './shared';
 
 export const independenceProcedure: ProcedureHandler = {
   test: 'independence',
   summary: 'Chi-square test of independence (or homogeneity) on an r×c table of counts.',
   fields: {
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
+    table: field(COUNT_TABLE, 'The table of counts: an array of rows, each an array of counts.', true),
     rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
     columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),
     rowVariable: VARIABLE_NAME('what the rows classify'),

@@ -4,17 +4,17 @@
  */
 import { pairedTest } from '../../stats/paired';
 import type { TestResult } from '../../stats/result';
-import { arr, bool, field, str, type SpecProblem } from '../fields';
+import { bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext, SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { CONFIDENCE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
+import { aggregateOf, checkSourceColumns, CONFIDENCE, COUNT_TABLE, LABELS, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 
 export const pairedProcedure: ProcedureHandler = {
   test: 'paired',
   summary: "Paired classifications: McNemar's test for a 2×2 table, Bowker's test of symmetry for k×k (rows: first classification, columns: second).",
   fields: {
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
+    table: field(COUNT_TABLE, 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
     source: sourceField('Two categorical columns: the first classification and the second, one record per unit.', 2, 2),
     rowLabels: LABELS('categories (the same for rows and columns)'),
     columnLabels: LABELS('categories as columns (must equal "rowLabels" when both are given)'),

@@ -4,17 +4,17 @@
  */
 import { postHocTest, type Adjustment, type Comparison } from '../../stats/posthoc';
 import type { TestResult } from '../../stats/result';
-import { arr, field, str, type SpecProblem } from '../fields';
+import { field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { COUNT_ARRAY, LABELS, requireLength } from './shared';
+import { COUNT_TABLE, LABELS, requireLength } from './shared';
 
 export const postHocProcedure: ProcedureHandler = {
   test: 'post-hoc',
   summary: 'Post-hoc comparisons on an r×c table: pairs of rows or columns, or cell-wise adjusted residuals, with Bonferroni, Holm or Benjamini–Hochberg adjustment.',
   fields: {
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
+    table: field(COUNT_TABLE, 'The table of counts: an array of rows, each an array of counts.', true),
     rowLabels: LABELS('rows'),
     columnLabels: LABELS('columns'),
     compare: field(str({ enum: ['cells', 'rows', 'columns'] }), 'What to compare: "cells" (adjusted residual per cell, default), "rows" or "columns" (each pair by a chi-square test).'),

@@ -20,13 +20,23 @@ export const METHOD = field(
   str({ enum: ['asymptotic', 'exact', 'monte-carlo'] }),
   'How the p-value is computed: "asymptotic" (the chi-square approximation, default), "exact", or "monte-carlo" (with "resamples" and "seed").',
 );
-export const RESAMPLES = field(num({ integer: true, min: 1 }), 'Number of Monte Carlo resamples (with "method": "monte-carlo").');
+/**
+ * Limits of inline data, each refused by validation with its JSON path: at most MAX_CATEGORIES categories (or
+ * table rows, or table columns; the same as the readers' default limit of distinct levels) and MAX_RESAMPLES
+ * Monte Carlo resamples (the largest the editor setting allows). A spec file is at most 16 MiB besides.
+ */
+export const MAX_CATEGORIES = 10_000;
+export const MAX_RESAMPLES = 10_000_000;
+
+export const RESAMPLES = field(num({ integer: true, min: 1, max: MAX_RESAMPLES }), `Number of Monte Carlo resamples (with "method": "monte-carlo"), at most ${MAX_RESAMPLES}.`);
 export const SEED = field(num({ integer: true, min: 0 }), 'Seed of the Monte Carlo random stream, so that the p-value is reproducible.');
 export const LABELS = (what: string): Field => field(arr(str()), `Labels of the ${what}, in order.`, true);
 /** A variable's name for the conclusion sentence; with a source it defaults to the column's name. */
 export const VARIABLE_NAME = (what: string): Field =>
   field(str(), `Name of ${what}, used in the conclusion (e.g. "oven"). Default: the name of the source column, if any; otherwise the wording stays generic.`);
-export const COUNT_ARRAY = arr(num({ min: 0 }));
+export const COUNT_ARRAY = arr(num({ min: 0 }), { maxItems: MAX_CATEGORIES });
+/** A table of counts: 2 to MAX_CATEGORIES rows of at most MAX_CATEGORIES counts. */
+export const COUNT_TABLE = arr(COUNT_ARRAY, { minItems: 2, maxItems: MAX_CATEGORIES });
 
 /** The statistic and p-value method options shared by the count tests (goodness of fit, r×c tables). */
 export const COUNT_TEST_OPTIONS = { statistic: STATISTIC, lambda: LAMBDA, method: METHOD, resamples: RESAMPLES, seed: SEED } as const;

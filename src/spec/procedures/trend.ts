@@ -9,13 +9,13 @@ import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext, SpecV1 } from '../types';
 import type { ProcedureHandler } from './index';
-import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
+import { aggregateOf, ALTERNATIVE, checkSourceColumns, COUNT_TABLE, LABELS, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 
 export const trendProcedure: ProcedureHandler = {
   test: 'trend',
   summary: 'Trend across ordered groups: Cochran–Armitage for a 2×k table (first row: events), or linear-by-linear association for two ordinal variables.',
   fields: {
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Counts: 2 rows (events, non-events) by ordered groups, or an r×c table of two ordinal variables.', true),
+    table: field(COUNT_TABLE, 'Counts: 2 rows (events, non-events) by ordered groups, or an r×c table of two ordinal variables.', true),
     scores: field(arr(num()), 'Scores of the ordered groups (columns) for Cochran–Armitage. Default 1, 2, …, k (equally spaced).'),
     rowScores: field(arr(num()), 'Row scores for the linear-by-linear test. Giving them (or a table with more than 2 rows) selects that test.'),
     columnScores: field(arr(num()), 'Column scores for the linear-by-linear test. Default 1, 2, …'),
