@@ -13,6 +13,7 @@ const parts: BenchPart[] = [
   require('./postgres').postgresBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./exact').exactBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./extension').extensionBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./hardening').hardeningBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
 async function main(): Promise<void> {
