@@ -17,6 +17,7 @@ const parts: BenchPart[] = [
   require('./tabular').xlsxBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./tabular').parquetBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./fragility').fragilityBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./hardening').hardeningBench, // eslint-disable-line @typescript-eslint/no-require-imports
 ];
 
 async function main(): Promise<void> {

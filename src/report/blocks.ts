@@ -1,4 +1,5 @@
 import { errorMessage } from '../errors';
+import { escapeMarkdown } from './markdown';
 /**
  * Living report blocks in markdown. A fenced block whose info string is `countercheck` holds a spec
  * (inline JSON, or {"spec": "path/to/test.countercheck.json"}); its result is written right below it
@@ -179,8 +180,9 @@ export async function refreshReport(text: string, render: (block: ReportBlock) =
 }
 
 export function errorMarkdown(message: string): string {
+  // Each line of the message is escaped as inline text (a leading #, -, 1. or indentation would open a block).
   return `> **Countercheck could not run this block.**\n>\n${message
     .split(/\r\n|\r|\n/)
-    .map((l) => `> ${l.replace(/([*_`[\]<>|\\])/g, '\\$1')}`)
+    .map((l) => `> ${escapeMarkdown(l)}`)
     .join('\n')}\n`;
 }

@@ -271,9 +271,12 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   if (pooled.length > 0) {
     notices.push({ code: 'bins-pooled', severity: 'info', message: `Adjacent bins were pooled until every expected count reached ${minimum} (common practice): ${pooled.map((g) => `${g.bins.join(' + ')} → ${g.label}`).join('; ')}.` });
   }
-  notices.push({ code: 'estimated-parameters', severity: 'info', message: `df = ${groups.length} bins − 1 − ${m} estimated parameter${m > 1 ? 's' : ''} = ${df}. The parameters were estimated from the ungrouped values, so the true p-value lies between this one and the one with ${groups.length - 1} df (Chernoff & Lehmann 1954).` });
   // Pearson X² is the power divergence with λ = 1 (Cressie & Read 1984); one implementation serves fit, table and here.
   const pearson = powerDivergence(groups.map((g) => g.observed), groups.map((g) => g.expected), 1);
+  // Chernoff & Lehmann (1954): with the parameters estimated from the ungrouped values, the statistic's null
+  // distribution lies between χ²(k − 1 − m) and χ²(k − 1), so the p-value on k − 1 df bounds the true one from above.
+  const bound = chiSquareLine('pearson-chernoff-lehmann', `Pearson chi-square on ${groups.length - 1} df (Chernoff–Lehmann upper bound of p)`, 'X²', pearson.statistic, groups.length - 1);
+  notices.push({ code: 'estimated-parameters', severity: 'info', message: `df = ${groups.length} bins − 1 − ${m} estimated parameter${m > 1 ? 's' : ''} = ${df}. The parameters were estimated from the ungrouped values, so the true p-value lies between this one and the one with ${groups.length - 1} df (Chernoff & Lehmann 1954): ${describeP(bound.pValue)}.` });
   const categories: CategoryRow[] = groups.map((g, k) => {
     const share = g.expected / n;
     return {
@@ -296,6 +299,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
         : `The data are consistent with a ${name} distribution ${describeAlpha(alpha)} (${describeP(line.pValue)}); this does not prove the values are ${name}, only that the departure is within chance.`,
     },
     {
+      otherStatistics: [bound],
       estimates: estimated,
       categories,
       notices,

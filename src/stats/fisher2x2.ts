@@ -22,6 +22,12 @@ export interface FisherExact2x2 {
   readonly less: Probability;
   /** Conditional maximum-likelihood estimate of the odds ratio (0 or Infinity at the edge of the support). */
   readonly conditionalOddsRatio: number;
+  /**
+   * Exact conditional interval for the odds ratio at the level asked (Cornfield 1956; as R's fisher.test): the ψ
+   * with P_ψ(X ≥ a) = (1 − level)/2 and with P_ψ(X ≤ a) = (1 − level)/2 under the noncentral hypergeometric.
+   * Undefined for N above 1e6, like the estimate, or a support of more than 1e5 values (cost: about 100 passes over it).
+   */
+  readonly conditionalInterval?: { readonly lower: number; readonly upper: number; readonly level: number };
 }
 
 /** The hypergeometric distribution of a given the margins of [[a, b], [c, d]]. */
@@ -151,14 +157,12 @@ class Hypergeometric {
     const support = this.effectiveSupport(x);
     const logBase = support.map((y) => this.logProbability(y));
     const meanAt = (logPsi: number): number => {
-      let maxLog = -Infinity;
-      for (let i = 0; i < support.length; i++) maxLog = Math.max(maxLog, logBase[i] + support[i] * logPsi);
+      const w = tiltedWeights(support, logBase, logPsi);
       let s0 = 0;
       let s1 = 0;
       for (let i = 0; i < support.length; i++) {
-        const w = Math.exp(logBase[i] + support[i] * logPsi - maxLog);
-        s0 += w;
-        s1 += w * support[i];
+        s0 += w[i];
+        s1 += w[i] * support[i];
       }
       return s1 / s0;
     };
@@ -170,6 +174,37 @@ class Hypergeometric {
       else hi = mid;
     }
     return Math.exp((lo + hi) / 2);
+  }
+
+  /** The exact conditional interval for ψ at `level` (over the whole support, which the caller keeps ≤ 1e5 + 1 values). */
+  conditionalInterval(x: number, level: number): { lower: number; upper: number; level: number } {
+    const support: number[] = [];
+    for (let y = this.lo; y <= this.hi; y++) support.push(y);
+    const logBase = support.map((y) => this.logProbability(y));
+    // P_ψ(X ≥ x) (upper = true) or P_ψ(X ≤ x), as ln, under the weights P(y)·ψ^y normalised.
+    const logTail = (logPsi: number, upper: boolean): number => {
+      const w = tiltedWeights(support, logBase, logPsi);
+      let all = 0;
+      let tail = 0;
+      for (let i = 0; i < support.length; i++) {
+        all += w[i];
+        if (upper ? support[i] >= x : support[i] <= x) tail += w[i];
+      }
+      return Math.log(tail) - Math.log(all);
+    };
+    const target = Math.log((1 - level) / 2);
+    // ln P_ψ(X ≥ x) increases with ψ, ln P_ψ(X ≤ x) decreases: bisection on ln ψ over [−50, 50].
+    const solve = (upper: boolean): number => {
+      let a = -50;
+      let b = 50;
+      for (let i = 0; i < 200 && b - a > 1e-13; i++) {
+        const mid = (a + b) / 2;
+        if ((logTail(mid, upper) < target) === upper) a = mid;
+        else b = mid;
+      }
+      return Math.exp((a + b) / 2);
+    };
+    return { lower: x <= this.lo ? 0 : solve(true), upper: x >= this.hi ? Infinity : solve(false), level };
   }
 
   private effectiveSupport(x: number): number[] {
@@ -184,19 +219,30 @@ class Hypergeometric {
   }
 }
 
+/** Weights P(y)·ψ^y of the noncentral hypergeometric over `support`, scaled so the largest is 1. */
+function tiltedWeights(support: readonly number[], logBase: readonly number[], logPsi: number): Float64Array {
+  let maxLog = -Infinity;
+  for (let i = 0; i < support.length; i++) maxLog = Math.max(maxLog, logBase[i] + support[i] * logPsi);
+  const w = new Float64Array(support.length);
+  for (let i = 0; i < support.length; i++) w[i] = Math.exp(logBase[i] + support[i] * logPsi - maxLog);
+  return w;
+}
+
 /**
  * Fisher's exact test on [[a, b], [c, d]] (counts already validated: whole numbers ≥ 0, no empty margin).
  * The conditional MLE of the odds ratio is computed only for tables with N ≤ 1e6 (NaN otherwise).
  */
-export function fisherExact2x2(table: readonly (readonly number[])[]): FisherExact2x2 {
+export function fisherExact2x2(table: readonly (readonly number[])[], level = 0.95): FisherExact2x2 {
   const [[a, b], [c, d]] = table;
   const distribution = new Hypergeometric(a + b, c + d, a + c);
   const n = a + b + c + d;
+  const small = n <= 1e6 && distribution.lo < distribution.hi && distribution.hi - distribution.lo <= 1e5;
   return {
     twoSided: distribution.twoSided(a),
     greater: distribution.upperTail(a),
     less: distribution.lowerTail(a),
     conditionalOddsRatio: n <= 1e6 ? distribution.conditionalMle(a) : NaN,
+    ...(small ? { conditionalInterval: distribution.conditionalInterval(a, level) } : {}),
   };
 }
 

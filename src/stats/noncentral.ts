@@ -17,6 +17,7 @@
  */
 import {
   gammaPrefactor,
+  logGamma,
   logGammaPrefactor,
   logRegularizedGammaLower,
   logRegularizedGammaUpper,
@@ -24,6 +25,8 @@ import {
   regularizedGammaUpper,
 } from './gamma';
 import {
+  chiSquareDensity,
+  chiSquareLog10Density,
   chiSquareLogLowerTail,
   chiSquareLogUpperTail,
   chiSquareLowerTail,
@@ -321,4 +324,32 @@ export function noncentralChiSquareQuantile(p: number, df: number, ncp: number):
 /** x with P(X > x) = q for X ~ χ²(df, ncp). */
 export function noncentralChiSquareUpperQuantile(q: number, df: number, ncp: number): number {
   return noncentralQuantile(q, df, ncp, true);
+}
+
+/**
+ * Density of χ²(df, ncp): the Poisson(ncp/2) mixture Σ_j P(J = j)·f(x; df + 2j) of central densities, summed in
+ * logs outwards from the Poisson mode until a term no longer changes the sum (Johnson, Kotz & Balakrishnan 1995,
+ * ch. 29). ncp = 0 is the central density.
+ */
+export function noncentralChiSquareDensity(x: number, df: number, ncp: number): number {
+  if (badParameters(x, df, ncp)) return NaN;
+  if (ncp === 0) return chiSquareDensity(x, df);
+  if (x < 0 || x === Infinity) return 0;
+  const h = ncp / 2;
+  const logTerm = (j: number): number => -h + j * Math.log(h) - logGamma(j + 1) + chiSquareLog10Density(x, df + 2 * j) * Math.LN10;
+  const mode = Math.floor(h);
+  const top = logTerm(mode);
+  if (top === -Infinity) return 0;
+  let sum = 1;
+  for (let j = mode + 1; ; j++) {
+    const t = Math.exp(logTerm(j) - top);
+    sum += t;
+    if (t <= 1e-17 * sum && j > mode + 2) break;
+  }
+  for (let j = mode - 1; j >= 0; j--) {
+    const t = Math.exp(logTerm(j) - top);
+    sum += t;
+    if (t <= 1e-17 * sum) break;
+  }
+  return Math.exp(top) * sum;
 }

@@ -102,7 +102,7 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
   const estimates: Estimate[] = [
     { id: 'pairedDifference', name: `Difference of paired proportions, P(${labels[0]} first) − P(${labels[0]} second)`, value: difference, interval: wald },
     { id: 'pairedDifferenceAgrestiMin', name: 'Difference of paired proportions, Agresti–Min interval', value: (b - c) / (n + 2), interval: agrestiMin },
-    { id: 'discordantOddsRatio', name: 'Ratio of discordant pairs b/c (conditional odds ratio)', value: c === 0 ? (b === 0 ? NaN : Infinity) : b / c },
+    discordantRatio(b, c, confidence),
   ];
   const pValue = main.pValue;
   const significant = pValue.value < alpha;
@@ -190,4 +190,43 @@ export function bowkerTest(table: readonly (readonly number[])[], options: Paire
     },
     { notices, assumptions: [pairingAssumption(), independenceAssumption('pair')], details: { pairs } },
   );
+}
+
+/** Largest b + c for the exact interval of b/c (each end costs about 100 binomial tails of ≈ 9·√(b + c) terms). */
+const RATIO_INTERVAL_LIMIT = 1e7;
+
+/**
+ * b/c, the conditional odds ratio of the paired table, with its exact conditional interval: the Clopper–Pearson
+ * interval [πL, πU] for π = b/(b + c) (inverting the two one-sided binomial tests), mapped by π/(1 − π).
+ */
+function discordantRatio(b: number, c: number, confidence: number): Estimate {
+  const value = c === 0 ? (b === 0 ? NaN : Infinity) : b / c;
+  const base = { id: 'discordantOddsRatio', name: 'Ratio of discordant pairs b/c (conditional odds ratio)', value };
+  const m = b + c;
+  if (m === 0 || m > RATIO_INTERVAL_LIMIT) return base;
+  const [lower, upper] = clopperPearson(b, m, confidence);
+  return {
+    ...base,
+    interval: { lower: lower / (1 - lower), upper: upper >= 1 ? Infinity : upper / (1 - upper), level: confidence, parameter: 'b/c', method: 'exact conditional (Clopper–Pearson interval for b/(b + c), mapped by π/(1 − π))' },
+  };
+}
+
+/** Clopper–Pearson interval for a binomial proportion: P_πL(X ≥ k) = P_πU(X ≤ k) = (1 − level)/2, by bisection. */
+function clopperPearson(k: number, n: number, level: number): [number, number] {
+  const tail = (1 - level) / 2;
+  const solve = (tooLow: (p: number) => boolean): number => {
+    let lo = 0;
+    let hi = 1;
+    for (let i = 0; i < 200 && hi - lo > 1e-15 * Math.max(hi, 1e-300); i++) {
+      const mid = lo > 0 ? (hi / lo > 16 ? Math.sqrt(lo * hi) : (lo + hi) / 2) : hi / 16;
+      if (tooLow(mid)) lo = mid;
+      else hi = mid;
+    }
+    return (lo + hi) / 2;
+  };
+  // P_π(X ≥ k) = P(n − X ≤ n − k) with n − X ~ Bin(n, 1 − π); increasing in π.
+  const lower = k === 0 ? 0 : solve((p) => binomialLowerTail(n - k, n, 1 - p).value < tail);
+  // P_π(X ≤ k) decreases in π.
+  const upper = k === n ? 1 : solve((p) => binomialLowerTail(k, n, p).value > tail);
+  return [lower, upper];
 }

@@ -87,7 +87,7 @@ export function independenceTest(table: readonly (readonly number[])[], options:
   const effectSizes: Estimate[] = cramersV(pearson.line.statistic, total, r, c);
   let fisherDetails: Record<string, unknown> | undefined;
   if (is2x2) {
-    const fisher = fisherExact2x2(counts);
+    const fisher = fisherExact2x2(counts, confidence);
     otherStatistics.push({
       id: 'fisher-exact',
       name: "Fisher's exact test (two-sided)",
@@ -103,7 +103,14 @@ export function independenceTest(table: readonly (readonly number[])[], options:
     effectSizes.unshift({ id: 'phi', name: 'Phi coefficient φ', value: sign * Math.sqrt(pearson.line.statistic / total), note: 'Signed: positive when the first row is more likely than the second to fall in the first column. Its absolute value equals Cramér\'s V.' });
     estimates.push(...twoByTwoEstimates(counts, rowLabels, columnLabels, confidence, notices));
     if (Number.isFinite(fisher.conditionalOddsRatio)) {
-      estimates.push({ id: 'conditionalOddsRatio', name: 'Odds ratio, conditional maximum likelihood', value: fisher.conditionalOddsRatio, note: "The estimate that goes with Fisher's exact test." });
+      const ci = fisher.conditionalInterval;
+      estimates.push({
+        id: 'conditionalOddsRatio',
+        name: 'Odds ratio, conditional maximum likelihood',
+        value: fisher.conditionalOddsRatio,
+        ...(ci ? { interval: { lower: ci.lower, upper: ci.upper, level: ci.level, parameter: 'odds ratio', method: 'exact conditional (inverting the one-sided Fisher tests)' } } : {}),
+        note: "The estimate and interval that go with Fisher's exact test.",
+      });
     }
   }
 

@@ -5,13 +5,13 @@
 import { InputError } from '../../errors';
 import { independenceTest } from '../../stats/table';
 import type { TestResult } from '../../stats/result';
-import { arr, bool, field, type SpecProblem } from '../fields';
+import { bool, field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
 import { applyMethod } from './method';
 import {
   CONFIDENCE,
-  COUNT_ARRAY,
+  COUNT_TABLE,
   LABELS,
   VARIABLE_NAME,
   COUNT_TEST_OPTIONS,
@@ -39,7 +39,7 @@ export const independenceProcedure = defineProcedure({
     ],
   },
   fields: {
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
+    table: field(COUNT_TABLE, 'The table of counts: an array of rows, each an array of counts.', true),
     rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
     columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),
     rowVariable: VARIABLE_NAME('what the rows classify'),

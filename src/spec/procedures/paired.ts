@@ -4,11 +4,11 @@
  */
 import { pairedTest } from '../../stats/paired';
 import type { TestResult } from '../../stats/result';
-import { arr, bool, field, str, type SpecProblem } from '../fields';
+import { bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './index';
-import { CONFIDENCE, COUNT_ARRAY, LABELS, type SourceSpec, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
+import { CONFIDENCE, COUNT_TABLE, LABELS, type SourceSpec, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 import { FRAGILITY_FIELDS } from '../evidence';
 
 export const pairedProcedure = defineProcedure({
@@ -22,7 +22,7 @@ export const pairedProcedure = defineProcedure({
   },
   fields: {
     ...FRAGILITY_FIELDS,
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
+    table: field(COUNT_TABLE, 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
     source: sourceField('Two categorical columns: the first classification and the second, one record per unit.', 2, 2),
     rowLabels: LABELS('categories (the same for rows and columns)'),
     columnLabels: LABELS('categories as columns (must equal "rowLabels" when both are given)'),

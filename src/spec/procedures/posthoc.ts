@@ -4,10 +4,10 @@
  */
 import { postHocTest } from '../../stats/posthoc';
 import type { TestResult } from '../../stats/result';
-import { arr, field, str, withDefault, type SpecProblem } from '../fields';
+import { field, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
-import { COUNT_ARRAY, LABELS, checkSourceColumns, requireLength, requireOneOf, sourceField, tableFromSource } from './shared';
+import { COUNT_TABLE, LABELS, checkSourceColumns, requireLength, requireOneOf, sourceField, tableFromSource } from './shared';
 
 export const postHocProcedure = defineProcedure({
   test: 'post-hoc',
@@ -23,7 +23,7 @@ export const postHocProcedure = defineProcedure({
     ],
   },
   fields: {
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'The table of counts: an array of rows, each an array of counts.', true),
+    table: field(COUNT_TABLE, 'The table of counts: an array of rows, each an array of counts.', true),
     source: sourceField('Two categorical columns to cross-tabulate (rows, then columns); leave out for a file that already holds the table.', 0, 2),
     rowLabels: LABELS('rows (with a source: the order and full set of levels of the first column)'),
     columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),

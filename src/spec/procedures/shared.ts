@@ -20,13 +20,23 @@ export const METHOD = withDefault(
   field(str({ enum: ['asymptotic', 'exact', 'monte-carlo'] }), 'How the p-value is computed: "asymptotic" (the chi-square approximation, default), "exact", or "monte-carlo" (with "resamples" and "seed").'),
   'asymptotic',
 );
-export const RESAMPLES = field(num({ integer: true, min: 1 }), 'Number of Monte Carlo resamples (with "method": "monte-carlo").');
+/**
+ * Limits of inline data, each refused by validation with its JSON path: at most MAX_CATEGORIES categories (or
+ * table rows, or table columns; the same as the readers' default limit of distinct levels) and MAX_RESAMPLES
+ * Monte Carlo resamples (the largest the editor setting allows). A spec file is at most 16 MiB besides.
+ */
+export const MAX_CATEGORIES = 10_000;
+export const MAX_RESAMPLES = 10_000_000;
+
+export const RESAMPLES = field(num({ integer: true, min: 1, max: MAX_RESAMPLES }), `Number of Monte Carlo resamples (with "method": "monte-carlo"), at most ${MAX_RESAMPLES}.`);
 export const SEED = field(num({ integer: true, min: 0 }), 'Seed of the Monte Carlo random stream, so that the p-value is reproducible.');
 export const LABELS = (what: string) => field(arr(str()), `Labels of the ${what}, in order.`, true);
 /** A variable's name for the conclusion sentence; with a source it defaults to the column's name. */
 export const VARIABLE_NAME = (what: string) =>
   field(str(), `Name of ${what}, used in the conclusion (e.g. "oven"). Default: the name of the source column, if any; otherwise the wording stays generic.`);
-export const COUNT_ARRAY = arr(num({ min: 0 }));
+export const COUNT_ARRAY = arr(num({ min: 0 }), { maxItems: MAX_CATEGORIES });
+/** A table of counts: 2 to MAX_CATEGORIES rows of at most MAX_CATEGORIES counts. */
+export const COUNT_TABLE = arr(COUNT_ARRAY, { minItems: 2, maxItems: MAX_CATEGORIES });
 
 /** The Monte Carlo variant of a count test, as the editor offers it (10,000 resamples, seed 1: reproducible). */
 export const MONTE_CARLO = { method: 'monte-carlo', resamples: 10000, seed: 1 } as const;
@@ -149,7 +159,19 @@ export async function aggregateOf<K extends Aggregate['kind']>(
   if (aggregate.kind !== kind) {
     throw new InputError(`$.source: expected the reader to produce ${kind}, got ${aggregate.kind}`, { jsonPath: '$.source' }, 'unexpected-aggregate');
   }
+  // Nothing to test: refused here, at the source the spec names, rather than later at a field ("$.table") it lacks.
+  if (isEmptyAggregate(aggregate)) {
+    const dropped = aggregate.provenance.dropped > 0 ? ` (${aggregate.provenance.dropped} dropped for missing values)` : '';
+    throw new InputError(`$.source: ${aggregate.provenance.description} gave no records to test${dropped}; expected at least one (a query or "where" that matches nothing?)`, { jsonPath: '$.source' }, 'no-rows');
+  }
   return aggregate as Extract<Aggregate, { kind: K }>;
+}
+
+function isEmptyAggregate(aggregate: Aggregate): boolean {
+  const total = (counts: readonly number[]): number => counts.reduce((a, b) => a + b, 0);
+  if (aggregate.kind === 'table') return total(aggregate.table.counts.flat()) === 0;
+  if (aggregate.kind === 'categories') return total(aggregate.counts.counts) === 0;
+  return aggregate.moments.n === 0;
 }
 
 function list(keys: readonly string[]): string {

@@ -9,7 +9,7 @@ import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './index';
-import { ALTERNATIVE, COUNT_ARRAY, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
+import { ALTERNATIVE, COUNT_TABLE, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
 
 export const trendProcedure = defineProcedure({
   test: 'trend',
@@ -21,7 +21,7 @@ export const trendProcedure = defineProcedure({
     roles: ['the outcome (rows)', 'the ordered groups (columns)'],
   },
   fields: {
-    table: field(arr(COUNT_ARRAY, { minItems: 2 }), 'Counts: 2 rows (events, non-events) by ordered groups, or an r×c table of two ordinal variables.', true),
+    table: field(COUNT_TABLE, 'Counts: 2 rows (events, non-events) by ordered groups, or an r×c table of two ordinal variables.', true),
     scores: field(arr(num()), 'Scores of the ordered groups (columns) for Cochran–Armitage. Default 1, 2, …, k (equally spaced).'),
     rowScores: field(arr(num()), 'Row scores for the linear-by-linear test. Giving them (or a table with more than 2 rows) selects that test.'),
     columnScores: field(arr(num()), 'Column scores for the linear-by-linear test. Default 1, 2, …'),

@@ -64,12 +64,22 @@ function tableOf(a: Aggregate): CountTable {
 }
 
 /** Runs a reader; it must return or throw an InputError, nothing else. */
+/** Refusals about the input as a whole (its shape, its encoding), which have no line, column or JSON path to give. */
+const WHOLE_INPUT = new Set(['bad-html', 'too-few-columns', 'empty-input', 'no-table', 'no-data', 'not-a-table', 'binary-file', 'file-changed']);
+
+/** An InputError must say where: a line, a column, a JSON path, or a code for the input as a whole. */
+function assertPositioned(e: InputError): void {
+  assert.ok(e.message.length > 0);
+  const { line, column, jsonPath } = e.location;
+  assert.ok(line !== undefined || column !== undefined || jsonPath !== undefined || WHOLE_INPUT.has(e.code), `unpositioned error (${e.code}): ${e.message}`);
+}
+
 function neverCrashes(run: () => unknown): void {
   try {
     run();
   } catch (e) {
     if (!(isInstance(e, InputError))) throw e;
-    assert.ok(e.message.length > 0);
+    assertPositioned(e);
   }
 }
 
@@ -78,9 +88,13 @@ async function neverCrashesAsync(run: () => Promise<unknown>): Promise<string> {
     return JSON.stringify(await run());
   } catch (e) {
     if (!(isInstance(e, InputError))) throw e;
+    assertPositioned(e);
     return `error: ${e.message}`;
   }
 }
+
+/** Runs of the fuzz properties: a size that fits the unit suite, more with FUZZ_RUNS (npm run fuzz). */
+const runs = (n: number): number => Math.max(n, Number(process.env.FUZZ_RUNS ?? 0));
 
 describe('data: properties', () => {
   after(() => rmSync(scratch, { recursive: true, force: true }));
@@ -116,10 +130,26 @@ describe('data: properties', () => {
     );
   });
 
-  const csvish = fc.array(fc.constantFrom(...'ab,;\t|"\n\r #0.-9e\\x'.split(''), '\u00e9', '\ufeff'), { maxLength: 120 }).map((cs) => cs.join(''));
-  const anyText = fc.oneof(fc.string({ maxLength: 200 }), csvish, fc.string({ unit: 'binary', maxLength: 200 }));
+  const csvish = fc.array(fc.constantFrom(...'ab,;\t|"\n\r #0.-9e\\x'.split(''), '\u00e9', '\ufeff'), { maxLength: 2000 }).map((cs) => cs.join(''));
+  const anyText = fc.oneof(fc.string({ maxLength: 2000 }), csvish, fc.string({ unit: 'binary', maxLength: 2000 }));
+  // Column names from JavaScript's own property names, to catch lookups that reach the prototype.
+  const RESERVED = ['__proto__', 'constructor', 'toString', 'valueOf', 'hasOwnProperty', 'length', 'prototype', '1', '2', 'a'];
+  const headed = fc
+    .tuple(fc.uniqueArray(fc.constantFrom(...RESERVED), { minLength: 2, maxLength: 4 }), fc.array(fc.array(fc.constantFrom(...RESERVED, 'x', '', '3'), { minLength: 1, maxLength: 5 }), { maxLength: 40 }))
+    .map(([header, rows]) => ({ header, text: [header.join(','), ...rows.map((r) => r.join(','))].join('\n') }));
 
   it('random text never crashes an in-memory reader (it parses or gives a positioned error)', () => {
+    fc.assert(
+      fc.property(headed, fc.constantFrom(...RESERVED), ({ header, text }, other) => {
+        for (const column of [header[1], other]) {
+          neverCrashes(() => aggregateRecords(parseDelimited(text), { kind: 'crosstab', rowColumn: header[0], columnColumn: column }));
+          neverCrashes(() => aggregateRecords(parseDelimited(text), { kind: 'categories', column, weight: other }));
+          neverCrashes(() => aggregateRecords(parseDelimited(text), { kind: 'numeric', column }));
+        }
+        neverCrashes(() => readJsonData(JSON.stringify({ [header[0]]: [1, 2], [other]: { a: 1 } })));
+      }),
+      { seed: 20261203, numRuns: runs(300) },
+    );
     fc.assert(
       fc.property(anyText, (text) => {
         neverCrashes(() => aggregateRecords(parseDelimited(text), { kind: 'counted-table' }));
@@ -129,14 +159,14 @@ describe('data: properties', () => {
         neverCrashes(() => readJsonData(text));
         neverCrashes(() => parseHtmlTable(`<table>${text}</table>`));
       }),
-      { numRuns: 500 },
+      { seed: 20261203, numRuns: runs(500) },
     );
   });
 
   it('random bytes never crash the file reader', async () => {
-    const withBom = (bom: number[]) => fc.uint8Array({ maxLength: 200 }).map((b) => new Uint8Array([...bom, ...b]));
+    const withBom = (bom: number[]) => fc.uint8Array({ maxLength: 2000 }).map((b) => new Uint8Array([...bom, ...b]));
     const bytes = fc.oneof(
-      fc.uint8Array({ maxLength: 300 }),
+      fc.uint8Array({ maxLength: 3000 }),
       csvish.map((s) => new TextEncoder().encode(s)),
       withBom([0xff, 0xfe]),
       withBom([0xfe, 0xff]),
@@ -149,7 +179,7 @@ describe('data: properties', () => {
           aggregateFileMany(path, [{ kind: 'crosstab', rowColumn: '1', columnColumn: '2' }, { kind: 'numeric', column: '1' }], { dialect: { header: false } }, { engine, chunkSize: 16 }),
         );
       }),
-      { numRuns: 200 },
+      { seed: 20261203, numRuns: runs(200) },
     );
   });
 

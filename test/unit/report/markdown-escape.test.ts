@@ -4,6 +4,7 @@
 import { strict as assert } from 'node:assert';
 import fc from 'fast-check';
 import MarkdownIt from 'markdown-it';
+import { errorMarkdown } from '../../../src/report/blocks';
 import { escapeMarkdown, markdownTable } from '../../../src/report/markdown';
 
 const md = new MarkdownIt({ html: true });
@@ -70,5 +71,16 @@ describe('markdown escaping of labels', () => {
       }),
       { seed: 20261203, numRuns: Number(process.env.FUZZ_RUNS ?? 2000) },
     );
+  });
+});
+
+describe('error blocks written into a report', () => {
+  it('a message with line breaks and markup stays quoted text: no heading, list or code inside the quote', () => {
+    const tokens = md.parse(errorMarkdown('data.csv, line 3: found `x`\n# Injected\r- item\r\n    code\n1. one'), {});
+    const kinds = tokens.map((t) => t.type).filter((t) => !['blockquote_open', 'blockquote_close', 'paragraph_open', 'paragraph_close', 'inline'].includes(t));
+    assert.deepEqual(kinds, [], JSON.stringify(tokens.map((t) => t.type)));
+    const text = tokens.filter((t) => t.type === 'inline').slice(1).map(inlineText).join('\n');
+    assert.match(text, /# Injected/);
+    assert.match(text, /- item/);
   });
 });

@@ -71,6 +71,15 @@ describe('demo specs', () => {
       const run = await runSpec(spec, { readers, specPath: path, allowedRoot: demo });
       const review = compareWithRecord(spec.recorded, run, 'test', new Date(0));
       assert.equal(review.status, 'reproduced', describeReview(review, file));
+      // The record itself is checked against scipy too, so a record written by a wrong version cannot pass.
+      const recorded = (spec.recorded as { result?: { statistic?: number; pValue?: number } }).result;
+      const reference = fixture.specs[file] as { statistic?: number; pValue?: number };
+      if (run.result.kind === 'test') {
+        assert.equal(typeof recorded?.statistic, 'number', `${file}: the record lacks the statistic`);
+        assert.equal(typeof reference.statistic, 'number', `${file}: the scipy reference lacks the statistic`);
+        near('recorded statistic', recorded!.statistic!, reference.statistic!, 1e-9, `${file}:`);
+        near('recorded p-value', recorded!.pValue!, reference.pValue!, 1e-9, `${file}:`);
+      }
     });
   }
 
@@ -83,5 +92,11 @@ describe('demo specs', () => {
     assert.equal(outcome.blocks.length, 3);
     assert.deepEqual(outcome.blocks.filter((b) => b.error || b.changed), [], 'run `node dist/cli.js report demo/report.md`');
     assert.equal(outcome.text, text);
+    // The numbers the report shows come from an outside reference, not only from a previous run of ours.
+    for (const file of ['bakery-flavour-mix.countercheck.json', 'bakery-oven-defects.countercheck.json']) {
+      const reference = fixture.specs[file] as { statistic?: number };
+      assert.equal(typeof reference.statistic, 'number', `${file}: the scipy reference lacks the statistic`);
+      assert.ok(text.includes(`) = ${reference.statistic!.toFixed(2)}, p`), `demo/report.md shows χ² = ${reference.statistic!.toFixed(2)} (scipy) for ${file}`);
+    }
   });
 });

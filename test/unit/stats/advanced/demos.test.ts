@@ -11,7 +11,7 @@ import { loadSpecText } from '../../../../src/spec/validate';
 import type { PowerResult, TestResult } from '../../../../src/stats/result';
 import { closeTo, fixture } from './check';
 
-interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[]; z?: number; bayesFactorLog10?: number; equivalencePValue?: number }
+interface Demo { file: string; data?: unknown; statistic?: number; pValue?: number; pValueUpperBound?: number; oddsRatio?: number; n?: number; power?: number; df?: number; cellHolm?: number[]; z?: number; bayesFactorLog10?: number; equivalencePValue?: number }
 const advanced = fixture<{ rVersion: string; demos: Demo[] }>('R', 'advanced');
 const evidence = fixture<{ BayesFactor: string; demos: Demo[] }>('R', 'bayesfactor');
 const R = { rVersion: advanced.rVersion, demos: [...advanced.demos, ...evidence.demos] };
@@ -34,7 +34,7 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       assert.ok(ref, `no R reference for ${file}`);
       // An entry must carry the values this check compares: an empty or misspelt entry fails instead of passing.
       const claimed = Object.keys(ref).filter((k) => k !== 'file');
-      const comparable = ['data', 'statistic', 'pValue', 'oddsRatio', 'n', 'power', 'df', 'cellHolm', 'z', 'bayesFactorLog10', 'equivalencePValue'];
+      const comparable = ['data', 'statistic', 'pValue', 'pValueUpperBound', 'oddsRatio', 'n', 'power', 'df', 'cellHolm', 'z', 'bayesFactorLog10', 'equivalencePValue'];
       assert.deepEqual(claimed.filter((k) => !comparable.includes(k)), [], `unknown fields in the R reference for ${file}`);
       const main = spec.test === 'power' ? 'power' : spec.test === 'post-hoc' ? 'cellHolm' : 'pValue';
       assert.ok(main === 'cellHolm' ? Array.isArray(ref.cellHolm) && ref.cellHolm.length > 0 : typeof ref[main] === 'number', `the R reference for ${file} lacks ${main}`);
@@ -56,6 +56,13 @@ describe('demo specs of the advanced procedures (demo/advanced)', () => {
       if (ref.statistic !== undefined) closeTo(r.statistic, ref.statistic, 1e-10, 'statistic', file);
       if (ref.pValue !== undefined) closeTo(r.pValue.value, ref.pValue, 1e-9, 'p-value', file);
       if (ref.df !== undefined) assert.equal(r.df, ref.df);
+      if (spec.test === 'distribution-fit') {
+        // The Chernoff–Lehmann upper bound of p (R pchisq on k − 1 df), which every distribution fit reports.
+        assert.equal(typeof ref.pValueUpperBound, 'number', `the R reference for ${file} lacks pValueUpperBound`);
+        const line = r.otherStatistics.find((l) => l.id === 'pearson-chernoff-lehmann');
+        assert.ok(line, 'the Chernoff–Lehmann line');
+        closeTo(line.pValue.value, ref.pValueUpperBound!, 1e-9, 'Chernoff–Lehmann upper bound of p', file);
+      }
       if (ref.z !== undefined) closeTo(r.statistic, ref.z, 1e-10, 'z', file);
       if (ref.oddsRatio !== undefined) closeTo(r.estimates[0].value, ref.oddsRatio, 1e-12, 'common odds ratio', file);
       if (ref.bayesFactorLog10 !== undefined) closeTo(r.bayesFactor!.log10Bf10, ref.bayesFactorLog10, 1e-10, `log10 BF10 (R BayesFactor ${evidence.BayesFactor})`, file);
