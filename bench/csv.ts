@@ -40,7 +40,7 @@ import { cpus, loadavg } from 'node:os';
 import { join } from 'node:path';
 import { aggregateFileMany } from '../src/data/file';
 import type { Aggregate } from '../src/data/types';
-import { chiSquareUpperProbability } from '../src/stats/chisquare';
+import { chiSquareUpperProbability } from '../src/stats/distributions/chisquare';
 import { compensatedSum, MomentAccumulator, sampleVariance } from '../src/stats/moments';
 import { Xoshiro128 } from '../src/stats/random';
 

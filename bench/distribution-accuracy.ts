@@ -5,7 +5,7 @@ import { execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import * as ours from '../src/stats/chisquare';
+import * as ours from '../src/stats/distributions/chisquare';
 
 interface TailPoint {
   df: number;

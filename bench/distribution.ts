@@ -5,7 +5,7 @@ import {
   chiSquareQuantile,
   chiSquareUpperQuantile,
   chiSquareUpperTail,
-} from '../src/stats/chisquare';
+} from '../src/stats/distributions/chisquare';
 
 interface JStatChiSquare {
   chisquare: { cdf(x: number, dof: number): number; inv(p: number, dof: number): number };

@@ -3,8 +3,8 @@
 // chisq.test(simulate.p.value = TRUE) timed in the same run when /usr/bin/Rscript is present.
 import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
-import { fisherExactRxC } from '../src/stats/exact';
-import { monteCarloTable } from '../src/stats/montecarlo';
+import { fisherExactRxC } from '../src/stats/procedures/exact';
+import { monteCarloTable } from '../src/stats/procedures/montecarlo';
 
 const EXACT_TABLES: Record<string, number[][]> = {
   '2×6 N=500': [[40, 45, 38, 50, 42, 35], [42, 40, 45, 38, 44, 41]],

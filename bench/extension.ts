@@ -17,8 +17,8 @@ import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import { aggregateFile } from '../src/data/file';
 import { buildPanelPayload } from '../src/report/panel';
-import { runSpec } from '../src/spec/run';
-import type { SpecReaders } from '../src/spec/types';
+import { runSpec } from '../src/savedtest/run';
+import type { SpecReaders } from '../src/savedtest/types';
 import { dataPath, ensureData } from './csv';
 
 const kb = (bytes: number) => `${(bytes / 1024).toFixed(1)} KB`;

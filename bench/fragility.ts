@@ -1,9 +1,9 @@
 // Fragility, Bayes factors and equivalence: the speed targets (2×2 with N = 10,000 under 50 ms; 5×5 with
 // N = 1,000 under 2 s), timed as the median of several runs after a warm-up.
-import { pearsonTable } from '../src/stats/advanced-common';
-import { contingencyBayesFactor } from '../src/stats/bayes-factor';
-import { chiSquareUpperProbability } from '../src/stats/chisquare';
-import { fragilityIndex2x2, generalizedFragility, tableProblem, type Fragility } from '../src/stats/fragility';
+import { pearsonTable } from '../src/stats/procedures/advanced-common';
+import { contingencyBayesFactor } from '../src/stats/procedures/bayes-factor';
+import { chiSquareUpperProbability } from '../src/stats/distributions/chisquare';
+import { fragilityIndex2x2, generalizedFragility, tableProblem, type Fragility } from '../src/stats/procedures/fragility';
 
 function median(xs: number[]): number {
   const s = xs.slice().sort((a, b) => a - b);

@@ -1,11 +1,11 @@
 // Inputs that used to hang, crash or run out of memory, timed in-process (figures, not targets; the bounds they
 // must meet are in the README's "Limits"). Each prints its elapsed time and the process's peak resident memory.
-import { fisherExact2x2 } from '../src/stats/fisher2x2';
-import { mcnemarStatistics } from '../src/stats/paired';
-import { stratifiedTest } from '../src/stats/stratified';
-import { distributionFitTest } from '../src/stats/distfit';
-import { chiSquareUpperQuantile } from '../src/stats/chisquare';
-import { runSpec } from '../src/spec/run';
+import { fisherExact2x2 } from '../src/stats/procedures/fisher2x2';
+import { mcnemarStatistics } from '../src/stats/procedures/paired';
+import { stratifiedTest } from '../src/stats/procedures/stratified';
+import { distributionFitTest } from '../src/stats/procedures/distfit';
+import { chiSquareUpperQuantile } from '../src/stats/distributions/chisquare';
+import { runSpec } from '../src/savedtest/run';
 
 const ones = (k: number): number[][] => Array.from({ length: k }, () => new Array<number>(k).fill(1));
 const noFiles = { aggregateFile: async (): Promise<never> => { throw new Error('no file'); } };

@@ -1,7 +1,7 @@
 // Time for the everyday count procedures on sizes people meet: a 50×50 independence test (the figure),
 // a 2×2 with Fisher's exact test at counts near 1e9, and a 100-category goodness of fit.
-import { goodnessOfFit } from '../src/stats/fit';
-import { independenceTest } from '../src/stats/table';
+import { goodnessOfFit } from '../src/stats/procedures/fit';
+import { independenceTest } from '../src/stats/procedures/table';
 
 function timeMs(run: () => unknown, repeats: number): { median: number; best: number } {
   const times: number[] = [];

@@ -4,7 +4,7 @@
  * UsageError carrying that command's usage (exit 2).
  */
 import { parseArgs, type ParseArgsConfig } from 'node:util';
-import { DEFAULT_FRAGILITY_THRESHOLD } from '../spec/family';
+import { DEFAULT_FRAGILITY_THRESHOLD } from '../savedtest/family';
 
 export type Command = 'run' | 'check' | 'report';
 export const COMMANDS: readonly Command[] = ['run', 'check', 'report'];

@@ -2,7 +2,7 @@
 import * as vscode from 'vscode';
 import { explanationAt, explanationMarkdown } from '../report/explanations';
 import { BLOCK_INFO, parseReportBlocks } from '../report/blocks';
-import { COMMON_FIELDS, PROCEDURES, procedureFor } from '../spec/procedures/index';
+import { COMMON_FIELDS, PROCEDURES, procedureFor } from '../savedtest/procedures/index';
 import { COMMANDS } from './commandIds';
 
 const t = vscode.l10n.t;

@@ -3,8 +3,8 @@
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { PanelAction, PanelOrigin } from '../protocol';
-import { makeRecord } from '../spec/review';
-import { runSpec } from '../spec/run';
+import { makeRecord } from '../savedtest/review';
+import { runSpec } from '../savedtest/run';
 import { toolName } from './commands/savedSpecs';
 import { errorMessage } from '../errors';
 import type { Plot } from '../protocol';

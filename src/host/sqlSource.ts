@@ -12,7 +12,7 @@ import {
   type ConnectionSettings,
   type SqlSpecSource,
 } from '../data/sql/index';
-import type { SpecReaders } from '../spec/types';
+import type { SpecReaders } from '../savedtest/types';
 
 const t = vscode.l10n.t;
 

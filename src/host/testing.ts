@@ -2,7 +2,7 @@
 // recorded result: data changed or result differs is a failure whose message is the comparison.
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { describeReview } from '../spec/review';
+import { describeReview } from '../savedtest/review';
 import { reviewComparison, reviewSpec, SPEC_GLOB } from './commands/savedSpecs';
 import { comparisonDiffTexts } from '../report/comparison';
 import { settings, type Services } from './services';

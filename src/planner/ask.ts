@@ -3,8 +3,8 @@
  * choice, a number an input checked against the field's own bounds, an array of numbers a list. The prompt is
  * the field's description from the table, so the editor asks in the words the schema documents.
  */
-import { checkValue, type Field, type FieldType, type SpecProblem } from '../spec/fields';
-import { procedureFor } from '../spec/procedures/index';
+import { checkValue, type Field, type FieldType, type SpecProblem } from '../savedtest/fields';
+import { procedureFor } from '../savedtest/procedures/index';
 import type { Questions } from './questions';
 
 export function fieldOf(test: string, name: string): Field {

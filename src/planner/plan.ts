@@ -14,7 +14,7 @@ import { inlineFromRecords } from './inline';
 import type { Offer } from './offer';
 import type { Choice, Questions } from './questions';
 import { describeView, sum, viewOf, type ColumnInfo, type DataFacts, type Role, type View } from './view';
-import { PROCEDURES, procedureFor, type DataShape } from '../spec/procedures/index';
+import { PROCEDURES, procedureFor, type DataShape } from '../savedtest/procedures/index';
 
 /** Answers given beforehand (keybindings, tests) or remembered from the last run on the same source. */
 export interface Answers {

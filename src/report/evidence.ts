@@ -3,8 +3,8 @@
  * and the prior stated), equivalence, and the family of tests. Lines shared by the text and markdown reports, and the
  * JSON of each section exactly as the format promises. Pure.
  */
-import type { BayesFactor } from '../stats/bayes-factor';
-import type { FragilityChange } from '../stats/fragility';
+import type { BayesFactor } from '../stats/procedures/bayes-factor';
+import type { FragilityChange } from '../stats/procedures/fragility';
 import type { TestResult } from '../stats/result';
 import { DEFAULT_FORMAT, formatNumber, formatPApa, formatPercent, type FormatOptions } from './format';
 

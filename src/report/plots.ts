@@ -4,8 +4,8 @@
  * ends, how strongly a cell is tinted) is made and unit-tested here.
  */
 import type { DensityPlot, DeviationPlot, IntervalPlot, Plot, PlotPoint, PowerCurvePlot, ResidualGridPlot, ResidualShade } from '../protocol';
-import { chiSquareDensity, chiSquareQuantile, chiSquareUpperQuantile } from '../stats/chisquare';
-import { normalDensity, normalQuantile, normalUpperQuantile } from '../stats/normal';
+import { chiSquareDensity, chiSquareQuantile, chiSquareUpperQuantile } from '../stats/distributions/chisquare';
+import { normalDensity, normalQuantile, normalUpperQuantile } from '../stats/distributions/normal';
 import type { Alternative, CategoryRow, CellGrid, DistributionResult, PowerResult, Result, TestResult } from '../stats/result';
 import { formatCount, formatEstimate, formatNumber, signedNumber } from './format';
 

@@ -3,8 +3,8 @@
  * Types only: no behaviour lives here. Every field is plain data so a result can be
  * serialised to JSON, sent to the webview, and recorded in a saved test unchanged.
  */
-import type { BayesFactor } from './bayes-factor';
-import type { Fragility } from './fragility';
+import type { BayesFactor } from './procedures/bayes-factor';
+import type { Fragility } from './procedures/fragility';
 
 export type Alternative = 'two-sided' | 'greater' | 'less';
 
@@ -141,11 +141,11 @@ export interface TestResult {
   readonly assumptions: readonly Assumption[];
   /** Procedure-specific extras for machine output (named fields, plain JSON). */
   readonly details?: Readonly<Record<string, unknown>>;
-  /** How many single-observation changes flip the conclusion (count-based tests; src/stats/fragility.ts). */
+  /** How many single-observation changes flip the conclusion (count-based tests; src/stats/procedures/fragility.ts). */
   readonly fragility?: Fragility & { readonly basis: FragilityBasis };
-  /** Bayes factor beside the p-value (src/stats/bayes-factor.ts). */
+  /** Bayes factor beside the p-value (src/stats/procedures/bayes-factor.ts). */
   readonly bayesFactor?: BayesFactor;
-  /** Equivalence test asked for in the spec (src/stats/equivalence.ts). */
+  /** Equivalence test asked for in the spec (src/stats/procedures/equivalence.ts). */
   readonly equivalence?: EquivalenceSection;
   /** Set when the test is read as one of a family (a report or a folder of saved tests). */
   readonly family?: { readonly size: number; readonly method: string; readonly adjustedPValue: number };

@@ -4,6 +4,7 @@ import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { CountercheckApi } from '../../src/host/extension';
 import type { PanelPayload } from '../../src/protocol';
+import { assertAbsolute } from '../unit/tolerance';
 
 export async function api(): Promise<CountercheckApi> {
   const ext = vscode.extensions.getExtension<CountercheckApi>('countercheck.countercheck');
@@ -33,9 +34,8 @@ export async function panelFrom(run: () => Thenable<unknown>): Promise<PanelPayl
   return fresh[fresh.length - 1];
 }
 
-export function closeTo(got: number, expected: number, tol: number, what: string): void {
-  assert.ok(Math.abs(got - expected) <= tol, `${what}: expected ${expected}, got ${got}, Δ ${Math.abs(got - expected)}, tolerance ${tol}`);
-}
+/** The unit tests' one tolerance check, with an absolute tolerance. */
+export const closeTo = assertAbsolute;
 
 export async function closeAllEditors(): Promise<void> {
   await vscode.commands.executeCommand('workbench.action.closeAllEditors');

@@ -2,7 +2,7 @@
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { errorMarkdown, parseReportBlocks, refreshReport, rewriteReport, type ReportBlock } from '../../report/blocks';
-import { runReportBlock } from '../../spec/living';
+import { runReportBlock } from '../../savedtest/living';
 import { extensionReaders, settings, type Services } from '../services';
 import { errorMessage, isInstance } from '../../errors';
 

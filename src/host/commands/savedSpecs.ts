@@ -3,10 +3,10 @@ import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { Comparison } from '../../protocol';
 import { compareRecorded } from '../../report/comparison';
-import { compareWithRecord, describeReview, STATUS_LABEL, type Review } from '../../spec/review';
-import type { SpecRun } from '../../spec/types';
-import { loadSpecText } from '../../spec/validate';
-import { runSpec } from '../../spec/run';
+import { compareWithRecord, describeReview, STATUS_LABEL, type Review } from '../../savedtest/review';
+import type { SpecRun } from '../../savedtest/types';
+import { loadSpecText } from '../../savedtest/validate';
+import { runSpec } from '../../savedtest/run';
 import { extensionReaders, settings, type Services } from '../services';
 import { errorMessage, isInstance } from '../../errors';
 

@@ -2,7 +2,7 @@
 // `vscode`, and the numerical core never touches Node's I/O, the clock or randomness.
 import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync, statSync } from 'node:fs';
-import { join } from 'node:path';
+import { dirname, join, relative, resolve, sep } from 'node:path';
 
 const root = join(__dirname, '..', '..', '..', 'src');
 
@@ -21,6 +21,32 @@ function importsOf(file: string): string[] {
     found.push(m[1] ?? m[2] ?? m[3]);
   }
   return found;
+}
+
+/**
+ * The layers and the arrows between them: data flows source → data → savedtest → stats → report → host or cli,
+ * with the planner between the saved-test layer and the host. Each layer may import only the layers listed here
+ * (and itself); DEVELOPERS.md shows the same table.
+ */
+const ALLOWED: Readonly<Record<string, readonly string[]>> = {
+  errors: [],
+  stats: ['errors'],
+  protocol: ['stats'],
+  data: ['stats', 'errors'],
+  report: ['stats', 'protocol', 'errors'],
+  savedtest: ['data', 'stats', 'report', 'errors'],
+  planner: ['savedtest', 'data', 'errors'],
+  cli: ['savedtest', 'data', 'stats', 'report', 'errors'],
+  host: ['planner', 'savedtest', 'data', 'stats', 'report', 'protocol', 'errors'],
+  webview: ['protocol'],
+};
+
+/** The layer a source file belongs to: its top folder under src/, or src/errors.ts, src/protocol.ts, the CLI. */
+function layerOf(path: string): string {
+  const parts = relative(root, path).split(sep);
+  if (parts.length > 1) return parts[0];
+  const name = parts[0].replace(/\.ts$/, '');
+  return name;
 }
 
 const nodeIo = /^(node:)?(fs|fs\/promises|child_process|net|http|https|tls|dgram|worker_threads|readline|os)$/;
@@ -44,11 +70,25 @@ describe('architecture boundaries', () => {
     const io = planner.filter((f) => importsOf(f).some((m) => nodeIo.test(m) || m === 'pg'));
     assert.deepEqual(io, [], 'the planner reads nothing itself (the host hands it what a source offers)');
     const upward = planner.filter((f) => importsOf(f).some((m) => /(^|\/)(host|webview|cli)(\/|$)/.test(m)));
-    assert.deepEqual(upward, [], 'the planner imports data/, spec/ and errors, never the host, the webview or the CLI');
+    assert.deepEqual(upward, [], 'the planner imports data/, savedtest/ and errors, never the host, the webview or the CLI');
     const users = tsFiles(root)
       .filter((f) => !f.includes(join('src', 'planner')) && !f.includes(join('src', 'host')))
       .filter((f) => importsOf(f).some((m) => /(^|\/)planner\//.test(m)));
     assert.deepEqual(users, [], 'only the host asks the planner');
+  });
+
+  it('every import between layers follows an allowed arrow (the table in DEVELOPERS.md)', () => {
+    const offenders: string[] = [];
+    for (const file of tsFiles(root)) {
+      const from = layerOf(file);
+      for (const m of importsOf(file)) {
+        // Packages are not layers; nor is package.json, which the command line reads for its version.
+        if (!m.startsWith('.') || m.endsWith('.json')) continue;
+        const to = layerOf(resolve(dirname(file), m));
+        if (to !== from && !ALLOWED[from]?.includes(to)) offenders.push(`${relative(root, file)} (${from}) imports ${m} (${to})`);
+      }
+    }
+    assert.deepEqual(offenders, []);
   });
 
   it('stats never reads the clock or an unseeded random source', () => {

@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli';
 import { MAX_TEXT_FILE_BYTES } from '../../../src/data/file';
-import { checkJsonNesting, MAX_SPEC_NESTING } from '../../../src/spec/validate';
+import { checkJsonNesting, MAX_SPEC_NESTING } from '../../../src/savedtest/validate';
 
 let dir: string;
 

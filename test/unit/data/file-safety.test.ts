@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { aggregateFile } from '../../../src/data/file';
 import { isInputError } from '../../../src/errors';
-import { runSpec } from '../../../src/spec/run';
+import { runSpec } from '../../../src/savedtest/run';
 
 const scratch = mkdtempSync(join(tmpdir(), 'countercheck-safety-'));
 const workspace = join(scratch, 'workspace');

@@ -10,7 +10,7 @@ import { aggregateFileSource, fileReaderFor } from '../../../src/data/readers';
 import { aggregateParquet, previewParquet } from '../../../src/data/parquet';
 import type { Aggregate, AggregateRequest } from '../../../src/data/types';
 import { sampleVariance } from '../../../src/stats/moments';
-import { assertClose } from '../stats/procedures/close';
+import { assertClose } from '../tolerance';
 import { rejectsInput } from './expect';
 
 const dir = join(__dirname, '..', '..', 'fixtures', 'duckdb');

@@ -8,8 +8,8 @@ import { join } from 'node:path';
 import { aggregateFile } from '../../../src/data/file';
 import { fileReaderFor, FILE_READERS } from '../../../src/data/readers';
 import { decodeAggregate, planAggregate } from '../../../src/data/sql/query';
-import { runSpec } from '../../../src/spec/run';
-import type { SpecReaders } from '../../../src/spec/types';
+import { runSpec } from '../../../src/savedtest/run';
+import type { SpecReaders } from '../../../src/savedtest/types';
 import type { TestResult } from '../../../src/stats/result';
 
 const demo = join(__dirname, '..', '..', '..', 'demo');

@@ -9,9 +9,9 @@ import { aggregateFile } from '../../../src/data/file';
 import { aggregateFileSource, fileReaderFor } from '../../../src/data/readers';
 import type { Aggregate, CountTable } from '../../../src/data/types';
 import { aggregateWorkbook, isDateFormat, previewWorkbook, serialToIso, sheetReference, workbookSheets } from '../../../src/data/xlsx';
-import { runSpec } from '../../../src/spec/run';
+import { runSpec } from '../../../src/savedtest/run';
 import { sampleVariance } from '../../../src/stats/moments';
-import { assertClose } from '../stats/procedures/close';
+import { assertClose } from '../tolerance';
 import { rejectsInput } from './expect';
 
 const dir = join(__dirname, '..', '..', 'fixtures', 'xlsx');

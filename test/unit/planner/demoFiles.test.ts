@@ -6,7 +6,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { offerFromNotebookOutput } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
-import { runSpec } from '../../../src/spec/run';
+import { runSpec } from '../../../src/savedtest/run';
 import type { TestResult } from '../../../src/stats/result';
 import { ScriptedQuestions } from './fakeQuestions';
 import { demo, fileOffer, fileOfferAt, planAndRun, readers, settings } from './helpers';

@@ -5,8 +5,8 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { offerFromText, type Offer } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
-import { PROCEDURES, TEST_NAMES } from '../../../src/spec/procedures/index';
-import { assertValidSpec } from '../../../src/spec/validate';
+import { PROCEDURES, TEST_NAMES } from '../../../src/savedtest/procedures/index';
+import { assertValidSpec } from '../../../src/savedtest/validate';
 import { ScriptedQuestions } from './fakeQuestions';
 import { demo, fileOffer, planAndRun, settings } from './helpers';
 

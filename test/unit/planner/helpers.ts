@@ -6,8 +6,8 @@ import { fileReaderFor } from '../../../src/data/readers';
 import { parseDelimited } from '../../../src/data/delimited';
 import type { Offer } from '../../../src/planner/offer';
 import { plan, type Answers, type PlanSettings } from '../../../src/planner/plan';
-import { runSpec } from '../../../src/spec/run';
-import type { SpecReaders } from '../../../src/spec/types';
+import { runSpec } from '../../../src/savedtest/run';
+import type { SpecReaders } from '../../../src/savedtest/types';
 import type { TestResult } from '../../../src/stats/result';
 import { ScriptedQuestions } from './fakeQuestions';
 

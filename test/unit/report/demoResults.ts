@@ -2,9 +2,9 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { aggregateFile } from '../../../src/data/file';
-import { runSpec } from '../../../src/spec/run';
-import type { SpecReaders } from '../../../src/spec/types';
-import { loadSpecText } from '../../../src/spec/validate';
+import { runSpec } from '../../../src/savedtest/run';
+import type { SpecReaders } from '../../../src/savedtest/types';
+import { loadSpecText } from '../../../src/savedtest/validate';
 import type { Result } from '../../../src/stats/result';
 
 export const demoFolder = join(__dirname, '..', '..', '..', 'demo');

@@ -6,7 +6,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { STYLE } from '../../../src/host/panelStyle';
 import { buildPanelPayload } from '../../../src/report/panel';
-import { independenceTest } from '../../../src/stats/table';
+import { independenceTest } from '../../../src/stats/procedures/table';
 
 const bundle = join(__dirname, '..', '..', '..', 'dist', 'webview.js');
 

@@ -4,9 +4,9 @@
 import { strict as assert } from 'node:assert';
 import { buildPanelPayload, untranslated, type PayloadOptions } from '../../../src/report/panel';
 import { resultText } from '../../../src/report/text';
-import { distributionProcedure } from '../../../src/spec/procedures/distribution';
+import { distributionProcedure } from '../../../src/savedtest/procedures/distribution';
 import type { DistributionResult } from '../../../src/stats/result';
-import { independenceTest } from '../../../src/stats/table';
+import { independenceTest } from '../../../src/stats/procedures/table';
 
 const options: PayloadOptions = { id: 'r1', title: 'lookup', sourceDescription: '', decimals: 2, canSave: false, canRerun: false, computedAt: '2026-12-01T00:00:00.000Z' };
 const noSource = { hasSource: false, aggregate: () => Promise.reject(new Error('no source')) };

@@ -3,10 +3,9 @@ import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import { deviationPlot, densityPlot, lookupDensityPlot, powerCurvePlot, intervalPlot, niceTicks, plotsFor, residualGridPlot, residualLabel, residualShade, RESIDUAL_BANDS, tickLabels } from '../../../src/report/plots';
 import type { TestResult } from '../../../src/stats/result';
+import { assertAbsolute } from '../tolerance';
 
-function close(got: number, expected: number, tol: number, what: string): void {
-  assert.ok(Math.abs(got - expected) <= tol, `${what}: expected ${expected}, got ${got}, Δ ${Math.abs(got - expected)}, tolerance ${tol}`);
-}
+const close = assertAbsolute;
 
 /** A result shell: the geometry reads only the fields set here. */
 function result(over: Partial<TestResult>): TestResult {

@@ -5,10 +5,10 @@ import { strict as assert } from 'node:assert';
 import { resultJson } from '../../../src/report/json';
 import { escapeMarkdown, markdownTable, resultMarkdown } from '../../../src/report/markdown';
 import { CAUTION, resultText } from '../../../src/report/text';
-import { goodnessOfFit } from '../../../src/stats/fit';
-import { independenceTest } from '../../../src/stats/table';
-import { varianceTestFromSummary, varianceTestFromValues } from '../../../src/stats/variance';
-import { distributionProcedure } from '../../../src/spec/procedures/distribution';
+import { goodnessOfFit } from '../../../src/stats/procedures/fit';
+import { independenceTest } from '../../../src/stats/procedures/table';
+import { varianceTestFromSummary, varianceTestFromValues } from '../../../src/stats/procedures/variance';
+import { distributionProcedure } from '../../../src/savedtest/procedures/distribution';
 import type { DistributionResult } from '../../../src/stats/result';
 
 // Mendel's dihybrid cross against 9:3:3:1 (published: X² = 0.470, p = 0.925).

@@ -3,9 +3,9 @@
 import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { postHocTest, type CellTest } from '../../../../src/stats/posthoc';
-import { independenceTest } from '../../../../src/stats/table';
-import { assertClose } from './close';
+import { postHocTest, type CellTest } from '../../../../src/stats/procedures/posthoc';
+import { independenceTest } from '../../../../src/stats/procedures/table';
+import { assertClose } from '../../tolerance';
 
 interface ResidualCase {
   readonly name: string;

@@ -1,6 +1,6 @@
 import { strict as assert } from 'node:assert';
-import { divergenceTerm, powerDivergence } from '../../../../src/stats/divergence';
-import { assertClose } from './close';
+import { divergenceTerm, powerDivergence } from '../../../../src/stats/procedures/divergence';
+import { assertClose } from '../../tolerance';
 
 // The closed forms of Cressie & Read (1984), written out here independently of the code's series.
 function closedForm(o: number, e: number, lambda: number): number {

@@ -1,6 +1,6 @@
 import { strict as assert } from 'node:assert';
-import { fisherExact2x2 } from '../../../../src/stats/fisher2x2';
-import { assertClose } from './close';
+import { fisherExact2x2 } from '../../../../src/stats/procedures/fisher2x2';
+import { assertClose } from '../../tolerance';
 import { independenceFixture } from './independence-fixture';
 
 describe("Fisher's exact test for 2×2 tables", () => {

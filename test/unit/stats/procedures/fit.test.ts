@@ -1,6 +1,7 @@
 import { strict as assert } from 'node:assert';
-import { goodnessOfFit, type GoodnessOfFitOptions } from '../../../../src/stats/fit';
-import { assertClose, errorOf, type FixtureNumber, type HighPrecision, loadFixture } from './close';
+import { goodnessOfFit, type GoodnessOfFitOptions } from '../../../../src/stats/procedures/fit';
+import { assertClose, type FixtureNumber } from '../../tolerance';
+import { errorOf, type HighPrecision, loadFixture } from '../../fixtures';
 
 interface Tail {
   statistic: FixtureNumber;

@@ -1,5 +1,6 @@
 // The r×c fixture shared by the table and Fisher tests.
-import { type FixtureNumber, type HighPrecision, loadFixture } from './close';
+import { type FixtureNumber } from '../../tolerance';
+import { type HighPrecision, loadFixture } from '../../fixtures';
 
 interface Tail {
   statistic: FixtureNumber;

@@ -1,7 +1,8 @@
 import { strict as assert } from 'node:assert';
-import { fisherExact2x2 } from '../../../../src/stats/fisher2x2';
-import { independenceTest } from '../../../../src/stats/table';
-import { assertClose, loadFixture } from './close';
+import { fisherExact2x2 } from '../../../../src/stats/procedures/fisher2x2';
+import { independenceTest } from '../../../../src/stats/procedures/table';
+import { assertClose } from '../../tolerance';
+import { loadFixture } from '../../fixtures';
 
 interface RCase {
   name: string;

@@ -1,6 +1,7 @@
 import { strict as assert } from 'node:assert';
-import { independenceTest } from '../../../../src/stats/table';
-import { assertClose, errorOf } from './close';
+import { independenceTest } from '../../../../src/stats/procedures/table';
+import { assertClose } from '../../tolerance';
+import { errorOf } from '../../fixtures';
 import { independenceFixture, type TableCase } from './independence-fixture';
 
 const { versions } = independenceFixture;

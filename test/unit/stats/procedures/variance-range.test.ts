@@ -2,7 +2,7 @@
 // result with statistic and p null, "s = NaN" or a "[∞, ∞)" bound.
 import { strict as assert } from 'node:assert';
 import { InputError, isInstance } from '../../../../src/errors';
-import { varianceTestFromValues } from '../../../../src/stats/variance';
+import { varianceTestFromValues } from '../../../../src/stats/procedures/variance';
 
 function refused(run: () => unknown, jsonPath: string, message: RegExp): void {
   assert.throws(run, (e: unknown) => {

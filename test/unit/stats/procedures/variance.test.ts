@@ -1,8 +1,9 @@
 import { strict as assert } from 'node:assert';
 import { MomentAccumulator } from '../../../../src/stats/moments';
 import type { Alternative } from '../../../../src/stats/result';
-import { type VarianceTestOptions, varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValues } from '../../../../src/stats/variance';
-import { assertClose, errorOf, type FixtureNumber, loadFixture } from './close';
+import { type VarianceTestOptions, varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValues } from '../../../../src/stats/procedures/variance';
+import { assertClose, type FixtureNumber } from '../../tolerance';
+import { errorOf, loadFixture } from '../../fixtures';
 
 interface VarianceCase {
   name: string;

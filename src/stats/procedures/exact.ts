@@ -1,0 +1,447 @@
+/**
+ * Fisher's exact test of independence for r×c tables.
+ *
+ * The p-value is the total probability, under the multiple hypergeometric distribution of tables with the
+ * observed margins, of the tables no more probable than the observed one (relative tolerance 1e-7 for ties,
+ * the convention of R's fisher.test).
+ *
+ * Method: the network algorithm of Mehta & Patel (1983, JASA 78:427–434). Tables are built one column at a
+ * time; a node of the network is the multiset of row totals still to be filled after some columns. Every path
+ * reaching a node carries its "past" weight −Σ ln x! over the cells already filled. For each node we bound the
+ * best and worst completion (relaxations of the transportation problem, row-wise and column-wise) and know the
+ * total weight of all its completions in closed form; a path whose every completion is at least as extreme as
+ * the observed table is counted in one step, one whose every completion is less extreme is dropped, and only
+ * the rest are carried to the next column, merged by node and by (rounded) past weight.
+ */
+import { InputError } from '../../errors';
+import { dropEmptyMargins, requireCountTable } from './advanced-common';
+import { LogSumAccumulator, logFactorialTable } from '../distributions/discrete';
+import { divergenceTerm } from './divergence';
+import { MAX_RESAMPLING_TOTAL, checkFitInput, monteCarloFit, monteCarloIndependence, tieTolerance, type MonteCarloOptions, type ResamplingResult, type ResamplingStatistic } from './montecarlo';
+import { probabilityFromLog } from '../distributions/probability';
+import type { Notice, Probability, StatisticLine } from '../result';
+
+export interface FisherExactOptions {
+  /**
+   * Upper limit on the work (paths examined). Beyond it the computation stops and reports `completed: false`
+   * so that the caller can switch to Monte Carlo. Default 5e6 (one to two seconds).
+   */
+  readonly workLimit?: number;
+}
+
+export interface FisherExactOutcome {
+  readonly completed: boolean;
+  /** Two-sided p-value (undefined when not completed). */
+  readonly pValue?: Probability;
+  /** ln of the probability of the observed table under independence given the margins. */
+  readonly logTableProbability: number;
+  /** Paths examined. */
+  readonly work: number;
+}
+
+const DEFAULT_WORK_LIMIT = 5e6;
+const LOG_TIE_TOLERANCE = Math.log1p(1e-7);
+const LN10 = Math.LN10;
+
+/**
+ * The past weights reaching one node, merged when equal to 1e-9: an open-addressing hash table in typed
+ * arrays (no object per entry), read out sorted by value.
+ */
+class PastTable {
+  private keys = new Float64Array(8);
+  private values = new Float64Array(8);
+  private counts = new Float64Array(8);
+  private used = new Uint8Array(8);
+  size = 0;
+
+  add(value: number, count: number): void {
+    if (2 * (this.size + 1) > this.used.length) this.grow();
+    const key = Math.round(value * 1e9);
+    const mask = this.used.length - 1;
+    let h = hashKey(key) & mask;
+    while (this.used[h] === 1) {
+      if (this.keys[h] === key) {
+        this.counts[h] += count;
+        return;
+      }
+      h = (h + 1) & mask;
+    }
+    this.used[h] = 1;
+    this.keys[h] = key;
+    this.values[h] = value;
+    this.counts[h] = count;
+    this.size++;
+  }
+
+  /** Values ascending with their counts. */
+  sorted(): { values: Float64Array; counts: Float64Array } {
+    const order: number[] = [];
+    for (let i = 0; i < this.used.length; i++) if (this.used[i] === 1) order.push(i);
+    order.sort((a, b) => this.values[a] - this.values[b]);
+    const values = new Float64Array(order.length);
+    const counts = new Float64Array(order.length);
+    order.forEach((slot, i) => {
+      values[i] = this.values[slot];
+      counts[i] = this.counts[slot];
+    });
+    return { values, counts };
+  }
+
+  private grow(): void {
+    const { values, counts, used } = this;
+    const capacity = used.length * 2;
+    this.keys = new Float64Array(capacity);
+    this.values = new Float64Array(capacity);
+    this.counts = new Float64Array(capacity);
+    this.used = new Uint8Array(capacity);
+    this.size = 0;
+    for (let i = 0; i < used.length; i++) if (used[i] === 1) this.add(values[i], counts[i]);
+  }
+}
+
+const hashScratch = new Float64Array(1);
+const hashWords = new Int32Array(hashScratch.buffer);
+
+/** Mixes the two 32-bit halves of the key's bit pattern (no floating-point division). */
+function hashKey(key: number): number {
+  hashScratch[0] = key;
+  return (Math.imul(hashWords[0], 0x9e3779b1) ^ Math.imul(hashWords[1] ^ (hashWords[0] >>> 15), 0x85ebca6b)) >>> 0;
+}
+
+interface Node {
+  readonly rows: Int32Array;
+  readonly pasts: PastTable;
+}
+
+interface NodeBounds {
+  /** Upper bound on the best completion: max of −Σ ln x! over completions. */
+  readonly best: number;
+  /** Lower bound on the worst completion. */
+  readonly worst: number;
+  /** ln Σ over completions of exp(−Σ ln x!). */
+  readonly logTotal: number;
+}
+
+/**
+ * Fisher's exact test on an r×c table of counts (at least 2×2 after empty rows and columns are removed).
+ */
+export function fisherExactRxC(table: readonly (readonly number[])[], options: FisherExactOptions = {}): FisherExactOutcome {
+  const cleaned = dropEmptyMargins(requireCountTable(table, '$.table'));
+  if (cleaned.length < 2 || cleaned[0].length < 2) {
+    throw new InputError('The table needs at least two non-empty rows and two non-empty columns for an exact test of independence.', {}, 'table-too-small');
+  }
+  // Nodes are keyed by row totals: keep the shorter dimension as rows.
+  const t = cleaned.length <= cleaned[0].length ? cleaned : cleaned[0].map((_, j) => cleaned.map((row) => row[j]));
+  const workLimit = options.workLimit ?? DEFAULT_WORK_LIMIT;
+  const rowTotals = t.map((row) => row.reduce((a, b) => a + b, 0));
+  // Largest columns first: the later (smaller) stages then have tighter bounds.
+  const columnTotals = t[0].map((_, j) => t.reduce((a, row) => a + row[j], 0)).sort((a, b) => b - a);
+  const c = columnTotals.length;
+  const n = rowTotals.reduce((a, b) => a + b, 0);
+  if (n > MAX_RESAMPLING_TOTAL) return { completed: false, logTableProbability: NaN, work: 0 };
+  const lf = logFactorialTable(n);
+  const keys = new NodeKeys(rowTotals.length, n);
+
+  let observed = 0;
+  for (const row of t) for (const x of row) observed -= lf[x];
+  const constant = rowTotals.reduce((a, x) => a + lf[x], 0) + columnTotals.reduce((a, x) => a + lf[x], 0) - lf[n];
+  const logObserved = constant + observed;
+  const threshold = observed + LOG_TIE_TOLERANCE;
+
+  // Sum of included probabilities in units of the observed table's probability.
+  let relativeSum = 0;
+  let work = 0;
+
+  const start = Int32Array.from(rowTotals).sort();
+  const first = new PastTable();
+  first.add(0, 1);
+  let stage = new Map<number | string, Node>([[keys.of(start), { rows: start, pasts: first }]]);
+
+  for (let s = 0; s < c - 1; s++) {
+    const next = new Map<number | string, Node>();
+    const boundsMemo = new Map<number | string, NodeBounds>();
+    const remaining = columnTotals.slice(s + 1);
+    const lastColumn = s + 1 === c - 1;
+    for (const node of stage.values()) {
+      // Past entries sorted by value, with prefix sums of their weights relative to the largest value.
+      const { values, counts } = node.pasts.sorted();
+      const top = values[values.length - 1];
+      const prefix = new Float64Array(values.length + 1);
+      for (let i = 0; i < values.length; i++) prefix[i + 1] = prefix[i] + counts[i] * Math.exp(values[i] - top);
+
+      // The work is counted per allocation, inside the loop: one node alone can have C(39, 19) ≈ 7e10 of them
+      // (a 20×20 table of ones), so a check between nodes would come far too late.
+      const finished = forEachAllocation(node.rows, columnTotals[s], lf, (childRows, d) => {
+        const key = keys.of(childRows);
+        let b = boundsMemo.get(key);
+        if (b === undefined) {
+          b = lastColumn ? singleCompletion(childRows, lf) : relaxedBounds(childRows, remaining, lf);
+          boundsMemo.set(key, b);
+        }
+        // Past values p with p + d + best ≤ threshold: every completion counts.
+        const allUpTo = upperIndex(values, threshold - d - b.best);
+        if (allUpTo > 0) relativeSum += prefix[allUpTo] * Math.exp(top + d + b.logTotal + constant - logObserved);
+        // Past values with p + d + worst > threshold: no completion counts. The rest go on to the next column.
+        const someUpTo = upperIndex(values, threshold - d - b.worst);
+        work += 1 + someUpTo - allUpTo;
+        if (someUpTo > allUpTo) {
+          let target = next.get(key);
+          if (target === undefined) {
+            target = { rows: Int32Array.from(childRows), pasts: new PastTable() };
+            next.set(key, target);
+          }
+          for (let e = allUpTo; e < someUpTo; e++) target.pasts.add(values[e] + d, counts[e]);
+        }
+        return work <= workLimit;
+      });
+      if (!finished) return { completed: false, logTableProbability: logObserved, work };
+    }
+    stage = next;
+  }
+
+  const logP = Math.min(0, logObserved + Math.log(relativeSum));
+  return { completed: true, pValue: { value: Math.exp(logP), log10: logP / LN10 }, logTableProbability: logObserved, work };
+}
+
+/** Keys for sorted row-total vectors: a number in base n + 1 when it fits in 53 bits, else a string. */
+class NodeKeys {
+  private readonly numeric: boolean;
+  constructor(
+    private readonly length: number,
+    private readonly n: number,
+  ) {
+    this.numeric = Math.pow(n + 1, length) < Number.MAX_SAFE_INTEGER;
+  }
+
+  of(rows: Int32Array): number | string {
+    if (!this.numeric) return rows.join(',');
+    let key = 0;
+    for (let i = 0; i < this.length; i++) key = key * (this.n + 1) + rows[i];
+    return key;
+  }
+}
+
+/**
+ * Calls `visit` for every way of splitting `total` over rows with capacities `rows`, with the sorted rows left
+ * afterwards (a scratch array, valid during the call) and −Σ ln x! of the split. `visit` returns false to stop;
+ * the result says whether every split was visited.
+ */
+function forEachAllocation(rows: Int32Array, total: number, lf: Float64Array, visit: (childRows: Int32Array, delta: number) => boolean): boolean {
+  const r = rows.length;
+  const allocation = new Int32Array(r);
+  const child = new Int32Array(r);
+  const capacityAfter = new Int32Array(r + 1);
+  for (let i = r - 1; i >= 0; i--) capacityAfter[i] = capacityAfter[i + 1] + rows[i];
+  const step = (i: number, left: number, delta: number): boolean => {
+    if (i === r - 1) {
+      allocation[i] = left;
+      // Insertion sort of the rows left (r is small).
+      for (let k = 0; k < r; k++) {
+        const v = rows[k] - allocation[k];
+        let m = k;
+        while (m > 0 && child[m - 1] > v) {
+          child[m] = child[m - 1];
+          m--;
+        }
+        child[m] = v;
+      }
+      return visit(child, delta - lf[left]);
+    }
+    const low = Math.max(0, left - capacityAfter[i + 1]);
+    const high = Math.min(rows[i], left);
+    for (let x = low; x <= high; x++) {
+      allocation[i] = x;
+      if (!step(i + 1, left - x, delta - lf[x])) return false;
+    }
+    return true;
+  };
+  return step(0, total, 0);
+}
+
+function singleCompletion(rows: Int32Array, lf: Float64Array): NodeBounds {
+  let v = 0;
+  for (const x of rows) v -= lf[x];
+  return { best: v, worst: v, logTotal: v };
+}
+
+/** Number of values ≤ limit (values sorted ascending). */
+function upperIndex(values: Float64Array, limit: number): number {
+  let lo = 0;
+  let hi = values.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (values[mid] <= limit) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+function relaxedBounds(rows: Int32Array, columns: readonly number[], lf: Float64Array): NodeBounds {
+  const total = columns.reduce((a, b) => a + b, 0);
+  let logTotal = lf[total];
+  for (const x of rows) logTotal -= lf[x];
+  for (const x of columns) logTotal -= lf[x];
+
+  const rowCaps = Array.from(rows);
+  const bestByColumns = columns.reduce((a, cj) => a + evenSplit(cj, rowCaps, lf), 0);
+  const bestByRows = rowCaps.reduce((a, ri) => a + evenSplit(ri, columns, lf), 0);
+  const worstByColumns = columns.reduce((a, cj) => a + greedySplit(cj, rowCaps, lf), 0);
+  const worstByRows = rowCaps.reduce((a, ri) => a + greedySplit(ri, columns, lf), 0);
+  return { best: Math.min(bestByColumns, bestByRows), worst: Math.max(worstByColumns, worstByRows), logTotal };
+}
+
+/** max of −Σ ln x_i! with Σ x_i = amount, 0 ≤ x_i ≤ caps_i: spread as evenly as the caps allow. */
+function evenSplit(amount: number, caps: readonly number[], lf: Float64Array): number {
+  const sorted = caps.slice().sort((a, b) => a - b);
+  let left = amount;
+  let value = 0;
+  for (let i = 0; i < sorted.length; i++) {
+    const k = sorted.length - i;
+    if (sorted[i] * k <= left) {
+      value -= lf[sorted[i]];
+      left -= sorted[i];
+    } else {
+      const q = Math.floor(left / k);
+      const extra = left - q * k;
+      return value - extra * lf[q + 1] - (k - extra) * lf[q];
+    }
+  }
+  return value;
+}
+
+/** min of −Σ ln x_i! with Σ x_i = amount, 0 ≤ x_i ≤ caps_i: fill the largest caps first. */
+function greedySplit(amount: number, caps: readonly number[], lf: Float64Array): number {
+  const sorted = caps.slice().sort((a, b) => b - a);
+  let left = amount;
+  let value = 0;
+  for (const cap of sorted) {
+    if (left === 0) break;
+    const x = Math.min(cap, left);
+    value -= lf[x];
+    left -= x;
+  }
+  return value;
+}
+
+export interface ExactIndependenceTestOptions {
+  readonly workLimit?: number;
+  /** Monte Carlo settings used when the table is too large for the exact computation. */
+  readonly fallback?: Omit<MonteCarloOptions, 'statistic'>;
+}
+
+/**
+ * Fisher's exact test (Fisher–Freeman–Halton for r×c) as a line beside the asymptotic result. When the exact
+ * computation would exceed its work limit it switches to a Monte Carlo p-value of the same test and says so.
+ */
+export function exactIndependence(table: readonly (readonly number[])[], options: ExactIndependenceTestOptions = {}): ResamplingResult {
+  const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
+  const exact = tryExactIndependence(counts, options.workLimit);
+  if (exact !== null) return exact;
+  const mc = monteCarloIndependence(counts, { ...options.fallback, statistic: 'probability' });
+  const notice: Notice = {
+    code: 'exact-too-large',
+    severity: 'info',
+    message: `The exact computation for this ${counts.length}×${counts[0].length} table (n = ${counts.flat().reduce((a, b) => a + b, 0)}) would exceed its work limit (${(options.workLimit ?? DEFAULT_WORK_LIMIT).toLocaleString('en-US')} steps), so a Monte Carlo p-value of the same test was computed instead (${mc.details.resamples} resamples).`,
+  };
+  return { line: mc.line, notices: [notice, ...mc.notices], details: { ...mc.details, exactAttempted: true } };
+}
+
+/** Fisher's exact test as a result line, or null when it would exceed the work limit. */
+export function tryExactIndependence(table: readonly (readonly number[])[], workLimit?: number): ResamplingResult | null {
+  const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
+  const outcome = fisherExactRxC(counts, { workLimit });
+  if (!outcome.completed) return null;
+  const line: StatisticLine = {
+    id: 'fisher-exact',
+    name: counts.length === 2 && counts[0].length === 2 ? "Fisher's exact test" : "Fisher's exact test (Fisher–Freeman–Halton)",
+    symbol: '',
+    statistic: NaN,
+    df: null,
+    pValue: outcome.pValue!,
+    note: 'Two-sided: the total probability of the tables with the observed margins that are no more probable than the observed one.',
+  };
+  const df = (counts.length - 1) * (counts[0].length - 1);
+  return {
+    line,
+    notices: [],
+    details: { method: 'exact', statistic: 'probability', tableProbability: probabilityFromLog(outcome.logTableProbability), work: outcome.work, df },
+  };
+}
+
+export interface ExactFitOptions {
+  readonly statistic: ResamplingStatistic;
+  readonly lambda?: number;
+  /** Largest number of outcomes to enumerate before switching to Monte Carlo. Default 5e6. */
+  readonly outcomeLimit?: number;
+  readonly fallback?: Omit<MonteCarloOptions, 'statistic' | 'lambda'>;
+}
+
+/** Number of ways to put n units in k categories, C(n + k − 1, k − 1), as a double. */
+export function outcomeCount(n: number, k: number): number {
+  let count = 1;
+  for (let i = 1; i < k; i++) count = (count * (n + i)) / i;
+  return count;
+}
+
+/**
+ * Exact multinomial goodness of fit: the probability, under the hypothesised probabilities, of every outcome
+ * at least as extreme as the observed one (by the chosen statistic, or by probability), found by enumerating
+ * all outcomes; a Monte Carlo p-value when there are too many.
+ */
+export function exactMultinomialFit(observed: readonly number[], probabilities: readonly number[], options: ExactFitOptions): ResamplingResult {
+  checkFitInput(observed, probabilities);
+  const keep = probabilities.map((_, i) => i).filter((i) => probabilities[i] > 0);
+  const x = keep.map((i) => observed[i]);
+  const pTotal = keep.reduce((a, i) => a + probabilities[i], 0);
+  const p = keep.map((i) => probabilities[i] / pTotal);
+  const n = x.reduce((a, b) => a + b, 0);
+  const k = x.length;
+  const limit = options.outcomeLimit ?? 5e6;
+  if (outcomeCount(n, k) > limit) {
+    const mc = monteCarloFit(observed, probabilities, { ...options.fallback, statistic: options.statistic, lambda: options.lambda });
+    const notice: Notice = { code: 'exact-too-large', severity: 'info', message: `There are about ${outcomeCount(n, k).toExponential(1)} possible outcomes for n = ${n} in ${k} categories, more than the exact enumeration handles (${limit}); a Monte Carlo p-value was computed instead.` };
+    return { line: mc.line, notices: [notice, ...mc.notices], details: { ...mc.details, exactAttempted: true } };
+  }
+  const lf = logFactorialTable(n);
+  const logP = p.map((v) => Math.log(v));
+  const e = p.map((v) => v * n);
+  const lambda = options.statistic === 'pearson' ? 1 : options.statistic === 'likelihood-ratio' ? 0 : options.lambda ?? 2 / 3;
+  // Per-category term of the statistic (larger = more extreme) and of ln P.
+  const term = (i: number, v: number): number => {
+    if (options.statistic === 'probability') return lf[v] - v * logP[i];
+    if (lambda === 1) return (v * v) / e[i];
+    if (lambda === 0) return v === 0 ? 0 : 2 * v * Math.log(v / e[i]);
+    // Other λ (Cressie–Read): the shared term, which has the λ = −1 limit and the infinite empty cell for λ ≤ −1.
+    return divergenceTerm(v, e[i], lambda);
+  };
+  let observedStatistic = 0;
+  x.forEach((v, i) => (observedStatistic += term(i, v)));
+  const cutoff = observedStatistic - tieTolerance(observedStatistic);
+  const total = new LogSumAccumulator();
+  const visit = (i: number, left: number, stat: number, logProb: number): void => {
+    if (i === k - 1) {
+      const s = stat + term(i, left);
+      if (s >= cutoff) total.add(logProb - lf[left] + left * logP[i]);
+      return;
+    }
+    for (let v = 0; v <= left; v++) {
+      visit(i + 1, left - v, stat + term(i, v), logProb - lf[v] + v * logP[i]);
+    }
+  };
+  visit(0, n, 0, lf[n]);
+  const label = options.statistic === 'probability' ? { name: 'Exact multinomial test (outcomes ordered by probability)', symbol: '' } : { name: `Exact multinomial test of the ${options.statistic === 'pearson' ? 'Pearson' : options.statistic === 'likelihood-ratio' ? 'likelihood-ratio' : 'Cressie–Read'} statistic`, symbol: options.statistic === 'pearson' ? 'X²' : options.statistic === 'likelihood-ratio' ? 'G²' : 'CR' };
+  const statisticValue = options.statistic === 'probability' ? NaN : lambda === 1 ? observedStatistic - n : observedStatistic;
+  return {
+    line: {
+      id: `${options.statistic}-exact`,
+      name: label.name,
+      symbol: label.symbol,
+      statistic: statisticValue,
+      df: null,
+      pValue: probabilityFromLog(Math.min(0, total.log)),
+      note: `All ${outcomeCount(n, k).toFixed(0)} outcomes of ${n} units in ${k} categories enumerated.`,
+    },
+    notices: [],
+    details: { method: 'exact', statistic: options.statistic, outcomes: outcomeCount(n, k) },
+  };
+}

@@ -1,0 +1,92 @@
+// Counts from 1e7 to 1e15, and beyond 2^53. Tails at these sizes are checked against base R's pbinom and phyper
+// (scripts/fixtures/large_counts.R; version in the fixture's rVersion); counts a double cannot hold exactly are
+// refused with the cell named.
+import { strict as assert } from 'node:assert';
+import { InputError, isInstance } from '../../../../src/errors';
+import { fisherExact2x2 } from '../../../../src/stats/procedures/fisher2x2';
+import { mcnemarStatistics, mcnemarTest } from '../../../../src/stats/procedures/paired';
+import { stratifiedTest } from '../../../../src/stats/procedures/stratified';
+import { independenceTest } from '../../../../src/stats/procedures/table';
+import { goodnessOfFit } from '../../../../src/stats/procedures/fit';
+import { closeTo } from '../../tolerance';
+import { fixture } from '../../fixtures';
+
+interface McNemarCase { b: number; c: number; lnExactP: number; lnMidP: number }
+interface FisherCase { table: number[][]; lnGreater: number; lnLess: number }
+const R = fixture<{ rVersion: string; mcnemar: McNemarCase[]; fisher: FisherCase[] }>('R', 'large-counts');
+
+/** A fixture field that the check compares: present and a number, or the test fails. */
+function field<T extends object>(entry: T, key: keyof T & string): number {
+  const v = entry[key];
+  assert.equal(typeof v, 'number', `fixture entry ${JSON.stringify(entry)} lacks the number ${key}`);
+  return v as number;
+}
+
+function refused(run: () => unknown, code: string, jsonPath: string, message: RegExp): void {
+  assert.throws(run, (e: unknown) => {
+    assert.ok(isInstance(e, InputError), `expected an InputError, got ${String(e)}`);
+    assert.equal(e.code, code);
+    assert.equal(e.location.jsonPath, jsonPath);
+    assert.match(e.message, message);
+    return true;
+  });
+}
+
+const LN10 = Math.LN10;
+
+describe('counts from 1e7 to 1e15', function () {
+  // A hang guard, not a speed check (figures are in npm run bench): tails at 1e15 sum about 1e8 terms each.
+  this.timeout(60_000);
+  assert.ok(R.mcnemar.length >= 7 && R.fisher.length >= 3, 'fixture has its cases');
+  for (const c of R.mcnemar) {
+    it(`McNemar exact and mid-p for b = ${c.b}, c = ${c.c} match R pbinom (O(1) memory, no term list)`, () => {
+      const s = mcnemarStatistics(c.b, c.c);
+      closeTo(s.exact.pValue.log10 * LN10, field(c, 'lnExactP'), 1e-9, `ln exact p (R ${R.rVersion})`, c, 1e-12);
+      closeTo(s.midP.pValue.log10 * LN10, field(c, 'lnMidP'), 1e-9, `ln mid-p (R ${R.rVersion})`, c, 1e-12);
+    });
+  }
+  for (const c of R.fisher) {
+    it(`Fisher 2×2 one-sided tails for ${JSON.stringify(c.table)} match R phyper`, () => {
+      const f = fisherExact2x2(c.table);
+      closeTo(f.greater.log10 * LN10, field(c, 'lnGreater'), 1e-8, `ln P(X ≥ a) (R ${R.rVersion})`, c.table, 1e-12);
+      closeTo(f.less.log10 * LN10, field(c, 'lnLess'), 1e-8, `ln P(X ≤ a) (R ${R.rVersion})`, c.table, 1e-12);
+    });
+  }
+});
+
+describe('counts beyond 2^53 are refused, not looped over', () => {
+  const max = Number.MAX_SAFE_INTEGER;
+  it('refuses a cell of 1e16 in an independence table, naming the cell', () => {
+    refused(() => independenceTest([[1e16, 2e16], [3e16, 4e16]]), 'count-too-large', '$.table[0][0]', /2\^53/);
+  });
+  it('refuses a table whose total passes 2^53 − 1 although every cell is below it', () => {
+    refused(() => independenceTest([[4e15, 4e15], [4e15, 4e15]]), 'count-too-large', '$.table', /total.*2\^53/);
+  });
+  it('accepts a table whose total is exactly 2^53 − 1', () => {
+    const r = independenceTest([[max - 3, 1], [1, 1]]);
+    assert.ok(Number.isFinite(r.statistic));
+  });
+  it('refuses discordant counts whose sum passes 2^53 − 1 in McNemar’s test', () => {
+    refused(() => mcnemarTest([[5, 1e16], [1e16, 5]]), 'count-too-large', '$.table[0][1]', /2\^53/);
+    refused(() => mcnemarTest([[0, 5e15], [5e15, 0]]), 'count-too-large', '$.table', /total/);
+  });
+  it('refuses a stratum count of 1e16 and a goodness-of-fit count of 1e16', () => {
+    refused(() => stratifiedTest([[[1e16, 1], [1, 1]], [[1, 1], [1, 1]]]), 'count-too-large', '$.strata[0][0][0]', /2\^53/);
+    refused(() => goodnessOfFit([1e16, 5]), 'count-too-large', '$.observed[0]', /2\^53/);
+  });
+});
+
+describe('stratified counts of 1e7 and 1e9', () => {
+  const strata = (k: number): number[][][] => [[[k, 2 * k], [3 * k, 4 * k]], [[k, 2 * k], [3 * k, k]]];
+  it('gives the asymptotic CMH test for counts of 1e9 and leaves out the exact line with a notice naming the limit', () => {
+    const r = stratifiedTest(strata(1e9));
+    assert.ok(Number.isFinite(r.statistic));
+    assert.ok(!r.otherStatistics.some((l) => l.id === 'cmh-exact'));
+    const n = r.notices.find((x) => x.code === 'exact-too-large');
+    assert.ok(n, r.notices.map((x) => x.code).join(', '));
+    assert.match(n.message, /limit/);
+  });
+  it('refuses "method": "exact" for counts of 1e7, naming the limit', () => {
+    refused(() => stratifiedTest(strata(1e7), { method: 'exact' }), 'exact-too-large', '$.method', /limit/);
+  });
+});
