@@ -99,7 +99,7 @@ describe('results panel', () => {
   });
 
   it("saves a plot as a standalone SVG, and as a PNG drawn by the panel's canvas at twice its size", async () => {
-    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv')));
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
     const a = await api();
     const svgUri = vscode.Uri.file(workspacePath('integration-data', 'plot-1.svg'));
     const pngUri = vscode.Uri.file(workspacePath('integration-data', 'plot-1.png'));
