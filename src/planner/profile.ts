@@ -76,7 +76,8 @@ export function profileColumns(records: Records, missing: readonly string[]): Co
     const strayOk = !numeric && read.parsed.length >= 3 && read.bad.length <= STRAY_SHARE * cells.length;
     const tally = new Map<string, number>();
     for (const v of texts) tally.set(v, (tally.get(v) ?? 0) + 1);
-    const levels = [...tally.entries()].map(([label, count]) => ({ label, count })).sort((a, b) => b.count - a.count);
+    // In the order first seen, as the tables and the saved test put them (one category order everywhere).
+    const levels = [...tally.entries()].map(([label, count]) => ({ label, count }));
     return {
       name,
       numeric,
