@@ -21,7 +21,7 @@ const BASIS_WORDS: Readonly<Record<string, string>> = {
   fisher: "Fisher's exact test",
   pearson: "Pearson's X² without correction",
   yates: "Pearson's X² with Yates' correction",
-  asymptotic: 'the chi-square approximation of the reported statistic (the reported p-value is resampled)',
+  asymptotic: 'the chi-square approximation of the reported statistic (the reported exact or Monte Carlo p-value is not recomputed for each change)',
 };
 
 /**

@@ -154,7 +154,7 @@ export interface TestResult {
 /**
  * The p-value the fragility search recomputed: the reported test itself ("reported"), Fisher's exact, Pearson's
  * X² with or without Yates' correction, or the chi-square approximation of the reported statistic when the
- * reported p-value is resampled ("asymptotic").
+ * reported p-value is exact or resampled ("asymptotic").
  */
 export type FragilityBasis = 'reported' | 'fisher' | 'pearson' | 'yates' | 'asymptotic';
 
