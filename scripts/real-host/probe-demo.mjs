@@ -44,8 +44,15 @@ try {
   }
   console.log(`probe: workbench loaded; Countercheck extension ${active ? 'activated' : 'NOT activated'} (host logs ${info.logs})`);
   ok &&= active;
-  const tabs = await page.locator('.tabs-container .tab').allInnerTexts().catch(() => []);
-  const readme = tabs.some((t) => /README/.test(t));
+  // The workbench opens the README once it has restored its layout: on a loaded machine that can come well after
+  // the extension activated, so wait for it (up to a minute) rather than read the tabs once.
+  let tabs = [];
+  let readme = false;
+  for (let i = 0; i < 120 && !readme; i++) {
+    tabs = await page.locator('.tabs-container .tab').allInnerTexts().catch(() => []);
+    readme = tabs.some((t) => /README/.test(t));
+    if (!readme) await sleep(500);
+  }
   console.log(`probe: open editors: ${tabs.map((t) => t.replace(/\s+/g, ' ').trim()).join(' | ') || '(none)'}`);
   ok &&= readme;
   if (process.env.COUNTERCHECK_PROBE_SCREENSHOT) await page.screenshot({ path: process.env.COUNTERCHECK_PROBE_SCREENSHOT });
