@@ -8,7 +8,7 @@
  *
  * `main` takes its streams and folder as arguments so tests run it in-process.
  */
-import { mkdtemp, readFile, rename, rm, writeFile } from 'node:fs/promises';
+import { mkdir, mkdtemp, readFile, rename, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 import { expandInputs, type InputFile } from './cli/inputs';
@@ -423,8 +423,10 @@ async function commandReport(files: readonly InputFile[], flags: ReportFlags & C
       exit = 2;
       continue;
     }
-    const runBlock = (block: ReportBlock) =>
-      runReportBlock(block, {
+    // The plot files the blocks link to, by file: written beside the report once the blocks have run.
+    const plotsToWrite = new Map<string, string>();
+    const runBlock = async (block: ReportBlock) => {
+      const run = await runReportBlock(block, {
         reportPath: absolute,
         readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
         signal: io.signal,
@@ -433,6 +435,9 @@ async function commandReport(files: readonly InputFile[], flags: ReportFlags & C
         allowOutsideRoot: flags.allowOutside,
         format: { decimals: flags.decimals },
       });
+      for (const plot of run.plots) plotsToWrite.set(plot.file, plot.svg);
+      return run;
+    };
     // With --adjust the blocks are one family: each result is written with its adjusted p-value.
     const family = flags.adjust ? await familyRenderer(text, runBlock, flags.adjust, { decimals: flags.decimals }) : undefined;
     if (family) say(`${file}: ${describeFamily(family.adjustment).replace(/\n {2}(\d+):/g, (_, i: string) => `\n  block ${Number(i) + 1}:`)}\n`);
@@ -448,6 +453,19 @@ async function commandReport(files: readonly InputFile[], flags: ReportFlags & C
       if (changed) exit = Math.max(exit, 1);
     } else if (changed) {
       await replaceFile(absolute, outcome.text);
+    }
+    // Plot files are written when their drawing changed; --check only says so.
+    for (const [plotFile, svg] of plotsToWrite) {
+      if ((await readIfExists(plotFile)) === svg) continue;
+      const shown = path.relative(io.cwd, plotFile);
+      if (flags.check) {
+        say(`${shown}: plot would change\n`);
+        exit = Math.max(exit, 1);
+      } else {
+        await mkdir(path.dirname(plotFile), { recursive: true });
+        await writeFile(plotFile, svg, 'utf8');
+        say(`${shown}: plot written\n`);
+      }
     }
     if (outcome.blocks.some((b) => b.error)) exit = 2;
   }

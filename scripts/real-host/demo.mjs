@@ -82,4 +82,4 @@ async function main() {
   }, 5000);
 }
 
-main().catch((e) => fail(e instanceof Error ? e.message.split('\n')[0] : String(e)));
+main().catch((e) => fail(String(e?.message ?? e).split('\n')[0]));

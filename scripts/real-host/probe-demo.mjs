@@ -57,7 +57,7 @@ try {
   ok &&= readme;
   if (process.env.COUNTERCHECK_PROBE_SCREENSHOT) await page.screenshot({ path: process.env.COUNTERCHECK_PROBE_SCREENSHOT });
 } catch (e) {
-  console.log(`probe: ${e instanceof Error ? e.message.split('\n')[0] : e}`);
+  console.log(`probe: ${String(e?.message ?? e).split('\n')[0]}`);
   ok = false;
 } finally {
   await context.close();

@@ -31,6 +31,7 @@ import type { IntakeOptions } from './options';
 import type { Records } from './records';
 import { DateCell, NULL_INDEX, throttledProgress, TypedSink, type EncodedColumn, type TypedReadControl, type TypedValue } from './typed';
 import type { Aggregate, AggregateRequest } from './types';
+import { isInstance } from '../errors';
 import { openRegularFile } from './file';
 import { fail } from './where';
 import { selectionFingerprint } from './xlsx';
@@ -112,7 +113,7 @@ function describeType(column: SchemaTree): string {
 function typed(v: unknown, dateOnly: boolean): TypedValue {
   if (v === null || v === undefined || typeof v === 'number' || typeof v === 'string' || typeof v === 'bigint') return v as TypedValue;
   if (typeof v === 'boolean') return v ? 'true' : 'false';
-  if (v instanceof Date) {
+  if (isInstance(v, Date)) {
     const iso = v.toISOString();
     return new DateCell(dateOnly || iso.endsWith('T00:00:00.000Z') ? iso.slice(0, 10) : iso.endsWith('.000Z') ? iso.slice(0, 19) : iso.slice(0, 23));
   }
@@ -271,7 +272,7 @@ export async function previewParquet(path: string, maxRows: number, file = path)
             const column = values.get(name)!;
             const at = column.index[i];
             const t = typed(at >= 0 ? column.dictionary[at] : at === NULL_INDEX ? null : column.values![i], dateOnly[k]);
-            return t === null || t === undefined ? '' : t instanceof DateCell ? t.iso : String(t);
+            return t === null || t === undefined ? '' : isInstance(t, DateCell) ? t.iso : String(t);
           }),
         );
         lines.push(position + i + 1);

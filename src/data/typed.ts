@@ -11,7 +11,7 @@ import { parseDecimal } from './numbers';
 import type { IntakeOptions } from './options';
 import type { Aggregate, AggregateRequest } from './types';
 import { shown, type PositionUnit } from './where';
-import { InputError } from '../errors';
+import { InputError, isInstance } from '../errors';
 
 /** One column of a batch as a dictionary and indices: `index[i]` ≥ 0 is a dictionary entry, -1 a null, -2 a value in `values[i]`. */
 export interface EncodedColumn {
@@ -61,7 +61,7 @@ export interface CellPlace {
 export type Locate = (position: number, columnIndex: number) => CellPlace;
 
 function describeValue(v: TypedValue): string {
-  if (v instanceof DateCell) return `a date (${v.iso})`;
+  if (isInstance(v, DateCell)) return `a date (${v.iso})`;
   if (typeof v === 'bigint') return `\`${v}\``;
   return shown(String(v));
 }
@@ -70,7 +70,7 @@ function describeValue(v: TypedValue): string {
 const UNCODED = -3;
 
 function isEncoded(column: ArrayLike<unknown> | EncodedColumn): column is EncodedColumn {
-  return (column as EncodedColumn).index instanceof Int32Array && 'dictionary' in column;
+  return isInstance((column as EncodedColumn).index, Int32Array) && 'dictionary' in column;
 }
 
 /** One request's aggregator, with the per-value readers its column roles need. */
@@ -101,7 +101,7 @@ class Part {
   code(coder: CategoryCoder, v: TypedValue, position: number): number {
     if (v === null || v === undefined) return coder.missing();
     if (typeof v === 'number') return Number.isNaN(v) ? coder.missing() : coder.code(String(v), position);
-    if (v instanceof DateCell) return coder.code(v.iso, position);
+    if (isInstance(v, DateCell)) return coder.code(v.iso, position);
     return coder.code(String(v), position);
   }
 
@@ -165,7 +165,7 @@ export class TypedSink {
       a.push(
         this.columns.map((_, j) => {
           const v = cell(j);
-          return v === null || v === undefined ? '' : v instanceof DateCell ? v.iso : String(v);
+          return v === null || v === undefined ? '' : isInstance(v, DateCell) ? v.iso : String(v);
         }),
         position,
       );

@@ -598,8 +598,8 @@ async function makeHeader(ctx: SheetContext, row: number, cells: RowCells, area:
   const names: (string | undefined)[] = [];
   for (let j = left; j <= right; j++) {
     const v = cells.get(j);
-    if (v instanceof ErrorValue) problem({ file: ctx.file }, `${sheetRef}!${columnLetters(j)}${row}: the header cell holds the error ${v.text}; expected a column name`, 'bad-header');
-    const text = v === undefined || v === null ? '' : v instanceof DateCell ? v.iso : String(v).trim();
+    if (isInstance(v, ErrorValue)) problem({ file: ctx.file }, `${sheetRef}!${columnLetters(j)}${row}: the header cell holds the error ${v.text}; expected a column name`, 'bad-header');
+    const text = v === undefined || v === null ? '' : isInstance(v, DateCell) ? v.iso : String(v).trim();
     names.push(text === '' ? undefined : text);
   }
   if (names.some((n) => n === undefined)) {
@@ -726,8 +726,8 @@ export function selectionFingerprint(fileSha256: string, selection: string): str
 
 function cellToText(v: Cell | undefined): string {
   if (v === undefined || v === null) return '';
-  if (v instanceof DateCell) return v.iso;
-  if (v instanceof ErrorValue) return v.text;
+  if (isInstance(v, DateCell)) return v.iso;
+  if (isInstance(v, ErrorValue)) return v.text;
   return String(v);
 }
 
@@ -766,7 +766,7 @@ export async function aggregateWorkbook(
     (row, cells) => {
       for (const column of cells.columns) {
         const v = cells.get(column);
-        if (v instanceof ErrorValue)
+        if (isInstance(v, ErrorValue))
           problem({ file }, `${sheetRef}!${columnLetters(column)}${row}, column \`${header.columns[column - header.left]}\`: the cell holds the error value ${v.text} (a formula that failed); expected a value`, 'error-value');
       }
       rows++;

@@ -102,10 +102,11 @@ function density(plot: DensityPlot, hatch: string): Drawing {
   const sx = (x: number) => M.l + ((x - plot.xMin) / (plot.xMax - plot.xMin || 1)) * (PLOT_WIDTH - M.l - M.r);
   const sy = (y: number) => height - M.b - (y / (plot.yMax || 1)) * (height - M.t - M.b);
   const parts: string[] = [];
-  for (const poly of plot.shaded) {
-    const pts = points(poly.map((p) => ({ x: sx(p.x), y: sy(p.y) })));
-    parts.push(tag('polygon', { points: pts, class: 'tail' }), tag('polygon', { points: pts, class: 'tail-hatch', fill: `url(#${hatch})` }));
-  }
+  plot.shaded.forEach((poly, k) => {
+    const scaled = poly.map((p) => ({ x: sx(p.x), y: sy(p.y) }));
+    const pts = points(scaled);
+    parts.push(tag('polygon', { points: pts, class: 'tail' }), hatched(scaled, `${hatch}${k === 0 ? '' : `-${k + 1}`}`));
+  });
   parts.push(tag('polyline', { points: points(plot.curve.map((p) => ({ x: sx(p.x), y: sy(p.y) }))), class: 'curve' }));
   for (const c of plot.critical) parts.push(tag('line', { x1: sx(c), x2: sx(c), y1: M.t, y2: height - M.b, class: 'critical' }));
   parts.push(xAxis(plot.ticks, plot.tickLabels, sx, height - M.b, plot.xLabel));
@@ -245,9 +246,18 @@ function power(plot: PowerCurvePlot): Drawing {
   return { height, body: parts.join(''), description };
 }
 
-/** Diagonal hatching for the tail: always in a file (it prints in black and white), in high contrast in the panel (CSS). */
-function hatchPattern(id: string): string {
-  return tag('pattern', { id, width: 6, height: 6, patternUnits: 'userSpaceOnUse', patternTransform: 'rotate(45)' }, tag('line', { x1: 0, y1: 0, x2: 0, y2: 6, class: 'hatch-line' }));
+/**
+ * Diagonal hatching over a shaded area: always in a file (it prints in black and white), in high contrast in the
+ * panel (CSS). Lines 6 px apart at 45°, clipped to the area's own outline.
+ */
+function hatched(area: readonly { x: number; y: number }[], id: string): string {
+  if (area.length < 3) return '';
+  const xs = area.map((p) => p.x);
+  const ys = area.map((p) => p.y);
+  const [x0, x1, y0, y1] = [Math.min(...xs), Math.max(...xs), Math.min(...ys), Math.max(...ys)];
+  const lines: string[] = [];
+  for (let c = x0 - (y1 - y0); c <= x1; c += 6) lines.push(tag('line', { x1: c, y1: y1, x2: c + (y1 - y0), y2: y0, class: 'hatch-line' }));
+  return tag('clipPath', { id }, tag('polygon', { points: points(area) })) + tag('g', { class: 'tail-hatch', 'clip-path': `url(#${id})` }, lines.join(''));
 }
 
 function drawingFor(plot: Plot, hatch: string): Drawing {
@@ -274,7 +284,6 @@ export function renderPlotSvg(plot: Plot, options: SvgOptions = {}): string {
   const head = [
     tag('title', { id: `${id}-title` }, escapeXml(plot.title)),
     tag('desc', { id: `${id}-desc` }, escapeXml(drawing.description)),
-    tag('defs', {}, hatchPattern(hatch)),
   ];
   if (mode === 'standalone') {
     head.push(tag('style', {}, STANDALONE_STYLE));

@@ -34,7 +34,7 @@ function explainable<T extends HTMLElement>(node: T, text: string | undefined): 
   if (!text) return node;
   const id = `tip-${++tipCount}`;
   node.classList.add('has-explain');
-  if (!node.hasAttribute('tabindex') && !(node instanceof HTMLButtonElement)) node.setAttribute('tabindex', '0');
+  if (!node.hasAttribute('tabindex') && node.tagName !== 'BUTTON') node.setAttribute('tabindex', '0');
   node.setAttribute('aria-describedby', id);
   node.append(el('span', { class: 'tip', role: 'tooltip', id }, text));
   // Near the right edge the tip opens leftwards, so it is never cut off by the panel's edge.
