@@ -48,6 +48,7 @@ async function palette(page, title) {
     throw new Error(`the command palette offers "${label}" for "${title}"`);
   }
   await page.keyboard.press('Enter');
+  await closed(page);
 }
 
 /** Opens a file with Quick Open; retries while the file index is still being built after start-up. */
@@ -70,12 +71,21 @@ async function quickOpen(page, file) {
 }
 
 /** Answers the next QuickPick or input box by typing and pressing Enter. */
+/**
+ * After Enter the quick input closes and the next question opens in the same widget: wait until it has closed
+ * (bounded, since the next one may replace it at once), so the next answer is not typed into the closing one.
+ */
+async function closed(page) {
+  await page.waitForSelector('.quick-input-widget', { state: 'hidden', timeout: 2000 }).catch(() => {});
+}
+
 async function answer(page, text) {
   await page.waitForSelector('.quick-input-widget', { state: 'visible' });
   await sleep(300);
   if (text) await page.keyboard.type(text, { delay: 15 });
   await sleep(400);
   await page.keyboard.press('Enter');
+  await closed(page);
 }
 
 /** Gives the panel the whole window for the screenshot (one editor group, side bar hidden), then brings the side bar back. */
