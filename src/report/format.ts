@@ -4,7 +4,7 @@
  * double range, computed from their base-10 logarithm. Pure.
  */
 import type { Probability } from '../stats/result';
-import { formatProbability, scientificFromLog10 } from '../stats/procedures/probabilityText';
+import { formatProbability, scientificFromLog10 } from './words/probability';
 
 export { formatProbability, scientificFromLog10 };
 

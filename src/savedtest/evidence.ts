@@ -14,7 +14,7 @@ import { fitEquivalence, varianceEquivalence } from '../stats/procedures/equival
 import { categoryProblem, fragilityIndex2x2, generalizedFragility, strataProblem, tableProblem, twoByTwoPValue, type Fragility, type TwoByTwoTest } from '../stats/procedures/fragility';
 import { pairedTest } from '../stats/procedures/paired';
 import { stratifiedTest } from '../stats/procedures/stratified';
-import type { EquivalenceSection, FragilityBasis, TestResult } from '../stats/result';
+import type { EquivalenceSection, FragilityBasis, ComputedTestResult } from '../stats/result';
 import { bool, field, num, obj, oneOf, str, type Field } from './fields';
 import type { SpecV1 } from './types';
 
@@ -81,7 +81,7 @@ interface EvidenceFields {
 }
 
 /** Adds the sections the spec asks for (or that are on by default) to a test result. */
-export function withEvidence(result: TestResult, validated: SpecV1): TestResult {
+export function withEvidence(result: ComputedTestResult, validated: SpecV1): ComputedTestResult {
   const spec = validated as SpecV1 & EvidenceFields;
   let out = result;
   const fragility = spec.fragility !== false ? fragilityFor(result, spec) : undefined;
@@ -103,7 +103,7 @@ function guarded(f: () => number): number {
   }
 }
 
-function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { basis: FragilityBasis }) | undefined {
+function fragilityFor(result: ComputedTestResult, spec: EvidenceFields): (Fragility & { basis: FragilityBasis }) | undefined {
   const alpha = result.alpha;
   const options = { minLikelihood: spec.fragilityMinLikelihood };
   const resampled = spec.method === 'monte-carlo' || (spec.method === 'exact' && result.test !== 'independence' && result.test !== 'paired' && result.test !== 'stratified');
@@ -166,7 +166,7 @@ function independenceLog10P(t: number[][], lambda: number): number {
   return chiSquareUpperProbability(statistic, (kept.length - 1) * (kept[0].length - 1)).log10;
 }
 
-function bayesFactorFor(result: TestResult, spec: EvidenceFields): TestResult['bayesFactor'] {
+function bayesFactorFor(result: ComputedTestResult, spec: EvidenceFields): ComputedTestResult['bayesFactor'] {
   const option = spec.bayesFactor;
   if (option === false) return undefined;
   const chosen = typeof option === 'object' ? option : {};
@@ -185,7 +185,7 @@ function bayesFactorFor(result: TestResult, spec: EvidenceFields): TestResult['b
   return undefined;
 }
 
-function equivalenceFor(result: TestResult, spec: EvidenceFields): EquivalenceSection | undefined {
+function equivalenceFor(result: ComputedTestResult, spec: EvidenceFields): EquivalenceSection | undefined {
   const option = spec.equivalence;
   if (!option) return undefined;
   const alpha = result.alpha;

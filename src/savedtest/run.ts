@@ -10,6 +10,7 @@ import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/opt
 import { deliveryNeeded, fileReaderFor, SQL_READER } from '../data/readers';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
+import { wordResult } from '../report/words/result';
 import { withEvidence } from './evidence';
 import { resolveSourcePath } from './paths';
 import { procedureFor } from './procedures/index';
@@ -37,7 +38,9 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   // What the reader noticed (a formula without a stored value, a merged header) goes with the result's notices.
   const withNotices = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
   // Fragility, Bayes factor, equivalence: the sections a count-based test gets beside its p-value.
-  const result = withNotices.kind === 'test' ? withEvidence(withNotices, spec) : withNotices;
+  const computedWithEvidence = withNotices.kind === 'test' ? withEvidence(withNotices, spec) : withNotices;
+  // The words are written last, in English unless the caller shows the result to someone in another language.
+  const result = wordResult(computedWithEvidence, options.translate);
   const data: DataFingerprint = provenance
     ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }
     : inlineFingerprint(spec);

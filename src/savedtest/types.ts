@@ -2,6 +2,7 @@
  * The saved-test format, version 1 (`*.countercheck.json`), as TypeScript types, and the interfaces
  * through which a host (the command line, the extension) hands `runSpec` its file access.
  */
+import type { Translate } from '../report/words/translate';
 import type { CategoryOptions, IntakeOptions } from '../data/options';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import type { Result } from '../stats/result';
@@ -49,6 +50,11 @@ export interface RunOptions {
   readonly allowOutsideRoot?: boolean;
   readonly signal?: AbortSignal;
   readonly onProgress?: (fraction: number) => void;
+  /**
+   * Writes the result's sentences (default: English). The editor passes `vscode.l10n.t` for what it shows;
+   * what is recorded or compared is always run in English, so it reproduces anywhere.
+   */
+  readonly translate?: Translate;
 }
 
 /** The fingerprint of the data a result was computed from. */

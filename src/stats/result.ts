@@ -1,7 +1,10 @@
 /**
- * The shapes every procedure in `stats/` returns, and that `spec/` and `report/` consume.
- * Types only: no behaviour lives here. Every field is plain data so a result can be
- * serialised to JSON, sent to the webview, and recorded in a saved test unchanged.
+ * The shapes of results. Types only: no behaviour lives here.
+ *
+ * Two families: what `stats/` returns (`Computed…`, `Found…`: numbers, tables, and `Phrase`s — codes with their
+ * arguments, no sentences), and the published shape (`TestResult`, `Notice`, …) that `report/words` writes from it,
+ * with the words filled in. The published shape is what the command line prints as JSON, a saved test records and
+ * the webview receives; every field is plain data so it serialises unchanged.
  */
 import type { BayesFactor } from './procedures/bayes-factor';
 import type { Fragility } from './procedures/fragility';
@@ -217,3 +220,75 @@ export interface PowerResult {
 }
 
 export type Result = TestResult | DistributionResult | PowerResult;
+
+/**
+ * Words for readers, left to `report/words`: a code naming the sentence or label, and the values it needs.
+ * Numbers stay numbers here (report/ formats them); names from the data stay as given.
+ */
+export interface Phrase {
+  readonly code: string;
+  readonly args?: PhraseArgs;
+}
+
+export type PhraseValue = string | number | boolean | Probability | readonly string[] | readonly number[];
+export type PhraseArgs = Readonly<Record<string, PhraseValue | undefined>>;
+
+/**
+ * A reader-facing text of a computed result: a `Phrase`, or a sentence already written outside `stats/` (the
+ * saved-test layer and the data readers still write some of theirs).
+ */
+export type Words = Phrase | string;
+
+/** A notice as `stats/` reports it: its code and arguments; `report/words` writes the message. */
+export interface FoundNotice {
+  readonly code: string;
+  readonly severity: NoticeSeverity;
+  readonly args?: PhraseArgs;
+}
+
+/** An assumption as `stats/` reports it: which one, its status and the numbers behind it. */
+export interface FoundAssumption {
+  readonly id: string;
+  readonly status: AssumptionStatus;
+  readonly args?: PhraseArgs;
+}
+
+export interface FoundInterval extends Omit<Interval, 'parameter' | 'method'> {
+  readonly parameter: Words;
+  readonly method: Words;
+}
+
+export interface FoundEstimate extends Omit<Estimate, 'name' | 'note' | 'interval'> {
+  readonly name: Words;
+  readonly interval?: FoundInterval;
+  readonly note?: Words;
+}
+
+export interface FoundStatisticLine extends Omit<StatisticLine, 'name' | 'note'> {
+  readonly name: Words;
+  readonly note?: Words;
+}
+
+/** A test's result as `stats/` computes it; `report/words` turns it into a `TestResult` (same fields, same order). */
+export interface ComputedTestResult
+  extends Omit<TestResult, 'procedure' | 'conclusion' | 'otherStatistics' | 'effectSizes' | 'estimates' | 'confidenceInterval' | 'notices' | 'assumptions'> {
+  readonly procedure: Words;
+  readonly conclusion: Words;
+  readonly otherStatistics: readonly FoundStatisticLine[];
+  readonly effectSizes: readonly FoundEstimate[];
+  readonly estimates: readonly FoundEstimate[];
+  readonly confidenceInterval?: FoundInterval;
+  readonly notices: readonly (FoundNotice | Notice)[];
+  readonly assumptions: readonly (FoundAssumption | Assumption)[];
+}
+
+export interface ComputedDistributionResult extends Omit<DistributionResult, 'notices'> {
+  readonly notices: readonly (FoundNotice | Notice)[];
+}
+
+export interface ComputedPowerResult extends Omit<PowerResult, 'notices' | 'effectSize'> {
+  readonly effectSize: { readonly id: string; readonly name: Words; readonly value: number };
+  readonly notices: readonly (FoundNotice | Notice)[];
+}
+
+export type ComputedResult = ComputedTestResult | ComputedDistributionResult | ComputedPowerResult;

@@ -4,7 +4,7 @@
  */
 import { InputError } from '../../errors';
 import { distributionFitTest } from '../../stats/procedures/distfit';
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { arr, field, num, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
@@ -40,7 +40,7 @@ export const distributionFitProcedure = defineProcedure({
     if (spec.family !== 'normal' && spec.cuts !== undefined) problems.push({ path: childPath(path, 'cuts'), message: '"cuts" applies only to "family": "normal"; discrete families are binned by value' });
     return problems;
   },
-  async run(spec, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<ComputedTestResult> {
     let values = spec.values;
     if (!values) {
       const aggregate = await aggregateOf(ctx, { kind: 'numeric', column: spec.source!.columns![0] }, 'moments', undefined, { values: true });

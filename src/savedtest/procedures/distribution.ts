@@ -22,7 +22,7 @@ import {
   noncentralChiSquareUpperTail,
 } from '../../stats/distributions/noncentral';
 import { probabilityFromBoth } from '../../stats/distributions/probability';
-import type { DistributionResult } from '../../stats/result';
+import type { ComputedDistributionResult } from '../../stats/result';
 import { arr, field, num, oneOf, type SpecProblem } from '../fields';
 import { defineProcedure } from './index';
 
@@ -66,7 +66,7 @@ export const distributionProcedure = defineProcedure({
     if (spec.x === undefined && spec.p === undefined) problems.push({ path, message: 'give "x" (values of the statistic), "p" (probabilities), or both' });
     return problems;
   },
-  async run(spec): Promise<DistributionResult> {
+  async run(spec): Promise<ComputedDistributionResult> {
     const df = spec.df!;
     const ncp = (spec.noncentrality as number | undefined) ?? 0;
     if (ncp > 0) return noncentralLookup(spec, df, ncp);
@@ -104,7 +104,7 @@ export const distributionProcedure = defineProcedure({
 });
 
 /** The same questions for χ²(df, λ), λ > 0 (noncentral.ts: Poisson mixtures summed directly, checked against mpmath and R). */
-function noncentralLookup(spec: { readonly x?: number | readonly number[]; readonly p?: number | readonly number[] }, df: number, ncp: number): DistributionResult {
+function noncentralLookup(spec: { readonly x?: number | readonly number[]; readonly p?: number | readonly number[] }, df: number, ncp: number): ComputedDistributionResult {
   const quantiles = (q: number) => ({ lower: noncentralChiSquareQuantile(q, df, ncp), upper: noncentralChiSquareUpperQuantile(q, df, ncp) });
   return {
     kind: 'distribution',

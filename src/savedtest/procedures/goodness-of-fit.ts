@@ -4,7 +4,7 @@
  */
 import { InputError } from '../../errors';
 import { goodnessOfFit } from '../../stats/procedures/fit';
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { arr, field, num, obj, oneOf, ownMember, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { WeightsByLevel } from '../types';
@@ -94,7 +94,7 @@ export const goodnessOfFitProcedure = defineProcedure({
     checkLambda(spec, path, problems);
     return problems;
   },
-  async run(spec, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<ComputedTestResult> {
     const keyed = keyedWeights(spec);
     let observed: readonly number[];
     let labels: readonly string[] | undefined;

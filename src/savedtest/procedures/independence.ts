@@ -4,7 +4,7 @@
  */
 import { InputError } from '../../errors';
 import { independenceTest } from '../../stats/procedures/table';
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { bool, field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
@@ -78,7 +78,7 @@ export const independenceProcedure = defineProcedure({
     checkLambda(spec, path, problems);
     return problems;
   },
-  async run(spec, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<ComputedTestResult> {
     const columns = spec.source?.columns ?? [];
     const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
     if (spec.correction && (counts.length !== 2 || counts[0].length !== 2)) {

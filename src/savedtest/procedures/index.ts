@@ -26,12 +26,12 @@
  * - `run(spec, ctx)`: computes the result. Read inline data from the spec, or call
  *   `ctx.aggregate(request, levels)` for the spec's `source` (paths are resolved and checked for you, and the
  *   data fingerprint is kept for the recorded result). Throw `InputError` with a `jsonPath` for bad data.
- *   Pass `ctx.signal` on to anything long. Return a `TestResult`, `DistributionResult` or `PowerResult`.
+ *   Pass `ctx.signal` on to anything long. Return a `ComputedTestResult`, `ComputedDistributionResult` or `ComputedPowerResult`.
  *
  * Nothing else needs to change: validation, the schema, the command line (`run`, `check`, `--record`),
  * living report blocks and the reports all work from the handler.
  */
-import type { Result } from '../../stats/result';
+import type { ComputedResult } from '../../stats/result';
 import { any, field, num, str, type Field, type FieldsValue, type SpecProblem } from '../fields';
 import type { RunContext, SpecV1 } from '../types';
 import { ALPHA } from './shared';
@@ -100,7 +100,7 @@ export interface ProcedureHandler {
   readonly planning?: Planning;
   readonly fields: Readonly<Record<string, Field>>;
   validate(spec: SpecV1, path: string): readonly SpecProblem[];
-  run(spec: SpecV1, ctx: RunContext): Promise<Result>;
+  run(spec: SpecV1, ctx: RunContext): Promise<ComputedResult>;
 }
 
 /** The fields every saved test has, whatever its procedure. */
@@ -120,7 +120,7 @@ export type SpecOf<F> = CommonSpec & FieldsValue<F>;
 export interface TypedProcedure<F extends Readonly<Record<string, Field>>> extends Omit<ProcedureHandler, 'fields' | 'validate' | 'run'> {
   readonly fields: F;
   validate(spec: SpecOf<F>, path: string): readonly SpecProblem[];
-  run(spec: SpecOf<F>, ctx: RunContext): Promise<Result>;
+  run(spec: SpecOf<F>, ctx: RunContext): Promise<ComputedResult>;
 }
 
 /**

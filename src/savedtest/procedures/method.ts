@@ -7,7 +7,7 @@ import { describeAlpha, describeP } from '../../stats/procedures/assumptions';
 import { exactIndependence, exactMultinomialFit, outcomeCount, tryExactIndependence } from '../../stats/procedures/exact';
 import { DEFAULT_RESAMPLES, monteCarloFitInSlices, monteCarloIndependenceInSlices, type ResamplingResult, type ResamplingStatistic } from '../../stats/procedures/montecarlo';
 import { DEFAULT_SEED } from '../../stats/random';
-import type { StatisticLine, TestResult } from '../../stats/result';
+import type { FoundStatisticLine, ComputedTestResult } from '../../stats/result';
 /** The fields of a count test that choose and tune its p-value method. */
 export interface MethodFields {
   readonly method?: 'asymptotic' | 'exact' | 'monte-carlo';
@@ -27,7 +27,7 @@ export interface MethodControl {
 }
 
 /** Applies the spec's "method" to an asymptotic goodness-of-fit or independence result. */
-export async function applyMethod(result: TestResult, spec: MethodFields, control: MethodControl = {}): Promise<TestResult> {
+export async function applyMethod(result: ComputedTestResult, spec: MethodFields, control: MethodControl = {}): Promise<ComputedTestResult> {
   const method = spec.method ?? 'asymptotic';
   if (method === 'asymptotic') return spec.method === undefined ? withExactBeside(result, spec) : result;
   const statistic: ResamplingStatistic = spec.statistic ?? 'pearson';
@@ -67,8 +67,8 @@ export async function applyMethod(result: TestResult, spec: MethodFields, contro
   return merged;
 }
 
-function merge(result: TestResult, resampled: ResamplingResult, method: 'exact' | 'monte-carlo'): TestResult {
-  const asymptotic: StatisticLine = {
+function merge(result: ComputedTestResult, resampled: ResamplingResult, method: 'exact' | 'monte-carlo'): ComputedTestResult {
+  const asymptotic: FoundStatisticLine = {
     id: `${String(result.details?.mainStatistic ?? 'main')}-asymptotic`,
     name: `${result.procedure}, chi-square approximation`,
     symbol: result.statisticSymbol,
@@ -81,7 +81,9 @@ function merge(result: TestResult, resampled: ResamplingResult, method: 'exact' 
   const actual = resampled.details.method === 'exact' ? 'exact' : 'Monte Carlo';
   const conclusion =
     significant === result.significant
-      ? result.conclusion.replace(describeP(result.pValue), `${actual} ${describeP(line.pValue)}`)
+      ? typeof result.conclusion === 'string'
+        ? result.conclusion.replace(describeP(result.pValue), `${actual} ${describeP(line.pValue)}`)
+        : { code: result.conclusion.code, args: { ...result.conclusion.args, p: line.pValue, pMethod: actual } }
       : `With the ${actual} p-value the result is ${significant ? '' : 'not '}significant ${describeAlpha(result.alpha)} (${describeP(line.pValue)}), although the chi-square approximation gave ${describeP(result.pValue)}; the ${actual} p-value is the one to report here.`;
   return {
     ...result,
@@ -103,7 +105,7 @@ const BESIDE_OUTCOMES = 2e5;
  * When the expected-count rule fails and no method was chosen, the exact p-value is added beside the
  * asymptotic one (if it is quick to compute), so the reader sees both without asking.
  */
-function withExactBeside(result: TestResult, spec: MethodFields): TestResult {
+function withExactBeside(result: ComputedTestResult, spec: MethodFields): ComputedTestResult {
   if (!result.notices.some((n) => n.code === 'small-expected')) return result;
   let exact: ResamplingResult | null = null;
   if (result.grid && !(result.grid.observed.length === 2 && result.grid.observed[0].length === 2)) {

@@ -3,7 +3,7 @@
  * continuity-corrected, exact binomial and mid-p versions beside it); a k×k table gives Bowker's test of symmetry.
  */
 import { pairedTest } from '../../stats/procedures/paired';
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
@@ -51,7 +51,7 @@ export const pairedProcedure = defineProcedure({
     }
     return problems;
   },
-  async run(spec, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<ComputedTestResult> {
     const data = spec.table ? { counts: spec.table, labels: spec.rowLabels ?? spec.columnLabels } : await squareFromSource(spec, ctx);
     return pairedTest(data.counts, {
       alpha: spec.alpha,

@@ -3,7 +3,7 @@
  * p-values adjusted for the number of comparisons and each line naming its rows, columns or cell.
  */
 import { postHocTest } from '../../stats/procedures/posthoc';
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { field, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
@@ -43,7 +43,7 @@ export const postHocProcedure = defineProcedure({
     requireLength(spec, path, 'columnLabels', width, 'one per column', problems);
     return problems;
   },
-  async run(spec, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<ComputedTestResult> {
     const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
     return postHocTest(counts, {
       compare: spec.compare,

@@ -3,7 +3,7 @@
  * independence tests (Cohen's w, `"df"`) and the test for one variance (`"sigmaRatio"` = σ1/σ0).
  */
 import { powerAnalysis } from '../../stats/procedures/power';
-import type { PowerResult } from '../../stats/result';
+import type { ComputedPowerResult } from '../../stats/result';
 import { field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
@@ -48,7 +48,7 @@ export const powerProcedure = defineProcedure({
     if (target !== 'variance' && spec.alternative !== undefined) problems.push({ path: childPath(path, 'alternative'), message: 'chi-square tests of fit and independence are one-tailed by nature; "alternative" is for the variance test' });
     return problems;
   },
-  async run(spec): Promise<PowerResult> {
+  async run(spec): Promise<ComputedPowerResult> {
     const target = spec.target ?? (spec.sigmaRatio !== undefined ? 'variance' : 'goodness-of-fit');
     return powerAnalysis({
       target,

@@ -3,7 +3,7 @@
  * Cochran–Mantel–Haenszel test, the common odds ratio and the Breslow–Day homogeneity test; R×C strata give the
  * generalized CMH statistics.
  */
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { stratifiedTest } from '../../stats/procedures/stratified';
 import { arr, bool, field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
@@ -56,7 +56,7 @@ export const stratifiedProcedure = defineProcedure({
     if (spec.method === 'exact' && (r !== 2 || c !== 2)) problems.push({ path: childPath(path, 'method'), message: `the exact conditional test needs 2×2 strata; these are ${r}×${c}` });
     return problems;
   },
-  async run(spec): Promise<TestResult> {
+  async run(spec): Promise<ComputedTestResult> {
     return stratifiedTest(spec.strata!, {
       alpha: spec.alpha,
       confidence: spec.confidence,

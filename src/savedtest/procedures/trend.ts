@@ -3,7 +3,7 @@
  * with `"scores"`; an r×c table of two ordinal variables gives the linear-by-linear association test with
  * `"rowScores"` and `"columnScores"`.
  */
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { cochranArmitageTest, linearByLinearTest } from '../../stats/procedures/trend';
 import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
@@ -53,7 +53,7 @@ export const trendProcedure = defineProcedure({
     requireLength(spec, path, 'columnLabels', width, 'one per column', problems);
     return problems;
   },
-  async run(spec, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<ComputedTestResult> {
     const table = spec.table ?? (await orderedTableFromSource(spec, ctx));
     if (table.length > 2 || spec.rowScores !== undefined) {
       return linearByLinearTest(table, {

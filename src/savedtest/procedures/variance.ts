@@ -3,7 +3,7 @@
  * of a file) or from a summary (n with the standard deviation or the variance).
  */
 import { varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValues } from '../../stats/procedures/variance';
-import type { TestResult } from '../../stats/result';
+import type { ComputedTestResult } from '../../stats/result';
 import { arr, field, num, obj, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './index';
@@ -61,7 +61,7 @@ export const varianceProcedure = defineProcedure({
     }
     return problems;
   },
-  async run(spec, ctx): Promise<TestResult> {
+  async run(spec, ctx): Promise<ComputedTestResult> {
     const options = {
       sigma0: spec.sigma0,
       variance0: spec.variance0,

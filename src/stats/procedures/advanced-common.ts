@@ -1,12 +1,12 @@
 /**
  * Small pieces shared by the exact, paired, stratified, trend and post-hoc procedures: count checks with
- * the cell named, statistic lines, and the assembly of a TestResult.
+ * the cell named, statistic lines, and the assembly of a ComputedTestResult.
  */
 import { InputError } from '../../errors';
 import { requireCount, requireCountTotal } from './assumptions';
 import { chiSquareUpperProbability } from '../distributions/chisquare';
 import { compensatedSum } from '../moments';
-import type { Notice, Probability, StatisticLine, TestResult } from '../result';
+import type { Notice, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
 
 /** A count table checked cell by cell; the message names the row, the column and the JSON path. */
 export function requireCountTable(table: unknown, jsonPath: string, what = 'table'): number[][] {
@@ -42,25 +42,25 @@ export function columnSums(table: readonly (readonly number[])[]): number[] {
   return table[0].map((_, j) => sum(table.map((row) => row[j])));
 }
 
-export function chiSquareLine(id: string, name: string, symbol: string, statistic: number, df: number, note?: string): StatisticLine {
+export function chiSquareLine(id: string, name: string, symbol: string, statistic: number, df: number, note?: string): FoundStatisticLine {
   const pValue = Number.isNaN(statistic) ? { value: 1, log10: 0 } : chiSquareUpperProbability(statistic, df);
   return note === undefined ? { id, name, symbol, statistic, df, pValue } : { id, name, symbol, statistic, df, pValue, note };
 }
 
-export function pLine(id: string, name: string, pValue: Probability, note?: string, statistic = NaN, symbol = ''): StatisticLine {
+export function pLine(id: string, name: string, pValue: Probability, note?: string, statistic = NaN, symbol = ''): FoundStatisticLine {
   return note === undefined ? { id, name, symbol, statistic, df: null, pValue } : { id, name, symbol, statistic, df: null, pValue, note };
 }
 
 /** The head of a result whose main statistic is a chi-square line (no alternative: the test is one-tailed by nature). */
-export function chiSquareCore(test: string, procedure: string, line: StatisticLine, n: number, alpha: number): Omit<Core, 'conclusion'> {
+export function chiSquareCore(test: string, procedure: string, line: FoundStatisticLine, n: number, alpha: number): Omit<Core, 'conclusion'> {
   const df = line.df ?? 1;
   return { test, procedure, statisticSymbol: line.symbol, statistic: line.statistic, df, n, pValue: line.pValue, alternative: null, reference: { kind: 'chi-square', df }, alpha };
 }
 
-type Core = Pick<TestResult, 'test' | 'procedure' | 'statisticSymbol' | 'statistic' | 'df' | 'n' | 'pValue' | 'alternative' | 'reference' | 'alpha' | 'conclusion'>;
+type Core = Pick<ComputedTestResult, 'test' | 'procedure' | 'statisticSymbol' | 'statistic' | 'df' | 'n' | 'pValue' | 'alternative' | 'reference' | 'alpha' | 'conclusion'>;
 
-/** A TestResult with empty lists where a procedure has nothing to add. */
-export function testResult(core: Core, extra: Partial<Omit<TestResult, keyof Core | 'kind' | 'significant'>> = {}): TestResult {
+/** A ComputedTestResult with empty lists where a procedure has nothing to add. */
+export function testResult(core: Core, extra: Partial<Omit<ComputedTestResult, keyof Core | 'kind' | 'significant'>> = {}): ComputedTestResult {
   return {
     kind: 'test',
     ...core,

@@ -21,7 +21,7 @@ import { binomialLowerTail, logBinomialPmf } from '../distributions/discrete';
 import { powerDivergence } from './divergence';
 import { logFactorial, regularizedGammaLower, regularizedGammaUpper } from '../distributions/gamma';
 import { normalLowerTail, normalQuantile, normalUpperTail } from '../distributions/normal';
-import type { CategoryRow, Notice, TestResult } from '../result';
+import type { CategoryRow, Notice, ComputedTestResult } from '../result';
 
 export type FitFamily = 'poisson' | 'binomial' | 'geometric' | 'normal';
 
@@ -190,7 +190,7 @@ function formatEdge(x: number): string {
 
 const FAMILY_NAMES: Record<FitFamily, string> = { poisson: 'Poisson', binomial: 'binomial', geometric: 'geometric', normal: 'normal' };
 
-export function distributionFitTest(values: readonly number[], options: DistributionFitOptions): TestResult {
+export function distributionFitTest(values: readonly number[], options: DistributionFitOptions): ComputedTestResult {
   const family = options.family;
   if (!(family in FAMILY_NAMES)) throw new InputError(`family: expected one of poisson, binomial, geometric, normal, found ${String(family)}`, { jsonPath: '$.family' }, 'invalid-family');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');

@@ -12,7 +12,7 @@
 import { InputError } from '../../errors';
 import { chiSquareUpperProbability } from '../distributions/chisquare';
 import { compensatedSum } from '../moments';
-import type { StatisticLine } from '../result';
+import type { FoundStatisticLine } from '../result';
 
 export type DivergenceStatistic = 'pearson' | 'likelihood-ratio' | 'cressie-read';
 
@@ -125,7 +125,7 @@ export function resolveStatistic(options: DivergenceSettings): { statistic: Dive
 
 export interface DivergenceLine {
   readonly id: string;
-  readonly line: StatisticLine;
+  readonly line: FoundStatisticLine;
   readonly contributions: readonly number[];
 }
 
@@ -144,8 +144,8 @@ export function divergenceLines(
   });
 }
 
-/** The TestResult fields that follow from the main chi-square statistic of a count test. */
-export function mainStatisticFields(line: StatisticLine, n: number, alpha: number) {
+/** The ComputedTestResult fields that follow from the main chi-square statistic of a count test. */
+export function mainStatisticFields(line: FoundStatisticLine, n: number, alpha: number) {
   const df = line.df ?? NaN;
   return {
     statisticSymbol: line.symbol,

@@ -19,7 +19,7 @@ import { LogSumAccumulator, logFactorialTable } from '../distributions/discrete'
 import { divergenceTerm } from './divergence';
 import { MAX_RESAMPLING_TOTAL, checkFitInput, monteCarloFit, monteCarloIndependence, tieTolerance, type MonteCarloOptions, type ResamplingResult, type ResamplingStatistic } from './montecarlo';
 import { probabilityFromLog } from '../distributions/probability';
-import type { Notice, Probability, StatisticLine } from '../result';
+import type { Notice, Probability, FoundStatisticLine } from '../result';
 
 export interface FisherExactOptions {
   /**
@@ -351,7 +351,7 @@ export function tryExactIndependence(table: readonly (readonly number[])[], work
   const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
   const outcome = fisherExactRxC(counts, { workLimit });
   if (!outcome.completed) return null;
-  const line: StatisticLine = {
+  const line: FoundStatisticLine = {
     id: 'fisher-exact',
     name: counts.length === 2 && counts[0].length === 2 ? "Fisher's exact test" : "Fisher's exact test (Fisher–Freeman–Halton)",
     symbol: '',

@@ -7,7 +7,7 @@ import { InputError } from '../../errors';
 import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, nameOf, requireCount, requireCountTotal, requireLevel } from './assumptions';
 import { type DivergenceSettings, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { compensatedSum } from '../moments';
-import type { CategoryRow, Notice, TestResult } from '../result';
+import type { CategoryRow, Notice, ComputedTestResult } from '../result';
 
 export interface GoodnessOfFitOptions extends DivergenceSettings {
   /** Category labels, in the order of `observed`. Default "category 1", "category 2", … */
@@ -26,7 +26,7 @@ export interface GoodnessOfFitOptions extends DivergenceSettings {
 
 type ExpectedSource = 'counts' | 'proportions' | 'ratios' | 'uniform';
 
-export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFitOptions = {}): TestResult {
+export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFitOptions = {}): ComputedTestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const { statistic, lambda, cressieReadLambda } = resolveStatistic(options);
   const m = options.estimatedParameters ?? 0;

@@ -19,7 +19,7 @@ import { logFactorialTable } from '../distributions/discrete';
 import { divergenceTerm } from './divergence';
 import { probabilityFromValue } from '../distributions/probability';
 import { DEFAULT_SEED, Xoshiro128, type UniformSource } from '../random';
-import type { Notice, StatisticLine } from '../result';
+import type { Notice, FoundStatisticLine } from '../result';
 
 /** The statistic ordering the tables: larger is more extreme. */
 export type ResamplingStatistic = 'pearson' | 'likelihood-ratio' | 'cressie-read' | 'probability';
@@ -381,9 +381,9 @@ export function multinomialSession(observed: readonly number[], probabilities: r
   });
 }
 
-/** A resampling or exact p-value ready to sit beside the asymptotic one in a TestResult. */
+/** A resampling or exact p-value ready to sit beside the asymptotic one in a ComputedTestResult. */
 export interface ResamplingResult {
-  readonly line: StatisticLine;
+  readonly line: FoundStatisticLine;
   readonly notices: readonly Notice[];
   readonly details: Readonly<Record<string, unknown>>;
 }
@@ -402,7 +402,7 @@ function monteCarloResult(outcome: MonteCarloOutcome, statistic: ResamplingStati
     notices.push({ code: 'monte-carlo-cancelled', severity: 'warning', message: `The Monte Carlo run was cancelled after ${outcome.resamples} of ${outcome.requestedResamples} resamples; the p-value uses those done.` });
   }
   const interval = { lower: outcome.interval99.lower, upper: outcome.interval99.upper, level: 0.99 };
-  const line: StatisticLine = {
+  const line: FoundStatisticLine = {
     id: `${statistic}-monte-carlo`,
     name: `${label.name}, Monte Carlo p-value`,
     symbol: label.symbol,

@@ -14,7 +14,7 @@ import { describeAlpha, describeP, independenceAssumption, requireLevel } from '
 import { binomialLowerTail, logBinomialPmf } from '../distributions/discrete';
 import { normalUpperQuantile } from '../distributions/normal';
 import { probabilityFromLog, probabilityFromValue, twoSidedFromTails } from '../distributions/probability';
-import type { Estimate, Interval, Notice, StatisticLine, TestResult } from '../result';
+import type { FoundEstimate, FoundInterval, Notice, FoundStatisticLine, ComputedTestResult } from '../result';
 
 export type PairedMethod = 'asymptotic' | 'exact' | 'mid-p';
 
@@ -30,7 +30,7 @@ export interface PairedOptions {
 }
 
 /** McNemar (2×2) or Bowker (k×k) according to the size of the square table. */
-export function pairedTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {
+export function pairedTest(table: readonly (readonly number[])[], options: PairedOptions = {}): ComputedTestResult {
   const counts = requireCountTable(table, '$.table');
   const k = counts.length;
   if (k < 2 || counts.some((row) => row.length !== k)) {
@@ -41,10 +41,10 @@ export function pairedTest(table: readonly (readonly number[])[], options: Paire
 
 export interface McNemarStatistics {
   readonly discordant: readonly [number, number];
-  readonly uncorrected: StatisticLine;
-  readonly corrected: StatisticLine;
-  readonly exact: StatisticLine;
-  readonly midP: StatisticLine;
+  readonly uncorrected: FoundStatisticLine;
+  readonly corrected: FoundStatisticLine;
+  readonly exact: FoundStatisticLine;
+  readonly midP: FoundStatisticLine;
 }
 
 /** The four McNemar p-values for discordant counts b and c. */
@@ -74,7 +74,7 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
   };
 }
 
-export function mcnemarTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {
+export function mcnemarTest(table: readonly (readonly number[])[], options: PairedOptions = {}): ComputedTestResult {
   const counts = requireCountTable(table, '$.table');
   if (counts.length !== 2 || counts[0].length !== 2) {
     throw new InputError(`table: McNemar's test needs a 2×2 table, found ${counts.length}×${counts[0].length}`, { jsonPath: '$.table' }, 'wrong-shape');
@@ -92,14 +92,14 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
     notices.push(warning('few-discordant-pairs', `Only ${b + c} discordant pairs: the chi-square approximation is rough (common practice: use the exact or mid-p version below 25 discordant pairs).`));
   }
 
-  const ordered: StatisticLine[] = [s.uncorrected, s.corrected, s.exact, s.midP];
+  const ordered: FoundStatisticLine[] = [s.uncorrected, s.corrected, s.exact, s.midP];
   const main =
     method === 'exact' ? s.exact : method === 'mid-p' ? s.midP : options.correction ? s.corrected : s.uncorrected;
   const z = normalUpperQuantile((1 - confidence) / 2);
   const difference = n > 0 ? (b - c) / n : NaN;
   const wald = waldInterval(b, c, n, z, confidence, 'Wald');
   const agrestiMin = waldInterval(b + 0.5, c + 0.5, n + 2, z, confidence, 'Agresti–Min (2005): Wald after adding ½ to each cell');
-  const estimates: Estimate[] = [
+  const estimates: FoundEstimate[] = [
     { id: 'pairedDifference', name: `Difference of paired proportions, P(${labels[0]} first) − P(${labels[0]} second)`, value: difference, interval: wald },
     { id: 'pairedDifferenceAgrestiMin', name: 'Difference of paired proportions, Agresti–Min interval', value: (b - c) / (n + 2), interval: agrestiMin },
     discordantRatio(b, c, confidence),
@@ -134,13 +134,13 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
   );
 }
 
-function waldInterval(b: number, c: number, n: number, z: number, level: number, method: string): Interval {
+function waldInterval(b: number, c: number, n: number, z: number, level: number, method: string): FoundInterval {
   const diff = (b - c) / n;
   const se = Math.sqrt(Math.max(0, b + c - ((b - c) * (b - c)) / n)) / n;
   return { lower: Math.max(-1, diff - z * se), upper: Math.min(1, diff + z * se), level, parameter: 'difference of paired proportions', method };
 }
 
-function pairingAssumption(): TestResult['assumptions'][number] {
+function pairingAssumption(): ComputedTestResult['assumptions'][number] {
   return {
     id: 'pairing',
     title: 'Each unit classified twice',
@@ -149,7 +149,7 @@ function pairingAssumption(): TestResult['assumptions'][number] {
   };
 }
 
-export function bowkerTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {
+export function bowkerTest(table: readonly (readonly number[])[], options: PairedOptions = {}): ComputedTestResult {
   const counts = requireCountTable(table, '$.table');
   const k = counts.length;
   if (counts.some((row) => row.length !== k)) {
@@ -199,7 +199,7 @@ const RATIO_INTERVAL_LIMIT = 1e7;
  * b/c, the conditional odds ratio of the paired table, with its exact conditional interval: the Clopper–Pearson
  * interval [πL, πU] for π = b/(b + c) (inverting the two one-sided binomial tests), mapped by π/(1 − π).
  */
-function discordantRatio(b: number, c: number, confidence: number): Estimate {
+function discordantRatio(b: number, c: number, confidence: number): FoundEstimate {
   const value = c === 0 ? (b === 0 ? NaN : Infinity) : b / c;
   const base = { id: 'discordantOddsRatio', name: 'Ratio of discordant pairs b/c (conditional odds ratio)', value };
   const m = b + c;

@@ -13,7 +13,7 @@ import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, 
 import { normalLowerProbability, normalUpperProbability } from '../distributions/normal';
 import { probabilityFromValue, twoSidedFromTails } from '../distributions/probability';
 import { adjustedResidual } from './table';
-import type { Notice, Probability, StatisticLine, TestResult } from '../result';
+import type { Notice, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
 import { adjustPValues } from '../multiplicity';
 
 export type Adjustment = 'bonferroni' | 'holm' | 'benjamini-hochberg';
@@ -96,7 +96,7 @@ const ADJUSTMENT_NAMES: Record<Adjustment, string> = {
 };
 
 /** Post-hoc comparisons on an r×c table, with the overall Pearson test at the head of the result. */
-export function postHocTest(table: readonly (readonly number[])[], options: PostHocOptions = {}): TestResult {
+export function postHocTest(table: readonly (readonly number[])[], options: PostHocOptions = {}): ComputedTestResult {
   const counts = requireCountTable(table, '$.table');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const compare = requireChoice<Comparison>(options.compare, ['rows', 'columns', 'cells'], 'cells', 'compare');
@@ -128,7 +128,7 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
     notices.push({ code: 'overall-not-significant', severity: 'info', message: `The overall test is not significant ${describeAlpha(alpha)} (${describeP(overallLine.pValue)}); post-hoc comparisons are usually read only after a significant overall test.` });
   }
   const adjustName = ADJUSTMENT_NAMES[adjustment];
-  let lines: StatisticLine[];
+  let lines: FoundStatisticLine[];
   let detail: Record<string, unknown>;
   let flagged: string[];
   if (compare === 'cells') {

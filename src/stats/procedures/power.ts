@@ -13,7 +13,7 @@
 import { InputError } from '../../errors';
 import { chiSquareLowerTail, chiSquareQuantile, chiSquareUpperQuantile, chiSquareUpperTail } from '../distributions/chisquare';
 import { noncentralChiSquareUpperTail } from '../distributions/noncentral';
-import type { Alternative, Notice, PowerResult } from '../result';
+import type { Alternative, Notice, ComputedPowerResult } from '../result';
 
 export type PowerTarget = 'goodness-of-fit' | 'independence' | 'variance';
 
@@ -74,7 +74,7 @@ export function smallestN(power: (n: number) => number, target: number, minimum:
 }
 
 /** Answers a power question: power for n, or the smallest n for a power, with points for a power curve. */
-export function powerAnalysis(q: PowerQuestion): PowerResult {
+export function powerAnalysis(q: PowerQuestion): ComputedPowerResult {
   const alpha = q.alpha ?? 0.05;
   if (!(alpha > 0 && alpha < 1)) fail('alpha', `expected a number strictly between 0 and 1, found ${String(q.alpha)}`);
   if ((q.n === undefined) === (q.power === undefined)) fail('n', 'give exactly one of "n" (to compute the power) or "power" (to find the sample size)');
@@ -82,7 +82,7 @@ export function powerAnalysis(q: PowerQuestion): PowerResult {
   const notices: Notice[] = [];
   let powerAt: (n: number) => number;
   let minimum: number;
-  let effect: PowerResult['effectSize'];
+  let effect: ComputedPowerResult['effectSize'];
   let df: number;
   if (q.target === 'variance') {
     const ratio = q.sigmaRatio;

@@ -17,7 +17,7 @@ import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable,
 import { describeAlpha, describeP, independenceAssumption, nameOf, requireCountTotal, requireLevel } from './assumptions';
 import { hypergeometricSupport, logHypergeometricPmf, logSumExp, pointProbabilityTwoSided } from '../distributions/discrete';
 import { normalUpperQuantile } from '../distributions/normal';
-import type { Estimate, Interval, Notice, StatisticLine, TestResult } from '../result';
+import type { FoundEstimate, FoundInterval, Notice, FoundStatisticLine, ComputedTestResult } from '../result';
 
 export interface StratifiedOptions {
   readonly alpha?: number;
@@ -75,14 +75,14 @@ function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stra
 }
 
 /** CMH for 2×2×K, or the generalized CMH statistics for R×C×K, according to the table size. */
-export function stratifiedTest(strata: readonly (readonly (readonly number[])[])[], options: StratifiedOptions = {}): TestResult {
+export function stratifiedTest(strata: readonly (readonly (readonly number[])[])[], options: StratifiedOptions = {}): ComputedTestResult {
   const read = readStrata(strata, options);
   return read.r === 2 && read.c === 2 ? cmh2x2(read.strata, read.notices, options) : generalizedCmh(read.strata, read.notices, read.r, read.c, options);
 }
 
 export interface BreslowDay {
-  readonly breslowDay: StatisticLine;
-  readonly tarone: StatisticLine;
+  readonly breslowDay: FoundStatisticLine;
+  readonly tarone: FoundStatisticLine;
 }
 
 /** Expected a_k under a common odds ratio ψ with the stratum's margins (the root of the quadratic in the support). */
@@ -219,7 +219,7 @@ function conditionalMle(lo: number, logPmf: readonly number[], observed: number)
  * Exact conditional interval for the common odds ratio (Cornfield-type, as R's mantelhaen.test with exact = TRUE):
  * the ψ at which P_ψ(S ≥ s) = (1 − level)/2 (lower) and P_ψ(S ≤ s) = (1 − level)/2 (upper).
  */
-function conditionalInterval(lo: number, logPmf: readonly number[], observed: number, level: number): Interval {
+function conditionalInterval(lo: number, logPmf: readonly number[], observed: number, level: number): FoundInterval {
   const hi = lo + logPmf.length - 1;
   const tail = (1 - level) / 2;
   const upperTail = (logPsi: number): number => logSumExp(tiltedLogPmf(lo, logPmf, logPsi).slice(observed - lo));
@@ -247,7 +247,7 @@ function stratifiedConclusion(significant: boolean, alpha: number, p: string, op
     : `The data do not show an association between ${pair} within strata ${describeAlpha(alpha)} (${p}).`;
 }
 
-function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: StratifiedOptions): TestResult {
+function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: StratifiedOptions): ComputedTestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
   const method = options.method ?? 'asymptotic';
@@ -307,7 +307,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   if (!finiteRatio) {
     notices.push(info('odds-ratio-not-finite', `The Mantel–Haenszel odds ratio is ${Number.isNaN(oddsRatio) ? 'undefined' : oddsRatio === 0 ? '0' : 'infinite'} (a zero in every stratum's ${oddsRatio === 0 ? 'a·d' : 'b·c'} product), so it has no interval and the homogeneity test is not computed; the tests of association are unaffected.`));
   }
-  const interval: Interval = {
+  const interval: FoundInterval = {
     lower: Math.exp(Math.log(oddsRatio) - z * se),
     upper: Math.exp(Math.log(oddsRatio) + z * se),
     level: confidence,
@@ -319,7 +319,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   else if (finiteRatio && homogeneity === null) {
     notices.push(info('homogeneity-not-tested', 'Fewer than two strata have a count that can vary given their margins (the others have a zero row or column total), so there is no Breslow–Day test of homogeneous odds ratios.'));
   }
-  const estimates: Estimate[] = [
+  const estimates: FoundEstimate[] = [
     finiteRatio ? { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio, interval } : { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio },
   ];
   const conditionalOr = exact ? conditionalMle(exact.lo, exact.logPmf, sumA) : NaN;
@@ -469,7 +469,7 @@ export function generalizedCmhStatistics(
   c: number,
   rowScores: readonly number[],
   columnScores: readonly number[],
-): { general: StatisticLine; rowMeans: StatisticLine; correlation: StatisticLine } {
+): { general: FoundStatisticLine; rowMeans: FoundStatisticLine; correlation: FoundStatisticLine } {
   const general = cmhQuadratic(strata, identityBlock(r), identityBlock(c));
   const rowMeans = cmhQuadratic(strata, identityBlock(r), [columnScores.slice()]);
   const correlation = cmhQuadratic(strata, [rowScores.slice()], [columnScores.slice()]);
@@ -480,7 +480,7 @@ export function generalizedCmhStatistics(
   };
 }
 
-function generalizedCmh(strata: readonly Stratum[], notices: Notice[], r: number, c: number, options: StratifiedOptions): TestResult {
+function generalizedCmh(strata: readonly Stratum[], notices: Notice[], r: number, c: number, options: StratifiedOptions): ComputedTestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   if (options.method === 'exact') {
     throw new InputError('method: the exact conditional test is available for 2×2×K strata only; use "asymptotic" for R×C×K', { jsonPath: '$.method' }, 'method-unavailable');

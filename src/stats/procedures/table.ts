@@ -12,7 +12,7 @@ import { type DivergenceLine, type DivergenceSettings, divergenceLines, mainStat
 import { fisherExact2x2 } from './fisher2x2';
 import { compensatedSum } from '../moments';
 import { normalUpperQuantile } from '../distributions/normal';
-import type { CellGrid, Estimate, Notice, StatisticLine, TestResult } from '../result';
+import type { CellGrid, FoundEstimate, Notice, FoundStatisticLine, ComputedTestResult } from '../result';
 
 export interface IndependenceTestOptions extends DivergenceSettings {
   readonly rowLabels?: readonly string[];
@@ -34,7 +34,7 @@ interface Prepared {
   readonly notices: Notice[];
 }
 
-export function independenceTest(table: readonly (readonly number[])[], options: IndependenceTestOptions = {}): TestResult {
+export function independenceTest(table: readonly (readonly number[])[], options: IndependenceTestOptions = {}): ComputedTestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
   const { statistic, lambda, cressieReadLambda } = resolveStatistic(options);
@@ -81,10 +81,10 @@ export function independenceTest(table: readonly (readonly number[])[], options:
     }
   }
   const main = correctionApplied ? lines.find((l) => l.id === 'pearson-yates')! : lines.find((l) => l.id === statistic)!;
-  const otherStatistics: StatisticLine[] = lines.filter((l) => l !== main).map((l) => l.line);
+  const otherStatistics: FoundStatisticLine[] = lines.filter((l) => l !== main).map((l) => l.line);
 
-  const estimates: Estimate[] = [];
-  const effectSizes: Estimate[] = cramersV(pearson.line.statistic, total, r, c);
+  const estimates: FoundEstimate[] = [];
+  const effectSizes: FoundEstimate[] = cramersV(pearson.line.statistic, total, r, c);
   let fisherDetails: Record<string, unknown> | undefined;
   if (is2x2) {
     const fisher = fisherExact2x2(counts, confidence);
@@ -269,7 +269,7 @@ function labelsFor(given: readonly string[] | undefined, count: number, kind: 'r
 }
 
 /** Cramér's V and its bias-corrected version (Bergsma 2013, J. Korean Stat. Soc. 42, 323–328). */
-function cramersV(pearson: number, total: number, r: number, c: number): Estimate[] {
+function cramersV(pearson: number, total: number, r: number, c: number): FoundEstimate[] {
   const phi2 = pearson / total;
   const v = Math.sqrt(phi2 / (Math.min(r, c) - 1));
   const shrink = total > 1 ? ((r - 1) * (c - 1)) / (total - 1) : NaN;
@@ -290,7 +290,7 @@ function cramersV(pearson: number, total: number, r: number, c: number): Estimat
 }
 
 /** Odds ratio (Woolf's log interval) and relative risk (log interval, Katz et al. 1978) for [[a, b], [c, d]]. */
-function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels: string[], confidence: number, notices: Notice[]): Estimate[] {
+function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels: string[], confidence: number, notices: Notice[]): FoundEstimate[] {
   const hasZero = counts.flat().some((v) => v === 0);
   const shift = hasZero ? 0.5 : 0;
   const [a, b, c, d] = counts.flat().map((v) => v + shift);
@@ -302,7 +302,7 @@ function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels
     });
   }
   const z = normalUpperQuantile((1 - confidence) / 2);
-  const logInterval = (logValue: number, se: number, parameter: string, method: string): Estimate['interval'] => ({
+  const logInterval = (logValue: number, se: number, parameter: string, method: string): FoundEstimate['interval'] => ({
     lower: Math.exp(logValue - z * se),
     upper: Math.exp(logValue + z * se),
     level: confidence,

@@ -15,7 +15,7 @@ import { chiSquareLine, columnSums, labelsOr, pearsonTable, requireChoice, requi
 import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from '../distributions/normal';
 import { twoSidedFromTails } from '../distributions/probability';
-import type { Alternative, Probability, StatisticLine, TestResult } from '../result';
+import type { Alternative, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
 
 const ALTERNATIVES: readonly Alternative[] = ['two-sided', 'greater', 'less'];
 
@@ -48,7 +48,7 @@ function normalSides(z: number): { greater: Probability; less: Probability; twoS
   return { greater, less, twoSided: twoSidedFromTails(less, greater) };
 }
 
-export function cochranArmitageTest(table: readonly (readonly number[])[], options: TrendOptions = {}): TestResult {
+export function cochranArmitageTest(table: readonly (readonly number[])[], options: TrendOptions = {}): ComputedTestResult {
   const counts = requireCountTable(table, '$.table');
   if (counts.length !== 2) {
     throw new InputError(`table: the trend test needs 2 rows (events, non-events) and one column per ordered group, found ${counts.length} rows`, { jsonPath: '$.table' }, 'wrong-shape');
@@ -79,7 +79,7 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
   // Pearson X² of the 2×k table, for the departure from linearity.
   const pearson = pearsonTable(counts).statistic;
   const trendLine = chiSquareLine('cochran-armitage', 'Cochran–Armitage trend chi-square', 'X²', trend, 1);
-  const zLine: StatisticLine = { id: 'cochran-armitage-z', name: 'Cochran–Armitage z (positive: first-row proportion rises with the score)', symbol: 'z', statistic: z, df: null, pValue: alternative === 'less' ? sides.less : alternative === 'greater' ? sides.greater : sides.twoSided };
+  const zLine: FoundStatisticLine = { id: 'cochran-armitage-z', name: 'Cochran–Armitage z (positive: first-row proportion rises with the score)', symbol: 'z', statistic: z, df: null, pValue: alternative === 'less' ? sides.less : alternative === 'greater' ? sides.greater : sides.twoSided };
   const departure = k > 2 ? chiSquareLine('departure-from-trend', 'Departure from a linear trend (X² − trend)', 'X²', Math.max(0, pearson - trend), k - 2) : null;
   const oneSided = alternative !== 'two-sided';
   const pValue = oneSided ? zLine.pValue : trendLine.pValue;
@@ -133,7 +133,7 @@ export interface LinearByLinearOptions {
 }
 
 /** Linear-by-linear association M² = (N − 1) r² for an r×c table of two ordinal variables. */
-export function linearByLinearTest(table: readonly (readonly number[])[], options: LinearByLinearOptions = {}): TestResult {
+export function linearByLinearTest(table: readonly (readonly number[])[], options: LinearByLinearOptions = {}): ComputedTestResult {
   const counts = requireCountTable(table, '$.table');
   const r = counts.length;
   const c = counts[0].length;

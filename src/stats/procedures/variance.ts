@@ -15,7 +15,7 @@ import { chiSquareLowerProbability, chiSquareQuantile, chiSquareUpperProbability
 import { compensatedSum, MomentAccumulator, type MomentSummary, sampleExcessKurtosis, sampleSkewness } from '../moments';
 import { normalUpperQuantile } from '../distributions/normal';
 import { twoSidedFromTails } from '../distributions/probability';
-import type { Alternative, Assumption, Estimate, Interval, Notice, TestResult } from '../result';
+import type { Alternative, Assumption, FoundEstimate, FoundInterval, Notice, ComputedTestResult } from '../result';
 
 export interface VarianceTestOptions {
   /** Hypothesised standard deviation σ0 (give this or variance0). */
@@ -37,7 +37,7 @@ export interface VarianceTestOptions {
 export type VarianceSummary = { readonly n: number; readonly sd: number } | { readonly n: number; readonly variance: number };
 
 /** From raw values (every value must be a finite number). */
-export function varianceTestFromValues(values: readonly number[], options: VarianceTestOptions): TestResult {
+export function varianceTestFromValues(values: readonly number[], options: VarianceTestOptions): ComputedTestResult {
   values.forEach((v, i) => {
     if (typeof v !== 'number' || !Number.isFinite(v)) {
       throw new InputError(`value ${i + 1}: expected a finite number, found ${String(v)}`, { jsonPath: `$.values[${i}]` }, 'invalid-value');
@@ -78,7 +78,7 @@ function twoPassMoments(values: readonly number[]): MomentSummary {
 }
 
 /** From streamed moments (the CSV and SQL paths). m3 and m4 are used for the shape checks when finite. */
-export function varianceTestFromMoments(moments: MomentSummary, options: VarianceTestOptions): TestResult {
+export function varianceTestFromMoments(moments: MomentSummary, options: VarianceTestOptions): ComputedTestResult {
   if (!Number.isFinite(moments.m2) || moments.m2 < 0) {
     // Streamed moments come from the column named by source.columns[0] (the CSV and SQL paths), so that is where to look.
     throw new InputError(`moments${options.variable ? ` of ${options.variable}` : ''}: expected a finite sum of squared deviations ≥ 0, found ${String(moments.m2)}`, { jsonPath: '$.source.columns[0]' }, 'invalid-moments');
@@ -87,7 +87,7 @@ export function varianceTestFromMoments(moments: MomentSummary, options: Varianc
 }
 
 /** From a summary: n with the sample standard deviation s or the sample variance s². */
-export function varianceTestFromSummary(summary: VarianceSummary, options: VarianceTestOptions): TestResult {
+export function varianceTestFromSummary(summary: VarianceSummary, options: VarianceTestOptions): ComputedTestResult {
   const hasSd = 'sd' in summary && summary.sd !== undefined;
   const hasVariance = 'variance' in summary && summary.variance !== undefined;
   if (hasSd === hasVariance) {
@@ -142,7 +142,7 @@ const MIN_NORMAL = 2.2250738585072014e-308;
 
 const ALTERNATIVES: readonly Alternative[] = ['two-sided', 'greater', 'less'];
 
-function varianceTest(moments: MomentSummary, options: VarianceTestOptions, source: 'values' | 'moments' | 'summary', values?: readonly number[]): TestResult {
+function varianceTest(moments: MomentSummary, options: VarianceTestOptions, source: 'values' | 'moments' | 'summary', values?: readonly number[]): ComputedTestResult {
   const hypothesis = hypothesisFrom(options);
   const alternative = options.alternative ?? 'two-sided';
   if (!ALTERNATIVES.includes(alternative)) {
@@ -196,7 +196,7 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
       (source === 'summary' ? 'From a summary the shape cannot be checked; if you have the raw values, use them.' : "Compare with Bonett's interval below, which allows for the observed kurtosis."),
   });
 
-  const estimates: Estimate[] = [
+  const estimates: FoundEstimate[] = [
     { id: 'variance', name: 'Sample variance s²', value: variance, interval: varianceInterval },
     { id: 'sd', name: 'Sample standard deviation s', value: Math.sqrt(variance), interval: sdInterval },
   ];
@@ -268,13 +268,13 @@ function withUnit(unit: string | undefined, bySd: boolean): (x: number) => strin
 }
 
 /** A warning when the chi-square and Bonett intervals disagree about the hypothesised value. */
-function robustDisagreement(classic: Interval, robust: Interval, hypothesis: Hypothesis): Notice | null {
+function robustDisagreement(classic: FoundInterval, robust: FoundInterval, hypothesis: Hypothesis): Notice | null {
   const v0 = hypothesis.variance0;
   const inClassic = classic.lower <= v0 && v0 <= classic.upper;
   const inRobust = robust.lower <= v0 && v0 <= robust.upper;
   if (inClassic === inRobust) return null;
   const value = hypothesis.bySd ? `σ0 = ${formatNumber(Math.sqrt(v0))}` : `σ0² = ${formatNumber(v0)}`;
-  const shown = (i: Interval) =>
+  const shown = (i: FoundInterval) =>
     hypothesis.bySd ? `${formatNumber(Math.sqrt(i.lower))} to ${formatNumber(Math.sqrt(i.upper))}` : `${formatNumber(i.lower)} to ${formatNumber(i.upper)}`;
   return {
     code: 'robust-disagrees',
@@ -289,7 +289,7 @@ function robustDisagreement(classic: Interval, robust: Interval, hypothesis: Hyp
  * Equal-tail interval for σ² ((n−1)s²/χ²_upper, (n−1)s²/χ²_lower) or the one-sided bound matching the
  * alternative: a lower bound for 'greater', an upper bound for 'less'.
  */
-function chiSquareInterval(sumSquares: number, df: number, confidence: number, alternative: Alternative): Interval {
+function chiSquareInterval(sumSquares: number, df: number, confidence: number, alternative: Alternative): FoundInterval {
   const common = { level: confidence, parameter: 'σ²' };
   const tail = 1 - confidence;
   if (alternative === 'greater') {
@@ -306,7 +306,7 @@ function chiSquareInterval(sumSquares: number, df: number, confidence: number, a
   };
 }
 
-function sqrtInterval(interval: Interval): Interval {
+function sqrtInterval(interval: FoundInterval): FoundInterval {
   return { ...interval, lower: Math.sqrt(interval.lower), upper: Math.sqrt(interval.upper), parameter: interval.parameter === 'σ²' ? 'σ' : interval.parameter };
 }
 
@@ -367,7 +367,7 @@ function bonettInterval(
   confidence: number,
   alternative: Alternative,
   values?: readonly number[],
-): { interval: Interval; note: string } | null {
+): { interval: FoundInterval; note: string } | null {
   const { n } = moments;
   if (n < 5 || !Number.isFinite(moments.m4) || moments.m2 === 0) return null;
   let fourth = moments.m4;

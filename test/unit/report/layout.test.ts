@@ -2,6 +2,7 @@
 // script (dist/webview.js, from `npm run build`), a cross-tab of 8 columns (label, 6 categories, total) with long
 // category names does not scroll sideways, and the residual grid writes every column label in full.
 import { strict as assert } from 'node:assert';
+import { wordResult } from '../../../src/report/words/result';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { STYLE } from '../../../src/host/panelStyle';
@@ -17,7 +18,7 @@ describe('panel layout', () => {
     assert.ok(existsSync(bundle), 'dist/webview.js is missing: run `npm run build`');
     const columns = ['misshapen crust', 'underbaked centre', 'burnt edges', 'cracked glaze', 'collapsed middle', 'uneven rise'];
     const observed = [[12, 5, 9, 7, 4, 6], [7, 14, 6, 9, 8, 5], [9, 8, 21, 6, 7, 9]];
-    const result = independenceTest(observed, { rowLabels: ['Oven A', 'Oven B', 'Oven C'], columnLabels: columns });
+    const result = wordResult(independenceTest(observed, { rowLabels: ['Oven A', 'Oven B', 'Oven C'], columnLabels: columns }));
     const payload = buildPanelPayload(result, { id: 'r1', title: 'Ovens', sourceDescription: 'ovens.csv', decimals: 2, canSave: true, canRerun: true });
     assert.equal(payload.tables[0].header.length, 8);
     const html = `<!DOCTYPE html><html><head><style>:root{--vscode-font-family:sans-serif;--vscode-font-size:13px;--vscode-editor-font-family:monospace;--vscode-foreground:#222;--vscode-editor-background:#fff;--vscode-charts-orange:#d18616;--vscode-charts-blue:#1a85ff;--vscode-descriptionForeground:#666}</style><style>${STYLE}</style></head>

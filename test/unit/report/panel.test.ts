@@ -2,6 +2,7 @@
 // critical value below the double range appears as its power of ten (never 0.00), and the key figures
 // read as the text report writes them.
 import { strict as assert } from 'node:assert';
+import { wordResult } from '../../../src/report/words/result';
 import { buildPanelPayload, untranslated, type PayloadOptions } from '../../../src/report/panel';
 import { resultText } from '../../../src/report/text';
 import { distributionProcedure } from '../../../src/savedtest/procedures/distribution';
@@ -36,7 +37,7 @@ describe('panel payload', () => {
     const fractional = (await distributionProcedure.run({ test: 'distribution', df: 2.5, x: 3 }, noSource)) as DistributionResult;
     assert.equal(buildPanelPayload(fractional, options).headline, 'χ² distribution with 2.5 degrees of freedom');
     // Agresti's aspirin and heart attack 2×2 (from memory: X² = 25.01).
-    const aspirin = independenceTest([[189, 10845], [104, 10933]], { rowLabels: ['placebo', 'aspirin'], columnLabels: ['heart attack', 'none'] });
+    const aspirin = wordResult(independenceTest([[189, 10845], [104, 10933]], { rowLabels: ['placebo', 'aspirin'], columnLabels: ['heart attack', 'none'] }));
     const payload = buildPanelPayload(aspirin, options);
     const text = resultText(aspirin);
     for (const e of aspirin.effectSizes) {

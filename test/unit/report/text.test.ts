@@ -2,6 +2,7 @@
 // caution appear in the text, markdown and JSON of real results. The numbers themselves are checked
 // against published values where one exists; the procedures' own accuracy is tested in test/unit/stats.
 import { strict as assert } from 'node:assert';
+import { wordResult } from '../../../src/report/words/result';
 import { resultJson } from '../../../src/report/json';
 import { escapeMarkdown, markdownTable, resultMarkdown } from '../../../src/report/markdown';
 import { CAUTION, resultText } from '../../../src/report/text';
@@ -12,13 +13,13 @@ import { distributionProcedure } from '../../../src/savedtest/procedures/distrib
 import type { DistributionResult } from '../../../src/stats/result';
 
 // Mendel's dihybrid cross against 9:3:3:1 (published: X² = 0.470, p = 0.925).
-const mendel = goodnessOfFit([315, 108, 101, 32], { ratios: [9, 3, 3, 1], labels: ['round | yellow', 'round green', 'wrinkled yellow', 'wrinkled green'] });
+const mendel = wordResult(goodnessOfFit([315, 108, 101, 32], { ratios: [9, 3, 3, 1], labels: ['round | yellow', 'round green', 'wrinkled yellow', 'wrinkled green'] }));
 // Agresti's aspirin and heart attack 2×2 (from memory: X² = 25.01, odds ratio 1.832 (1.440, 2.331)).
-const aspirin = independenceTest([[189, 10845], [104, 10933]], { rowLabels: ['placebo', 'aspirin'], columnLabels: ['heart attack', 'none'] });
+const aspirin = wordResult(independenceTest([[189, 10845], [104, 10933]], { rowLabels: ['placebo', 'aspirin'], columnLabels: ['heart attack', 'none'] }));
 // Montgomery & Runger bottle fill (n = 20, s² = 0.0153, σ0² = 0.01): χ² = 29.07 with 19 df.
-const bottles = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater' });
+const bottles = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater' }));
 // A table so lopsided that the p-value is far below the double range.
-const extreme = independenceTest([[50000, 10], [10, 50000]]);
+const extreme = wordResult(independenceTest([[50000, 10], [10, 50000]]));
 
 describe('report content', () => {
   it('text: conclusion, APA line with df and N, effect size and caution', () => {
@@ -134,7 +135,7 @@ describe('report content', () => {
   });
 
   it('json: raw-data variance results carry their warnings', () => {
-    const json = resultJson(varianceTestFromValues([1, 2, 2, 3, 3, 3, 4, 4, 5, 30], { sigma0: 1 })) as { warnings: string[] };
+    const json = resultJson(wordResult(varianceTestFromValues([1, 2, 2, 3, 3, 3, 4, 4, 5, 30], { sigma0: 1 }))) as { warnings: string[] };
     assert.ok(json.warnings.length > 0);
   });
 });

@@ -2,6 +2,7 @@
 // (scripts/fixtures/large_counts.R; version in the fixture's rVersion); counts a double cannot hold exactly are
 // refused with the cell named.
 import { strict as assert } from 'node:assert';
+import { wordResult } from '../../../../src/report/words/result';
 import { InputError, isInstance } from '../../../../src/errors';
 import { fisherExact2x2 } from '../../../../src/stats/procedures/fisher2x2';
 import { mcnemarStatistics, mcnemarTest } from '../../../../src/stats/procedures/paired';
@@ -57,29 +58,29 @@ describe('counts from 1e7 to 1e15', function () {
 describe('counts beyond 2^53 are refused, not looped over', () => {
   const max = Number.MAX_SAFE_INTEGER;
   it('refuses a cell of 1e16 in an independence table, naming the cell', () => {
-    refused(() => independenceTest([[1e16, 2e16], [3e16, 4e16]]), 'count-too-large', '$.table[0][0]', /2\^53/);
+    refused(() => wordResult(independenceTest([[1e16, 2e16], [3e16, 4e16]])), 'count-too-large', '$.table[0][0]', /2\^53/);
   });
   it('refuses a table whose total passes 2^53 − 1 although every cell is below it', () => {
-    refused(() => independenceTest([[4e15, 4e15], [4e15, 4e15]]), 'count-too-large', '$.table', /total.*2\^53/);
+    refused(() => wordResult(independenceTest([[4e15, 4e15], [4e15, 4e15]])), 'count-too-large', '$.table', /total.*2\^53/);
   });
   it('accepts a table whose total is exactly 2^53 − 1', () => {
-    const r = independenceTest([[max - 3, 1], [1, 1]]);
+    const r = wordResult(independenceTest([[max - 3, 1], [1, 1]]));
     assert.ok(Number.isFinite(r.statistic));
   });
   it('refuses discordant counts whose sum passes 2^53 − 1 in McNemar’s test', () => {
-    refused(() => mcnemarTest([[5, 1e16], [1e16, 5]]), 'count-too-large', '$.table[0][1]', /2\^53/);
-    refused(() => mcnemarTest([[0, 5e15], [5e15, 0]]), 'count-too-large', '$.table', /total/);
+    refused(() => wordResult(mcnemarTest([[5, 1e16], [1e16, 5]])), 'count-too-large', '$.table[0][1]', /2\^53/);
+    refused(() => wordResult(mcnemarTest([[0, 5e15], [5e15, 0]])), 'count-too-large', '$.table', /total/);
   });
   it('refuses a stratum count of 1e16 and a goodness-of-fit count of 1e16', () => {
-    refused(() => stratifiedTest([[[1e16, 1], [1, 1]], [[1, 1], [1, 1]]]), 'count-too-large', '$.strata[0][0][0]', /2\^53/);
-    refused(() => goodnessOfFit([1e16, 5]), 'count-too-large', '$.observed[0]', /2\^53/);
+    refused(() => wordResult(stratifiedTest([[[1e16, 1], [1, 1]], [[1, 1], [1, 1]]])), 'count-too-large', '$.strata[0][0][0]', /2\^53/);
+    refused(() => wordResult(goodnessOfFit([1e16, 5])), 'count-too-large', '$.observed[0]', /2\^53/);
   });
 });
 
 describe('stratified counts of 1e7 and 1e9', () => {
   const strata = (k: number): number[][][] => [[[k, 2 * k], [3 * k, 4 * k]], [[k, 2 * k], [3 * k, k]]];
   it('gives the asymptotic CMH test for counts of 1e9 and leaves out the exact line with a notice naming the limit', () => {
-    const r = stratifiedTest(strata(1e9));
+    const r = wordResult(stratifiedTest(strata(1e9)));
     assert.ok(Number.isFinite(r.statistic));
     assert.ok(!r.otherStatistics.some((l) => l.id === 'cmh-exact'));
     const n = r.notices.find((x) => x.code === 'exact-too-large');
@@ -87,6 +88,6 @@ describe('stratified counts of 1e7 and 1e9', () => {
     assert.match(n.message, /limit/);
   });
   it('refuses "method": "exact" for counts of 1e7, naming the limit', () => {
-    refused(() => stratifiedTest(strata(1e7), { method: 'exact' }), 'exact-too-large', '$.method', /limit/);
+    refused(() => wordResult(stratifiedTest(strata(1e7), { method: 'exact' })), 'exact-too-large', '$.method', /limit/);
   });
 });

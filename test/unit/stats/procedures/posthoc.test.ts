@@ -1,4 +1,5 @@
 import { strict as assert } from 'node:assert';
+import { wordResult } from '../../../../src/report/words/result';
 import { InputError, isInstance } from '../../../../src/errors';
 import { adjustPValues, postHocTest, type CellTest, type PairwiseComparison } from '../../../../src/stats/procedures/posthoc';
 import { closeTo } from '../../tolerance';
@@ -22,7 +23,7 @@ describe('multiple-comparison adjustments', () => {
 describe('post-hoc comparisons on an r×c table', () => {
   const c = R.posthoc;
   it('pairwise row tests match R chisq.test on each pair, with Holm adjustment (R p.adjust)', () => {
-    const r = postHocTest(c.table, { compare: 'rows', adjustment: 'holm', rowLabels: ['Day', 'Evening', 'Night'] });
+    const r = wordResult(postHocTest(c.table, { compare: 'rows', adjustment: 'holm', rowLabels: ['Day', 'Evening', 'Night'] }));
     const pairs = r.details!.pairs as PairwiseComparison[];
     pairs.forEach((p, k) => {
       closeTo(p.statistic, c.pairStatistics[k], 1e-12, `pair ${p.first} vs ${p.second} X²`, c.table);
@@ -33,7 +34,7 @@ describe('post-hoc comparisons on an r×c table', () => {
   });
 
   it('cell-wise adjusted residuals match R chisq.test()$stdres, with BH adjustment (R p.adjust)', () => {
-    const r = postHocTest(c.table, { compare: 'cells', adjustment: 'benjamini-hochberg' });
+    const r = wordResult(postHocTest(c.table, { compare: 'cells', adjustment: 'benjamini-hochberg' }));
     const cells = r.details!.cells as CellTest[];
     cells.forEach((cell, k) => {
       closeTo(cell.adjustedResidual, c.adjustedResiduals[k], 1e-12, `residual ${cell.rowLabel} × ${cell.columnLabel}`, c.table);
@@ -45,14 +46,14 @@ describe('post-hoc comparisons on an r×c table', () => {
 
   it('checks the expected counts of the overall table and names the small cells (common practice rule)', () => {
     // Row totals 6, 30 and column totals 18, 18 of 36: the first row's expected counts are 3 (2 of 4 cells below 5).
-    const small = postHocTest([[1, 5], [17, 13]], { rowLabels: ['night', 'day'], columnLabels: ['late', 'on time'] });
+    const small = wordResult(postHocTest([[1, 5], [17, 13]], { rowLabels: ['night', 'day'], columnLabels: ['late', 'on time'] }));
     assert.equal(small.assumptions.find((a) => a.id === 'expected-counts')?.status, 'failed');
     assert.ok(small.notices.some((n) => n.code === 'small-expected' && n.message.includes('night × late')));
-    const large = postHocTest([[20, 25], [30, 15]]);
+    const large = wordResult(postHocTest([[20, 25], [30, 15]]));
     assert.equal(large.assumptions.find((a) => a.id === 'expected-counts')?.status, 'met');
   });
 
   it('refuses an empty row with its label', () => {
-    assert.throws(() => postHocTest([[1, 2], [0, 0], [3, 4]], { rowLabels: ['a', 'b', 'c'] }), (e: unknown) => isInstance(e, InputError) && /"b"/.test(e.message));
+    assert.throws(() => wordResult(postHocTest([[1, 2], [0, 0], [3, 4]], { rowLabels: ['a', 'b', 'c'] })), (e: unknown) => isInstance(e, InputError) && /"b"/.test(e.message));
   });
 });

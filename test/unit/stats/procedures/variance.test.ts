@@ -1,4 +1,5 @@
 import { strict as assert } from 'node:assert';
+import { wordResult } from '../../../../src/report/words/result';
 import { MomentAccumulator } from '../../../../src/stats/moments';
 import type { Alternative } from '../../../../src/stats/result';
 import { type VarianceTestOptions, varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValues } from '../../../../src/stats/procedures/variance';
@@ -36,7 +37,7 @@ function run(c: VarianceCase) {
     alternative: c.alternative,
     confidence: c.confidence,
   };
-  return c.values ? varianceTestFromValues(c.values, options) : varianceTestFromSummary(c.summary!, options);
+  return c.values ? wordResult(varianceTestFromValues(c.values, options)) : wordResult(varianceTestFromSummary(c.summary!, options));
 }
 
 
@@ -74,11 +75,11 @@ describe('chi-square test for one variance', () => {
     // Montgomery & Runger, Applied Statistics and Probability for Engineers (n = 20, s² = 0.0153, σ0² = 0.01),
     // values from memory, confirmed against scipy/mpmath in the fixture. The 0.0287 is the one-sided 95% UPPER
     // bound (s²·19/χ²₀.₉₅,₁₉ with the lower 5% point 10.117), so it goes with alternative 'less', not 'greater'.
-    const greater = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater' });
+    const greater = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater' }));
     assertClose(greater.statistic, 29.07, { rel: 1e-12 }, 'bottle fill χ²');
     assert.equal(greater.df, 19);
     assertClose(greater.pValue.value, 0.065, { rel: 0, abs: 0.0005 }, 'bottle fill p');
-    const upper = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'less' });
+    const upper = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'less' }));
     assert.equal(upper.confidenceInterval!.lower, 0);
     assertClose(upper.confidenceInterval!.upper, 0.0287, { rel: 0, abs: 0.00005 }, 'bottle fill 95% upper bound for σ²');
     assert.equal(greater.confidenceInterval!.upper, Infinity);
@@ -87,10 +88,10 @@ describe('chi-square test for one variance', () => {
   it('gives the same result from values, from streamed moments and from a summary', () => {
     const values = [4.1, 5.3, 3.8, 6.0, 5.1, 4.4, 4.9, 5.6];
     const options: VarianceTestOptions = { sigma0: 0.5 };
-    const fromValues = varianceTestFromValues(values, options);
-    const fromMoments = varianceTestFromMoments(MomentAccumulator.of(values).summary(), options);
+    const fromValues = wordResult(varianceTestFromValues(values, options));
+    const fromMoments = wordResult(varianceTestFromMoments(MomentAccumulator.of(values).summary(), options));
     const s = Math.sqrt(fromValues.estimates.find((e) => e.id === 'variance')!.value);
-    const fromSummary = varianceTestFromSummary({ n: values.length, sd: s }, options);
+    const fromSummary = wordResult(varianceTestFromSummary({ n: values.length, sd: s }, options));
     assertClose(fromMoments.statistic, fromValues.statistic, { rel: 1e-14 }, 'moments vs values');
     assertClose(fromSummary.statistic, fromValues.statistic, { rel: 1e-14 }, 'summary vs values');
     assertClose(fromMoments.pValue.value, fromValues.pValue.value, { rel: 1e-13 }, 'p moments vs values');
@@ -98,7 +99,7 @@ describe('chi-square test for one variance', () => {
 
   it("computes Bonett's interval from moments around the mean and says so", () => {
     const values = [4.1, 5.3, 3.8, 6.0, 5.1, 4.4, 4.9, 5.6, 9.8, 4.7];
-    const result = varianceTestFromMoments(MomentAccumulator.of(values).summary(), { sigma0: 1 });
+    const result = wordResult(varianceTestFromMoments(MomentAccumulator.of(values).summary(), { sigma0: 1 }));
     const bonett = result.estimates.find((e) => e.id === 'varianceBonett')!;
     assert.match(bonett.note!, /around the mean rather than the trimmed mean/);
     // Same formula with γ4 = n·m4/m2² (Bonett 2006, untrimmed), evaluated here by hand.
@@ -113,7 +114,7 @@ describe('chi-square test for one variance', () => {
   });
 
   it('states the two-sided convention: twice the smaller tail, capped at 1', () => {
-    const result = varianceTestFromSummary({ n: 10, sd: 1 }, { sigma0: 1 });
+    const result = wordResult(varianceTestFromSummary({ n: 10, sd: 1 }, { sigma0: 1 }));
     assert.ok(result.notices.some((n) => n.code === 'two-sided-convention' && /2 × the smaller tail/.test(n.message)));
     assert.ok(result.pValue.value <= 1);
   });
@@ -130,57 +131,57 @@ describe('chi-square test for one variance', () => {
   it('warns when the robust interval and the chi-square interval disagree about σ0', () => {
     // One far value: the chi-square test finds σ > 1, Bonett's interval (kurtosis 6) does not exclude 1.
     const values = [4.1, 5.3, 3.8, 6.0, 5.1, 4.4, 4.9, 5.6, 9.8, 4.7];
-    const skewed = varianceTestFromValues(values, { sigma0: 1, alternative: 'greater' });
+    const skewed = wordResult(varianceTestFromValues(values, { sigma0: 1, alternative: 'greater' }));
     assert.ok(skewed.confidenceInterval!.lower > 1 && skewed.estimates.find((e) => e.id === 'varianceBonett')!.interval!.lower < 1);
     assert.ok(skewed.notices.some((n) => n.code === 'robust-disagrees' && /excludes σ0 = 1, but Bonett's robust interval .* contains it/.test(n.message)));
-    const calm = varianceTestFromValues([4.1, 5.3, 3.8, 6.0, 5.1, 4.4, 4.9, 5.6, 5.2, 4.7], { sigma0: 0.7 });
+    const calm = wordResult(varianceTestFromValues([4.1, 5.3, 3.8, 6.0, 5.1, 4.4, 4.9, 5.6, 5.2, 4.7], { sigma0: 0.7 }));
     assert.ok(!calm.notices.some((n) => n.code === 'robust-disagrees'));
   });
 
   it('leaves normality unchecked, saying why, when streamed moments carry no third and fourth moments', () => {
     const moments = { n: 500, mean: 3, m2: 998, m3: NaN, m4: NaN, min: NaN, max: NaN };
-    const normality = varianceTestFromMoments(moments, { sigma0: 1.5 }).assumptions.find((a) => a.id === 'normality')!;
+    const normality = wordResult(varianceTestFromMoments(moments, { sigma0: 1.5 })).assumptions.find((a) => a.id === 'normality')!;
     assert.equal(normality.status, 'unchecked');
     assert.match(normality.explanation, /third and fourth moments were not available/);
   });
 
   it('leaves normality unchecked for a summary and independence unchecked always', () => {
-    const result = varianceTestFromSummary({ n: 30, sd: 2 }, { sigma0: 2 });
+    const result = wordResult(varianceTestFromSummary({ n: 30, sd: 2 }, { sigma0: 2 }));
     assert.equal(result.assumptions.find((a) => a.id === 'normality')!.status, 'unchecked');
     assert.equal(result.assumptions.find((a) => a.id === 'independence')!.status, 'unchecked');
   });
 
   it('writes a conclusion in plain words that names the direction', () => {
-    const result = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater', alpha: 0.1 });
+    const result = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater', alpha: 0.1 }));
     assert.match(result.conclusion, /^The population variance is larger than σ0² = 0\.01 at the 10% level/);
-    const not = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater' });
+    const not = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater' }));
     assert.match(not.conclusion, /^The data do not show that the population variance exceeds/);
   });
 
   it('names the measured variable and its unit in the conclusion, squaring the unit for a variance', () => {
     // Montgomery & Runger bottle fill (n = 20, s² = 0.0153, σ0² = 0.01): significant at 10%, one-sided (p = 0.065).
-    const byVariance = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater', alpha: 0.1, variable: 'fill volume', unit: 'L' });
+    const byVariance = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, alternative: 'greater', alpha: 0.1, variable: 'fill volume', unit: 'L' }));
     assert.match(byVariance.conclusion, /^The population variance of `fill volume` is larger than σ0² = 0\.01 L² at the 10% level \(s² = 0\.0153 L², p = 0\.065\)/);
-    const bySd = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { sigma0: 0.1, alternative: 'greater', variable: 'fill volume', unit: 'L' });
+    const bySd = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { sigma0: 0.1, alternative: 'greater', variable: 'fill volume', unit: 'L' }));
     assert.match(bySd.conclusion, /^The data do not show that the population standard deviation of `fill volume` exceeds σ0 = 0\.1 L at the 5% level \(s = 0\.1237 L,/);
-    const compound = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, unit: 'g/cm' });
+    const compound = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, unit: 'g/cm' }));
     assert.match(compound.conclusion, /σ0² = 0\.01 \(g\/cm\)²/);
     // Blank names and units leave the generic wording.
-    const generic = varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, variable: '  ', unit: '' });
+    const generic = wordResult(varianceTestFromSummary({ n: 20, variance: 0.0153 }, { variance0: 0.01, variable: '  ', unit: '' }));
     assert.match(generic.conclusion, /^The data do not show that the population variance differs from σ0² = 0\.01 at the 5% level \(s² = 0\.0153,/);
   });
 
   it('refuses bad input with the field named', () => {
-    assert.match(errorOf(() => varianceTestFromValues([1, 2, NaN], { sigma0: 1 })).message, /value 3: expected a finite number, found NaN/);
-    assert.equal(errorOf(() => varianceTestFromValues([1], { sigma0: 1 })).code, 'too-few-values');
-    assert.equal(errorOf(() => varianceTestFromValues([1, 2], {})).code, 'invalid-hypothesis');
-    assert.equal(errorOf(() => varianceTestFromValues([1, 2], { sigma0: 1, variance0: 1 })).code, 'invalid-hypothesis');
-    assert.match(errorOf(() => varianceTestFromValues([1, 2], { sigma0: -1 })).message, /sigma0: expected a finite number > 0/);
-    assert.equal(errorOf(() => varianceTestFromSummary({ n: 5, sd: -2 }, { sigma0: 1 })).location.jsonPath, '$.summary.sd');
-    assert.equal(errorOf(() => varianceTestFromSummary({ n: 2.5, sd: 2 }, { sigma0: 1 })).code, 'too-few-values');
-    assert.equal(errorOf(() => varianceTestFromValues([1, 2, 3], { sigma0: 1, confidence: 95 })).code, 'invalid-confidence');
-    assert.equal(errorOf(() => varianceTestFromValues([1, 2, 3], { sigma0: 1, alternative: 'up' as Alternative })).code, 'invalid-alternative');
-    const moments = errorOf(() => varianceTestFromMoments({ ...MomentAccumulator.of([1, 2, 3]).summary(), m2: NaN }, { sigma0: 1, variable: 'fill_ml' }));
+    assert.match(errorOf(() => wordResult(varianceTestFromValues([1, 2, NaN], { sigma0: 1 }))).message, /value 3: expected a finite number, found NaN/);
+    assert.equal(errorOf(() => wordResult(varianceTestFromValues([1], { sigma0: 1 }))).code, 'too-few-values');
+    assert.equal(errorOf(() => wordResult(varianceTestFromValues([1, 2], {}))).code, 'invalid-hypothesis');
+    assert.equal(errorOf(() => wordResult(varianceTestFromValues([1, 2], { sigma0: 1, variance0: 1 }))).code, 'invalid-hypothesis');
+    assert.match(errorOf(() => wordResult(varianceTestFromValues([1, 2], { sigma0: -1 }))).message, /sigma0: expected a finite number > 0/);
+    assert.equal(errorOf(() => wordResult(varianceTestFromSummary({ n: 5, sd: -2 }, { sigma0: 1 }))).location.jsonPath, '$.summary.sd');
+    assert.equal(errorOf(() => wordResult(varianceTestFromSummary({ n: 2.5, sd: 2 }, { sigma0: 1 }))).code, 'too-few-values');
+    assert.equal(errorOf(() => wordResult(varianceTestFromValues([1, 2, 3], { sigma0: 1, confidence: 95 }))).code, 'invalid-confidence');
+    assert.equal(errorOf(() => wordResult(varianceTestFromValues([1, 2, 3], { sigma0: 1, alternative: 'up' as Alternative }))).code, 'invalid-alternative');
+    const moments = errorOf(() => wordResult(varianceTestFromMoments({ ...MomentAccumulator.of([1, 2, 3]).summary(), m2: NaN }, { sigma0: 1, variable: 'fill_ml' })));
     assert.equal(moments.code, 'invalid-moments');
     assert.equal(moments.message, 'moments of fill_ml: expected a finite sum of squared deviations ≥ 0, found NaN');
     assert.equal(moments.location.jsonPath, '$.source.columns[0]');

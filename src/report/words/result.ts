@@ -1,0 +1,96 @@
+/**
+ * From what `stats/` computed to the published result: each `Phrase`, notice code and assumption id becomes
+ * its sentence, written through the translator. Fields keep their order, so the JSON of a result is the same
+ * bytes as when the words were written inside `stats/`.
+ */
+import type {
+  Assumption,
+  ComputedDistributionResult,
+  ComputedPowerResult,
+  ComputedResult,
+  DistributionResult,
+  PowerResult,
+  ComputedTestResult,
+  FoundAssumption,
+  FoundEstimate,
+  FoundInterval,
+  FoundNotice,
+  FoundStatisticLine,
+  Estimate,
+  Interval,
+  Notice,
+  Result,
+  StatisticLine,
+  TestResult,
+  Words,
+} from '../../stats/result';
+import { ASSUMPTION_WORDS } from './assumptions';
+import { NOTICE_WORDS } from './notices';
+import { PHRASES } from './phrases';
+import { english, type Translate } from './translate';
+
+/** The text of a phrase (or a sentence written before it reached `report/`). */
+export function words(w: Words, t: Translate = english): string {
+  if (typeof w === 'string') return w;
+  const write = PHRASES[w.code];
+  if (!write) throw new Error(`no wording for the phrase "${w.code}"`);
+  return write(w.args ?? {}, t);
+}
+
+export function wordNotice(n: FoundNotice | Notice, t: Translate = english): Notice {
+  if ('message' in n) return n;
+  const write = NOTICE_WORDS[n.code];
+  if (!write) throw new Error(`no wording for the notice "${n.code}"`);
+  return { code: n.code, severity: n.severity, message: write(n.args ?? {}, t) };
+}
+
+export function wordAssumption(a: FoundAssumption | Assumption, t: Translate = english): Assumption {
+  if ('title' in a) return a;
+  const write = ASSUMPTION_WORDS[a.id];
+  if (!write) throw new Error(`no wording for the assumption "${a.id}"`);
+  const { title, explanation, alternative } = write(a.status, a.args ?? {}, t);
+  return { id: a.id, title, status: a.status, explanation, ...(alternative !== undefined ? { alternative } : {}) };
+}
+
+function wordInterval(i: FoundInterval, t: Translate): Interval {
+  return { ...i, parameter: words(i.parameter, t), method: words(i.method, t) };
+}
+
+function wordEstimate(e: FoundEstimate, t: Translate): Estimate {
+  return {
+    ...e,
+    name: words(e.name, t),
+    ...(e.interval ? { interval: wordInterval(e.interval, t) } : {}),
+    ...(e.note !== undefined ? { note: words(e.note, t) } : {}),
+  } as Estimate;
+}
+
+function wordLine(l: FoundStatisticLine, t: Translate): StatisticLine {
+  return { ...l, name: words(l.name, t), ...(l.note !== undefined ? { note: words(l.note, t) } : {}) } as StatisticLine;
+}
+
+export function wordTestResult(r: ComputedTestResult, t: Translate = english): TestResult {
+  return {
+    ...r,
+    procedure: words(r.procedure, t),
+    conclusion: words(r.conclusion, t),
+    otherStatistics: r.otherStatistics.map((l) => wordLine(l, t)),
+    effectSizes: r.effectSizes.map((e) => wordEstimate(e, t)),
+    estimates: r.estimates.map((e) => wordEstimate(e, t)),
+    ...(r.confidenceInterval ? { confidenceInterval: wordInterval(r.confidenceInterval, t) } : {}),
+    notices: r.notices.map((n) => wordNotice(n, t)),
+    assumptions: r.assumptions.map((a) => wordAssumption(a, t)),
+  } as TestResult;
+}
+
+/** Any computed result in words: the published shape that outputs, saved tests and the panel use. */
+export function wordResult(r: ComputedTestResult, t?: Translate): TestResult;
+export function wordResult(r: ComputedPowerResult, t?: Translate): PowerResult;
+export function wordResult(r: ComputedDistributionResult, t?: Translate): DistributionResult;
+export function wordResult(r: ComputedResult, t?: Translate): Result;
+export function wordResult(r: ComputedResult, t: Translate = english): Result {
+  if (r.kind === 'test') return wordTestResult(r, t);
+  const notices = r.notices.map((n) => wordNotice(n, t));
+  if (r.kind === 'power') return { ...r, effectSize: { ...r.effectSize, name: words(r.effectSize.name, t) }, notices };
+  return { ...r, notices };
+}
