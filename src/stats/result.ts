@@ -230,7 +230,8 @@ export interface Phrase {
   readonly args?: PhraseArgs;
 }
 
-export type PhraseValue = string | number | boolean | Probability | readonly string[] | readonly number[];
+/** An argument: a number, a name from the data, a probability, a list, or a phrase inside the phrase. */
+export type PhraseValue = string | number | boolean | Probability | Phrase | readonly string[] | readonly number[];
 export type PhraseArgs = Readonly<Record<string, PhraseValue | undefined>>;
 
 /**

@@ -2,7 +2,7 @@
  * Typed reads of a phrase's arguments. A missing or mistyped argument is a programming error between
  * `stats/` and `report/words`, so it throws rather than writing a sentence with a hole in it.
  */
-import type { PhraseArgs, Probability } from '../../stats/result';
+import type { Phrase, PhraseArgs, Probability } from '../../stats/result';
 
 function missing(key: string, expected: string, value: unknown): Error {
   return new Error(`phrase argument "${key}": expected ${expected}, found ${JSON.stringify(value)}`);
@@ -43,4 +43,11 @@ export function strings(args: PhraseArgs, key: string): readonly string[] {
   const v = args[key];
   if (!Array.isArray(v) || v.some((x) => typeof x !== 'string')) throw missing(key, 'a list of strings', v);
   return v as readonly string[];
+}
+
+/** A phrase inside a phrase (a statistic's name inside a procedure's title). */
+export function inner(args: PhraseArgs, key: string): Phrase {
+  const v = args[key];
+  if (typeof v !== 'object' || v === null || Array.isArray(v) || typeof (v as Phrase).code !== 'string') throw missing(key, 'a phrase', v);
+  return v as Phrase;
 }

@@ -1,5 +1,7 @@
 /** Assumption titles, explanations and alternatives by assumption id, written from its status and arguments. */
 import type { AssumptionStatus, PhraseArgs } from '../../stats/result';
+import { num, optStr, str } from './args';
+import { countedThings, smallExpectedAlternative, smallExpectedRule, wholePercent } from './notices';
 import type { Translate } from './translate';
 
 export interface AssumptionWords {
@@ -8,4 +10,64 @@ export interface AssumptionWords {
   readonly alternative?: string;
 }
 
-export const ASSUMPTION_WORDS: Readonly<Record<string, (status: AssumptionStatus, args: PhraseArgs, t: Translate) => AssumptionWords>> = {};
+export type AssumptionWriter = (status: AssumptionStatus, args: PhraseArgs, t: Translate) => AssumptionWords;
+
+/** A count as sentences write it: whole numbers as they are, others to three significant digits. */
+function countText(x: number): string {
+  return Number.isInteger(x) ? String(x) : x.toPrecision(3);
+}
+
+function expectedCounts(status: AssumptionStatus, a: PhraseArgs, t: Translate): AssumptionWords {
+  const counts = t('The smallest expected count is {0}; {1} of the {2} are below 5 ({3}).', countText(num(a, 'smallest')), wholePercent(num(a, 'share')), countedThings(str(a, 'what'), t), smallExpectedRule(t));
+  const title = t('Expected counts large enough for the chi-square approximation');
+  if (status !== 'failed') return { title, explanation: t('{0} The chi-square p-value should be a fair approximation.', counts) };
+  const alternative = optStr(a, 'alternative');
+  return {
+    title,
+    explanation: t('{0} With counts this small the chi-square distribution can describe the statistic poorly, so the p-value may be too small or too large.', counts),
+    ...(alternative !== undefined ? { alternative: smallExpectedAlternative(alternative, t) } : {}),
+  };
+}
+
+/** The unit each observation is, in the independence assumption's sentence. */
+function unitText(unit: string, t: Translate): string {
+  switch (unit) {
+    case 'counted unit':
+      return t('counted unit');
+    case 'observation':
+      return t('observation');
+    case 'value':
+      return t('value');
+    case 'pair':
+      return t('pair');
+    default:
+      throw new Error(`no wording for the unit "${unit}"`);
+  }
+}
+
+export const ASSUMPTION_WORDS: Readonly<Record<string, AssumptionWriter>> = {
+  'expected-counts': expectedCounts,
+  independence: (_, a, t) => ({
+    title: t('Independent observations'),
+    explanation: t(
+      'Each {0} must be counted once and must not influence another (no repeated measurements of the same subject, no clusters treated as separate units). This comes from how the data were collected and cannot be checked from the numbers.',
+      unitText(str(a, 'unit'), t),
+    ),
+  }),
+  'fixed-categories': (_, a, t) => {
+    const m = num(a, 'estimatedParameters');
+    return {
+      title: t('Categories and expected proportions fixed in advance'),
+      explanation:
+        m > 0
+          ? t('{0} parameter(s) were estimated from the data, and the degrees of freedom were reduced by {0}. The categories must still have been chosen before looking at the data.', m)
+          : t('The categories and the expected proportions must be chosen before looking at the data. If parameters of the expected distribution were estimated from these data, give their number as estimatedParameters so the degrees of freedom are reduced.'),
+    };
+  },
+  'sampling-design': (_, __, t) => ({
+    title: t('Sampling design'),
+    explanation: t(
+      'The same chi-square test serves three designs: one sample cross-classified (independence), separate samples per row with fixed row totals (homogeneity), and both margins fixed in advance. The p-value is the same, but what it says depends on the design, which the counts cannot reveal. Relative risk is meaningful only when rows are groups sampled or assigned in advance, not when the columns were fixed (case–control).',
+    ),
+  }),
+};

@@ -1,5 +1,91 @@
 /** Notice messages by notice code, written from the arguments `stats/` gave. */
 import type { PhraseArgs } from '../../stats/result';
+import { num, prob, str, strings } from './args';
+import { describeP, sentenceNumber } from './probability';
 import type { Translate } from './translate';
 
-export const NOTICE_WORDS: Readonly<Record<string, (args: PhraseArgs, t: Translate) => string>> = {};
+export type NoticeWriter = (args: PhraseArgs, t: Translate) => string;
+
+/** The expected-count rule of thumb, common practice (often attributed to Cochran 1954). */
+export function smallExpectedRule(t: Translate): string {
+  return t('common practice: no expected count below 1, and at most 20% of them below 5');
+}
+
+/** What to use when the expected-count rule fails, by the code `checkExpectedCounts` was given. */
+export function smallExpectedAlternative(code: string, t: Translate): string {
+  switch (code) {
+    case 'multinomial-or-monte-carlo':
+      return t('an exact multinomial test or a Monte Carlo p-value, or pooling adjacent categories');
+    case 'fisher':
+      return t("Fisher's exact test");
+    case 'exact-or-monte-carlo':
+      return t('an exact test (Fisher–Freeman–Halton) or a Monte Carlo p-value');
+    case 'exact-overall':
+      return t('an exact test of the overall table, and caution with the cell-wise z approximations');
+    default:
+      throw new Error(`no wording for the alternative "${code}"`);
+  }
+}
+
+/** "categories" or "cells", the things whose expected counts were checked. */
+export function countedThings(what: string, t: Translate): string {
+  if (what === 'categories') return t('categories');
+  if (what === 'cells') return t('cells');
+  throw new Error(`no wording for "${what}"`);
+}
+
+/** A share as a whole percentage: "25%". */
+export function wholePercent(share: number): string {
+  return `${(share * 100).toFixed(0)}%`;
+}
+
+/** The first labels of a list, then how many more ("A, B and 3 more"). */
+function listed(labels: readonly string[], count: number, t: Translate): string {
+  const shown = labels.join(', ');
+  return count > labels.length ? t('{0} and {1} more', shown, count - labels.length) : shown;
+}
+
+function smallExpected(a: PhraseArgs, t: Translate): string {
+  const what = countedThings(str(a, 'what'), t);
+  const percent = wholePercent(num(a, 'share'));
+  const names = listed(strings(a, 'named'), num(a, 'namedCount'), t);
+  const belowOne = num(a, 'belowOne');
+  const head =
+    belowOne > 0
+      ? t('Small expected counts: {0} of {1} {2} ({3}) are below 5, and {4} below 1 (below 1: {5}).', num(a, 'belowFive'), num(a, 'total'), what, percent, belowOne, names)
+      : t('Small expected counts: {0} of {1} {2} ({3}) are below 5 (below 5: {4}).', num(a, 'belowFive'), num(a, 'total'), what, percent, names);
+  return t('{0} The chi-square p-value may be inaccurate ({1}). Consider {2}.', head, smallExpectedRule(t), smallExpectedAlternative(str(a, 'alternative'), t));
+}
+
+export const NOTICE_WORDS: Readonly<Record<string, NoticeWriter>> = {
+  'small-expected': smallExpected,
+  'rescaled-expected': (a, t) =>
+    t('The expected counts total {0}, but the observed counts total {1}; the expected counts were rescaled to total {1} (same proportions).', String(num(a, 'expectedTotal')), String(num(a, 'observedTotal'))),
+  'rescaled-proportions': (a, t) => t('The expected proportions sum to {0}, not 1; each was divided by {0} before the test.', String(num(a, 'total'))),
+  'dropped-zero-expected': (a, t) =>
+    t('Categories with expected 0 and observed 0 carry no information and are not counted in the degrees of freedom: {0}.', strings(a, 'labels').join(', ')),
+  'infinite-statistic': (a, t) => t('With λ = {0} (≤ −1) a category observed 0 times makes the statistic infinite; choose λ > −1 or another statistic.', String(num(a, 'lambda'))),
+  'dropped-empty-row': (a, t) => t('Rows with a total of 0 were left out (they carry no information): {0}.', strings(a, 'labels').join(', ')),
+  'dropped-empty-column': (a, t) => t('Columns with a total of 0 were left out (they carry no information): {0}.', strings(a, 'labels').join(', ')),
+  'correction-not-applied': (a, t) =>
+    str(a, 'reason') === 'not-2x2'
+      ? t("Yates' continuity correction is defined for 2×2 tables only; this table is {0}×{1}, so it was not applied.", num(a, 'rows'), num(a, 'columns'))
+      : t("Yates' continuity correction applies to the Pearson statistic only; it was not applied to the chosen statistic."),
+  'continuity-correction': (a, t) =>
+    t("Yates' continuity correction was applied: X² = {0} instead of {1}. Effect sizes use the uncorrected X².", sentenceNumber(num(a, 'corrected')), sentenceNumber(num(a, 'uncorrected'))),
+  'exact-ordering': (a, t) =>
+    t('The exact p-value is Fisher\'s (Fisher–Freeman–Halton): tables are ordered by their probability, not by {0}. For the permutation distribution of {0} itself, use "method": "monte-carlo".', str(a, 'symbol')),
+  'resampling-known-probabilities': (a, t) =>
+    str(a, 'method') === 'exact'
+      ? t('The exact p-value treats the expected proportions as known; it does not allow for the {0} parameter(s) estimated from these data, so it is somewhat too large. The asymptotic line with df reduced is shown beside it.', num(a, 'estimatedParameters'))
+      : t('The Monte Carlo p-value treats the expected proportions as known; it does not allow for the {0} parameter(s) estimated from these data, so it is somewhat too large. The asymptotic line with df reduced is shown beside it.', num(a, 'estimatedParameters')),
+  'exact-beside-skipped': (a, t) =>
+    t(
+      'Expected counts are small, but the exact p-value for this {0}×{1} table would exceed its work limit ({2} steps, under a second), so it is not shown; set "method": "monte-carlo" for a resampled p-value.',
+      num(a, 'rows'),
+      num(a, 'columns'),
+      num(a, 'workLimit').toLocaleString('en-US'),
+    ),
+  'exact-beside': (a, t) => t('Expected counts are small, so the exact p-value ({0}) is shown beside the chi-square one; set "method": "exact" to make it the main result.', describeP(prob(a, 'p'))),
+  'haldane-anscombe': (_, t) => t('A cell is 0, so 0.5 was added to every cell before computing the odds ratio, the relative risk and their intervals (Haldane–Anscombe correction).'),
+};

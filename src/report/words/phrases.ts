@@ -1,10 +1,145 @@
 /**
  * Sentences and labels by phrase code: conclusions, procedure titles, names and notes of statistics and
- * estimates. Each message passed to `t` is a whole template with `{0}` placeholders, so it can be translated.
+ * estimates, interval parameters and methods. Each message passed to `t` is a whole literal template with
+ * `{0}` placeholders, so the bundle lists it and a translator sees the sentence.
  */
 import type { PhraseArgs } from '../../stats/result';
+import { flag, inner, num, optStr, prob, str } from './args';
+import { capitalise, describeP, nameOf, percentOf } from './probability';
 import type { Translate } from './translate';
 
 export type PhraseWriter = (args: PhraseArgs, t: Translate) => string;
 
-export const PHRASES: Readonly<Record<string, PhraseWriter>> = {};
+/** "at the 5% level" for α = 0.05. */
+export function atLevel(alpha: number, t: Translate): string {
+  return t('at the {0}% level', percentOf(alpha));
+}
+
+/**
+ * The p-value of a conclusion: `p`, written with the method that gave it when it is not the chi-square
+ * approximation (`pMethod`: "exact" or "Monte Carlo", set by the saved-test layer's p-value methods).
+ */
+export function pOf(args: PhraseArgs, t: Translate): string {
+  const method = optStr(args, 'pMethod');
+  const p = describeP(prob(args, 'p'));
+  return method === undefined ? p : t('{0} {1}', methodText(method, t), p);
+}
+
+/** λ of the Cressie–Read statistic as a fraction where it is a familiar one. */
+function lambdaText(lambda: number): string {
+  if (Math.abs(lambda - 2 / 3) < 1e-15) return '2/3';
+  if (Math.abs(lambda + 1 / 2) < 1e-15) return '−1/2';
+  return String(lambda).replace('-', '−');
+}
+
+/** A phrase inside this phrase, in words. */
+function phraseIn(args: PhraseArgs, key: string, t: Translate): string {
+  const p = inner(args, key);
+  const write = PHRASES[p.code];
+  if (!write) throw new Error(`no wording for the phrase "${p.code}"`);
+  return write(p.args ?? {}, t);
+}
+
+/** An argument that is a phrase, or a text written before it reached report/ (a procedure title of the saved-test layer). */
+function phraseOrText(args: PhraseArgs, key: string, t: Translate): string {
+  const v = args[key];
+  return typeof v === 'string' ? v : phraseIn(args, key, t);
+}
+
+function goodnessOfFitConclusion(a: PhraseArgs, t: Translate): string {
+  const named = nameOf(optStr(a, 'variable'));
+  const counts = named ? t('The observed counts of {0}', named) : t('The observed counts');
+  const against = flag(a, 'uniform') ? t('equal proportions in every category') : t('the expected proportions');
+  const level = atLevel(num(a, 'alpha'), t);
+  return flag(a, 'significant')
+    ? t('{0} differ from {1} by more than chance would explain {2} ({3}).', counts, against, level, pOf(a, t))
+    : t('{0} are consistent with {1}: the differences are within what chance would produce {2} ({3}).', counts, against, level, pOf(a, t));
+}
+
+/**
+ * With the variables named (the columns a table was cross-tabulated from), the sentence uses their names;
+ * otherwise it speaks of the row and column variables.
+ */
+function independenceConclusion(a: PhraseArgs, t: Translate): string {
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = pOf(a, t);
+  const significant = flag(a, 'significant');
+  const row = nameOf(optStr(a, 'rowVariable'));
+  const column = nameOf(optStr(a, 'columnVariable'));
+  if (row === undefined && column === undefined) {
+    return significant
+      ? t('The row and column variables are associated: how counts spread over the columns differs between rows by more than chance would explain {0} ({1}).', level, p)
+      : t('The data do not show an association between the row and column variables {0}: the differences between rows are within what chance would produce ({1}).', level, p);
+  }
+  const rows = row ?? t('the row variable');
+  const columns = column ?? t('the column variable');
+  const mix = column ? t('the mix of {0}', column) : t('the spread over the columns');
+  const groups = row ? t('the {0} groups', row) : t('the rows');
+  return significant
+    ? t('{0} and {1} are associated: {2} differs between {3} by more than chance would explain {4} ({5}).', capitalise(rows), columns, mix, groups, level, p)
+    : t('The data do not show an association between {0} and {1} {2}: the differences in {3} between {4} are within what chance would produce ({5}).', rows, columns, level, mix, groups, p);
+}
+
+/** "exact" or "Monte Carlo": the p-value method a saved test chose. */
+function methodText(method: string, t: Translate): string {
+  if (method === 'exact') return t('exact');
+  if (method === 'Monte Carlo') return t('Monte Carlo');
+  throw new Error(`no wording for the p-value method "${method}"`);
+}
+
+function methodFlipped(a: PhraseArgs, t: Translate): string {
+  const method = methodText(str(a, 'method'), t);
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = describeP(prob(a, 'p'));
+  const asymptotic = describeP(prob(a, 'asymptoticP'));
+  return flag(a, 'significant')
+    ? t('With the {0} p-value the result is significant {1} ({2}), although the chi-square approximation gave {3}; the {0} p-value is the one to report here.', method, level, p, asymptotic)
+    : t('With the {0} p-value the result is not significant {1} ({2}), although the chi-square approximation gave {3}; the {0} p-value is the one to report here.', method, level, p, asymptotic);
+}
+
+export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
+  // Conclusions.
+  'conclusion.goodness-of-fit': goodnessOfFitConclusion,
+  'conclusion.independence': independenceConclusion,
+  'conclusion.method-flipped': methodFlipped,
+
+  // Procedure titles.
+  'procedure.goodness-of-fit': (a, t) => t('Chi-square goodness-of-fit test ({0})', phraseIn(a, 'statistic', t)),
+  'procedure.independence': (a, t) => t('Chi-square test of independence ({0})', phraseIn(a, 'statistic', t)),
+
+  'procedure.with-method': (a, t) => t('{0}, {1} p-value', phraseOrText(a, 'procedure', t), methodText(str(a, 'method'), t)),
+
+  // Statistics.
+  'statistic.chi-square-approximation': (a, t) => t('{0}, chi-square approximation', phraseOrText(a, 'procedure', t)),
+  'statistic.pearson': (_, t) => t('Pearson chi-square'),
+  'statistic.likelihood-ratio': (_, t) => t('Likelihood-ratio chi-square'),
+  'statistic.cressie-read': (a, t) => t('Cressie–Read power divergence (λ = {0})', lambdaText(num(a, 'lambda'))),
+  'statistic.pearson-yates': (_, t) => t("Pearson chi-square with Yates' continuity correction"),
+  'statistic.fisher-two-sided': (_, t) => t("Fisher's exact test (two-sided)"),
+  'note.fisher-one-sided': (a, t) =>
+    t('Conditional on both margins. One-sided: {0} if the alternative is odds ratio > 1, {1} if it is odds ratio < 1.', describeP(prob(a, 'greater')), describeP(prob(a, 'less'))),
+
+  // Effect sizes and estimates.
+  'estimate.cohens-w': (_, t) => t("Cohen's w"),
+  'note.cohens-w': (_, t) => t('sqrt(X²/n) from the Pearson statistic; about 0.1 small, 0.3 medium, 0.5 large (Cohen 1988, common practice).'),
+  'estimate.phi': (_, t) => t('Phi coefficient φ'),
+  'note.phi': (_, t) => t("Signed: positive when the first row is more likely than the second to fall in the first column. Its absolute value equals Cramér's V."),
+  'estimate.cramers-v': (_, t) => t("Cramér's V"),
+  'note.cramers-v': (_, t) => t('From the uncorrected Pearson X²: sqrt(X² / (n·(min(r, c) − 1))).'),
+  'estimate.cramers-v-corrected': (_, t) => t("Cramér's V, bias-corrected (Bergsma 2013)"),
+  'note.cramers-v-corrected': (_, t) => t('Removes the upward bias of V in small samples and large tables.'),
+  'note.not-defined-small-table': (_, t) => t('Not defined for a table this small.'),
+  'estimate.conditional-odds-ratio': (_, t) => t('Odds ratio, conditional maximum likelihood'),
+  'note.conditional-odds-ratio': (_, t) => t("The estimate and interval that go with Fisher's exact test."),
+  'estimate.odds-ratio': (_, t) => t('Odds ratio'),
+  'note.odds-ratio': (a, t) => t('Odds of `{0}` in `{1}` divided by the odds in `{2}` (ad/bc).', str(a, 'event'), str(a, 'first'), str(a, 'second')),
+  'estimate.relative-risk': (_, t) => t('Relative risk'),
+  'note.relative-risk': (a, t) => t('Proportion in `{0}` for `{1}` divided by that for `{2}`; rows are taken as the groups.', str(a, 'event'), str(a, 'first'), str(a, 'second')),
+
+  // Interval parameters and methods.
+  'parameter.odds-ratio': (_, t) => t('odds ratio'),
+  'parameter.relative-risk': (_, t) => t('relative risk'),
+  'method.exact-conditional': (_, t) => t('exact conditional (inverting the one-sided Fisher tests)'),
+  'method.woolf': (_, t) => t('Woolf (log)'),
+  'method.katz': (_, t) => t('log (Katz)'),
+};

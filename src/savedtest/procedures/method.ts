@@ -3,11 +3,10 @@
  * is computed as usual, then the exact or Monte Carlo p-value of the same statistic becomes the main p-value
  * and the asymptotic one stays beside it.
  */
-import { describeAlpha, describeP } from '../../stats/procedures/assumptions';
 import { exactIndependence, exactMultinomialFit, outcomeCount, tryExactIndependence } from '../../stats/procedures/exact';
 import { DEFAULT_RESAMPLES, monteCarloFitInSlices, monteCarloIndependenceInSlices, type ResamplingResult, type ResamplingStatistic } from '../../stats/procedures/montecarlo';
 import { DEFAULT_SEED } from '../../stats/random';
-import type { FoundStatisticLine, ComputedTestResult } from '../../stats/result';
+import type { FoundStatisticLine, ComputedTestResult, Phrase, Words } from '../../stats/result';
 /** The fields of a count test that choose and tune its p-value method. */
 export interface MethodFields {
   readonly method?: 'asymptotic' | 'exact' | 'monte-carlo';
@@ -53,14 +52,14 @@ export async function applyMethod(result: ComputedTestResult, spec: MethodFields
   }
   const merged = merge(result, resampled, method);
   if (result.grid && resampled.details.method === 'exact') {
-    const note = { code: 'exact-ordering', severity: 'info' as const, message: `The exact p-value is Fisher's (Fisher–Freeman–Halton): tables are ordered by their probability, not by ${result.statisticSymbol}. For the permutation distribution of ${result.statisticSymbol} itself, use "method": "monte-carlo".` };
+    const note = { code: 'exact-ordering', severity: 'info' as const, args: { symbol: result.statisticSymbol } };
     return { ...merged, notices: [...merged.notices, note] };
   }
   if (result.categories && (spec.estimatedParameters ?? 0) > 0) {
     const notice = {
       code: 'resampling-known-probabilities',
       severity: 'warning' as const,
-      message: `The ${method === 'exact' ? 'exact' : 'Monte Carlo'} p-value treats the expected proportions as known; it does not allow for the ${spec.estimatedParameters} parameter(s) estimated from these data, so it is somewhat too large. The asymptotic line with df reduced is shown beside it.`,
+      args: { method, estimatedParameters: spec.estimatedParameters },
     };
     return { ...merged, notices: [...merged.notices, notice] };
   }
@@ -70,7 +69,7 @@ export async function applyMethod(result: ComputedTestResult, spec: MethodFields
 function merge(result: ComputedTestResult, resampled: ResamplingResult, method: 'exact' | 'monte-carlo'): ComputedTestResult {
   const asymptotic: FoundStatisticLine = {
     id: `${String(result.details?.mainStatistic ?? 'main')}-asymptotic`,
-    name: `${result.procedure}, chi-square approximation`,
+    name: { code: 'statistic.chi-square-approximation', args: { procedure: result.procedure } },
     symbol: result.statisticSymbol,
     statistic: result.statistic,
     df: result.df,
@@ -79,15 +78,14 @@ function merge(result: ComputedTestResult, resampled: ResamplingResult, method: 
   const line = resampled.line;
   const significant = line.pValue.value < result.alpha;
   const actual = resampled.details.method === 'exact' ? 'exact' : 'Monte Carlo';
-  const conclusion =
+  // Same verdict: the conclusion stays, with the p-value that now decides it; otherwise it says the verdict changed.
+  const conclusion: Phrase =
     significant === result.significant
-      ? typeof result.conclusion === 'string'
-        ? result.conclusion.replace(describeP(result.pValue), `${actual} ${describeP(line.pValue)}`)
-        : { code: result.conclusion.code, args: { ...result.conclusion.args, p: line.pValue, pMethod: actual } }
-      : `With the ${actual} p-value the result is ${significant ? '' : 'not '}significant ${describeAlpha(result.alpha)} (${describeP(line.pValue)}), although the chi-square approximation gave ${describeP(result.pValue)}; the ${actual} p-value is the one to report here.`;
+      ? { code: phraseOf(result.conclusion).code, args: { ...phraseOf(result.conclusion).args, p: line.pValue, pMethod: actual } }
+      : { code: 'conclusion.method-flipped', args: { method: actual, significant, alpha: result.alpha, p: line.pValue, asymptoticP: result.pValue } };
   return {
     ...result,
-    procedure: `${result.procedure}, ${actual} p-value`,
+    procedure: { code: 'procedure.with-method', args: { procedure: result.procedure, method: actual } },
     pValue: line.pValue,
     significant,
     conclusion,
@@ -114,7 +112,7 @@ function withExactBeside(result: ComputedTestResult, spec: MethodFields): Comput
       const notice = {
         code: 'exact-beside-skipped',
         severity: 'info' as const,
-        message: `Expected counts are small, but the exact p-value for this ${result.grid.observed.length}×${result.grid.observed[0].length} table would exceed its work limit (${BESIDE_WORK.toLocaleString('en-US')} steps, under a second), so it is not shown; set "method": "monte-carlo" for a resampled p-value.`,
+        args: { rows: result.grid.observed.length, columns: result.grid.observed[0].length, workLimit: BESIDE_WORK },
       };
       return { ...result, notices: [...result.notices, notice] };
     }
@@ -131,8 +129,14 @@ function withExactBeside(result: ComputedTestResult, spec: MethodFields): Comput
     otherStatistics: [...result.otherStatistics, exact.line],
     notices: [
       ...result.notices,
-      { code: 'exact-beside', severity: 'info', message: `Expected counts are small, so the exact p-value (${describeP(exact.line.pValue)}) is shown beside the chi-square one; set "method": "exact" to make it the main result.` },
+      { code: 'exact-beside', severity: 'info', args: { p: exact.line.pValue } },
     ],
     details: { ...result.details, exactBeside: exact.details },
   };
+}
+
+/** The conclusion as a phrase: every count test's procedure in `stats/` writes it as one. */
+function phraseOf(conclusion: Words): Phrase {
+  if (typeof conclusion === 'string') throw new Error('a count test returned its conclusion as a sentence; stats/ returns phrases');
+  return conclusion;
 }

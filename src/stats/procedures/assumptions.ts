@@ -5,36 +5,43 @@
  */
 import { formatProbability } from './probabilityText';
 import { InputError } from '../../errors';
-import type { Assumption, Notice, Probability } from '../result';
+import type { FoundAssumption, FoundNotice, Probability } from '../result';
 
-/** The expected-count rule of thumb, common practice (often attributed to Cochran 1954). */
-export const SMALL_EXPECTED_RULE = 'common practice: no expected count below 1, and at most 20% of them below 5';
+/**
+ * What to use instead when the expected-count rule fails (`report/words` names it): an exact multinomial test or a
+ * Monte Carlo p-value for goodness of fit, Fisher's exact test for a 2×2 table, an exact or Monte Carlo test for a
+ * larger table, and for post-hoc comparisons an exact test of the whole table with the cell-wise z read with caution.
+ */
+export type SmallExpectedAlternative = 'multinomial-or-monte-carlo' | 'fisher' | 'exact-or-monte-carlo' | 'exact-overall';
+
+/** How many cell or category labels a notice names before it says how many more there are. */
+export const LABELS_NAMED = 8;
 
 export interface ExpectedCountCheck {
-  /** True when the rule above fails. */
+  /** True when the rule fails: an expected count below 1, or more than 20% below 5 (common practice, often attributed to Cochran 1954). */
   readonly small: boolean;
   /** Labels of the cells or categories with an expected count below 5. */
   readonly belowFive: readonly string[];
   /** Labels of the cells or categories with an expected count below 1. */
   readonly belowOne: readonly string[];
   readonly smallest: number;
-  readonly assumption: Assumption;
+  readonly assumption: FoundAssumption;
   /** A warning naming the cells, present only when the rule fails. */
-  readonly notice?: Notice;
+  readonly notice?: FoundNotice;
 }
 
 /**
  * Applies the expected-count rule.
  * @param expected expected counts, one per category or cell
- * @param labels a label for each, in the same order (e.g. "Blue", or "row Night × column Late")
- * @param what "categories" or "cells", for the wording
+ * @param labels a label for each, in the same order (e.g. "Blue", or "Night × Late")
+ * @param what whether the counts are of categories or of cells
  * @param alternative what to use when the rule fails
  */
 export function checkExpectedCounts(
   expected: readonly number[],
   labels: readonly string[],
   what: 'categories' | 'cells',
-  alternative: string,
+  alternative: SmallExpectedAlternative,
 ): ExpectedCountCheck {
   const belowFive: string[] = [];
   const belowOne: string[] = [];
@@ -46,47 +53,23 @@ export function checkExpectedCounts(
   });
   const share = expected.length === 0 ? 0 : belowFive.length / expected.length;
   const small = belowOne.length > 0 || share > 0.2;
-  const percent = `${(share * 100).toFixed(0)}%`;
-  const counts = `The smallest expected count is ${formatCount(smallest)}; ${percent} of the ${what} are below 5 (${SMALL_EXPECTED_RULE}).`;
-  const assumption: Assumption = {
+  const assumption: FoundAssumption = {
     id: 'expected-counts',
-    title: 'Expected counts large enough for the chi-square approximation',
     status: small ? 'failed' : 'met',
-    explanation: small
-      ? `${counts} With counts this small the chi-square distribution can describe the statistic poorly, so the p-value may be too small or too large.`
-      : `${counts} The chi-square p-value should be a fair approximation.`,
-    ...(small ? { alternative } : {}),
+    args: { smallest, share, what, ...(small ? { alternative } : {}) },
   };
   if (!small) return { small, belowFive, belowOne, smallest, assumption };
   const named = belowOne.length > 0 ? belowOne : belowFive;
-  const message =
-    `Small expected counts: ${belowFive.length} of ${expected.length} ${what} (${percent}) are below 5` +
-    (belowOne.length > 0 ? `, and ${belowOne.length} below 1` : '') +
-    ` (${belowOne.length > 0 ? 'below 1' : 'below 5'}: ${listLabels(named)}). ` +
-    `The chi-square p-value may be inaccurate (${SMALL_EXPECTED_RULE}). Consider ${alternative}.`;
-  return { small, belowFive, belowOne, smallest, assumption, notice: { code: 'small-expected', severity: 'warning', message } };
+  const args = { belowFive: belowFive.length, belowOne: belowOne.length, total: expected.length, share, what, named: named.slice(0, LABELS_NAMED), namedCount: named.length, alternative };
+  return { small, belowFive, belowOne, smallest, assumption, notice: { code: 'small-expected', severity: 'warning', args } };
 }
 
-function listLabels(labels: readonly string[]): string {
-  const shown = labels.slice(0, 8).join(', ');
-  return labels.length > 8 ? `${shown} and ${labels.length - 8} more` : shown;
-}
-
-function formatCount(x: number): string {
-  return Number.isInteger(x) ? String(x) : x.toPrecision(3);
-}
+/** The unit whose independence a design must ensure (each counted once, none influencing another). */
+export type IndependentUnit = 'counted unit' | 'observation' | 'value' | 'pair';
 
 /** Independent observations: a design question the data cannot answer. */
-export function independenceAssumption(unit: string): Assumption {
-  return {
-    id: 'independence',
-    title: 'Independent observations',
-    status: 'unchecked',
-    explanation:
-      `Each ${unit} must be counted once and must not influence another (no repeated measurements of the same ` +
-      'subject, no clusters treated as separate units). This comes from how the data were collected and cannot be ' +
-      'checked from the numbers.',
-  };
+export function independenceAssumption(unit: IndependentUnit): FoundAssumption {
+  return { id: 'independence', status: 'unchecked', args: { unit } };
 }
 
 /** A p-value in words for conclusion sentences, written as every report writes it: "p = 0.008", "p ≈ 3.2 × 10^-437". */

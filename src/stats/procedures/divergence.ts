@@ -12,7 +12,7 @@
 import { InputError } from '../../errors';
 import { chiSquareUpperProbability } from '../distributions/chisquare';
 import { compensatedSum } from '../moments';
-import type { FoundStatisticLine } from '../result';
+import type { FoundStatisticLine, Phrase } from '../result';
 
 export type DivergenceStatistic = 'pearson' | 'likelihood-ratio' | 'cressie-read';
 
@@ -25,20 +25,15 @@ export function lambdaFor(statistic: DivergenceStatistic, lambda?: number): numb
 
 export interface StatisticLabel {
   readonly id: string;
-  readonly name: string;
+  /** `statistic.<id>` (with λ for Cressie–Read), named by report/words. */
+  readonly name: Phrase;
   readonly symbol: string;
 }
 
 export function labelFor(statistic: DivergenceStatistic, lambda: number): StatisticLabel {
-  if (statistic === 'pearson') return { id: 'pearson', name: 'Pearson chi-square', symbol: 'X²' };
-  if (statistic === 'likelihood-ratio') return { id: 'likelihood-ratio', name: 'Likelihood-ratio chi-square', symbol: 'G²' };
-  return { id: 'cressie-read', name: `Cressie–Read power divergence (λ = ${formatLambda(lambda)})`, symbol: 'CR' };
-}
-
-function formatLambda(lambda: number): string {
-  if (Math.abs(lambda - 2 / 3) < 1e-15) return '2/3';
-  if (Math.abs(lambda + 1 / 2) < 1e-15) return '−1/2';
-  return String(lambda).replace('-', '−');
+  if (statistic === 'pearson') return { id: 'pearson', name: { code: 'statistic.pearson' }, symbol: 'X²' };
+  if (statistic === 'likelihood-ratio') return { id: 'likelihood-ratio', name: { code: 'statistic.likelihood-ratio' }, symbol: 'G²' };
+  return { id: 'cressie-read', name: { code: 'statistic.cressie-read', args: { lambda } }, symbol: 'CR' };
 }
 
 const SERIES_LIMIT = 0.1;

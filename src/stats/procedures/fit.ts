@@ -4,10 +4,10 @@
  * (Cressie & Read 1984): Pearson X² (default), likelihood-ratio G², or Cressie–Read with a chosen λ.
  */
 import { InputError } from '../../errors';
-import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, nameOf, requireCount, requireCountTotal, requireLevel } from './assumptions';
+import { checkExpectedCounts, independenceAssumption, requireCount, requireCountTotal, requireLevel } from './assumptions';
 import { type DivergenceSettings, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { compensatedSum } from '../moments';
-import type { CategoryRow, Notice, ComputedTestResult } from '../result';
+import type { CategoryRow, FoundNotice, ComputedTestResult } from '../result';
 
 export interface GoodnessOfFitOptions extends DivergenceSettings {
   /** Category labels, in the order of `observed`. Default "category 1", "category 2", … */
@@ -42,7 +42,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
   requireCountTotal(n, 'observed', '$.observed');
   if (n === 0) throw new InputError('observed: every count is 0, so there is nothing to test', { jsonPath: '$.observed' }, 'empty-observed');
 
-  const notices: Notice[] = [];
+  const notices: FoundNotice[] = [];
   const { source, weights } = expectedWeights(k, labels, options);
   const weightTotal = compensatedSum(weights);
   const proportions = weights.map((w) => w / weightTotal);
@@ -50,14 +50,14 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
     notices.push({
       code: 'rescaled-expected',
       severity: 'info',
-      message: `The expected counts total ${weightTotal}, but the observed counts total ${n}; the expected counts were rescaled to total ${n} (same proportions).`,
+      args: { expectedTotal: weightTotal, observedTotal: n },
     });
   }
   if (source === 'proportions' && Math.abs(weightTotal - 1) > 1e-9) {
     notices.push({
       code: 'rescaled-proportions',
       severity: 'info',
-      message: `The expected proportions sum to ${weightTotal}, not 1; each was divided by ${weightTotal} before the test.`,
+      args: { total: weightTotal },
     });
   }
   const expected = proportions.map((p) => n * p);
@@ -79,7 +79,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
     notices.push({
       code: 'dropped-zero-expected',
       severity: 'info',
-      message: `Categories with expected 0 and observed 0 carry no information and are not counted in the degrees of freedom: ${unused.join(', ')}.`,
+      args: { labels: unused },
     });
   }
   const df = kUsed - 1 - m;
@@ -98,7 +98,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
     notices.push({
       code: 'infinite-statistic',
       severity: 'warning',
-      message: `With λ = ${lambda} (≤ −1) a category observed 0 times makes the statistic infinite; choose λ > −1 or another statistic.`,
+      args: { lambda },
     });
   }
 
@@ -119,32 +119,27 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
     expected.filter((_, i) => used[i]),
     labels.filter((_, i) => used[i]),
     'categories',
-    'an exact multinomial test or a Monte Carlo p-value, or pooling adjacent categories',
+    'multinomial-or-monte-carlo',
   );
   if (check.notice) notices.push(check.notice);
 
   const pValue = main.line.pValue;
   const significant = pValue.value < alpha;
-  const against = source === 'uniform' ? 'equal proportions in every category' : 'the expected proportions';
-  const named = nameOf(options.variable);
-  const counts = named ? `The observed counts of ${named}` : 'The observed counts';
-  const conclusion = significant
-    ? `${counts} differ from ${against} by more than chance would explain ${describeAlpha(alpha)} (${describeP(pValue)}).`
-    : `${counts} are consistent with ${against}: the differences are within what chance would produce ${describeAlpha(alpha)} (${describeP(pValue)}).`;
+  const conclusion = { code: 'conclusion.goodness-of-fit', args: { significant, alpha, p: pValue, uniform: source === 'uniform', variable: options.variable } };
 
   return {
     kind: 'test',
     test: 'goodness-of-fit',
-    procedure: `Chi-square goodness-of-fit test (${main.line.name})`,
+    procedure: { code: 'procedure.goodness-of-fit', args: { statistic: main.line.name } },
     ...mainStatisticFields(main.line, n, alpha),
     conclusion,
     otherStatistics: lines.filter((l) => l !== main).map((l) => l.line),
     effectSizes: [
       {
         id: 'cohensW',
-        name: "Cohen's w",
+        name: { code: 'estimate.cohens-w' },
         value: Math.sqrt(pearson.line.statistic / n),
-        note: 'sqrt(X²/n) from the Pearson statistic; about 0.1 small, 0.3 medium, 0.5 large (Cohen 1988, common practice).',
+        note: { code: 'note.cohens-w' },
       },
     ],
     estimates: [],
@@ -153,16 +148,8 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
     assumptions: [
       check.assumption,
       independenceAssumption('observation'),
-      {
-        id: 'fixed-categories',
-        title: 'Categories and expected proportions fixed in advance',
-        // Declaring m adjusts df; whether the categories were chosen before seeing the data stays a design question.
-        status: 'unchecked',
-        explanation:
-          m > 0
-            ? `${m} parameter(s) were estimated from the data, and the degrees of freedom were reduced by ${m}. The categories must still have been chosen before looking at the data.`
-            : 'The categories and the expected proportions must be chosen before looking at the data. If parameters of the expected distribution were estimated from these data, give their number as estimatedParameters so the degrees of freedom are reduced.',
-      },
+      // Declaring m adjusts df; whether the categories were chosen before seeing the data stays a design question.
+      { id: 'fixed-categories', status: 'unchecked', args: { estimatedParameters: m } },
     ],
     details: {
       lambda,

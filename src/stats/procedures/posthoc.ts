@@ -13,7 +13,7 @@ import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, 
 import { normalLowerProbability, normalUpperProbability } from '../distributions/normal';
 import { probabilityFromValue, twoSidedFromTails } from '../distributions/probability';
 import { adjustedResidual } from './table';
-import type { Notice, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
+import type { FoundNotice, Notice, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
 import { adjustPValues } from '../multiplicity';
 
 export type Adjustment = 'bonferroni' | 'holm' | 'benjamini-hochberg';
@@ -115,13 +115,13 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   if (counts.length < 2 || counts[0].length < 2) throw new InputError(`table: expected at least a 2×2 table, found ${counts.length}×${counts[0].length}`, { jsonPath: '$.table' }, 'wrong-shape');
   const overall = pearsonTable(counts);
   const overallLine = chiSquareLine('pearson', 'Pearson chi-square (overall)', 'X²', overall.statistic, overall.df);
-  const notices: Notice[] = [];
+  const notices: (FoundNotice | Notice)[] = [];
   const n = sum(rows);
   const expectedCheck = checkExpectedCounts(
     counts.flatMap((row, i) => row.map((_, j) => (rows[i] * cols[j]) / n)),
     counts.flatMap((row, i) => row.map((_, j) => `${rowLabels[i]} × ${columnLabels[j]}`)),
     'cells',
-    'an exact test of the overall table, and caution with the cell-wise z approximations',
+    'exact-overall',
   );
   if (expectedCheck.notice) notices.push(expectedCheck.notice);
   if (overallLine.pValue.value >= alpha) {

@@ -6,13 +6,13 @@
  * log-scale intervals (Woolf 1955; Katz et al. 1978).
  */
 import { InputError } from '../../errors';
-import { capitalise, checkExpectedCounts, describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireCount, requireCountTotal, requireLevel } from './assumptions';
+import { checkExpectedCounts, independenceAssumption, requireCount, requireCountTotal, requireLevel } from './assumptions';
 import { chiSquareUpperProbability } from '../distributions/chisquare';
 import { type DivergenceLine, type DivergenceSettings, divergenceLines, mainStatisticFields, resolveStatistic } from './divergence';
 import { fisherExact2x2 } from './fisher2x2';
 import { compensatedSum } from '../moments';
 import { normalUpperQuantile } from '../distributions/normal';
-import type { CellGrid, FoundEstimate, Notice, FoundStatisticLine, ComputedTestResult } from '../result';
+import type { CellGrid, FoundEstimate, FoundNotice, FoundStatisticLine, ComputedTestResult, Phrase } from '../result';
 
 export interface IndependenceTestOptions extends DivergenceSettings {
   readonly rowLabels?: readonly string[];
@@ -31,7 +31,7 @@ interface Prepared {
   readonly counts: number[][];
   readonly rowLabels: string[];
   readonly columnLabels: string[];
-  readonly notices: Notice[];
+  readonly notices: FoundNotice[];
 }
 
 export function independenceTest(table: readonly (readonly number[])[], options: IndependenceTestOptions = {}): ComputedTestResult {
@@ -60,23 +60,23 @@ export function independenceTest(table: readonly (readonly number[])[], options:
   let correctionApplied = false;
   if (options.correction) {
     if (!is2x2) {
-      notices.push({ code: 'correction-not-applied', severity: 'info', message: `Yates' continuity correction is defined for 2×2 tables only; this table is ${r}×${c}, so it was not applied.` });
+      notices.push({ code: 'correction-not-applied', severity: 'info', args: { reason: 'not-2x2', rows: r, columns: c } });
     } else if (statistic !== 'pearson') {
-      notices.push({ code: 'correction-not-applied', severity: 'info', message: "Yates' continuity correction applies to the Pearson statistic only; it was not applied to the chosen statistic." });
+      notices.push({ code: 'correction-not-applied', severity: 'info', args: { reason: 'not-pearson' } });
     } else {
       // Yates (1934): |o − e| reduced by 0.5, but never below 0 (so a table that fits almost exactly gives 0, not a positive value).
       const contributions = differenceFlat.map((diff, i) => Math.max(0, Math.abs(diff) - 0.5) ** 2 / expectedFlat[i]);
       const corrected = compensatedSum(contributions);
       lines.push({
         id: 'pearson-yates',
-        line: { id: 'pearson-yates', name: "Pearson chi-square with Yates' continuity correction", symbol: 'X²', statistic: corrected, df, pValue: chiSquareUpperProbability(corrected, df) },
+        line: { id: 'pearson-yates', name: { code: 'statistic.pearson-yates' }, symbol: 'X²', statistic: corrected, df, pValue: chiSquareUpperProbability(corrected, df) },
         contributions,
       });
       correctionApplied = true;
       notices.push({
         code: 'continuity-correction',
         severity: 'info',
-        message: `Yates' continuity correction was applied: X² = ${formatNumber(corrected)} instead of ${formatNumber(pearson.line.statistic)}. Effect sizes use the uncorrected X².`,
+        args: { corrected, uncorrected: pearson.line.statistic },
       });
     }
   }
@@ -90,32 +90,32 @@ export function independenceTest(table: readonly (readonly number[])[], options:
     const fisher = fisherExact2x2(counts, confidence);
     otherStatistics.push({
       id: 'fisher-exact',
-      name: "Fisher's exact test (two-sided)",
+      name: { code: 'statistic.fisher-two-sided' },
       symbol: '',
       statistic: NaN,
       df: null,
       pValue: fisher.twoSided,
-      note: `Conditional on both margins. One-sided: ${describeP(fisher.greater)} if the alternative is odds ratio > 1, ${describeP(fisher.less)} if it is odds ratio < 1.`,
+      note: { code: 'note.fisher-one-sided', args: { greater: fisher.greater, less: fisher.less } },
     });
     fisherDetails = { twoSided: fisher.twoSided, greater: fisher.greater, less: fisher.less, conditionalOddsRatio: fisher.conditionalOddsRatio };
     // Sign of phi from o11 − e11, which equals (ad − bc)/N without forming products of 1e18.
     const sign = Math.sign(differences[0][0]);
-    effectSizes.unshift({ id: 'phi', name: 'Phi coefficient φ', value: sign * Math.sqrt(pearson.line.statistic / total), note: 'Signed: positive when the first row is more likely than the second to fall in the first column. Its absolute value equals Cramér\'s V.' });
+    effectSizes.unshift({ id: 'phi', name: { code: 'estimate.phi' }, value: sign * Math.sqrt(pearson.line.statistic / total), note: { code: 'note.phi' } });
     estimates.push(...twoByTwoEstimates(counts, rowLabels, columnLabels, confidence, notices));
     if (Number.isFinite(fisher.conditionalOddsRatio)) {
       const ci = fisher.conditionalInterval;
       estimates.push({
         id: 'conditionalOddsRatio',
-        name: 'Odds ratio, conditional maximum likelihood',
+        name: { code: 'estimate.conditional-odds-ratio' },
         value: fisher.conditionalOddsRatio,
-        ...(ci ? { interval: { lower: ci.lower, upper: ci.upper, level: ci.level, parameter: 'odds ratio', method: 'exact conditional (inverting the one-sided Fisher tests)' } } : {}),
-        note: "The estimate and interval that go with Fisher's exact test.",
+        ...(ci ? { interval: { lower: ci.lower, upper: ci.upper, level: ci.level, parameter: { code: 'parameter.odds-ratio' }, method: { code: 'method.exact-conditional' } } } : {}),
+        note: { code: 'note.conditional-odds-ratio' },
       });
     }
   }
 
   const cellLabels = counts.flatMap((row, i) => row.map((_, j) => `${rowLabels[i]} × ${columnLabels[j]}`));
-  const check = checkExpectedCounts(expectedFlat, cellLabels, 'cells', is2x2 ? "Fisher's exact test" : 'an exact test (Fisher–Freeman–Halton) or a Monte Carlo p-value');
+  const check = checkExpectedCounts(expectedFlat, cellLabels, 'cells', is2x2 ? 'fisher' : 'exact-or-monte-carlo');
   if (check.notice) notices.push(check.notice);
 
   const grid: CellGrid = {
@@ -133,12 +133,12 @@ export function independenceTest(table: readonly (readonly number[])[], options:
 
   const pValue = main.line.pValue;
   const significant = pValue.value < alpha;
-  const conclusion = independenceConclusion(significant, alpha, describeP(pValue), options.rowVariable, options.columnVariable);
+  const conclusion = { code: 'conclusion.independence', args: { significant, alpha, p: pValue, rowVariable: options.rowVariable, columnVariable: options.columnVariable } };
 
   return {
     kind: 'test',
     test: 'independence',
-    procedure: `Chi-square test of independence (${main.line.name})`,
+    procedure: { code: 'procedure.independence', args: { statistic: main.line.name } },
     ...mainStatisticFields(main.line, total, alpha),
     conclusion,
     otherStatistics,
@@ -149,13 +149,7 @@ export function independenceTest(table: readonly (readonly number[])[], options:
     assumptions: [
       check.assumption,
       independenceAssumption('counted unit'),
-      {
-        id: 'sampling-design',
-        title: 'Sampling design',
-        status: 'unchecked',
-        explanation:
-          'The same chi-square test serves three designs: one sample cross-classified (independence), separate samples per row with fixed row totals (homogeneity), and both margins fixed in advance. The p-value is the same, but what it says depends on the design, which the counts cannot reveal. Relative risk is meaningful only when rows are groups sampled or assigned in advance, not when the columns were fixed (case–control).',
-      },
+      { id: 'sampling-design', status: 'unchecked' },
     ],
     details: {
       correctionApplied,
@@ -165,28 +159,6 @@ export function independenceTest(table: readonly (readonly number[])[], options:
       ...(fisherDetails ? { fisherExact: fisherDetails } : {}),
     },
   };
-}
-
-/**
- * The conclusion in plain words. With the variables named (the columns a table was cross-tabulated
- * from), the sentence uses their names; otherwise it speaks of the row and column variables.
- */
-function independenceConclusion(significant: boolean, alpha: number, p: string, rowVariable?: string, columnVariable?: string): string {
-  const level = describeAlpha(alpha);
-  const row = nameOf(rowVariable);
-  const column = nameOf(columnVariable);
-  if (row === undefined && column === undefined) {
-    return significant
-      ? `The row and column variables are associated: how counts spread over the columns differs between rows by more than chance would explain ${level} (${p}).`
-      : `The data do not show an association between the row and column variables ${level}: the differences between rows are within what chance would produce (${p}).`;
-  }
-  const rows = row ?? 'the row variable';
-  const columns = column ?? 'the column variable';
-  const mix = column ? `the mix of ${column}` : 'the spread over the columns';
-  const groups = row ? `the ${row} groups` : 'the rows';
-  return significant
-    ? `${capitalise(rows)} and ${columns} are associated: ${mix} differs between ${groups} by more than chance would explain ${level} (${p}).`
-    : `The data do not show an association between ${rows} and ${columns} ${level}: the differences in ${mix} between ${groups} are within what chance would produce (${p}).`;
 }
 
 /**
@@ -230,16 +202,16 @@ function prepare(table: readonly (readonly number[])[], options: IndependenceTes
   );
   requireCountTotal(compensatedSum(table.flat()), 'table', '$.table');
 
-  const notices: Notice[] = [];
+  const notices: FoundNotice[] = [];
   const keepRows = table.map((row) => row.some((v) => v > 0));
   const keepColumns = columnLabels.map((_, j) => table.some((row) => row[j] > 0));
   const droppedRows = rowLabels.filter((_, i) => !keepRows[i]);
   const droppedColumns = columnLabels.filter((_, j) => !keepColumns[j]);
   if (droppedRows.length > 0) {
-    notices.push({ code: 'dropped-empty-row', severity: 'info', message: `Rows with a total of 0 were left out (they carry no information): ${droppedRows.join(', ')}.` });
+    notices.push({ code: 'dropped-empty-row', severity: 'info', args: { labels: droppedRows } });
   }
   if (droppedColumns.length > 0) {
-    notices.push({ code: 'dropped-empty-column', severity: 'info', message: `Columns with a total of 0 were left out (they carry no information): ${droppedColumns.join(', ')}.` });
+    notices.push({ code: 'dropped-empty-column', severity: 'info', args: { labels: droppedColumns } });
   }
   const counts = table.filter((_, i) => keepRows[i]).map((row) => row.filter((_, j) => keepColumns[j]));
   const r = counts.length;
@@ -279,18 +251,18 @@ function cramersV(pearson: number, total: number, r: number, c: number): FoundEs
   const denominator = Math.min(rCorrected - 1, cCorrected - 1);
   const corrected = denominator > 0 ? Math.sqrt(phi2Corrected / denominator) : NaN;
   return [
-    { id: 'cramersV', name: "Cramér's V", value: v, note: 'From the uncorrected Pearson X²: sqrt(X² / (n·(min(r, c) − 1))).' },
+    { id: 'cramersV', name: { code: 'estimate.cramers-v' }, value: v, note: { code: 'note.cramers-v' } },
     {
       id: 'cramersVCorrected',
-      name: "Cramér's V, bias-corrected (Bergsma 2013)",
+      name: { code: 'estimate.cramers-v-corrected' },
       value: corrected,
-      note: Number.isNaN(corrected) ? 'Not defined for a table this small.' : 'Removes the upward bias of V in small samples and large tables.',
+      note: { code: Number.isNaN(corrected) ? 'note.not-defined-small-table' : 'note.cramers-v-corrected' },
     },
   ];
 }
 
 /** Odds ratio (Woolf's log interval) and relative risk (log interval, Katz et al. 1978) for [[a, b], [c, d]]. */
-function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels: string[], confidence: number, notices: Notice[]): FoundEstimate[] {
+function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels: string[], confidence: number, notices: FoundNotice[]): FoundEstimate[] {
   const hasZero = counts.flat().some((v) => v === 0);
   const shift = hasZero ? 0.5 : 0;
   const [a, b, c, d] = counts.flat().map((v) => v + shift);
@@ -298,11 +270,10 @@ function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels
     notices.push({
       code: 'haldane-anscombe',
       severity: 'info',
-      message: 'A cell is 0, so 0.5 was added to every cell before computing the odds ratio, the relative risk and their intervals (Haldane–Anscombe correction).',
     });
   }
   const z = normalUpperQuantile((1 - confidence) / 2);
-  const logInterval = (logValue: number, se: number, parameter: string, method: string): FoundEstimate['interval'] => ({
+  const logInterval = (logValue: number, se: number, parameter: Phrase, method: Phrase): FoundEstimate['interval'] => ({
     lower: Math.exp(logValue - z * se),
     upper: Math.exp(logValue + z * se),
     level: confidence,
@@ -313,21 +284,21 @@ function twoByTwoEstimates(counts: number[][], rowLabels: string[], columnLabels
   const logOddsSe = Math.sqrt(1 / a + 1 / b + 1 / c + 1 / d);
   const logRisk = Math.log(a) - Math.log(a + b) - Math.log(c) + Math.log(c + d);
   const logRiskSe = Math.sqrt(1 / a - 1 / (a + b) + 1 / c - 1 / (c + d));
-  const event = `\`${columnLabels[0]}\``;
+  const labels = { event: columnLabels[0], first: rowLabels[0], second: rowLabels[1] };
   return [
     {
       id: 'oddsRatio',
-      name: 'Odds ratio',
+      name: { code: 'estimate.odds-ratio' },
       value: Math.exp(logOdds),
-      interval: logInterval(logOdds, logOddsSe, 'odds ratio', 'Woolf (log)'),
-      note: `Odds of ${event} in \`${rowLabels[0]}\` divided by the odds in \`${rowLabels[1]}\` (ad/bc).`,
+      interval: logInterval(logOdds, logOddsSe, { code: 'parameter.odds-ratio' }, { code: 'method.woolf' }),
+      note: { code: 'note.odds-ratio', args: labels },
     },
     {
       id: 'relativeRisk',
-      name: 'Relative risk',
+      name: { code: 'estimate.relative-risk' },
       value: Math.exp(logRisk),
-      interval: logInterval(logRisk, logRiskSe, 'relative risk', 'log (Katz)'),
-      note: `Proportion in ${event} for \`${rowLabels[0]}\` divided by that for \`${rowLabels[1]}\`; rows are taken as the groups.`,
+      interval: logInterval(logRisk, logRiskSe, { code: 'parameter.relative-risk' }, { code: 'method.katz' }),
+      note: { code: 'note.relative-risk', args: labels },
     },
   ];
 }
