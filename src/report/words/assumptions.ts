@@ -2,12 +2,15 @@
 import type { AssumptionStatus, PhraseArgs } from '../../stats/result';
 import { num, optStr, str } from './args';
 import { countedThings, smallExpectedAlternative, smallExpectedRule, wholePercent } from './notices';
+import { sentenceNumber } from './probability';
 import type { Translate } from './translate';
 
 export interface AssumptionWords {
   readonly title: string;
   readonly explanation: string;
   readonly alternative?: string;
+  /** Place `alternative` before `status` in the published object (the order this assumption always had). */
+  readonly alternativeFirst?: boolean;
 }
 
 export type AssumptionWriter = (status: AssumptionStatus, args: PhraseArgs, t: Translate) => AssumptionWords;
@@ -45,6 +48,34 @@ function unitText(unit: string, t: Translate): string {
   }
 }
 
+function normality(status: AssumptionStatus, a: PhraseArgs, t: Translate): AssumptionWords {
+  const base = { title: t('Values come from a normal distribution'), alternative: t("Bonett's (2006) interval for the standard deviation"), alternativeFirst: true };
+  if (status === 'unchecked') {
+    const why = str(a, 'why');
+    const explanation =
+      why === 'summary'
+        ? t('Only n and s were given, so the shape of the data cannot be checked. This test is very sensitive to non-normality.')
+        : why === 'few-values'
+          ? t('Too few values to estimate skewness and kurtosis. This test is very sensitive to non-normality.')
+          : t('The third and fourth moments were not available, so skewness and kurtosis cannot be estimated. This test is very sensitive to non-normality.');
+    return { ...base, explanation };
+  }
+  const numbers = t(
+    'skewness {0} ({1} standard errors), excess kurtosis {2} ({3} standard errors)',
+    sentenceNumber(num(a, 'skewness')),
+    sentenceNumber(num(a, 'zSkew')),
+    sentenceNumber(num(a, 'kurtosis')),
+    sentenceNumber(num(a, 'zKurt')),
+  );
+  return {
+    ...base,
+    explanation:
+      status === 'failed'
+        ? t("The sample departs from normality: {0}; more than 2 standard errors is a common-practice warning sign. The chi-square p-value and interval may be badly wrong; prefer Bonett's interval.", numbers)
+        : t('No strong sign of non-normality: {0} (within 2 standard errors, common practice). Even so, this test reacts to moderate departures that a small sample cannot reveal.', numbers),
+  };
+}
+
 export const ASSUMPTION_WORDS: Readonly<Record<string, AssumptionWriter>> = {
   'expected-counts': expectedCounts,
   independence: (_, a, t) => ({
@@ -64,6 +95,7 @@ export const ASSUMPTION_WORDS: Readonly<Record<string, AssumptionWriter>> = {
           : t('The categories and the expected proportions must be chosen before looking at the data. If parameters of the expected distribution were estimated from these data, give their number as estimatedParameters so the degrees of freedom are reduced.'),
     };
   },
+  normality: normality,
   'sampling-design': (_, __, t) => ({
     title: t('Sampling design'),
     explanation: t(

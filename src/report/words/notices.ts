@@ -1,6 +1,6 @@
 /** Notice messages by notice code, written from the arguments `stats/` gave. */
 import type { PhraseArgs } from '../../stats/result';
-import { num, prob, str, strings } from './args';
+import { flag, num, prob, str, strings } from './args';
 import { describeP, sentenceNumber } from './probability';
 import type { Translate } from './translate';
 
@@ -57,6 +57,19 @@ function smallExpected(a: PhraseArgs, t: Translate): string {
   return t('{0} The chi-square p-value may be inaccurate ({1}). Consider {2}.', head, smallExpectedRule(t), smallExpectedAlternative(str(a, 'alternative'), t));
 }
 
+function robustDisagrees(a: PhraseArgs, t: Translate): string {
+  const bySd = flag(a, 'bySd');
+  const v0 = num(a, 'variance0');
+  const value = bySd ? `σ0 = ${sentenceNumber(Math.sqrt(v0))}` : `σ0² = ${sentenceNumber(v0)}`;
+  const shown = (lower: number, upper: number) =>
+    bySd ? t('{0} to {1}', sentenceNumber(Math.sqrt(lower)), sentenceNumber(Math.sqrt(upper))) : t('{0} to {1}', sentenceNumber(lower), sentenceNumber(upper));
+  const classic = shown(num(a, 'classicLower'), num(a, 'classicUpper'));
+  const robust = shown(num(a, 'robustLower'), num(a, 'robustUpper'));
+  return flag(a, 'inClassic')
+    ? t("The chi-square interval ({0}) contains {1}, but Bonett's robust interval ({2}) excludes it: the conclusion depends on the normality assumption.", classic, value, robust)
+    : t("The chi-square interval ({0}) excludes {1}, but Bonett's robust interval ({2}) contains it: the conclusion depends on the normality assumption.", classic, value, robust);
+}
+
 export const NOTICE_WORDS: Readonly<Record<string, NoticeWriter>> = {
   'small-expected': smallExpected,
   'rescaled-expected': (a, t) =>
@@ -87,5 +100,14 @@ export const NOTICE_WORDS: Readonly<Record<string, NoticeWriter>> = {
       num(a, 'workLimit').toLocaleString('en-US'),
     ),
   'exact-beside': (a, t) => t('Expected counts are small, so the exact p-value ({0}) is shown beside the chi-square one; set "method": "exact" to make it the main result.', describeP(prob(a, 'p'))),
+  'two-sided-convention': (_, t) =>
+    t('Two-sided p-value = 2 × the smaller tail probability of the chi-square distribution, capped at 1 (the equal-tail convention, consistent with the equal-tail interval).'),
+  'zero-variance': (_, t) => t('All values are equal: the sample variance is 0, and so are both ends of the interval.'),
+  'normality-sensitive': (a, t) =>
+    flag(a, 'fromSummary')
+      ? t('This test assumes the values come from a normal distribution and is very sensitive to departures from it: heavier or lighter tails than the normal make its p-value and interval wrong, and a larger sample does not fix that. From a summary the shape cannot be checked; if you have the raw values, use them.')
+      : t("This test assumes the values come from a normal distribution and is very sensitive to departures from it: heavier or lighter tails than the normal make its p-value and interval wrong, and a larger sample does not fix that. Compare with Bonett's interval below, which allows for the observed kurtosis."),
+  'bonett-unavailable': (_, t) => t("Bonett's robust interval needs at least 5 values and the fourth moment; it is not shown."),
+  'robust-disagrees': robustDisagrees,
   'haldane-anscombe': (_, t) => t('A cell is 0, so 0.5 was added to every cell before computing the odds ratio, the relative risk and their intervals (Haldane–Anscombe correction).'),
 };

@@ -5,7 +5,7 @@
  */
 import type { PhraseArgs } from '../../stats/result';
 import { flag, inner, num, optStr, prob, str } from './args';
-import { capitalise, describeP, nameOf, percentOf } from './probability';
+import { capitalise, describeP, nameOf, percentOf, sentenceNumber } from './probability';
 import type { Translate } from './translate';
 
 export type PhraseWriter = (args: PhraseArgs, t: Translate) => string;
@@ -97,16 +97,46 @@ function methodFlipped(a: PhraseArgs, t: Translate): string {
     : t('With the {0} p-value the result is not significant {1} ({2}), although the chi-square approximation gave {3}; the {0} p-value is the one to report here.', method, level, p, asymptotic);
 }
 
+/** A number in the unit of the values ("12 g") or, for a variance, in its square ("144 g²"); bare without a unit. */
+function withUnit(unit: string | undefined, bySd: boolean): (x: number) => string {
+  const u = typeof unit === 'string' ? unit.trim() : '';
+  if (u === '') return sentenceNumber;
+  const shown = bySd ? u : /^\p{L}+$/u.test(u) ? `${u}²` : `(${u})²`;
+  return (x) => `${sentenceNumber(x)} ${shown}`;
+}
+
+function varianceConclusion(a: PhraseArgs, t: Translate): string {
+  const bySd = flag(a, 'bySd');
+  const variance0 = num(a, 'variance0');
+  const variance = num(a, 'sampleVariance');
+  const named = nameOf(optStr(a, 'variable'));
+  const parameter = bySd ? (named ? t('standard deviation of {0}', named) : t('standard deviation')) : named ? t('variance of {0}', named) : t('variance');
+  const inUnit = withUnit(optStr(a, 'unit'), bySd);
+  const null0 = bySd ? `σ0 = ${inUnit(Math.sqrt(variance0))}` : `σ0² = ${inUnit(variance0)}`;
+  const sample = bySd ? `s = ${inUnit(Math.sqrt(variance))}` : `s² = ${inUnit(variance)}`;
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = pOf(a, t);
+  const alternative = str(a, 'alternative');
+  if (flag(a, 'significant')) {
+    const direction = alternative === 'greater' ? t('is larger than') : alternative === 'less' ? t('is smaller than') : t('differs from');
+    return t('The population {0} {1} {2} {3} ({4}, {5}).', parameter, direction, null0, level, sample, p);
+  }
+  const direction = alternative === 'greater' ? t('exceeds') : alternative === 'less' ? t('falls below') : t('differs from');
+  return t('The data do not show that the population {0} {1} {2} {3} ({4}, {5}).', parameter, direction, null0, level, sample, p);
+}
+
 export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   // Conclusions.
   'conclusion.goodness-of-fit': goodnessOfFitConclusion,
   'conclusion.independence': independenceConclusion,
   'conclusion.method-flipped': methodFlipped,
+  'conclusion.variance': varianceConclusion,
 
   // Procedure titles.
   'procedure.goodness-of-fit': (a, t) => t('Chi-square goodness-of-fit test ({0})', phraseIn(a, 'statistic', t)),
   'procedure.independence': (a, t) => t('Chi-square test of independence ({0})', phraseIn(a, 'statistic', t)),
 
+  'procedure.variance': (_, t) => t('Chi-square test for one variance'),
   'procedure.with-method': (a, t) => t('{0}, {1} p-value', phraseOrText(a, 'procedure', t), methodText(str(a, 'method'), t)),
 
   // Statistics.
@@ -136,7 +166,28 @@ export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   'estimate.relative-risk': (_, t) => t('Relative risk'),
   'note.relative-risk': (a, t) => t('Proportion in `{0}` for `{1}` divided by that for `{2}`; rows are taken as the groups.', str(a, 'event'), str(a, 'first'), str(a, 'second')),
 
+  'estimate.sample-variance': (_, t) => t('Sample variance s²'),
+  'estimate.sample-sd': (_, t) => t('Sample standard deviation s'),
+  'estimate.sample-variance-robust': (_, t) => t('Sample variance s², robust interval'),
+  'estimate.sample-sd-robust': (_, t) => t('Sample standard deviation s, robust interval'),
+  'estimate.skewness': (_, t) => t('Skewness (G1)'),
+  'note.skewness': (a, t) => t('standard error {0} under normality', num(a, 'standardError').toPrecision(3)),
+  'estimate.excess-kurtosis': (_, t) => t('Excess kurtosis (G2)'),
+  'note.excess-kurtosis': (a, t) => t('standard error {0} under normality; 0 for a normal distribution', num(a, 'standardError').toPrecision(3)),
+  'note.bonett-trimmed': (_, t) => t('Kurtosis estimated around the trimmed mean, as Bonett proposes.'),
+  'note.bonett-moments': (_, t) => t('Computed from streamed moments: kurtosis estimated around the mean rather than the trimmed mean Bonett proposes.'),
+  'estimate.variance-ratio': (_, t) => t('Variance ratio s²/σ0²'),
+  'estimate.sd-ratio': (_, t) => t('Standard deviation ratio s/σ0'),
+
   // Interval parameters and methods.
+  'method.chi-square-lower-bound': (_, t) => t('one-sided lower bound, chi-square'),
+  'method.chi-square-upper-bound': (_, t) => t('one-sided upper bound, chi-square'),
+  'method.equal-tail-chi-square': (_, t) => t('equal-tail chi-square'),
+  'method.bonett': (a, t) => {
+    const alternative = str(a, 'alternative');
+    if (alternative === 'two-sided') return t('Bonett (2006)');
+    return alternative === 'greater' ? t('Bonett (2006), one-sided lower bound') : t('Bonett (2006), one-sided upper bound');
+  },
   'parameter.odds-ratio': (_, t) => t('odds ratio'),
   'parameter.relative-risk': (_, t) => t('relative risk'),
   'method.exact-conditional': (_, t) => t('exact conditional (inverting the one-sided Fisher tests)'),

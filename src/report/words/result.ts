@@ -48,7 +48,9 @@ export function wordAssumption(a: FoundAssumption | Assumption, t: Translate = e
   if ('title' in a) return a;
   const write = ASSUMPTION_WORDS[a.id];
   if (!write) throw new Error(`no wording for the assumption "${a.id}"`);
-  const { title, explanation, alternative } = write(a.status, a.args ?? {}, t);
+  const { title, explanation, alternative, alternativeFirst } = write(a.status, a.args ?? {}, t);
+  // Some assumptions have always listed their alternative before their status; the order is kept so the JSON stays the same.
+  if (alternativeFirst && alternative !== undefined) return { id: a.id, title, alternative, status: a.status, explanation };
   return { id: a.id, title, status: a.status, explanation, ...(alternative !== undefined ? { alternative } : {}) };
 }
 

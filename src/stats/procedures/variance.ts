@@ -10,12 +10,12 @@
  * kurtosis-adjusted interval as a robust alternative.
  */
 import { InputError } from '../../errors';
-import { describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireLevel } from './assumptions';
+import { independenceAssumption, requireLevel } from './assumptions';
 import { chiSquareLowerProbability, chiSquareQuantile, chiSquareUpperProbability, chiSquareUpperQuantile } from '../distributions/chisquare';
 import { compensatedSum, MomentAccumulator, type MomentSummary, sampleExcessKurtosis, sampleSkewness } from '../moments';
 import { normalUpperQuantile } from '../distributions/normal';
 import { twoSidedFromTails } from '../distributions/probability';
-import type { Alternative, Assumption, FoundEstimate, FoundInterval, Notice, ComputedTestResult } from '../result';
+import type { Alternative, FoundAssumption, FoundEstimate, FoundInterval, FoundNotice, ComputedTestResult, Phrase } from '../result';
 
 export interface VarianceTestOptions {
   /** Hypothesised standard deviation σ0 (give this or variance0). */
@@ -176,61 +176,43 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
 
   const varianceInterval = chiSquareInterval(sumSquares, df, confidence, alternative);
   const sdInterval = sqrtInterval(varianceInterval);
-  const notices: Notice[] = [];
+  const notices: FoundNotice[] = [];
   if (alternative === 'two-sided') {
-    notices.push({
-      code: 'two-sided-convention',
-      severity: 'info',
-      message: 'Two-sided p-value = 2 × the smaller tail probability of the chi-square distribution, capped at 1 (the equal-tail convention, consistent with the equal-tail interval).',
-    });
+    notices.push({ code: 'two-sided-convention', severity: 'info' });
   }
   if (sumSquares === 0) {
-    notices.push({ code: 'zero-variance', severity: 'warning', message: 'All values are equal: the sample variance is 0, and so are both ends of the interval.' });
+    notices.push({ code: 'zero-variance', severity: 'warning' });
   }
-  notices.push({
-    code: 'normality-sensitive',
-    severity: 'warning',
-    message:
-      'This test assumes the values come from a normal distribution and is very sensitive to departures from it: ' +
-      'heavier or lighter tails than the normal make its p-value and interval wrong, and a larger sample does not fix that. ' +
-      (source === 'summary' ? 'From a summary the shape cannot be checked; if you have the raw values, use them.' : "Compare with Bonett's interval below, which allows for the observed kurtosis."),
-  });
+  notices.push({ code: 'normality-sensitive', severity: 'warning', args: { fromSummary: source === 'summary' } });
 
   const estimates: FoundEstimate[] = [
-    { id: 'variance', name: 'Sample variance s²', value: variance, interval: varianceInterval },
-    { id: 'sd', name: 'Sample standard deviation s', value: Math.sqrt(variance), interval: sdInterval },
+    { id: 'variance', name: { code: 'estimate.sample-variance' }, value: variance, interval: varianceInterval },
+    { id: 'sd', name: { code: 'estimate.sample-sd' }, value: Math.sqrt(variance), interval: sdInterval },
   ];
   const shape = shapeOf(moments);
   if (shape) {
-    estimates.push({ id: 'skewness', name: 'Skewness (G1)', value: shape.skewness, note: `standard error ${shape.skewnessSe.toPrecision(3)} under normality` });
-    estimates.push({ id: 'excessKurtosis', name: 'Excess kurtosis (G2)', value: shape.kurtosis, note: `standard error ${shape.kurtosisSe.toPrecision(3)} under normality; 0 for a normal distribution` });
+    estimates.push({ id: 'skewness', name: { code: 'estimate.skewness' }, value: shape.skewness, note: { code: 'note.skewness', args: { standardError: shape.skewnessSe } } });
+    estimates.push({ id: 'excessKurtosis', name: { code: 'estimate.excess-kurtosis' }, value: shape.kurtosis, note: { code: 'note.excess-kurtosis', args: { standardError: shape.kurtosisSe } } });
   }
   const bonett = source === 'summary' ? null : bonettInterval(moments, confidence, alternative, values);
   if (bonett) {
-    estimates.push({ id: 'varianceBonett', name: 'Sample variance s², robust interval', value: variance, interval: bonett.interval, note: bonett.note });
-    estimates.push({ id: 'sdBonett', name: 'Sample standard deviation s, robust interval', value: Math.sqrt(variance), interval: sqrtInterval(bonett.interval), note: bonett.note });
+    estimates.push({ id: 'varianceBonett', name: { code: 'estimate.sample-variance-robust' }, value: variance, interval: bonett.interval, note: bonett.note });
+    estimates.push({ id: 'sdBonett', name: { code: 'estimate.sample-sd-robust' }, value: Math.sqrt(variance), interval: sqrtInterval(bonett.interval), note: bonett.note });
     const disagreement = robustDisagreement(varianceInterval, bonett.interval, hypothesis);
     if (disagreement) notices.push(disagreement);
   } else if (source !== 'summary') {
-    notices.push({ code: 'bonett-unavailable', severity: 'info', message: "Bonett's robust interval needs at least 5 values and the fourth moment; it is not shown." });
+    notices.push({ code: 'bonett-unavailable', severity: 'info' });
   }
 
-  const parameter = hypothesis.bySd ? 'standard deviation' : 'variance';
-  const named = nameOf(options.variable);
-  const of = named ? ` of ${named}` : '';
-  const inUnit = withUnit(options.unit, hypothesis.bySd);
-  const null0 = hypothesis.bySd ? `σ0 = ${inUnit(Math.sqrt(hypothesis.variance0))}` : `σ0² = ${inUnit(hypothesis.variance0)}`;
-  const sample = hypothesis.bySd ? `s = ${inUnit(Math.sqrt(variance))}` : `s² = ${inUnit(variance)}`;
-  const direction = alternative === 'greater' ? 'is larger than' : alternative === 'less' ? 'is smaller than' : 'differs from';
-  const directionNot = alternative === 'greater' ? 'exceeds' : alternative === 'less' ? 'falls below' : 'differs from';
-  const conclusion = significant
-    ? `The population ${parameter}${of} ${direction} ${null0} ${describeAlpha(alpha)} (${sample}, ${describeP(pValue)}).`
-    : `The data do not show that the population ${parameter}${of} ${directionNot} ${null0} ${describeAlpha(alpha)} (${sample}, ${describeP(pValue)}).`;
+  const conclusion: Phrase = {
+    code: 'conclusion.variance',
+    args: { significant, alpha, p: pValue, alternative, bySd: hypothesis.bySd, variance0: hypothesis.variance0, sampleVariance: variance, variable: options.variable, unit: options.unit },
+  };
 
   return {
     kind: 'test',
     test: 'variance',
-    procedure: 'Chi-square test for one variance',
+    procedure: { code: 'procedure.variance' },
     statisticSymbol: 'χ²',
     statistic,
     df,
@@ -245,11 +227,11 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
     effectSizes: [
       {
         id: 'varianceRatio',
-        name: 'Variance ratio s²/σ0²',
+        name: { code: 'estimate.variance-ratio' },
         value: variance / hypothesis.variance0,
         interval: { ...varianceInterval, lower: varianceInterval.lower / hypothesis.variance0, upper: varianceInterval.upper / hypothesis.variance0, parameter: 'σ²/σ0²' },
       },
-      { id: 'sdRatio', name: 'Standard deviation ratio s/σ0', value: Math.sqrt(variance / hypothesis.variance0) },
+      { id: 'sdRatio', name: { code: 'estimate.sd-ratio' }, value: Math.sqrt(variance / hypothesis.variance0) },
     ],
     estimates,
     confidenceInterval: varianceInterval,
@@ -259,29 +241,16 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
   };
 }
 
-/** A number in the unit of the values ("12 g") or, for a variance, in its square ("144 g²"); bare without a unit. */
-function withUnit(unit: string | undefined, bySd: boolean): (x: number) => string {
-  const u = typeof unit === 'string' ? unit.trim() : '';
-  if (u === '') return formatNumber;
-  const shown = bySd ? u : /^\p{L}+$/u.test(u) ? `${u}²` : `(${u})²`;
-  return (x) => `${formatNumber(x)} ${shown}`;
-}
-
 /** A warning when the chi-square and Bonett intervals disagree about the hypothesised value. */
-function robustDisagreement(classic: FoundInterval, robust: FoundInterval, hypothesis: Hypothesis): Notice | null {
+function robustDisagreement(classic: FoundInterval, robust: FoundInterval, hypothesis: Hypothesis): FoundNotice | null {
   const v0 = hypothesis.variance0;
   const inClassic = classic.lower <= v0 && v0 <= classic.upper;
   const inRobust = robust.lower <= v0 && v0 <= robust.upper;
   if (inClassic === inRobust) return null;
-  const value = hypothesis.bySd ? `σ0 = ${formatNumber(Math.sqrt(v0))}` : `σ0² = ${formatNumber(v0)}`;
-  const shown = (i: FoundInterval) =>
-    hypothesis.bySd ? `${formatNumber(Math.sqrt(i.lower))} to ${formatNumber(Math.sqrt(i.upper))}` : `${formatNumber(i.lower)} to ${formatNumber(i.upper)}`;
   return {
     code: 'robust-disagrees',
     severity: 'warning',
-    message:
-      `The chi-square interval (${shown(classic)}) ${inClassic ? 'contains' : 'excludes'} ${value}, but Bonett's robust interval ` +
-      `(${shown(robust)}) ${inRobust ? 'contains' : 'excludes'} it: the conclusion depends on the normality assumption.`,
+    args: { bySd: hypothesis.bySd, variance0: v0, classicLower: classic.lower, classicUpper: classic.upper, robustLower: robust.lower, robustUpper: robust.upper, inClassic, inRobust },
   };
 }
 
@@ -293,16 +262,16 @@ function chiSquareInterval(sumSquares: number, df: number, confidence: number, a
   const common = { level: confidence, parameter: 'σ²' };
   const tail = 1 - confidence;
   if (alternative === 'greater') {
-    return { ...common, lower: sumSquares / chiSquareUpperQuantile(tail, df), upper: Infinity, method: 'one-sided lower bound, chi-square' };
+    return { ...common, lower: sumSquares / chiSquareUpperQuantile(tail, df), upper: Infinity, method: { code: 'method.chi-square-lower-bound' } };
   }
   if (alternative === 'less') {
-    return { ...common, lower: 0, upper: sumSquares / chiSquareQuantile(tail, df), method: 'one-sided upper bound, chi-square' };
+    return { ...common, lower: 0, upper: sumSquares / chiSquareQuantile(tail, df), method: { code: 'method.chi-square-upper-bound' } };
   }
   return {
     ...common,
     lower: sumSquares / chiSquareUpperQuantile(tail / 2, df),
     upper: sumSquares / chiSquareQuantile(tail / 2, df),
-    method: 'equal-tail chi-square',
+    method: { code: 'method.equal-tail-chi-square' },
   };
 }
 
@@ -326,34 +295,16 @@ function shapeOf(moments: MomentSummary): Shape | null {
   return { skewness: sampleSkewness(moments), kurtosis: sampleExcessKurtosis(moments), skewnessSe, kurtosisSe };
 }
 
-function normalityAssumption(shape: Shape | null, source: 'values' | 'moments' | 'summary', n: number): Assumption {
-  const base = {
-    id: 'normality',
-    title: 'Values come from a normal distribution',
-    alternative: "Bonett's (2006) interval for the standard deviation",
-  };
+function normalityAssumption(shape: Shape | null, source: 'values' | 'moments' | 'summary', n: number): FoundAssumption {
   if (!shape) {
-    return {
-      ...base,
-      status: 'unchecked',
-      explanation:
-        source === 'summary'
-          ? 'Only n and s were given, so the shape of the data cannot be checked. This test is very sensitive to non-normality.'
-          : `${n < 4 ? 'Too few values to estimate skewness and kurtosis' : 'The third and fourth moments were not available, so skewness and kurtosis cannot be estimated'}. This test is very sensitive to non-normality.`,
-    };
+    const why = source === 'summary' ? 'summary' : n < 4 ? 'few-values' : 'no-moments';
+    return { id: 'normality', status: 'unchecked', args: { why } };
   }
   const zSkew = shape.skewness / shape.skewnessSe;
   const zKurt = shape.kurtosis / shape.kurtosisSe;
-  const numbers = `skewness ${formatNumber(shape.skewness)} (${formatNumber(zSkew)} standard errors), excess kurtosis ${formatNumber(shape.kurtosis)} (${formatNumber(zKurt)} standard errors)`;
   // Screening at two standard errors is common practice, not a formal test.
   const failed = Math.abs(zSkew) > 2 || Math.abs(zKurt) > 2;
-  return {
-    ...base,
-    status: failed ? 'failed' : 'met',
-    explanation: failed
-      ? `The sample departs from normality: ${numbers}; more than 2 standard errors is a common-practice warning sign. The chi-square p-value and interval may be badly wrong; prefer Bonett's interval.`
-      : `No strong sign of non-normality: ${numbers} (within 2 standard errors, common practice). Even so, this test reacts to moderate departures that a small sample cannot reveal.`,
-  };
+  return { id: 'normality', status: failed ? 'failed' : 'met', args: { skewness: shape.skewness, zSkew, kurtosis: shape.kurtosis, zKurt } };
 }
 
 /**
@@ -367,16 +318,16 @@ function bonettInterval(
   confidence: number,
   alternative: Alternative,
   values?: readonly number[],
-): { interval: FoundInterval; note: string } | null {
+): { interval: FoundInterval; note: Phrase } | null {
   const { n } = moments;
   if (n < 5 || !Number.isFinite(moments.m4) || moments.m2 === 0) return null;
   let fourth = moments.m4;
-  let note = 'Kurtosis estimated around the trimmed mean, as Bonett proposes.';
+  let note: Phrase = { code: 'note.bonett-trimmed' };
   if (values) {
     const m = trimmedMean(values, 1 / (2 * Math.sqrt(n - 4)));
     fourth = compensatedSum(values.map((x) => (x - m.rough - m.remainder) ** 4));
   } else {
-    note = 'Computed from streamed moments: kurtosis estimated around the mean rather than the trimmed mean Bonett proposes.';
+    note = { code: 'note.bonett-moments' };
   }
   const gamma4 = (n * fourth) / (moments.m2 * moments.m2);
   const variance = moments.m2 / (n - 1);
@@ -386,7 +337,7 @@ function bonettInterval(
   const centre = Math.log(c * variance);
   const lower = alternative === 'less' ? 0 : Math.exp(centre - z * se);
   const upper = alternative === 'greater' ? Infinity : Math.exp(centre + z * se);
-  const method = alternative === 'two-sided' ? 'Bonett (2006)' : `Bonett (2006), one-sided ${alternative === 'greater' ? 'lower' : 'upper'} bound`;
+  const method: Phrase = { code: 'method.bonett', args: { alternative } };
   return { interval: { lower, upper, level: confidence, parameter: 'σ²', method }, note };
 }
 
