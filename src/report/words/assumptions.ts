@@ -96,6 +96,17 @@ export const ASSUMPTION_WORDS: Readonly<Record<string, AssumptionWriter>> = {
     };
   },
   normality: normality,
+  'common-odds-ratio': (_, __, t) => ({
+    title: t('A common odds ratio across strata'),
+    explanation: t('The CMH test is most powerful, and the pooled odds ratio meaningful, when the association has the same direction and size in every stratum. The Breslow–Day test checks this.'),
+    alternative: t('Report the strata separately'),
+  }),
+  pairing: (_, __, t) => ({
+    title: t('Each unit classified twice'),
+    explanation: t(
+      'Each count is one unit (a person, an item) classified on both occasions; rows are the first classification and columns the second. Counting units, not classifications, is what the test requires.',
+    ),
+  }),
   'sampling-design': (_, __, t) => ({
     title: t('Sampling design'),
     explanation: t(

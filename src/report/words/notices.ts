@@ -2,6 +2,7 @@
 import type { PhraseArgs } from '../../stats/result';
 import { flag, num, prob, str, strings } from './args';
 import { describeP, sentenceNumber } from './probability';
+import { atLevel } from './phrases';
 import type { Translate } from './translate';
 
 export type NoticeWriter = (args: PhraseArgs, t: Translate) => string;
@@ -109,5 +110,41 @@ export const NOTICE_WORDS: Readonly<Record<string, NoticeWriter>> = {
       : t("This test assumes the values come from a normal distribution and is very sensitive to departures from it: heavier or lighter tails than the normal make its p-value and interval wrong, and a larger sample does not fix that. Compare with Bonett's interval below, which allows for the observed kurtosis."),
   'bonett-unavailable': (_, t) => t("Bonett's robust interval needs at least 5 values and the fourth moment; it is not shown."),
   'robust-disagrees': robustDisagrees,
+  'strata-dropped': (a, t) => t('Strata with fewer than 2 units carry no information and were left out: {0}.', strings(a, 'labels').join(', ')),
+  'exact-too-large': (a, t) =>
+    t(
+      'The exact conditional test and the conditional estimate of the common odds ratio are left out: the exact conditional distribution of Σa here has {0} values and costs {1} steps; the limits are {2} values and {3} steps.',
+      num(a, 'support'),
+      num(a, 'work').toPrecision(3),
+      num(a, 'supportLimit'),
+      num(a, 'workLimit').toPrecision(1),
+    ),
+  'odds-ratio-not-finite': (a, t) => {
+    const oddsRatio = num(a, 'oddsRatio');
+    if (Number.isNaN(oddsRatio)) {
+      return t("The Mantel–Haenszel odds ratio is undefined (a zero in every stratum's b·c product), so it has no interval and the homogeneity test is not computed; the tests of association are unaffected.");
+    }
+    return oddsRatio === 0
+      ? t("The Mantel–Haenszel odds ratio is 0 (a zero in every stratum's a·d product), so it has no interval and the homogeneity test is not computed; the tests of association are unaffected.")
+      : t("The Mantel–Haenszel odds ratio is infinite (a zero in every stratum's b·c product), so it has no interval and the homogeneity test is not computed; the tests of association are unaffected.");
+  },
+  'single-stratum': (_, t) => t('Only one stratum: the homogeneity test of odds ratios needs at least two.'),
+  'homogeneity-not-tested': (_, t) =>
+    t('Fewer than two strata have a count that can vary given their margins (the others have a zero row or column total), so there is no Breslow–Day test of homogeneous odds ratios.'),
+  'heterogeneous-odds-ratios': (a, t) =>
+    t("The odds ratios differ between strata (Breslow–Day with Tarone's adjustment, {0}): a single common odds ratio summarises them poorly; look at the strata one by one.", describeP(prob(a, 'p'))),
+  'no-discordant-pairs': (_, t) => t('No pair changed category (b = c = 0): McNemar’s statistic is undefined and the data carry no evidence of a change; the p-value is reported as 1.'),
+  'few-discordant-pairs': (a, t) =>
+    t('Only {0} discordant pairs: the chi-square approximation is rough (common practice: use the exact or mid-p version below 25 discordant pairs).', num(a, 'discordant')),
+  'empty-pairs-dropped': (a, t) => {
+    const pairs = strings(a, 'pairs');
+    return pairs.length === 1
+      ? t('No unit moved either way between {0}; this pair adds nothing to the statistic and was left out of the degrees of freedom.', pairs.join(', '))
+      : t('No unit moved either way between {0}; these pairs add nothing to the statistic and were left out of the degrees of freedom.', pairs.join(', '));
+  },
+  'default-scores': (a, t) =>
+    t('Scores not given: equally spaced scores 1 to {0} were used. The result depends on the scores; give "scores" when the groups are not evenly spaced.', num(a, 'groups')),
+  'overall-not-significant': (a, t) =>
+    t('The overall test is not significant {0} ({1}); post-hoc comparisons are usually read only after a significant overall test.', atLevel(num(a, 'alpha'), t), describeP(prob(a, 'p'))),
   'haldane-anscombe': (_, t) => t('A cell is 0, so 0.5 was added to every cell before computing the odds ratio, the relative risk and their intervals (Haldane–Anscombe correction).'),
 };

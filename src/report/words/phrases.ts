@@ -4,7 +4,7 @@
  * `{0}` placeholders, so the bundle lists it and a translator sees the sentence.
  */
 import type { PhraseArgs } from '../../stats/result';
-import { flag, inner, num, optStr, prob, str } from './args';
+import { flag, inner, num, optStr, prob, str, strings } from './args';
 import { capitalise, describeP, nameOf, percentOf, sentenceNumber } from './probability';
 import type { Translate } from './translate';
 
@@ -125,18 +125,125 @@ function varianceConclusion(a: PhraseArgs, t: Translate): string {
   return t('The data do not show that the population {0} {1} {2} {3} ({4}, {5}).', parameter, direction, null0, level, sample, p);
 }
 
+/** Conclusion of the stratified tests: the variables by name when known, the common odds ratio when finite. */
+function stratifiedConclusion(a: PhraseArgs, t: Translate): string {
+  const row = nameOf(optStr(a, 'rowVariable'));
+  const column = nameOf(optStr(a, 'columnVariable'));
+  const pair = row === undefined && column === undefined ? t('the row and column variables') : t('{0} and {1}', row ?? t('the row variable'), column ?? t('the column variable'));
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = pOf(a, t);
+  if (!flag(a, 'significant')) return t('The data do not show an association between {0} within strata {1} ({2}).', pair, level, p);
+  const oddsRatio = a.oddsRatio === undefined ? undefined : num(a, 'oddsRatio');
+  return oddsRatio === undefined
+    ? t('Within strata, {0} are associated {1} ({2}).', pair, level, p)
+    : t('Within strata, {0} are associated {1} ({2}); the common odds ratio is about {3}.', pair, level, p, oddsRatio.toPrecision(3));
+}
+
+function mcnemarConclusion(a: PhraseArgs, t: Translate): string {
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = pOf(a, t);
+  const first = str(a, 'first');
+  const second = str(a, 'second');
+  return flag(a, 'significant')
+    ? t('The share classified "{0}" changed between the first and second classification {1} ({2}); {3} pairs moved from "{0}" to "{4}" and {5} the other way.', first, level, p, num(a, 'forward'), second, num(a, 'backward'))
+    : t('The data do not show a change between the first and second classification {0} ({1}); {2} pairs moved from "{3}" to "{4}" and {5} the other way.', level, p, num(a, 'forward'), first, second, num(a, 'backward'));
+}
+
+function mcnemarProcedure(a: PhraseArgs, t: Translate): string {
+  const method = str(a, 'method');
+  if (method === 'exact') return t("McNemar's test, exact binomial version");
+  if (method === 'mid-p') return t("McNemar's test, mid-p version");
+  return flag(a, 'correction') ? t("McNemar's test with continuity correction") : t("McNemar's test");
+}
+
+function cochranArmitageConclusion(a: PhraseArgs, t: Translate): string {
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = pOf(a, t);
+  const event = str(a, 'event');
+  if (flag(a, 'significant')) {
+    return flag(a, 'rises')
+      ? t('The proportion of "{0}" rises with the score of the ordered groups {1} ({2}).', event, level, p)
+      : t('The proportion of "{0}" falls with the score of the ordered groups {1} ({2}).', event, level, p);
+  }
+  const alternative = str(a, 'alternative');
+  if (alternative === 'greater') return t('The data do not show a rising trend in the proportion of "{0}" across the ordered groups {1} ({2}).', event, level, p);
+  if (alternative === 'less') return t('The data do not show a falling trend in the proportion of "{0}" across the ordered groups {1} ({2}).', event, level, p);
+  return t('The data do not show a linear trend in the proportion of "{0}" across the ordered groups {1} ({2}).', event, level, p);
+}
+
+function linearByLinearConclusion(a: PhraseArgs, t: Translate): string {
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = pOf(a, t);
+  const correlation = num(a, 'correlation');
+  const r = correlation.toFixed(3);
+  if (!flag(a, 'significant')) return t('The data do not show a linear association between the ordered variables {0} (r = {1}, {2}).', level, r, p);
+  return correlation > 0
+    ? t('Higher row scores go with higher column scores {0} (r = {1}, {2}).', level, r, p)
+    : t('Higher row scores go with lower column scores {0} (r = {1}, {2}).', level, r, p);
+}
+
+/** The name of a multiplicity adjustment, as titles and notes write it. */
+function adjustmentName(adjustment: string, t: Translate): string {
+  if (adjustment === 'bonferroni') return t('Bonferroni');
+  if (adjustment === 'holm') return t('Holm');
+  if (adjustment === 'benjamini-hochberg') return t('Benjamini–Hochberg (false discovery rate)');
+  throw new Error(`no wording for the adjustment "${adjustment}"`);
+}
+
+function postHocConclusion(a: PhraseArgs, t: Translate): string {
+  const adjustment = adjustmentName(str(a, 'adjustment'), t);
+  const level = atLevel(num(a, 'alpha'), t);
+  const compare = str(a, 'compare');
+  const count = num(a, 'flaggedCount');
+  if (count === 0) {
+    if (compare === 'cells') return t('After {0} adjustment, no cell departs from independence {1}.', adjustment, level);
+    return compare === 'rows'
+      ? t('After {0} adjustment, no pair of rows differs from independence {1}.', adjustment, level)
+      : t('After {0} adjustment, no pair of columns differs from independence {1}.', adjustment, level);
+  }
+  const flagged = strings(a, 'flagged');
+  const list = `${flagged.join('; ')}${count > flagged.length ? '; …' : ''}`;
+  if (compare === 'cells') return t('After {0} adjustment, {1} cells differ {2}: {3}.', adjustment, count, level, list);
+  return compare === 'rows'
+    ? t('After {0} adjustment, {1} pairs of rows differ {2}: {3}.', adjustment, count, level, list)
+    : t('After {0} adjustment, {1} pairs of columns differ {2}: {3}.', adjustment, count, level, list);
+}
+
+function postHocProcedure(a: PhraseArgs, t: Translate): string {
+  const adjustment = adjustmentName(str(a, 'adjustment'), t);
+  const compare = str(a, 'compare');
+  if (compare === 'cells') return t('Post-hoc cell-wise adjusted residual tests ({0})', adjustment);
+  return compare === 'rows' ? t('Post-hoc pairwise comparisons of rows ({0})', adjustment) : t('Post-hoc pairwise comparisons of columns ({0})', adjustment);
+}
+
 export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   // Conclusions.
   'conclusion.goodness-of-fit': goodnessOfFitConclusion,
   'conclusion.independence': independenceConclusion,
   'conclusion.method-flipped': methodFlipped,
   'conclusion.variance': varianceConclusion,
+  'conclusion.stratified': stratifiedConclusion,
+  'conclusion.posthoc': postHocConclusion,
+  'conclusion.cochran-armitage': cochranArmitageConclusion,
+  'conclusion.linear-by-linear': linearByLinearConclusion,
+  'conclusion.mcnemar': mcnemarConclusion,
+  'conclusion.bowker': (a, t) =>
+    flag(a, 'significant')
+      ? t('Moves between categories are not symmetric {0} ({1}): for some pairs of categories, more units moved one way than the other.', atLevel(num(a, 'alpha'), t), pOf(a, t))
+      : t('The data do not show asymmetric moves between categories {0} ({1}).', atLevel(num(a, 'alpha'), t), pOf(a, t)),
 
   // Procedure titles.
   'procedure.goodness-of-fit': (a, t) => t('Chi-square goodness-of-fit test ({0})', phraseIn(a, 'statistic', t)),
   'procedure.independence': (a, t) => t('Chi-square test of independence ({0})', phraseIn(a, 'statistic', t)),
 
   'procedure.variance': (_, t) => t('Chi-square test for one variance'),
+  'procedure.stratified-exact': (_, t) => t('Exact conditional test of independence in 2×2×K tables'),
+  'procedure.cmh': (a, t) => (flag(a, 'correction') ? t('Cochran–Mantel–Haenszel test with continuity correction') : t('Cochran–Mantel–Haenszel test')),
+  'procedure.cmh-generalized': (_, t) => t('Generalized Cochran–Mantel–Haenszel test'),
+  'procedure.mcnemar': mcnemarProcedure,
+  'procedure.cochran-armitage': (_, t) => t('Cochran–Armitage test for trend'),
+  'procedure.linear-by-linear': (_, t) => t('Linear-by-linear association test'),
+  'procedure.posthoc': postHocProcedure,
   'procedure.with-method': (a, t) => t('{0}, {1} p-value', phraseOrText(a, 'procedure', t), methodText(str(a, 'method'), t)),
 
   // Statistics.
@@ -146,6 +253,45 @@ export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   'statistic.cressie-read': (a, t) => t('Cressie–Read power divergence (λ = {0})', lambdaText(num(a, 'lambda'))),
   'statistic.pearson-yates': (_, t) => t("Pearson chi-square with Yates' continuity correction"),
   'statistic.fisher-two-sided': (_, t) => t("Fisher's exact test (two-sided)"),
+  'statistic.breslow-day': (_, t) => t('Breslow–Day test of homogeneous odds ratios'),
+  'statistic.breslow-day-tarone': (_, t) => t("Breslow–Day test with Tarone's adjustment"),
+  'statistic.cmh': (_, t) => t('Cochran–Mantel–Haenszel chi-square'),
+  'statistic.cmh-corrected': (_, t) => t('Cochran–Mantel–Haenszel chi-square with continuity correction'),
+  'statistic.cmh-exact': (_, t) => t('Exact conditional test (common odds ratio 1)'),
+  'note.cmh-exact': (a, t) => t("Σa = {0}, given every stratum's margins", num(a, 'sumA')),
+  'statistic.cmh-general': (_, t) => t('Generalized CMH: general association'),
+  'statistic.cmh-row-means': (_, t) => t('Generalized CMH: row mean scores differ'),
+  'statistic.cmh-correlation': (_, t) => t('Generalized CMH: nonzero correlation'),
+  'note.uses-column-scores': (_, t) => t('Uses the column scores.'),
+  'note.uses-both-scores': (_, t) => t('Uses the row and column scores.'),
+  'statistic.mcnemar': (_, t) => t('McNemar chi-square'),
+  'statistic.mcnemar-corrected': (_, t) => t('McNemar chi-square with continuity correction'),
+  'statistic.mcnemar-exact': (_, t) => t('Exact binomial test of the discordant pairs'),
+  'note.mcnemar-exact': (a, t) => t('b = {0} of {1} discordant pairs, tested against ½', num(a, 'b'), num(a, 'discordant')),
+  'statistic.mcnemar-mid-p': (_, t) => t('Mid-p binomial test of the discordant pairs'),
+  'note.mcnemar-mid-p': (_, t) => t('The exact p-value minus half the probability of the observed split; less conservative than the exact test.'),
+  'statistic.bowker': (_, t) => t("Bowker's test of symmetry"),
+  'statistic.cochran-armitage': (_, t) => t('Cochran–Armitage trend chi-square'),
+  'statistic.cochran-armitage-z': (_, t) => t('Cochran–Armitage z (positive: first-row proportion rises with the score)'),
+  'statistic.departure-from-trend': (_, t) => t('Departure from a linear trend (X² − trend)'),
+  'statistic.linear-by-linear': (_, t) => t('Linear-by-linear association'),
+  'detail.trend-direction': (_, t) => t('z > 0 when the first row’s proportion rises with the score'),
+  'statistic.pearson-overall': (_, t) => t('Pearson chi-square (overall)'),
+  'statistic.posthoc-cell': (a, t) =>
+    flag(a, 'more') ? t('Cell {0} × {1}: more than expected', str(a, 'row'), str(a, 'column')) : t('Cell {0} × {1}: fewer than expected', str(a, 'row'), str(a, 'column')),
+  'note.posthoc-cell': (a, t) =>
+    t(
+      'observed {0}, expected {1}; unadjusted p = {2}, {3}-adjusted p = {4}',
+      num(a, 'observed'),
+      num(a, 'expected').toPrecision(4),
+      num(a, 'p').toPrecision(3),
+      adjustmentName(str(a, 'adjustment'), t),
+      num(a, 'adjustedP').toPrecision(3),
+    ),
+  'statistic.posthoc-pair': (a, t) =>
+    flag(a, 'rows') ? t('Rows {0} vs {1}', str(a, 'first'), str(a, 'second')) : t('Columns {0} vs {1}', str(a, 'first'), str(a, 'second')),
+  'note.posthoc-pair': (a, t) =>
+    t('unadjusted p = {0}, {1}-adjusted p = {2}', num(a, 'p').toPrecision(3), adjustmentName(str(a, 'adjustment'), t), num(a, 'adjustedP').toPrecision(3)),
   'note.fisher-one-sided': (a, t) =>
     t('Conditional on both margins. One-sided: {0} if the alternative is odds ratio > 1, {1} if it is odds ratio < 1.', describeP(prob(a, 'greater')), describeP(prob(a, 'less'))),
 
@@ -179,7 +325,23 @@ export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   'estimate.variance-ratio': (_, t) => t('Variance ratio s²/σ0²'),
   'estimate.sd-ratio': (_, t) => t('Standard deviation ratio s/σ0'),
 
+  'estimate.mantel-haenszel': (_, t) => t('Mantel–Haenszel common odds ratio'),
+  'estimate.common-conditional-odds-ratio': (_, t) => t('Common odds ratio, conditional maximum likelihood'),
+  'note.common-conditional-odds-ratio': (_, t) => t('The estimate and interval that go with the exact conditional test.'),
+  'estimate.paired-difference': (a, t) => t('Difference of paired proportions, P({0} first) − P({0} second)', str(a, 'label')),
+  'estimate.paired-difference-agresti-min': (_, t) => t('Difference of paired proportions, Agresti–Min interval'),
+  'estimate.discordant-ratio': (_, t) => t('Ratio of discordant pairs b/c (conditional odds ratio)'),
+
+  'estimate.score-correlation': (_, t) => t('Pearson correlation of the scores'),
+
   // Interval parameters and methods.
+  'parameter.common-odds-ratio': (_, t) => t('common odds ratio'),
+  'parameter.paired-difference': (_, t) => t('difference of paired proportions'),
+  'method.exact-conditional-strata': (_, t) => t('exact conditional (inverting the one-sided conditional tests)'),
+  'method.robins-breslow-greenland': (_, t) => t('Robins–Breslow–Greenland variance of the log Mantel–Haenszel estimate'),
+  'method.wald': (_, t) => t('Wald'),
+  'method.agresti-min': (_, t) => t('Agresti–Min (2005): Wald after adding ½ to each cell'),
+  'method.clopper-pearson-ratio': (_, t) => t('exact conditional (Clopper–Pearson interval for b/(b + c), mapped by π/(1 − π))'),
   'method.chi-square-lower-bound': (_, t) => t('one-sided lower bound, chi-square'),
   'method.chi-square-upper-bound': (_, t) => t('one-sided upper bound, chi-square'),
   'method.equal-tail-chi-square': (_, t) => t('equal-tail chi-square'),

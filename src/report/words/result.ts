@@ -19,6 +19,7 @@ import type {
   Estimate,
   Interval,
   Notice,
+  Phrase,
   Result,
   StatisticLine,
   TestResult,
@@ -71,6 +72,20 @@ function wordLine(l: FoundStatisticLine, t: Translate): StatisticLine {
   return { ...l, name: words(l.name, t), ...(l.note !== undefined ? { note: words(l.note, t) } : {}) } as StatisticLine;
 }
 
+/** A phrase where `details` holds one (a statistic line or an interval copied there): an object of a known code and nothing else. */
+function isPhrase(value: object): value is Phrase {
+  const code = (value as { code?: unknown }).code;
+  return typeof code === 'string' && code in PHRASES && Object.keys(value).every((k) => k === 'code' || k === 'args');
+}
+
+/** `details` with every phrase inside written, keys in their order. */
+function wordDetails(value: unknown, t: Translate): unknown {
+  if (Array.isArray(value)) return value.map((v) => wordDetails(v, t));
+  if (value === null || typeof value !== 'object') return value;
+  if (isPhrase(value)) return words(value, t);
+  return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, wordDetails(v, t)]));
+}
+
 export function wordTestResult(r: ComputedTestResult, t: Translate = english): TestResult {
   return {
     ...r,
@@ -82,6 +97,7 @@ export function wordTestResult(r: ComputedTestResult, t: Translate = english): T
     ...(r.confidenceInterval ? { confidenceInterval: wordInterval(r.confidenceInterval, t) } : {}),
     notices: r.notices.map((n) => wordNotice(n, t)),
     assumptions: r.assumptions.map((a) => wordAssumption(a, t)),
+    ...(r.details ? { details: wordDetails(r.details, t) as Readonly<Record<string, unknown>> } : {}),
   } as TestResult;
 }
 
@@ -93,6 +109,7 @@ export function wordResult(r: ComputedResult, t?: Translate): Result;
 export function wordResult(r: ComputedResult, t: Translate = english): Result {
   if (r.kind === 'test') return wordTestResult(r, t);
   const notices = r.notices.map((n) => wordNotice(n, t));
-  if (r.kind === 'power') return { ...r, effectSize: { ...r.effectSize, name: words(r.effectSize.name, t) }, notices };
+  const details = 'details' in r && r.details ? { details: wordDetails(r.details, t) as Readonly<Record<string, unknown>> } : {};
+  if (r.kind === 'power') return { ...r, effectSize: { ...r.effectSize, name: words(r.effectSize.name, t) }, notices, ...details };
   return { ...r, notices };
 }

@@ -6,7 +6,7 @@ import { InputError } from '../../errors';
 import { requireCount, requireCountTotal } from './assumptions';
 import { chiSquareUpperProbability } from '../distributions/chisquare';
 import { compensatedSum } from '../moments';
-import type { Notice, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
+import type { ComputedTestResult, FoundNotice, FoundStatisticLine, Phrase, PhraseArgs, Probability, Words } from '../result';
 
 /** A count table checked cell by cell; the message names the row, the column and the JSON path. */
 export function requireCountTable(table: unknown, jsonPath: string, what = 'table'): number[][] {
@@ -42,17 +42,17 @@ export function columnSums(table: readonly (readonly number[])[]): number[] {
   return table[0].map((_, j) => sum(table.map((row) => row[j])));
 }
 
-export function chiSquareLine(id: string, name: string, symbol: string, statistic: number, df: number, note?: string): FoundStatisticLine {
+export function chiSquareLine(id: string, name: Words, symbol: string, statistic: number, df: number, note?: Words): FoundStatisticLine {
   const pValue = Number.isNaN(statistic) ? { value: 1, log10: 0 } : chiSquareUpperProbability(statistic, df);
   return note === undefined ? { id, name, symbol, statistic, df, pValue } : { id, name, symbol, statistic, df, pValue, note };
 }
 
-export function pLine(id: string, name: string, pValue: Probability, note?: string, statistic = NaN, symbol = ''): FoundStatisticLine {
+export function pLine(id: string, name: Words, pValue: Probability, note?: Words, statistic = NaN, symbol = ''): FoundStatisticLine {
   return note === undefined ? { id, name, symbol, statistic, df: null, pValue } : { id, name, symbol, statistic, df: null, pValue, note };
 }
 
 /** The head of a result whose main statistic is a chi-square line (no alternative: the test is one-tailed by nature). */
-export function chiSquareCore(test: string, procedure: string, line: FoundStatisticLine, n: number, alpha: number): Omit<Core, 'conclusion'> {
+export function chiSquareCore(test: string, procedure: Words, line: FoundStatisticLine, n: number, alpha: number): Omit<Core, 'conclusion'> {
   const df = line.df ?? 1;
   return { test, procedure, statisticSymbol: line.symbol, statistic: line.statistic, df, n, pValue: line.pValue, alternative: null, reference: { kind: 'chi-square', df }, alpha };
 }
@@ -77,12 +77,19 @@ export function testResult(core: Core, extra: Partial<Omit<ComputedTestResult, k
   };
 }
 
-export function info(code: string, message: string): Notice {
-  return { code, severity: 'info', message };
+/** A notice for information; `report/words` writes its message from the code and the arguments. */
+export function info(code: string, args?: PhraseArgs): FoundNotice {
+  return args === undefined ? { code, severity: 'info' } : { code, severity: 'info', args };
 }
 
-export function warning(code: string, message: string): Notice {
-  return { code, severity: 'warning', message };
+/** A notice the reader should act on. */
+export function warning(code: string, args?: PhraseArgs): FoundNotice {
+  return args === undefined ? { code, severity: 'warning' } : { code, severity: 'warning', args };
+}
+
+/** A label or sentence by its code alone, for `report/words` to write. */
+export function phrase(code: string, args?: PhraseArgs): Phrase {
+  return args === undefined ? { code } : { code, args };
 }
 
 /** An option that must be one of a fixed set of words; anything else is refused, naming the field and the choices. */

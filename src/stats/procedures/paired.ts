@@ -9,12 +9,12 @@
  * - k×k: Bowker's (1948) test of symmetry, Σ_{i<j} (n_ij − n_ji)²/(n_ij + n_ji).
  */
 import { InputError } from '../../errors';
-import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult, warning } from './advanced-common';
-import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
+import { chiSquareCore, chiSquareLine, info, labelsOr, phrase, pLine, requireCountTable, sum, testResult, warning } from './advanced-common';
+import { independenceAssumption, requireLevel } from './assumptions';
 import { binomialLowerTail, logBinomialPmf } from '../distributions/discrete';
 import { normalUpperQuantile } from '../distributions/normal';
 import { probabilityFromLog, probabilityFromValue, twoSidedFromTails } from '../distributions/probability';
-import type { FoundEstimate, FoundInterval, Notice, FoundStatisticLine, ComputedTestResult } from '../result';
+import type { FoundAssumption, FoundEstimate, FoundInterval, FoundNotice, FoundStatisticLine, ComputedTestResult, Phrase } from '../result';
 
 export type PairedMethod = 'asymptotic' | 'exact' | 'mid-p';
 
@@ -67,10 +67,10 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
   }
   return {
     discordant: [b, c],
-    uncorrected: chiSquareLine('mcnemar', 'McNemar chi-square', 'X²', uncorrected, 1),
-    corrected: chiSquareLine('mcnemar-corrected', 'McNemar chi-square with continuity correction', 'X²', corrected, 1),
-    exact: pLine('mcnemar-exact', 'Exact binomial test of the discordant pairs', exact, `b = ${b} of ${m} discordant pairs, tested against ½`, b, 'b'),
-    midP: pLine('mcnemar-mid-p', 'Mid-p binomial test of the discordant pairs', midP, 'The exact p-value minus half the probability of the observed split; less conservative than the exact test.', b, 'b'),
+    uncorrected: chiSquareLine('mcnemar', phrase('statistic.mcnemar'), 'X²', uncorrected, 1),
+    corrected: chiSquareLine('mcnemar-corrected', phrase('statistic.mcnemar-corrected'), 'X²', corrected, 1),
+    exact: pLine('mcnemar-exact', phrase('statistic.mcnemar-exact'), exact, phrase('note.mcnemar-exact', { b, discordant: m }), b, 'b'),
+    midP: pLine('mcnemar-mid-p', phrase('statistic.mcnemar-mid-p'), midP, phrase('note.mcnemar-mid-p'), b, 'b'),
   };
 }
 
@@ -86,10 +86,10 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
   const [[a, b], [c, d]] = counts;
   const n = a + b + c + d;
   const s = mcnemarStatistics(b, c);
-  const notices: Notice[] = [];
-  if (b + c === 0) notices.push(warning('no-discordant-pairs', 'No pair changed category (b = c = 0): McNemar’s statistic is undefined and the data carry no evidence of a change; the p-value is reported as 1.'));
+  const notices: FoundNotice[] = [];
+  if (b + c === 0) notices.push(warning('no-discordant-pairs'));
   else if (b + c < 25 && method === 'asymptotic') {
-    notices.push(warning('few-discordant-pairs', `Only ${b + c} discordant pairs: the chi-square approximation is rough (common practice: use the exact or mid-p version below 25 discordant pairs).`));
+    notices.push(warning('few-discordant-pairs', { discordant: b + c }));
   }
 
   const ordered: FoundStatisticLine[] = [s.uncorrected, s.corrected, s.exact, s.midP];
@@ -97,22 +97,20 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
     method === 'exact' ? s.exact : method === 'mid-p' ? s.midP : options.correction ? s.corrected : s.uncorrected;
   const z = normalUpperQuantile((1 - confidence) / 2);
   const difference = n > 0 ? (b - c) / n : NaN;
-  const wald = waldInterval(b, c, n, z, confidence, 'Wald');
-  const agrestiMin = waldInterval(b + 0.5, c + 0.5, n + 2, z, confidence, 'Agresti–Min (2005): Wald after adding ½ to each cell');
+  const wald = waldInterval(b, c, n, z, confidence, phrase('method.wald'));
+  const agrestiMin = waldInterval(b + 0.5, c + 0.5, n + 2, z, confidence, phrase('method.agresti-min'));
   const estimates: FoundEstimate[] = [
-    { id: 'pairedDifference', name: `Difference of paired proportions, P(${labels[0]} first) − P(${labels[0]} second)`, value: difference, interval: wald },
-    { id: 'pairedDifferenceAgrestiMin', name: 'Difference of paired proportions, Agresti–Min interval', value: (b - c) / (n + 2), interval: agrestiMin },
+    { id: 'pairedDifference', name: phrase('estimate.paired-difference', { label: labels[0] }), value: difference, interval: wald },
+    { id: 'pairedDifferenceAgrestiMin', name: phrase('estimate.paired-difference-agresti-min'), value: (b - c) / (n + 2), interval: agrestiMin },
     discordantRatio(b, c, confidence),
   ];
   const pValue = main.pValue;
   const significant = pValue.value < alpha;
-  const conclusion = significant
-    ? `The share classified "${labels[0]}" changed between the first and second classification ${describeAlpha(alpha)} (${describeP(pValue)}); ${b} pairs moved from "${labels[0]}" to "${labels[1]}" and ${c} the other way.`
-    : `The data do not show a change between the first and second classification ${describeAlpha(alpha)} (${describeP(pValue)}); ${b} pairs moved from "${labels[0]}" to "${labels[1]}" and ${c} the other way.`;
+  const conclusion = phrase('conclusion.mcnemar', { significant, alpha, p: pValue, first: labels[0], second: labels[1], forward: b, backward: c });
   return testResult(
     {
       test: 'paired',
-      procedure: method === 'asymptotic' ? `McNemar's test${options.correction ? ' with continuity correction' : ''}` : method === 'exact' ? "McNemar's test, exact binomial version" : "McNemar's test, mid-p version",
+      procedure: phrase('procedure.mcnemar', { method, correction: options.correction === true }),
       statisticSymbol: main.symbol,
       statistic: main.statistic,
       df: main.df,
@@ -134,19 +132,14 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
   );
 }
 
-function waldInterval(b: number, c: number, n: number, z: number, level: number, method: string): FoundInterval {
+function waldInterval(b: number, c: number, n: number, z: number, level: number, method: Phrase): FoundInterval {
   const diff = (b - c) / n;
   const se = Math.sqrt(Math.max(0, b + c - ((b - c) * (b - c)) / n)) / n;
-  return { lower: Math.max(-1, diff - z * se), upper: Math.min(1, diff + z * se), level, parameter: 'difference of paired proportions', method };
+  return { lower: Math.max(-1, diff - z * se), upper: Math.min(1, diff + z * se), level, parameter: phrase('parameter.paired-difference'), method };
 }
 
-function pairingAssumption(): ComputedTestResult['assumptions'][number] {
-  return {
-    id: 'pairing',
-    title: 'Each unit classified twice',
-    status: 'unchecked',
-    explanation: 'Each count is one unit (a person, an item) classified on both occasions; rows are the first classification and columns the second. Counting units, not classifications, is what the test requires.',
-  };
+function pairingAssumption(): FoundAssumption {
+  return { id: 'pairing', status: 'unchecked' };
 }
 
 export function bowkerTest(table: readonly (readonly number[])[], options: PairedOptions = {}): ComputedTestResult {
@@ -164,7 +157,7 @@ export function bowkerTest(table: readonly (readonly number[])[], options: Paire
     for (let j = i + 1; j < k; j++) {
       const m = counts[i][j] + counts[j][i];
       if (m === 0) {
-        skipped.push(`${labels[i]} ↔ ${labels[j]}`);
+        skipped.push(`${labels[i]} ↔ ${labels[j]}`); // labels from the data and a symbol: no words
         continue;
       }
       const contribution = (counts[i][j] - counts[j][i]) ** 2 / m;
@@ -172,21 +165,19 @@ export function bowkerTest(table: readonly (readonly number[])[], options: Paire
       pairs.push({ first: labels[i], second: labels[j], forward: counts[i][j], backward: counts[j][i], contribution });
     }
   }
-  const notices: Notice[] = [];
+  const notices: FoundNotice[] = [];
   if (skipped.length > 0) {
-    notices.push(info('empty-pairs-dropped', `No unit moved either way between ${skipped.join(', ')}; ${skipped.length === 1 ? 'this pair adds' : 'these pairs add'} nothing to the statistic and ${skipped.length === 1 ? 'was' : 'were'} left out of the degrees of freedom.`));
+    notices.push(info('empty-pairs-dropped', { pairs: skipped }));
   }
   const df = terms.length;
   if (df === 0) throw new InputError('table: every unit kept its category (all off-diagonal counts are 0), so symmetry cannot be tested.', { jsonPath: '$.table' }, 'no-discordant-pairs');
-  const line = chiSquareLine('bowker', "Bowker's test of symmetry", 'X²', sum(terms), df);
+  const line = chiSquareLine('bowker', phrase('statistic.bowker'), 'X²', sum(terms), df);
   const n = sum(counts.flat());
   const significant = line.pValue.value < alpha;
   return testResult(
     {
-      ...chiSquareCore('paired', "Bowker's test of symmetry", line, n, alpha),
-      conclusion: significant
-        ? `Moves between categories are not symmetric ${describeAlpha(alpha)} (${describeP(line.pValue)}): for some pairs of categories, more units moved one way than the other.`
-        : `The data do not show asymmetric moves between categories ${describeAlpha(alpha)} (${describeP(line.pValue)}).`,
+      ...chiSquareCore('paired', phrase('statistic.bowker'), line, n, alpha),
+      conclusion: phrase('conclusion.bowker', { significant, alpha, p: line.pValue }),
     },
     { notices, assumptions: [pairingAssumption(), independenceAssumption('pair')], details: { pairs } },
   );
@@ -201,13 +192,13 @@ const RATIO_INTERVAL_LIMIT = 1e7;
  */
 function discordantRatio(b: number, c: number, confidence: number): FoundEstimate {
   const value = c === 0 ? (b === 0 ? NaN : Infinity) : b / c;
-  const base = { id: 'discordantOddsRatio', name: 'Ratio of discordant pairs b/c (conditional odds ratio)', value };
+  const base = { id: 'discordantOddsRatio', name: phrase('estimate.discordant-ratio'), value };
   const m = b + c;
   if (m === 0 || m > RATIO_INTERVAL_LIMIT) return base;
   const [lower, upper] = clopperPearson(b, m, confidence);
   return {
     ...base,
-    interval: { lower: lower / (1 - lower), upper: upper >= 1 ? Infinity : upper / (1 - upper), level: confidence, parameter: 'b/c', method: 'exact conditional (Clopper–Pearson interval for b/(b + c), mapped by π/(1 − π))' },
+    interval: { lower: lower / (1 - lower), upper: upper >= 1 ? Infinity : upper / (1 - upper), level: confidence, parameter: 'b/c', method: phrase('method.clopper-pearson-ratio') },
   };
 }
 

@@ -8,12 +8,12 @@
  * Benjamini–Hochberg (1995) step-up false discovery rate. Every line names the rows, columns or cell it is about.
  */
 import { InputError } from '../../errors';
-import { chiSquareCore, chiSquareLine, columnSums, labelsOr, pearsonTable, requireChoice, requireCountTable, rowSums, sum, testResult } from './advanced-common';
-import { checkExpectedCounts, describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
+import { chiSquareCore, chiSquareLine, columnSums, info, labelsOr, pearsonTable, phrase, requireChoice, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { checkExpectedCounts, independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from '../distributions/normal';
 import { probabilityFromValue, twoSidedFromTails } from '../distributions/probability';
 import { adjustedResidual } from './table';
-import type { FoundNotice, Notice, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
+import type { FoundNotice, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
 import { adjustPValues } from '../multiplicity';
 
 export type Adjustment = 'bonferroni' | 'holm' | 'benjamini-hochberg';
@@ -89,11 +89,10 @@ function twoSidedNormal(z: number): Probability {
   return twoSidedFromTails(normalLowerProbability(z), normalUpperProbability(z));
 }
 
-const ADJUSTMENT_NAMES: Record<Adjustment, string> = {
-  bonferroni: 'Bonferroni',
-  holm: 'Holm',
-  'benjamini-hochberg': 'Benjamini–Hochberg (false discovery rate)',
-};
+const ADJUSTMENTS: readonly Adjustment[] = ['bonferroni', 'holm', 'benjamini-hochberg'];
+
+/** How many flagged cells or pairs the conclusion names before it ends with "…". */
+const FLAGGED_NAMED = 10;
 
 /** Post-hoc comparisons on an r×c table, with the overall Pearson test at the head of the result. */
 export function postHocTest(table: readonly (readonly number[])[], options: PostHocOptions = {}): ComputedTestResult {
@@ -101,7 +100,7 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const compare = requireChoice<Comparison>(options.compare, ['rows', 'columns', 'cells'], 'cells', 'compare');
   const adjustment = options.adjustment ?? 'holm';
-  if (!(adjustment in ADJUSTMENT_NAMES)) throw new InputError(`adjustment: expected one of ${Object.keys(ADJUSTMENT_NAMES).join(', ')}, found ${String(adjustment)}`, { jsonPath: '$.adjustment' }, 'invalid-adjustment');
+  if (!ADJUSTMENTS.includes(adjustment)) throw new InputError(`adjustment: expected one of ${ADJUSTMENTS.join(', ')}, found ${String(adjustment)}`, { jsonPath: '$.adjustment' }, 'invalid-adjustment');
   const rowLabels = labelsOr(options.rowLabels, counts.length, 'row ', 'rowLabels');
   const columnLabels = labelsOr(options.columnLabels, counts[0].length, 'column ', 'columnLabels');
   const rows = rowSums(counts);
@@ -114,8 +113,8 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   }
   if (counts.length < 2 || counts[0].length < 2) throw new InputError(`table: expected at least a 2×2 table, found ${counts.length}×${counts[0].length}`, { jsonPath: '$.table' }, 'wrong-shape');
   const overall = pearsonTable(counts);
-  const overallLine = chiSquareLine('pearson', 'Pearson chi-square (overall)', 'X²', overall.statistic, overall.df);
-  const notices: (FoundNotice | Notice)[] = [];
+  const overallLine = chiSquareLine('pearson', phrase('statistic.pearson-overall'), 'X²', overall.statistic, overall.df);
+  const notices: FoundNotice[] = [];
   const n = sum(rows);
   const expectedCheck = checkExpectedCounts(
     counts.flatMap((row, i) => row.map((_, j) => (rows[i] * cols[j]) / n)),
@@ -125,9 +124,8 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   );
   if (expectedCheck.notice) notices.push(expectedCheck.notice);
   if (overallLine.pValue.value >= alpha) {
-    notices.push({ code: 'overall-not-significant', severity: 'info', message: `The overall test is not significant ${describeAlpha(alpha)} (${describeP(overallLine.pValue)}); post-hoc comparisons are usually read only after a significant overall test.` });
+    notices.push(info('overall-not-significant', { alpha, p: overallLine.pValue }));
   }
-  const adjustName = ADJUSTMENT_NAMES[adjustment];
   let lines: FoundStatisticLine[];
   let detail: Record<string, unknown>;
   let flagged: string[];
@@ -135,12 +133,12 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
     const cells = cellTests(counts, rowLabels, columnLabels, adjustment, alpha);
     lines = cells.map((c) => ({
       id: `cell-${c.row + 1}-${c.column + 1}`,
-      name: `Cell ${c.rowLabel} × ${c.columnLabel}: ${c.adjustedResidual > 0 ? 'more' : 'fewer'} than expected`,
+      name: phrase('statistic.posthoc-cell', { row: c.rowLabel, column: c.columnLabel, more: c.adjustedResidual > 0 }),
       symbol: 'z',
       statistic: c.adjustedResidual,
       df: null,
       pValue: probabilityFromValue(c.adjustedPValue),
-      note: `observed ${c.observed}, expected ${c.expected.toPrecision(4)}; unadjusted p = ${c.pValue.toPrecision(3)}, ${adjustName}-adjusted p = ${c.adjustedPValue.toPrecision(3)}`,
+      note: phrase('note.posthoc-cell', { observed: c.observed, expected: c.expected, p: c.pValue, adjustedP: c.adjustedPValue, adjustment }),
     }));
     detail = { cells };
     flagged = cells.filter((c) => c.significant).map((c) => `${c.rowLabel} × ${c.columnLabel}`);
@@ -151,24 +149,20 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
     const pairs = pairwiseRows(t, labels, adjustment, alpha);
     lines = pairs.map((p) => ({
       id: `${compare}-${p.indices[0] + 1}-${p.indices[1] + 1}`,
-      name: `${byRows ? 'Rows' : 'Columns'} ${p.first} vs ${p.second}`,
+      name: phrase('statistic.posthoc-pair', { rows: byRows, first: p.first, second: p.second }),
       symbol: 'X²',
       statistic: p.statistic,
       df: p.df,
       pValue: probabilityFromValue(p.adjustedPValue),
-      note: `unadjusted p = ${p.pValue.toPrecision(3)}, ${adjustName}-adjusted p = ${p.adjustedPValue.toPrecision(3)}`,
+      note: phrase('note.posthoc-pair', { p: p.pValue, adjustedP: p.adjustedPValue, adjustment }),
     }));
     detail = { pairs };
     flagged = pairs.filter((p) => p.significant).map((p) => `${p.first} vs ${p.second}`);
   }
-  const subject = compare === 'cells' ? 'cells' : `pairs of ${compare}`;
   return testResult(
     {
-      ...chiSquareCore('post-hoc', `Post-hoc ${compare === 'cells' ? 'cell-wise adjusted residual tests' : `pairwise comparisons of ${compare}`} (${adjustName})`, overallLine, n, alpha),
-      conclusion:
-        flagged.length > 0
-          ? `After ${adjustName} adjustment, ${flagged.length} ${subject} differ ${describeAlpha(alpha)}: ${flagged.slice(0, 10).join('; ')}${flagged.length > 10 ? '; …' : ''}.`
-          : `After ${adjustName} adjustment, no ${compare === 'cells' ? 'cell departs' : `pair of ${compare} differs`} from independence ${describeAlpha(alpha)}.`,
+      ...chiSquareCore('post-hoc', phrase('procedure.posthoc', { compare, adjustment }), overallLine, n, alpha),
+      conclusion: phrase('conclusion.posthoc', { compare, adjustment, alpha, flagged: flagged.slice(0, FLAGGED_NAMED), flaggedCount: flagged.length }),
     },
     {
       otherStatistics: lines,

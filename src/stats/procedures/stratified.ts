@@ -13,11 +13,11 @@
  * (df (R−1)(C−1)), row mean scores differ (df R−1), and nonzero correlation (df 1).
  */
 import { InputError } from '../../errors';
-import { chiSquareCore, chiSquareLine, info, labelsOr, pLine, requireCountTable, sum, testResult } from './advanced-common';
-import { describeAlpha, describeP, independenceAssumption, nameOf, requireCountTotal, requireLevel } from './assumptions';
+import { chiSquareCore, chiSquareLine, info, labelsOr, phrase, pLine, requireCountTable, sum, testResult, warning } from './advanced-common';
+import { independenceAssumption, requireCountTotal, requireLevel } from './assumptions';
 import { hypergeometricSupport, logHypergeometricPmf, logSumExp, pointProbabilityTwoSided } from '../distributions/discrete';
 import { normalUpperQuantile } from '../distributions/normal';
-import type { FoundEstimate, FoundInterval, Notice, FoundStatisticLine, ComputedTestResult } from '../result';
+import type { FoundEstimate, FoundInterval, FoundNotice, FoundStatisticLine, ComputedTestResult, Phrase, Probability } from '../result';
 
 export interface StratifiedOptions {
   readonly alpha?: number;
@@ -44,7 +44,7 @@ export interface Stratum {
   readonly n: number;
 }
 
-function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stratum[]; notices: Notice[]; r: number; c: number } {
+function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stratum[]; notices: FoundNotice[]; r: number; c: number } {
   if (!Array.isArray(strata) || strata.length === 0) {
     throw new InputError('strata: expected an array of tables (one per stratum), found none', { jsonPath: '$.strata' }, 'no-strata');
   }
@@ -58,7 +58,7 @@ function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stra
     }
   });
   if (r < 2 || c < 2) throw new InputError(`strata: each stratum must be at least 2×2, found ${r}×${c}`, { jsonPath: '$.strata' }, 'wrong-shape');
-  const notices: Notice[] = [];
+  const notices: FoundNotice[] = [];
   const kept: Stratum[] = [];
   const dropped: string[] = [];
   tables.forEach((table, k) => {
@@ -67,7 +67,7 @@ function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stra
     else kept.push({ label: labels[k], table, n });
   });
   if (dropped.length > 0) {
-    notices.push(info('strata-dropped', `Strata with fewer than 2 units carry no information and were left out: ${dropped.join(', ')}.`));
+    notices.push(info('strata-dropped', { labels: dropped }));
   }
   if (kept.length === 0) throw new InputError('strata: every stratum has fewer than 2 units', { jsonPath: '$.strata' }, 'no-strata');
   requireCountTotal(sum(kept.map((x) => x.n)), 'strata', '$.strata');
@@ -135,8 +135,8 @@ export function breslowDay(tables: readonly (readonly (readonly number[])[])[], 
   const df = informative - 1;
   const tarone = bd - ((sumA - sumE) * (sumA - sumE)) / sumV;
   return {
-    breslowDay: chiSquareLine('breslow-day', 'Breslow–Day test of homogeneous odds ratios', 'X²', bd, df),
-    tarone: chiSquareLine('breslow-day-tarone', "Breslow–Day test with Tarone's adjustment", 'X²', tarone, df),
+    breslowDay: chiSquareLine('breslow-day', phrase('statistic.breslow-day'), 'X²', bd, df),
+    tarone: chiSquareLine('breslow-day-tarone', phrase('statistic.breslow-day-tarone'), 'X²', tarone, df),
   };
 }
 
@@ -229,25 +229,17 @@ function conditionalInterval(lo: number, logPmf: readonly number[], observed: nu
     lower: observed <= lo ? 0 : solveLogPsi(upperTail, logTail),
     upper: observed >= hi ? Infinity : solveLogPsi(lowerTail, -logTail),
     level,
-    parameter: 'common odds ratio',
-    method: 'exact conditional (inverting the one-sided conditional tests)',
+    parameter: phrase('parameter.common-odds-ratio'),
+    method: phrase('method.exact-conditional-strata'),
   };
 }
 
-/**
- * The conclusion in plain words, naming the row and column variables when they are known
- * ("Within strata, `shift` and `defect` are associated …"), generic otherwise.
- */
-function stratifiedConclusion(significant: boolean, alpha: number, p: string, options: StratifiedOptions, extra = ''): string {
-  const row = nameOf(options.rowVariable);
-  const column = nameOf(options.columnVariable);
-  const pair = row === undefined && column === undefined ? 'the row and column variables' : `${row ?? 'the row variable'} and ${column ?? 'the column variable'}`;
-  return significant
-    ? `Within strata, ${pair} are associated ${describeAlpha(alpha)} (${p})${extra}.`
-    : `The data do not show an association between ${pair} within strata ${describeAlpha(alpha)} (${p}).`;
+/** The conclusion, naming the row and column variables when they are known; with the common odds ratio when it is finite. */
+function stratifiedConclusion(significant: boolean, alpha: number, p: Probability, options: StratifiedOptions, oddsRatio?: number): Phrase {
+  return phrase('conclusion.stratified', { significant, alpha, p, rowVariable: options.rowVariable, columnVariable: options.columnVariable, oddsRatio });
 }
 
-function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: StratifiedOptions): ComputedTestResult {
+function cmh2x2(strata: readonly Stratum[], notices: FoundNotice[], options: StratifiedOptions): ComputedTestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
   const method = options.method ?? 'asymptotic';
@@ -286,8 +278,8 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   const uncorrected = sumV > 0 ? (delta * delta) / sumV : NaN;
   const yates = Math.min(0.5, Math.abs(delta));
   const corrected = sumV > 0 ? (Math.abs(delta) - yates) ** 2 / sumV : NaN;
-  const uncorrectedLine = chiSquareLine('cmh', 'Cochran–Mantel–Haenszel chi-square', 'X²', uncorrected, 1);
-  const correctedLine = chiSquareLine('cmh-corrected', 'Cochran–Mantel–Haenszel chi-square with continuity correction', 'X²', corrected, 1);
+  const uncorrectedLine = chiSquareLine('cmh', phrase('statistic.cmh'), 'X²', uncorrected, 1);
+  const correctedLine = chiSquareLine('cmh-corrected', phrase('statistic.cmh-corrected'), 'X²', corrected, 1);
 
   const cost = convolutionCost(tables);
   const exactFits = cost.work <= EXACT_STRATIFIED_WORK_LIMIT && cost.support <= EXACT_STRATIFIED_SUPPORT_LIMIT;
@@ -295,9 +287,9 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   if (!exactFits && method === 'exact') {
     throw new InputError(`method: ${limitText}, so the exact test is not computed for counts this large; use "asymptotic" (the chi-square approximation is accurate at these sizes)`, { jsonPath: '$.method' }, 'exact-too-large');
   }
-  if (!exactFits) notices.push(info('exact-too-large', `The exact conditional test and the conditional estimate of the common odds ratio are left out: ${limitText}.`));
+  if (!exactFits) notices.push(info('exact-too-large', { support: cost.support, work: cost.work, supportLimit: EXACT_STRATIFIED_SUPPORT_LIMIT, workLimit: EXACT_STRATIFIED_WORK_LIMIT }));
   const exact = exactFits ? convolvedLogPmf(tables) : null;
-  const exactLine = exact ? pLine('cmh-exact', 'Exact conditional test (common odds ratio 1)', pointProbabilityTwoSided(exact.logPmf, sumA - exact.lo), `Σa = ${sumA}, given every stratum's margins`, sumA, 'Σa') : null;
+  const exactLine = exact ? pLine('cmh-exact', phrase('statistic.cmh-exact'), pointProbabilityTwoSided(exact.logPmf, sumA - exact.lo), phrase('note.cmh-exact', { sumA }), sumA, 'Σa') : null;
 
   const oddsRatio = rNum / sDen;
   const variance = pr / (2 * rNum * rNum) + psqr / (2 * rNum * sDen) + qs / (2 * sDen * sDen);
@@ -305,26 +297,26 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   const se = Math.sqrt(variance);
   const finiteRatio = oddsRatio > 0 && Number.isFinite(oddsRatio);
   if (!finiteRatio) {
-    notices.push(info('odds-ratio-not-finite', `The Mantel–Haenszel odds ratio is ${Number.isNaN(oddsRatio) ? 'undefined' : oddsRatio === 0 ? '0' : 'infinite'} (a zero in every stratum's ${oddsRatio === 0 ? 'a·d' : 'b·c'} product), so it has no interval and the homogeneity test is not computed; the tests of association are unaffected.`));
+    notices.push(info('odds-ratio-not-finite', { oddsRatio }));
   }
   const interval: FoundInterval = {
     lower: Math.exp(Math.log(oddsRatio) - z * se),
     upper: Math.exp(Math.log(oddsRatio) + z * se),
     level: confidence,
-    parameter: 'common odds ratio',
-    method: 'Robins–Breslow–Greenland variance of the log Mantel–Haenszel estimate',
+    parameter: phrase('parameter.common-odds-ratio'),
+    method: phrase('method.robins-breslow-greenland'),
   };
   const homogeneity = finiteRatio ? breslowDay(tables, oddsRatio) : null;
-  if (strata.length < 2) notices.push(info('single-stratum', 'Only one stratum: the homogeneity test of odds ratios needs at least two.'));
+  if (strata.length < 2) notices.push(info('single-stratum'));
   else if (finiteRatio && homogeneity === null) {
-    notices.push(info('homogeneity-not-tested', 'Fewer than two strata have a count that can vary given their margins (the others have a zero row or column total), so there is no Breslow–Day test of homogeneous odds ratios.'));
+    notices.push(info('homogeneity-not-tested'));
   }
   const estimates: FoundEstimate[] = [
-    finiteRatio ? { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio, interval } : { id: 'mantelHaenszelOddsRatio', name: 'Mantel–Haenszel common odds ratio', value: oddsRatio },
+    finiteRatio ? { id: 'mantelHaenszelOddsRatio', name: phrase('estimate.mantel-haenszel'), value: oddsRatio, interval } : { id: 'mantelHaenszelOddsRatio', name: phrase('estimate.mantel-haenszel'), value: oddsRatio },
   ];
   const conditionalOr = exact ? conditionalMle(exact.lo, exact.logPmf, sumA) : NaN;
   if (exact) {
-    estimates.push({ id: 'conditionalOddsRatio', name: 'Common odds ratio, conditional maximum likelihood', value: conditionalOr, interval: conditionalInterval(exact.lo, exact.logPmf, sumA, confidence), note: 'The estimate and interval that go with the exact conditional test.' });
+    estimates.push({ id: 'conditionalOddsRatio', name: phrase('estimate.common-conditional-odds-ratio'), value: conditionalOr, interval: conditionalInterval(exact.lo, exact.logPmf, sumA, confidence), note: phrase('note.common-conditional-odds-ratio') });
   }
   const main = method === 'exact' && exactLine ? exactLine : options.correction ? correctedLine : uncorrectedLine;
   const others = [uncorrectedLine, correctedLine, ...(exactLine ? [exactLine] : [])].filter((l) => l !== main);
@@ -334,12 +326,12 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   const significant = pValue.value < alpha;
   const heterogeneous = homogeneity !== null && homogeneity.tarone.pValue.value < alpha;
   if (heterogeneous && homogeneity !== null) {
-    notices.push({ code: 'heterogeneous-odds-ratios', severity: 'warning', message: `The odds ratios differ between strata (Breslow–Day with Tarone's adjustment, ${describeP(homogeneity.tarone.pValue)}): a single common odds ratio summarises them poorly; look at the strata one by one.` });
+    notices.push(warning('heterogeneous-odds-ratios', { p: homogeneity.tarone.pValue }));
   }
   return testResult(
     {
       test: 'stratified',
-      procedure: method === 'exact' ? 'Exact conditional test of independence in 2×2×K tables' : `Cochran–Mantel–Haenszel test${options.correction ? ' with continuity correction' : ''}`,
+      procedure: method === 'exact' ? phrase('procedure.stratified-exact') : phrase('procedure.cmh', { correction: options.correction === true }),
       statisticSymbol: main.symbol,
       statistic: main.statistic,
       df: main.df,
@@ -348,7 +340,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
       alternative: 'two-sided',
       reference: method === 'exact' ? { kind: 'none' } : { kind: 'chi-square', df: 1 },
       alpha,
-      conclusion: stratifiedConclusion(significant, alpha, describeP(pValue), options, finiteRatio ? `; the common odds ratio is about ${oddsRatio.toPrecision(3)}` : ''),
+      conclusion: stratifiedConclusion(significant, alpha, pValue, options, finiteRatio ? oddsRatio : undefined),
     },
     {
       otherStatistics: others,
@@ -358,13 +350,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
       notices,
       assumptions: [
         independenceAssumption('counted unit'),
-        {
-          id: 'common-odds-ratio',
-          title: 'A common odds ratio across strata',
-          status: !homogeneityTested ? 'unchecked' : heterogeneous ? 'failed' : 'met',
-          explanation: 'The CMH test is most powerful, and the pooled odds ratio meaningful, when the association has the same direction and size in every stratum. The Breslow–Day test checks this.',
-          alternative: 'Report the strata separately',
-        },
+        { id: 'common-odds-ratio', status: !homogeneityTested ? 'unchecked' : heterogeneous ? 'failed' : 'met' },
       ],
       details: {
         strata: perStratum,
@@ -474,13 +460,13 @@ export function generalizedCmhStatistics(
   const rowMeans = cmhQuadratic(strata, identityBlock(r), [columnScores.slice()]);
   const correlation = cmhQuadratic(strata, [rowScores.slice()], [columnScores.slice()]);
   return {
-    general: chiSquareLine('cmh-general', 'Generalized CMH: general association', 'Q', general.statistic, general.df),
-    rowMeans: chiSquareLine('cmh-row-means', 'Generalized CMH: row mean scores differ', 'Q', rowMeans.statistic, rowMeans.df, 'Uses the column scores.'),
-    correlation: chiSquareLine('cmh-correlation', 'Generalized CMH: nonzero correlation', 'Q', correlation.statistic, correlation.df, 'Uses the row and column scores.'),
+    general: chiSquareLine('cmh-general', phrase('statistic.cmh-general'), 'Q', general.statistic, general.df),
+    rowMeans: chiSquareLine('cmh-row-means', phrase('statistic.cmh-row-means'), 'Q', rowMeans.statistic, rowMeans.df, phrase('note.uses-column-scores')),
+    correlation: chiSquareLine('cmh-correlation', phrase('statistic.cmh-correlation'), 'Q', correlation.statistic, correlation.df, phrase('note.uses-both-scores')),
   };
 }
 
-function generalizedCmh(strata: readonly Stratum[], notices: Notice[], r: number, c: number, options: StratifiedOptions): ComputedTestResult {
+function generalizedCmh(strata: readonly Stratum[], notices: FoundNotice[], r: number, c: number, options: StratifiedOptions): ComputedTestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   if (options.method === 'exact') {
     throw new InputError('method: the exact conditional test is available for 2×2×K strata only; use "asymptotic" for R×C×K', { jsonPath: '$.method' }, 'method-unavailable');
@@ -492,8 +478,8 @@ function generalizedCmh(strata: readonly Stratum[], notices: Notice[], r: number
   const significant = main.pValue.value < alpha;
   return testResult(
     {
-      ...chiSquareCore('stratified', 'Generalized Cochran–Mantel–Haenszel test', main, sum(strata.map((x) => x.n)), alpha),
-      conclusion: stratifiedConclusion(significant, alpha, describeP(main.pValue), options),
+      ...chiSquareCore('stratified', phrase('procedure.cmh-generalized'), main, sum(strata.map((x) => x.n)), alpha),
+      conclusion: stratifiedConclusion(significant, alpha, main.pValue, options),
     },
     {
       otherStatistics: [s.rowMeans, s.correlation],

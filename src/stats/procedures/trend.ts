@@ -11,11 +11,11 @@
  *   the Pearson correlation of the row and column scores over the N units; df 1.
  */
 import { InputError } from '../../errors';
-import { chiSquareLine, columnSums, labelsOr, pearsonTable, requireChoice, requireCountTable, rowSums, sum, testResult } from './advanced-common';
-import { describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
+import { chiSquareLine, columnSums, info, labelsOr, pearsonTable, phrase, requireChoice, requireCountTable, rowSums, sum, testResult } from './advanced-common';
+import { independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from '../distributions/normal';
 import { twoSidedFromTails } from '../distributions/probability';
-import type { Alternative, Probability, FoundStatisticLine, ComputedTestResult } from '../result';
+import type { Alternative, Probability, FoundStatisticLine, ComputedTestResult, Words } from '../result';
 
 const ALTERNATIVES: readonly Alternative[] = ['two-sided', 'greater', 'less'];
 
@@ -78,28 +78,25 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
 
   // Pearson X² of the 2×k table, for the departure from linearity.
   const pearson = pearsonTable(counts).statistic;
-  const trendLine = chiSquareLine('cochran-armitage', 'Cochran–Armitage trend chi-square', 'X²', trend, 1);
-  const zLine: FoundStatisticLine = { id: 'cochran-armitage-z', name: 'Cochran–Armitage z (positive: first-row proportion rises with the score)', symbol: 'z', statistic: z, df: null, pValue: alternative === 'less' ? sides.less : alternative === 'greater' ? sides.greater : sides.twoSided };
-  const departure = k > 2 ? chiSquareLine('departure-from-trend', 'Departure from a linear trend (X² − trend)', 'X²', Math.max(0, pearson - trend), k - 2) : null;
+  const trendLine = chiSquareLine('cochran-armitage', phrase('statistic.cochran-armitage'), 'X²', trend, 1);
+  const zLine: FoundStatisticLine = { id: 'cochran-armitage-z', name: phrase('statistic.cochran-armitage-z'), symbol: 'z', statistic: z, df: null, pValue: alternative === 'less' ? sides.less : alternative === 'greater' ? sides.greater : sides.twoSided };
+  const departure = k > 2 ? chiSquareLine('departure-from-trend', phrase('statistic.departure-from-trend'), 'X²', Math.max(0, pearson - trend), k - 2) : null;
   const oneSided = alternative !== 'two-sided';
   const pValue = oneSided ? zLine.pValue : trendLine.pValue;
   const significant = pValue.value < alpha;
   const proportions = events.map((x, j) => (totals[j] > 0 ? x / totals[j] : NaN));
-  const direction = z > 0 ? 'rises' : 'falls';
   return testResult(
     {
-      ...signedCore('Cochran–Armitage test for trend', 'X²', trend, z, alternative, n, pValue, alpha),
-      conclusion: significant
-        ? `The proportion of "${rowLabels[0]}" ${direction} with the score of the ordered groups ${describeAlpha(alpha)} (${describeP(pValue)}).`
-        : `The data do not show a ${oneSided ? (alternative === 'greater' ? 'rising' : 'falling') : 'linear'} trend in the proportion of "${rowLabels[0]}" across the ordered groups ${describeAlpha(alpha)} (${describeP(pValue)}).`,
+      ...signedCore(phrase('procedure.cochran-armitage'), 'X²', trend, z, alternative, n, pValue, alpha),
+      conclusion: phrase('conclusion.cochran-armitage', { significant, alpha, p: pValue, alternative, rises: z > 0, event: rowLabels[0] }),
     },
     {
       otherStatistics: [oneSided ? trendLine : zLine, ...(departure ? [departure] : [])],
-      notices: options.scores === undefined ? [{ code: 'default-scores', severity: 'info', message: `Scores not given: equally spaced scores 1 to ${k} were used. The result depends on the scores; give "scores" when the groups are not evenly spaced.` }] : [],
+      notices: options.scores === undefined ? [info('default-scores', { groups: k })] : [],
       assumptions: [independenceAssumption('counted unit')],
       details: {
         scores,
-        direction: 'z > 0 when the first row’s proportion rises with the score',
+        direction: phrase('detail.trend-direction'),
         proportions: columnLabels.map((label, j) => ({ group: label, score: scores[j], events: events[j], total: totals[j], proportion: proportions[j] })),
         z,
         pValues: { twoSided: sides.twoSided, greater: sides.greater, less: sides.less },
@@ -109,7 +106,7 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
 }
 
 /** The head of a result whose statistic is z (one-sided) or its square on 1 df (two-sided). */
-function signedCore(procedure: string, squareSymbol: string, square: number, z: number, alternative: Alternative, n: number, pValue: Probability, alpha: number) {
+function signedCore(procedure: Words, squareSymbol: string, square: number, z: number, alternative: Alternative, n: number, pValue: Probability, alpha: number) {
   const oneSided = alternative !== 'two-sided';
   return {
     test: 'trend',
@@ -155,20 +152,18 @@ export function linearByLinearTest(table: readonly (readonly number[])[], option
   const m2 = (n - 1) * correlation * correlation;
   const z = Math.sign(correlation) * Math.sqrt(m2);
   const sides = normalSides(z);
-  const line = chiSquareLine('linear-by-linear', 'Linear-by-linear association', 'M²', m2, 1);
+  const line = chiSquareLine('linear-by-linear', phrase('statistic.linear-by-linear'), 'M²', m2, 1);
   const oneSided = alternative !== 'two-sided';
   const pValue = alternative === 'greater' ? sides.greater : alternative === 'less' ? sides.less : line.pValue;
   const significant = pValue.value < alpha;
   return testResult(
     {
-      ...signedCore('Linear-by-linear association test', 'M²', m2, z, alternative, n, pValue, alpha),
-      conclusion: significant
-        ? `Higher row scores go with ${correlation > 0 ? 'higher' : 'lower'} column scores ${describeAlpha(alpha)} (r = ${correlation.toFixed(3)}, ${describeP(pValue)}).`
-        : `The data do not show a linear association between the ordered variables ${describeAlpha(alpha)} (r = ${correlation.toFixed(3)}, ${describeP(pValue)}).`,
+      ...signedCore(phrase('procedure.linear-by-linear'), 'M²', m2, z, alternative, n, pValue, alpha),
+      conclusion: phrase('conclusion.linear-by-linear', { significant, alpha, p: pValue, correlation }),
     },
     {
       otherStatistics: oneSided ? [line] : [],
-      estimates: [{ id: 'scoreCorrelation', name: 'Pearson correlation of the scores', value: correlation }],
+      estimates: [{ id: 'scoreCorrelation', name: phrase('estimate.score-correlation'), value: correlation }],
       assumptions: [independenceAssumption('counted unit')],
       details: { rowScores: u, columnScores: v, correlation, z },
     },
