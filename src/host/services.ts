@@ -98,6 +98,8 @@ export class Services {
             allowedRoot: this.workspaceRootFor(specPath),
             allowOutsideRoot: s.allowPathsOutsideWorkspace,
             signal: abort.signal,
+            // What the panel shows is worded in the editor's language; recorded and compared runs stay English.
+            translate: vscode.l10n.t,
             onProgress: (fraction) => {
               const pct = Math.floor(fraction * 100);
               if (pct > reported) {

@@ -71,6 +71,36 @@ function robustDisagrees(a: PhraseArgs, t: Translate): string {
     : t("The chi-square interval ({0}) excludes {1}, but Bonett's robust interval ({2}) contains it: the conclusion depends on the normality assumption.", classic, value, robust);
 }
 
+/** The exact computation was left out (stratified tests) or replaced by a Monte Carlo p-value (r×c tables, multinomial fits). */
+function exactTooLarge(a: PhraseArgs, t: Translate): string {
+  if (a.rows !== undefined) {
+    return t(
+      'The exact computation for this {0}×{1} table (n = {2}) would exceed its work limit ({3} steps), so a Monte Carlo p-value of the same test was computed instead ({4} resamples).',
+      num(a, 'rows'),
+      num(a, 'columns'),
+      num(a, 'n'),
+      num(a, 'workLimit').toLocaleString('en-US'),
+      num(a, 'resamples'),
+    );
+  }
+  if (a.outcomes !== undefined) {
+    return t(
+      'There are about {0} possible outcomes for n = {1} in {2} categories, more than the exact enumeration handles ({3}); a Monte Carlo p-value was computed instead.',
+      num(a, 'outcomes').toExponential(1),
+      num(a, 'n'),
+      num(a, 'categories'),
+      num(a, 'outcomeLimit'),
+    );
+  }
+  return t(
+    'The exact conditional test and the conditional estimate of the common odds ratio are left out: the exact conditional distribution of Σa here has {0} values and costs {1} steps; the limits are {2} values and {3} steps.',
+    num(a, 'support'),
+    num(a, 'work').toPrecision(3),
+    num(a, 'supportLimit'),
+    num(a, 'workLimit').toPrecision(1),
+  );
+}
+
 export const NOTICE_WORDS: Readonly<Record<string, NoticeWriter>> = {
   'small-expected': smallExpected,
   'rescaled-expected': (a, t) =>
@@ -111,14 +141,7 @@ export const NOTICE_WORDS: Readonly<Record<string, NoticeWriter>> = {
   'bonett-unavailable': (_, t) => t("Bonett's robust interval needs at least 5 values and the fourth moment; it is not shown."),
   'robust-disagrees': robustDisagrees,
   'strata-dropped': (a, t) => t('Strata with fewer than 2 units carry no information and were left out: {0}.', strings(a, 'labels').join(', ')),
-  'exact-too-large': (a, t) =>
-    t(
-      'The exact conditional test and the conditional estimate of the common odds ratio are left out: the exact conditional distribution of Σa here has {0} values and costs {1} steps; the limits are {2} values and {3} steps.',
-      num(a, 'support'),
-      num(a, 'work').toPrecision(3),
-      num(a, 'supportLimit'),
-      num(a, 'workLimit').toPrecision(1),
-    ),
+  'exact-too-large': exactTooLarge,
   'odds-ratio-not-finite': (a, t) => {
     const oddsRatio = num(a, 'oddsRatio');
     if (Number.isNaN(oddsRatio)) {
@@ -146,5 +169,26 @@ export const NOTICE_WORDS: Readonly<Record<string, NoticeWriter>> = {
     t('Scores not given: equally spaced scores 1 to {0} were used. The result depends on the scores; give "scores" when the groups are not evenly spaced.', num(a, 'groups')),
   'overall-not-significant': (a, t) =>
     t('The overall test is not significant {0} ({1}); post-hoc comparisons are usually read only after a significant overall test.', atLevel(num(a, 'alpha'), t), describeP(prob(a, 'p'))),
+  'equiprobable-bins': (a, t) => t('{0} bins of equal probability under the fitted normal (k = ⌈2·n^0.4⌉, at most n/{1}; common practice).', num(a, 'bins'), num(a, 'minExpected')),
+  'bins-pooled': (a, t) => t('Adjacent bins were pooled until every expected count reached {0} (common practice): {1}.', num(a, 'minExpected'), strings(a, 'pooled').join('; ')),
+  'estimated-parameters': (a, t) => {
+    const m = num(a, 'estimated');
+    const [bins, df, p] = [num(a, 'bins'), num(a, 'df'), describeP(prob(a, 'p'))];
+    return m > 1
+      ? t('df = {0} bins − 1 − {1} estimated parameters = {2}. The parameters were estimated from the ungrouped values, so the true p-value lies between this one and the one with {3} df (Chernoff & Lehmann 1954): {4}.', bins, m, df, bins - 1, p)
+      : t('df = {0} bins − 1 − {1} estimated parameter = {2}. The parameters were estimated from the ungrouped values, so the true p-value lies between this one and the one with {3} df (Chernoff & Lehmann 1954): {4}.', bins, m, df, bins - 1, p);
+  },
+  'monte-carlo-cancelled': (a, t) => t('The Monte Carlo run was cancelled after {0} of {1} resamples; the p-value uses those done.', num(a, 'resamples'), num(a, 'requested')),
+  'ratio-against-alternative': (a, t) =>
+    str(a, 'alternative') === 'greater'
+      ? t('σ1/σ0 = {0} is below 1 but the alternative is "greater": the power will stay below alpha.', num(a, 'ratio'))
+      : t('σ1/σ0 = {0} is above 1 but the alternative is "less": the power will stay below alpha.', num(a, 'ratio')),
+  'variance-power-normality': (a, t) => t('Variance test, {0}: df = n − 1. The calculation assumes normally distributed values, as the test itself does.', str(a, 'alternative')),
+  'power-df': (a, t) =>
+    str(a, 'target') === 'independence'
+      ? t('Independence test: df = (r − 1)(c − 1) = {0}; noncentrality λ = n·w².', num(a, 'df'))
+      : t('Goodness of fit: df = k − 1 − (estimated parameters) = {0}; noncentrality λ = n·w².', num(a, 'df')),
+  'sample-size-rounding': (a, t) =>
+    t('n is the smallest whole number of units whose power reaches {0} (power at n − 1: {1}).', num(a, 'power'), a.powerBefore === undefined ? t('n/a') : num(a, 'powerBefore').toFixed(4)),
   'haldane-anscombe': (_, t) => t('A cell is 0, so 0.5 was added to every cell before computing the odds ratio, the relative risk and their intervals (Haldane–Anscombe correction).'),
 };

@@ -216,6 +216,46 @@ function postHocProcedure(a: PhraseArgs, t: Translate): string {
   return compare === 'rows' ? t('Post-hoc pairwise comparisons of rows ({0})', adjustment) : t('Post-hoc pairwise comparisons of columns ({0})', adjustment);
 }
 
+/** A fitted family by name, as sentences write it. */
+function familyName(family: string, t: Translate): string {
+  if (family === 'poisson') return t('Poisson');
+  if (family === 'binomial') return t('binomial');
+  if (family === 'geometric') return t('geometric');
+  if (family === 'normal') return t('normal');
+  throw new Error(`no wording for the family "${family}"`);
+}
+
+function distributionFitConclusion(a: PhraseArgs, t: Translate): string {
+  const name = familyName(str(a, 'family'), t);
+  const level = atLevel(num(a, 'alpha'), t);
+  const p = pOf(a, t);
+  return flag(a, 'significant')
+    ? t('The values do not follow a {0} distribution {1} ({2}): the observed counts per bin depart from the fitted ones by more than chance would explain.', name, level, p)
+    : t('The data are consistent with a {0} distribution {1} ({2}); this does not prove the values are {0}, only that the departure is within chance.', name, level, p);
+}
+
+function monteCarloName(statistic: string, t: Translate): string {
+  if (statistic === 'pearson') return t('Pearson chi-square, Monte Carlo p-value');
+  if (statistic === 'likelihood-ratio') return t('Likelihood-ratio chi-square, Monte Carlo p-value');
+  if (statistic === 'cressie-read') return t('Cressie–Read power divergence, Monte Carlo p-value');
+  if (statistic === 'probability') return t('Fisher’s exact test (tables ordered by probability), Monte Carlo p-value');
+  throw new Error(`no wording for the statistic "${statistic}"`);
+}
+
+function exactMultinomialName(statistic: string, t: Translate): string {
+  if (statistic === 'probability') return t('Exact multinomial test (outcomes ordered by probability)');
+  if (statistic === 'pearson') return t('Exact multinomial test of the Pearson statistic');
+  if (statistic === 'likelihood-ratio') return t('Exact multinomial test of the likelihood-ratio statistic');
+  return t('Exact multinomial test of the Cressie–Read statistic');
+}
+
+function monteCarloNote(a: PhraseArgs, t: Translate): string {
+  const values = [num(a, 'resamples'), num(a, 'seed'), num(a, 'standardError').toPrecision(2), num(a, 'lower').toPrecision(3), num(a, 'upper').toPrecision(3)] as const;
+  return str(a, 'what') === 'tables'
+    ? t('{0} random tables with the observed margins (seed {1}); Monte Carlo standard error {2}, 99% interval {3}–{4}.', ...values)
+    : t('{0} random samples from the hypothesised distribution (seed {1}); Monte Carlo standard error {2}, 99% interval {3}–{4}.', ...values);
+}
+
 export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   // Conclusions.
   'conclusion.goodness-of-fit': goodnessOfFitConclusion,
@@ -223,6 +263,7 @@ export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   'conclusion.method-flipped': methodFlipped,
   'conclusion.variance': varianceConclusion,
   'conclusion.stratified': stratifiedConclusion,
+  'conclusion.distribution-fit': distributionFitConclusion,
   'conclusion.posthoc': postHocConclusion,
   'conclusion.cochran-armitage': cochranArmitageConclusion,
   'conclusion.linear-by-linear': linearByLinearConclusion,
@@ -244,6 +285,7 @@ export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   'procedure.cochran-armitage': (_, t) => t('Cochran–Armitage test for trend'),
   'procedure.linear-by-linear': (_, t) => t('Linear-by-linear association test'),
   'procedure.posthoc': postHocProcedure,
+  'procedure.distribution-fit': (a, t) => t('Chi-square goodness of fit to a {0} distribution (parameters estimated)', familyName(str(a, 'family'), t)),
   'procedure.with-method': (a, t) => t('{0}, {1} p-value', phraseOrText(a, 'procedure', t), methodText(str(a, 'method'), t)),
 
   // Statistics.
@@ -292,6 +334,16 @@ export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
     flag(a, 'rows') ? t('Rows {0} vs {1}', str(a, 'first'), str(a, 'second')) : t('Columns {0} vs {1}', str(a, 'first'), str(a, 'second')),
   'note.posthoc-pair': (a, t) =>
     t('unadjusted p = {0}, {1}-adjusted p = {2}', num(a, 'p').toPrecision(3), adjustmentName(str(a, 'adjustment'), t), num(a, 'adjustedP').toPrecision(3)),
+  'statistic.chernoff-lehmann': (a, t) => t('Pearson chi-square on {0} df (Chernoff–Lehmann upper bound of p)', num(a, 'df')),
+  'statistic.monte-carlo': (a, t) => monteCarloName(str(a, 'statistic'), t),
+  'note.monte-carlo': monteCarloNote,
+  'detail.paired-difference-direction': (_, t) => t('row-1 share minus column-1 share: (b − c)/n'),
+  'detail.monte-carlo-rule': (_, t) => t('(1 + extreme resamples) / (resamples + 1); 99% Wilson interval'),
+  'statistic.fisher': (_, t) => t("Fisher's exact test"),
+  'statistic.fisher-freeman-halton': (_, t) => t("Fisher's exact test (Fisher–Freeman–Halton)"),
+  'note.fisher-two-sided': (_, t) => t('Two-sided: the total probability of the tables with the observed margins that are no more probable than the observed one.'),
+  'statistic.exact-multinomial': (a, t) => exactMultinomialName(str(a, 'statistic'), t),
+  'note.exact-multinomial': (a, t) => t('All {0} outcomes of {1} units in {2} categories enumerated.', num(a, 'outcomes').toFixed(0), num(a, 'n'), num(a, 'categories')),
   'note.fisher-one-sided': (a, t) =>
     t('Conditional on both margins. One-sided: {0} if the alternative is odds ratio > 1, {1} if it is odds ratio < 1.', describeP(prob(a, 'greater')), describeP(prob(a, 'less'))),
 
@@ -333,6 +385,12 @@ export const PHRASES: Readonly<Record<string, PhraseWriter>> = {
   'estimate.discordant-ratio': (_, t) => t('Ratio of discordant pairs b/c (conditional odds ratio)'),
 
   'estimate.score-correlation': (_, t) => t('Pearson correlation of the scores'),
+
+  'estimate.fit-mean': (_, t) => t('μ (mean)'),
+  'estimate.fit-sd': (_, t) => t('σ (maximum likelihood, divisor n)'),
+  'estimate.fit-binomial-p': (a, t) => t('p (success probability, {0} trials)', num(a, 'trials')),
+  'estimate.fit-poisson-lambda': (_, t) => t('λ (mean)'),
+  'estimate.fit-geometric-p': (_, t) => t('p (success probability; support 0, 1, 2, … failures before the first success)'),
 
   // Interval parameters and methods.
   'parameter.common-odds-ratio': (_, t) => t('common odds ratio'),

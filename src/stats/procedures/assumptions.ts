@@ -1,11 +1,10 @@
 /**
- * Assumption and notice builders shared by the procedures, so the same rule is worded and
- * applied the same way in every result that rests on the chi-square approximation (goodness of fit, r×c tables,
- * post-hoc comparisons).
+ * Assumption and notice builders shared by the procedures, so the same rule is applied the same way in every
+ * result that rests on the chi-square approximation (goodness of fit, r×c tables, post-hoc comparisons); the words
+ * are written by report/words from the codes and numbers returned here. Also the shared checks of levels and counts.
  */
-import { formatProbability } from './probabilityText';
 import { InputError } from '../../errors';
-import type { FoundAssumption, FoundNotice, Probability } from '../result';
+import type { FoundAssumption, FoundNotice } from '../result';
 
 /**
  * What to use instead when the expected-count rule fails (`report/words` names it): an exact multinomial test or a
@@ -72,30 +71,6 @@ export function independenceAssumption(unit: IndependentUnit): FoundAssumption {
   return { id: 'independence', status: 'unchecked', args: { unit } };
 }
 
-/** A p-value in words for conclusion sentences, written as every report writes it: "p = 0.008", "p ≈ 3.2 × 10^-437". */
-export function describeP(p: Probability): string {
-  return `${p.value >= 0.001 || (p.value === 0 && p.log10 === -Infinity) ? 'p =' : 'p ≈'} ${formatProbability(p)}`;
-}
-
-/**
- * A variable's name as conclusion sentences write it (`oven`, in backticks like every label quoted from
- * the data), or undefined when no name is known (blank counts as unknown).
- */
-export function nameOf(name: string | undefined): string | undefined {
-  const trimmed = typeof name === 'string' ? name.trim() : '';
-  return trimmed === '' ? undefined : `\`${trimmed.replace(/`/g, "'")}\``;
-}
-
-/** The first letter in upper case, for a phrase that starts a sentence. */
-export function capitalise(text: string): string {
-  return text.charAt(0).toUpperCase() + text.slice(1);
-}
-
-/** "at the 5% level" for α = 0.05. */
-export function describeAlpha(alpha: number): string {
-  return `at the ${Number((alpha * 100).toPrecision(6))}% level`;
-}
-
 /** Refuses a significance level or confidence level outside (0, 1). */
 export function requireLevel(value: number, name: 'alpha' | 'confidence'): number {
   if (!(typeof value === 'number' && value > 0 && value < 1)) {
@@ -127,9 +102,4 @@ export function requireCountTotal(total: number, what: string, jsonPath: string)
   if (total > MAX_COUNT) {
     throw new InputError(`${what}: the total count ${total} is above the largest exactly representable count (2^53 − 1); counts this large cannot be tested exactly`, { jsonPath }, 'count-too-large');
   }
-}
-
-/** A number for sentences and notes: four significant digits, no trailing zeros. */
-export function formatNumber(x: number): string {
-  return Number.isFinite(x) ? String(Number(x.toPrecision(4))) : String(x);
 }

@@ -15,13 +15,13 @@
  * χ²(k − 1) (Chernoff & Lehmann 1954), so the reported p-value is slightly small; this is said in a notice.
  */
 import { InputError } from '../../errors';
-import { chiSquareCore, chiSquareLine, sum, testResult } from './advanced-common';
-import { MAX_COUNT, describeAlpha, describeP, independenceAssumption, requireLevel } from './assumptions';
+import { chiSquareCore, chiSquareLine, info, phrase, sum, testResult } from './advanced-common';
+import { MAX_COUNT, independenceAssumption, requireLevel } from './assumptions';
 import { binomialLowerTail, logBinomialPmf } from '../distributions/discrete';
 import { powerDivergence } from './divergence';
 import { logFactorial, regularizedGammaLower, regularizedGammaUpper } from '../distributions/gamma';
 import { normalLowerTail, normalQuantile, normalUpperTail } from '../distributions/normal';
-import type { CategoryRow, Notice, ComputedTestResult } from '../result';
+import type { CategoryRow, FoundEstimate, FoundNotice, ComputedTestResult } from '../result';
 
 export type FitFamily = 'poisson' | 'binomial' | 'geometric' | 'normal';
 
@@ -199,8 +199,8 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   const n = values.length;
   const uncapped = options.singleBinsUpTo ?? MAX_DISCRETE_BINS;
   let bins: Bin[];
-  let estimated: { id: string; name: string; value: number }[];
-  const notices: Notice[] = [];
+  let estimated: FoundEstimate[];
+  const notices: FoundNotice[] = [];
   if (family === 'normal') {
     requireValues(values, false, family);
     const mu = sum(values) / n;
@@ -215,12 +215,12 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     } else {
       const k = Math.max(4, Math.min(Math.ceil(2 * Math.pow(n, 0.4)), Math.floor(n / minimum)));
       cuts = Array.from({ length: k - 1 }, (_, i) => mu + sigma * normalQuantile((i + 1) / k));
-      notices.push({ code: 'equiprobable-bins', severity: 'info', message: `${k} bins of equal probability under the fitted normal (k = ⌈2·n^0.4⌉, at most n/${minimum}; common practice).` });
+      notices.push(info('equiprobable-bins', { bins: k, minExpected: minimum }));
     }
     bins = normalBins(values, mu, sigma, cuts);
     estimated = [
-      { id: 'mean', name: 'μ (mean)', value: mu },
-      { id: 'sd', name: 'σ (maximum likelihood, divisor n)', value: sigma },
+      { id: 'mean', name: phrase('estimate.fit-mean'), value: mu },
+      { id: 'sd', name: phrase('estimate.fit-sd'), value: sigma },
     ];
   } else if (family === 'binomial') {
     const m = options.trials;
@@ -233,7 +233,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
       m + 1 <= uncapped
         ? discreteBins(values, m, logPmf)
         : cappedDiscreteBins(values, m, logPmf, { lower: (k) => binomialLowerTail(k, m, p).value, upper: (k) => (k <= 0 ? 1 : binomialLowerTail(m - k, m, 1 - p).value) }, minimum, family);
-    estimated = [{ id: 'p', name: `p (success probability, ${m} trials)`, value: p }];
+    estimated = [{ id: 'p', name: phrase('estimate.fit-binomial-p', { trials: m }), value: p }];
   } else {
     requireValues(values, true, family);
     const mean = sum(values) / n;
@@ -247,7 +247,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
         top + 1 <= uncapped
           ? discreteBins(values, Math.max(top, 1), logPmf, upper)
           : cappedDiscreteBins(values, top, logPmf, { lower: (k) => regularizedGammaUpper(k + 1, mean), upper }, minimum, family);
-      estimated = [{ id: 'lambda', name: 'λ (mean)', value: mean }];
+      estimated = [{ id: 'lambda', name: phrase('estimate.fit-poisson-lambda'), value: mean }];
     } else {
       const p = 1 / (1 + mean);
       if (p === 1) throw new InputError('values: all values are 0, so a geometric distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
@@ -257,7 +257,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
         top + 1 <= uncapped
           ? discreteBins(values, Math.max(top, 1), logPmf, upper)
           : cappedDiscreteBins(values, top, logPmf, { lower: (k) => -Math.expm1((k + 1) * Math.log1p(-p)), upper }, minimum, family);
-      estimated = [{ id: 'p', name: 'p (success probability; support 0, 1, 2, … failures before the first success)', value: p }];
+      estimated = [{ id: 'p', name: phrase('estimate.fit-geometric-p'), value: p }];
     }
   }
 
@@ -269,14 +269,15 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   }
   const pooled = groups.filter((g) => g.bins.length > 1);
   if (pooled.length > 0) {
-    notices.push({ code: 'bins-pooled', severity: 'info', message: `Adjacent bins were pooled until every expected count reached ${minimum} (common practice): ${pooled.map((g) => `${g.bins.join(' + ')} → ${g.label}`).join('; ')}.` });
+    // Each pooling as bin labels and symbols ("3 + 4 → 3–4"): names from the data, no words.
+    notices.push(info('bins-pooled', { minExpected: minimum, pooled: pooled.map((g) => `${g.bins.join(' + ')} → ${g.label}`) }));
   }
   // Pearson X² is the power divergence with λ = 1 (Cressie & Read 1984); one implementation serves fit, table and here.
   const pearson = powerDivergence(groups.map((g) => g.observed), groups.map((g) => g.expected), 1);
   // Chernoff & Lehmann (1954): with the parameters estimated from the ungrouped values, the statistic's null
   // distribution lies between χ²(k − 1 − m) and χ²(k − 1), so the p-value on k − 1 df bounds the true one from above.
-  const bound = chiSquareLine('pearson-chernoff-lehmann', `Pearson chi-square on ${groups.length - 1} df (Chernoff–Lehmann upper bound of p)`, 'X²', pearson.statistic, groups.length - 1);
-  notices.push({ code: 'estimated-parameters', severity: 'info', message: `df = ${groups.length} bins − 1 − ${m} estimated parameter${m > 1 ? 's' : ''} = ${df}. The parameters were estimated from the ungrouped values, so the true p-value lies between this one and the one with ${groups.length - 1} df (Chernoff & Lehmann 1954): ${describeP(bound.pValue)}.` });
+  const bound = chiSquareLine('pearson-chernoff-lehmann', phrase('statistic.chernoff-lehmann', { df: groups.length - 1 }), 'X²', pearson.statistic, groups.length - 1);
+  notices.push(info('estimated-parameters', { bins: groups.length, estimated: m, df, p: bound.pValue }));
   const categories: CategoryRow[] = groups.map((g, k) => {
     const share = g.expected / n;
     return {
@@ -288,15 +289,12 @@ export function distributionFitTest(values: readonly number[], options: Distribu
       contribution: pearson.contributions[k],
     };
   });
-  const line = chiSquareLine('pearson', 'Pearson chi-square', 'X²', pearson.statistic, df);
+  const line = chiSquareLine('pearson', phrase('statistic.pearson'), 'X²', pearson.statistic, df);
   const significant = line.pValue.value < alpha;
-  const name = FAMILY_NAMES[family];
   return testResult(
     {
-      ...chiSquareCore('distribution-fit', `Chi-square goodness of fit to a ${name} distribution (parameters estimated)`, line, n, alpha),
-      conclusion: significant
-        ? `The values do not follow a ${name} distribution ${describeAlpha(alpha)} (${describeP(line.pValue)}): the observed counts per bin depart from the fitted ones by more than chance would explain.`
-        : `The data are consistent with a ${name} distribution ${describeAlpha(alpha)} (${describeP(line.pValue)}); this does not prove the values are ${name}, only that the departure is within chance.`,
+      ...chiSquareCore('distribution-fit', phrase('procedure.distribution-fit', { family }), line, n, alpha),
+      conclusion: phrase('conclusion.distribution-fit', { significant, alpha, p: line.pValue, family }),
     },
     {
       otherStatistics: [bound],

@@ -19,7 +19,7 @@ import { LogSumAccumulator, logFactorialTable } from '../distributions/discrete'
 import { divergenceTerm } from './divergence';
 import { MAX_RESAMPLING_TOTAL, checkFitInput, monteCarloFit, monteCarloIndependence, tieTolerance, type MonteCarloOptions, type ResamplingResult, type ResamplingStatistic } from './montecarlo';
 import { probabilityFromLog } from '../distributions/probability';
-import type { Notice, Probability, FoundStatisticLine } from '../result';
+import type { FoundNotice, Probability, FoundStatisticLine } from '../result';
 
 export interface FisherExactOptions {
   /**
@@ -338,10 +338,10 @@ export function exactIndependence(table: readonly (readonly number[])[], options
   const exact = tryExactIndependence(counts, options.workLimit);
   if (exact !== null) return exact;
   const mc = monteCarloIndependence(counts, { ...options.fallback, statistic: 'probability' });
-  const notice: Notice = {
+  const notice: FoundNotice = {
     code: 'exact-too-large',
     severity: 'info',
-    message: `The exact computation for this ${counts.length}×${counts[0].length} table (n = ${counts.flat().reduce((a, b) => a + b, 0)}) would exceed its work limit (${(options.workLimit ?? DEFAULT_WORK_LIMIT).toLocaleString('en-US')} steps), so a Monte Carlo p-value of the same test was computed instead (${mc.details.resamples} resamples).`,
+    args: { rows: counts.length, columns: counts[0].length, n: counts.flat().reduce((a, b) => a + b, 0), workLimit: options.workLimit ?? DEFAULT_WORK_LIMIT, resamples: Number(mc.details.resamples) },
   };
   return { line: mc.line, notices: [notice, ...mc.notices], details: { ...mc.details, exactAttempted: true } };
 }
@@ -353,12 +353,12 @@ export function tryExactIndependence(table: readonly (readonly number[])[], work
   if (!outcome.completed) return null;
   const line: FoundStatisticLine = {
     id: 'fisher-exact',
-    name: counts.length === 2 && counts[0].length === 2 ? "Fisher's exact test" : "Fisher's exact test (Fisher–Freeman–Halton)",
+    name: { code: counts.length === 2 && counts[0].length === 2 ? 'statistic.fisher' : 'statistic.fisher-freeman-halton' },
     symbol: '',
     statistic: NaN,
     df: null,
     pValue: outcome.pValue!,
-    note: 'Two-sided: the total probability of the tables with the observed margins that are no more probable than the observed one.',
+    note: { code: 'note.fisher-two-sided' },
   };
   const df = (counts.length - 1) * (counts[0].length - 1);
   return {
@@ -399,7 +399,7 @@ export function exactMultinomialFit(observed: readonly number[], probabilities: 
   const limit = options.outcomeLimit ?? 5e6;
   if (outcomeCount(n, k) > limit) {
     const mc = monteCarloFit(observed, probabilities, { ...options.fallback, statistic: options.statistic, lambda: options.lambda });
-    const notice: Notice = { code: 'exact-too-large', severity: 'info', message: `There are about ${outcomeCount(n, k).toExponential(1)} possible outcomes for n = ${n} in ${k} categories, more than the exact enumeration handles (${limit}); a Monte Carlo p-value was computed instead.` };
+    const notice: FoundNotice = { code: 'exact-too-large', severity: 'info', args: { outcomes: outcomeCount(n, k), n, categories: k, outcomeLimit: limit } };
     return { line: mc.line, notices: [notice, ...mc.notices], details: { ...mc.details, exactAttempted: true } };
   }
   const lf = logFactorialTable(n);
@@ -429,17 +429,17 @@ export function exactMultinomialFit(observed: readonly number[], probabilities: 
     }
   };
   visit(0, n, 0, lf[n]);
-  const label = options.statistic === 'probability' ? { name: 'Exact multinomial test (outcomes ordered by probability)', symbol: '' } : { name: `Exact multinomial test of the ${options.statistic === 'pearson' ? 'Pearson' : options.statistic === 'likelihood-ratio' ? 'likelihood-ratio' : 'Cressie–Read'} statistic`, symbol: options.statistic === 'pearson' ? 'X²' : options.statistic === 'likelihood-ratio' ? 'G²' : 'CR' };
+  const symbol = options.statistic === 'probability' ? '' : options.statistic === 'pearson' ? 'X²' : options.statistic === 'likelihood-ratio' ? 'G²' : 'CR';
   const statisticValue = options.statistic === 'probability' ? NaN : lambda === 1 ? observedStatistic - n : observedStatistic;
   return {
     line: {
       id: `${options.statistic}-exact`,
-      name: label.name,
-      symbol: label.symbol,
+      name: { code: 'statistic.exact-multinomial', args: { statistic: options.statistic } },
+      symbol,
       statistic: statisticValue,
       df: null,
       pValue: probabilityFromLog(Math.min(0, total.log)),
-      note: `All ${outcomeCount(n, k).toFixed(0)} outcomes of ${n} units in ${k} categories enumerated.`,
+      note: { code: 'note.exact-multinomial', args: { outcomes: outcomeCount(n, k), n, categories: k } },
     },
     notices: [],
     details: { method: 'exact', statistic: options.statistic, outcomes: outcomeCount(n, k) },

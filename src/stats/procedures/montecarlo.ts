@@ -19,7 +19,7 @@ import { logFactorialTable } from '../distributions/discrete';
 import { divergenceTerm } from './divergence';
 import { probabilityFromValue } from '../distributions/probability';
 import { DEFAULT_SEED, Xoshiro128, type UniformSource } from '../random';
-import type { Notice, FoundStatisticLine } from '../result';
+import type { FoundNotice, FoundStatisticLine } from '../result';
 
 /** The statistic ordering the tables: larger is more extreme. */
 export type ResamplingStatistic = 'pearson' | 'likelihood-ratio' | 'cressie-read' | 'probability';
@@ -384,33 +384,30 @@ export function multinomialSession(observed: readonly number[], probabilities: r
 /** A resampling or exact p-value ready to sit beside the asymptotic one in a ComputedTestResult. */
 export interface ResamplingResult {
   readonly line: FoundStatisticLine;
-  readonly notices: readonly Notice[];
+  readonly notices: readonly FoundNotice[];
   readonly details: Readonly<Record<string, unknown>>;
 }
 
-const NAMES: Record<ResamplingStatistic, { name: string; symbol: string }> = {
-  pearson: { name: 'Pearson chi-square', symbol: 'X²' },
-  'likelihood-ratio': { name: 'Likelihood-ratio chi-square', symbol: 'G²' },
-  'cressie-read': { name: 'Cressie–Read power divergence', symbol: 'CR' },
-  probability: { name: 'Fisher’s exact test (tables ordered by probability)', symbol: '' },
-};
+const SYMBOLS: Record<ResamplingStatistic, string> = { pearson: 'X²', 'likelihood-ratio': 'G²', 'cressie-read': 'CR', probability: '' };
 
-function monteCarloResult(outcome: MonteCarloOutcome, statistic: ResamplingStatistic, df: number | null, what: string): ResamplingResult {
-  const label = NAMES[statistic];
-  const notices: Notice[] = [];
+/** What was drawn at random: tables with the observed margins, or samples from the hypothesised distribution. */
+type Resampled = 'tables' | 'samples';
+
+function monteCarloResult(outcome: MonteCarloOutcome, statistic: ResamplingStatistic, df: number | null, what: Resampled): ResamplingResult {
+  const notices: FoundNotice[] = [];
   if (outcome.cancelled) {
-    notices.push({ code: 'monte-carlo-cancelled', severity: 'warning', message: `The Monte Carlo run was cancelled after ${outcome.resamples} of ${outcome.requestedResamples} resamples; the p-value uses those done.` });
+    notices.push({ code: 'monte-carlo-cancelled', severity: 'warning', args: { resamples: outcome.resamples, requested: outcome.requestedResamples } });
   }
   const interval = { lower: outcome.interval99.lower, upper: outcome.interval99.upper, level: 0.99 };
   const line: FoundStatisticLine = {
     id: `${statistic}-monte-carlo`,
-    name: `${label.name}, Monte Carlo p-value`,
-    symbol: label.symbol,
+    name: { code: 'statistic.monte-carlo', args: { statistic } },
+    symbol: SYMBOLS[statistic],
     statistic: statistic === 'probability' ? NaN : outcome.statistic,
     df,
     pValue: probabilityFromValue(outcome.pValue),
     standardError: outcome.standardError,
-    note: `${outcome.resamples} random ${what} (seed ${outcome.seed}); Monte Carlo standard error ${outcome.standardError.toPrecision(2)}, 99% interval ${interval.lower.toPrecision(3)}–${interval.upper.toPrecision(3)}.`,
+    note: { code: 'note.monte-carlo', args: { resamples: outcome.resamples, what, seed: outcome.seed, standardError: outcome.standardError, lower: interval.lower, upper: interval.upper } },
   };
   return {
     line,
@@ -426,7 +423,7 @@ function monteCarloResult(outcome: MonteCarloOutcome, statistic: ResamplingStati
       standardError: outcome.standardError,
       interval99: interval,
       cancelled: outcome.cancelled,
-      rule: '(1 + extreme resamples) / (resamples + 1); 99% Wilson interval',
+      rule: { code: 'detail.monte-carlo-rule' },
     },
   };
 }
@@ -453,7 +450,7 @@ function independenceInput(table: readonly (readonly number[])[], options: Monte
 }
 
 function independenceResult(outcome: MonteCarloOutcome, counts: readonly (readonly number[])[], options: MonteCarloOptions): ResamplingResult {
-  return monteCarloResult(outcome, options.statistic, (counts.length - 1) * (counts[0].length - 1), 'tables with the observed margins');
+  return monteCarloResult(outcome, options.statistic, (counts.length - 1) * (counts[0].length - 1), 'tables');
 }
 
 /** Monte Carlo p-value for goodness of fit (multinomial samples with the hypothesised probabilities). */
@@ -475,7 +472,7 @@ function fitSession(observed: readonly number[], probabilities: readonly number[
 }
 
 function fitResult(outcome: MonteCarloOutcome, observed: readonly number[], options: MonteCarloOptions): ResamplingResult {
-  return monteCarloResult(outcome, options.statistic, observed.length - 1, 'samples from the hypothesised distribution');
+  return monteCarloResult(outcome, options.statistic, observed.length - 1, 'samples');
 }
 
 function requireResamples(resamples: number | undefined): void {

@@ -127,7 +127,7 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
       confidenceInterval: wald,
       notices,
       assumptions: [pairingAssumption(), independenceAssumption('pair')],
-      details: { discordant: { b, c }, method, correctionApplied: method === 'asymptotic' && options.correction === true, differenceDirection: 'row-1 share minus column-1 share: (b − c)/n' },
+      details: { discordant: { b, c }, method, correctionApplied: method === 'asymptotic' && options.correction === true, differenceDirection: phrase('detail.paired-difference-direction') },
     },
   );
 }

@@ -13,7 +13,7 @@
 import { InputError } from '../../errors';
 import { chiSquareLowerTail, chiSquareQuantile, chiSquareUpperQuantile, chiSquareUpperTail } from '../distributions/chisquare';
 import { noncentralChiSquareUpperTail } from '../distributions/noncentral';
-import type { Alternative, Notice, ComputedPowerResult } from '../result';
+import type { Alternative, FoundNotice, ComputedPowerResult } from '../result';
 
 export type PowerTarget = 'goodness-of-fit' | 'independence' | 'variance';
 
@@ -79,7 +79,7 @@ export function powerAnalysis(q: PowerQuestion): ComputedPowerResult {
   if (!(alpha > 0 && alpha < 1)) fail('alpha', `expected a number strictly between 0 and 1, found ${String(q.alpha)}`);
   if ((q.n === undefined) === (q.power === undefined)) fail('n', 'give exactly one of "n" (to compute the power) or "power" (to find the sample size)');
   if (q.power !== undefined && !(q.power > alpha && q.power < 1)) fail('power', `expected a target power between alpha (${alpha}) and 1, found ${String(q.power)}`);
-  const notices: Notice[] = [];
+  const notices: FoundNotice[] = [];
   let powerAt: (n: number) => number;
   let minimum: number;
   let effect: ComputedPowerResult['effectSize'];
@@ -88,13 +88,14 @@ export function powerAnalysis(q: PowerQuestion): ComputedPowerResult {
     const ratio = q.sigmaRatio;
     if (ratio === undefined || !(ratio > 0) || ratio === 1 || !Number.isFinite(ratio)) fail('sigmaRatio', `expected σ1/σ0, a positive number other than 1, found ${String(ratio)}`);
     const alternative = q.alternative ?? 'two-sided';
-    if (alternative === 'greater' && ratio < 1) notices.push({ code: 'ratio-against-alternative', severity: 'warning', message: `σ1/σ0 = ${ratio} is below 1 but the alternative is "greater": the power will stay below alpha.` });
-    if (alternative === 'less' && ratio > 1) notices.push({ code: 'ratio-against-alternative', severity: 'warning', message: `σ1/σ0 = ${ratio} is above 1 but the alternative is "less": the power will stay below alpha.` });
+    if ((alternative === 'greater' && ratio < 1) || (alternative === 'less' && ratio > 1)) {
+      notices.push({ code: 'ratio-against-alternative', severity: 'warning', args: { ratio, alternative } });
+    }
     powerAt = (n) => variancePower(ratio, n, alpha, alternative);
     minimum = 2;
     effect = { id: 'sigmaRatio', name: 'σ1/σ0', value: ratio };
     df = NaN;
-    notices.push({ code: 'variance-power-normality', severity: 'info', message: `Variance test, ${alternative}: df = n − 1. The calculation assumes normally distributed values, as the test itself does.` });
+    notices.push({ code: 'variance-power-normality', severity: 'info', args: { alternative } });
   } else {
     const w = q.effectSize;
     if (w === undefined || !(w > 0) || !Number.isFinite(w)) fail('effectSize', `expected Cohen's w, a positive number, found ${String(w)}`);
@@ -102,16 +103,9 @@ export function powerAnalysis(q: PowerQuestion): ComputedPowerResult {
     const d = q.df;
     powerAt = (n) => chiSquarePower(w, n, d, alpha);
     minimum = 1;
-    effect = { id: 'cohensW', name: "Cohen's w", value: w };
+    effect = { id: 'cohensW', name: { code: 'estimate.cohens-w' }, value: w };
     df = d;
-    notices.push({
-      code: 'power-df',
-      severity: 'info',
-      message:
-        q.target === 'independence'
-          ? `Independence test: df = (r − 1)(c − 1) = ${d}; noncentrality λ = n·w².`
-          : `Goodness of fit: df = k − 1 − (estimated parameters) = ${d}; noncentrality λ = n·w².`,
-    });
+    notices.push({ code: 'power-df', severity: 'info', args: { target: q.target, df: d } });
   }
   let n: number;
   let power: number;
@@ -124,7 +118,7 @@ export function powerAnalysis(q: PowerQuestion): ComputedPowerResult {
     if (found === null) fail('power', `the power ${q.power} is not reached with up to ${MAX_N} units for this effect size`);
     n = found;
     power = powerAt(n);
-    notices.push({ code: 'sample-size-rounding', severity: 'info', message: `n is the smallest whole number of units whose power reaches ${q.power} (power at n − 1: ${n > minimum ? powerAt(n - 1).toFixed(4) : 'n/a'}).` });
+    notices.push({ code: 'sample-size-rounding', severity: 'info', args: { power: q.power!, ...(n > minimum ? { powerBefore: powerAt(n - 1) } : {}) } });
   }
   return {
     kind: 'power',

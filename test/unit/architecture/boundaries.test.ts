@@ -3,6 +3,7 @@
 import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, relative, resolve, sep } from 'node:path';
+import * as ts from 'typescript';
 
 const root = join(__dirname, '..', '..', '..', 'src');
 
@@ -91,8 +92,81 @@ describe('architecture boundaries', () => {
     assert.deepEqual(offenders, []);
   });
 
+  it('stats writes no sentences for readers: its results carry phrase codes and arguments, report/words writes the words', () => {
+    const offenders = tsFiles(join(root, 'stats')).flatMap((file) => sentencesIn(file, readFileSync(file, 'utf8')));
+    assert.deepEqual(offenders, []);
+  });
+
+  it('the sentence check finds a sentence, a backtick-quoted name and a worded property, and passes error messages', () => {
+    const sample = [
+      "const conclusion = 'The data show an association.';",
+      'const note = `the column \\`${name}\\``;',
+      "const r = { message: significant ? 'fewer than expected' : 'more than expected' };",
+      "const code = 'small-expected';",
+      "throw new InputError('table: expected at least two rows of counts', {}, 'x');",
+      "const why = `expected ${k} labels (one per category)`;",
+      "if (bad) throw new InputError(`labels: ${why}`, {}, 'y');",
+    ].join('\n');
+    assert.deepEqual(
+      sentencesIn('sample.ts', sample).map((s) => s.split(': ')[0]),
+      ['sample.ts:1', 'sample.ts:2', 'sample.ts:3', 'sample.ts:3'],
+    );
+  });
+
   it('stats never reads the clock or an unseeded random source', () => {
     const offenders = tsFiles(join(root, 'stats')).filter((f) => /Date\.now|new Date\(|Math\.random|performance\.now/.test(readFileSync(f, 'utf8')));
     assert.deepEqual(offenders, []);
   });
 });
+
+/** The text of a string or template literal, substitutions left out; undefined for any other node. */
+function literalText(node: ts.Node): string | undefined {
+  if (ts.isStringLiteral(node) || ts.isNoSubstitutionTemplateLiteral(node)) return node.text;
+  if (ts.isTemplateExpression(node)) return [node.head.text, ...node.templateSpans.map((s) => s.literal.text)].join(' ');
+  return undefined;
+}
+
+/** Inside an error message: a `new InputError(…)`, a `throw`, or a call of a `require…`/`fail` check that throws. */
+function inErrorSite(node: ts.Node): boolean {
+  for (let n: ts.Node | undefined = node.parent; n; n = n.parent) {
+    if (ts.isThrowStatement(n)) return true;
+    if (ts.isNewExpression(n) && n.expression.getText() === 'InputError') return true;
+    if (ts.isCallExpression(n) && /^(require\w*|fail)$/.test(n.expression.getText())) return true;
+  }
+  return false;
+}
+
+/** A literal that a `const` keeps for error messages only: every use of the constant is in an error site. */
+function keptForErrors(node: ts.Node): boolean {
+  let declaration: ts.Node | undefined = node.parent;
+  while (declaration && !ts.isVariableDeclaration(declaration) && !ts.isBlock(declaration)) declaration = declaration.parent;
+  if (!declaration || !ts.isVariableDeclaration(declaration) || !ts.isIdentifier(declaration.name)) return false;
+  const name = declaration.name.text;
+  const uses: ts.Node[] = [];
+  const scope = declaration.parent.parent.parent;
+  const find = (n: ts.Node): void => {
+    if (ts.isIdentifier(n) && n.text === name && n !== declaration.name) uses.push(n);
+    ts.forEachChild(n, find);
+  };
+  find(scope);
+  return uses.length > 0 && uses.every(inErrorSite);
+}
+
+/**
+ * Literals in `stats/` that read as words for people: three words in a row, or a name quoted in markdown backticks.
+ * Error messages are left to the error side (src/errors.ts and the saved-test layer's paths), so they pass.
+ */
+function sentencesIn(file: string, text: string): string[] {
+  const source = ts.createSourceFile(file, text, ts.ScriptTarget.Latest, true);
+  const found: string[] = [];
+  const visit = (node: ts.Node): void => {
+    const words = literalText(node);
+    if (words !== undefined && (/\p{L}{2,}\s+\p{L}{2,}\s+\p{L}{2,}/u.test(words) || words.includes('`')) && !inErrorSite(node) && !keptForErrors(node)) {
+      const { line } = source.getLineAndCharacterOfPosition(node.getStart());
+      found.push(`${file.startsWith(root) ? relative(join(root, '..'), file) : file}:${line + 1}: ${node.getText().slice(0, 80)}`);
+    }
+    ts.forEachChild(node, visit);
+  };
+  visit(source);
+  return found;
+}

@@ -1,5 +1,6 @@
-// Translatable strings. Runtime: every user-visible string in src/host goes through vscode.l10n.t, and
-// l10n/bundle.l10n.json lists exactly the messages the code passes to it (UPDATE_L10N=1 rewrites the bundle).
+// Translatable strings. Runtime: every user-visible string in src/host goes through vscode.l10n.t, the result
+// sentences of src/report/words through the translator `t` the host fills with vscode.l10n.t, and
+// l10n/bundle.l10n.json lists exactly the messages the code passes to either (UPDATE_L10N=1 rewrites the bundle).
 // Contributions: every %key% in package.json has its English text in package.nls.json, and every entry is used.
 import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
@@ -16,13 +17,17 @@ function tsFiles(dir: string): string[] {
   });
 }
 
-const sources = tsFiles(join(root, 'src', 'host')).map((file) => ts.createSourceFile(file, readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true));
+const parse = (file: string): ts.SourceFile => ts.createSourceFile(file, readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true);
+const sources = tsFiles(join(root, 'src', 'host')).map(parse);
+/** The report layer's wording: each function takes the translator as `t` (src/report/words/translate.ts). */
+const wordings = tsFiles(join(root, 'src', 'report', 'words')).map(parse);
 
-/** `vscode.l10n.t(…)`, or `t(…)` where the file binds `const t = vscode.l10n.t`. */
+/** `vscode.l10n.t(…)`, or `t(…)` where the file binds `const t = vscode.l10n.t` or is a wording file of report/words. */
 function isL10nCall(node: ts.Node): node is ts.CallExpression {
   if (!ts.isCallExpression(node)) return false;
   const callee = node.expression.getText();
-  return callee === 'vscode.l10n.t' || (callee === 't' && /const t = vscode\.l10n\.t;/.test(node.getSourceFile().text));
+  const file = node.getSourceFile();
+  return callee === 'vscode.l10n.t' || (callee === 't' && (wordings.includes(file) || /const t = vscode\.l10n\.t;/.test(file.text)));
 }
 
 function walk(node: ts.Node, visit: (n: ts.Node) => void): void {
@@ -61,7 +66,7 @@ describe('translatable strings', () => {
   it('l10n/bundle.l10n.json holds exactly the messages passed to vscode.l10n.t', () => {
     const messages = new Set<string>();
     const dynamic: string[] = [];
-    for (const source of sources) {
+    for (const source of [...sources, ...wordings]) {
       walk(source, (node) => {
         if (!isL10nCall(node)) return;
         const first = node.arguments[0];
@@ -75,6 +80,7 @@ describe('translatable strings', () => {
     if (process.env.UPDATE_L10N) writeFileSync(file, JSON.stringify(bundle, null, 2) + '\n');
     assert.deepEqual(JSON.parse(readFileSync(file, 'utf8')), bundle, 'stale bundle: run UPDATE_L10N=1 npx mocha test/unit/host/l10n.test.ts');
     assert.ok(messages.size > 50, `only ${messages.size} messages found`);
+    assert.ok(messages.has('Chi-square test for one variance'), 'the result sentences of src/report/words are in the bundle');
   });
 
   it('package.json takes its contributed strings from package.nls.json', () => {
