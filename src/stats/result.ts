@@ -273,8 +273,8 @@ export interface FoundStatisticLine extends Omit<StatisticLine, 'name' | 'note'>
 /** A test's result as `stats/` computes it; `report/words` turns it into a `TestResult` (same fields, same order). */
 export interface ComputedTestResult
   extends Omit<TestResult, 'procedure' | 'conclusion' | 'otherStatistics' | 'effectSizes' | 'estimates' | 'confidenceInterval' | 'notices' | 'assumptions'> {
-  readonly procedure: Words;
-  readonly conclusion: Words;
+  readonly procedure: Phrase;
+  readonly conclusion: Phrase;
   readonly otherStatistics: readonly FoundStatisticLine[];
   readonly effectSizes: readonly FoundEstimate[];
   readonly estimates: readonly FoundEstimate[];

@@ -6,7 +6,7 @@
 import { exactIndependence, exactMultinomialFit, outcomeCount, tryExactIndependence } from '../../stats/procedures/exact';
 import { DEFAULT_RESAMPLES, monteCarloFitInSlices, monteCarloIndependenceInSlices, type ResamplingResult, type ResamplingStatistic } from '../../stats/procedures/montecarlo';
 import { DEFAULT_SEED } from '../../stats/random';
-import type { FoundStatisticLine, ComputedTestResult, Phrase, Words } from '../../stats/result';
+import type { FoundStatisticLine, ComputedTestResult, Phrase } from '../../stats/result';
 /** The fields of a count test that choose and tune its p-value method. */
 export interface MethodFields {
   readonly method?: 'asymptotic' | 'exact' | 'monte-carlo';
@@ -81,7 +81,7 @@ function merge(result: ComputedTestResult, resampled: ResamplingResult, method: 
   // Same verdict: the conclusion stays, with the p-value that now decides it; otherwise it says the verdict changed.
   const conclusion: Phrase =
     significant === result.significant
-      ? { code: phraseOf(result.conclusion).code, args: { ...phraseOf(result.conclusion).args, p: line.pValue, pMethod: actual } }
+      ? { code: result.conclusion.code, args: { ...result.conclusion.args, p: line.pValue, pMethod: actual } }
       : { code: 'conclusion.method-flipped', args: { method: actual, significant, alpha: result.alpha, p: line.pValue, asymptoticP: result.pValue } };
   return {
     ...result,
@@ -135,8 +135,3 @@ function withExactBeside(result: ComputedTestResult, spec: MethodFields): Comput
   };
 }
 
-/** The conclusion as a phrase: every count test's procedure in `stats/` writes it as one. */
-function phraseOf(conclusion: Words): Phrase {
-  if (typeof conclusion === 'string') throw new Error('a count test returned its conclusion as a sentence; stats/ returns phrases');
-  return conclusion;
-}

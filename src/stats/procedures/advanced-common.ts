@@ -52,7 +52,7 @@ export function pLine(id: string, name: Words, pValue: Probability, note?: Words
 }
 
 /** The head of a result whose main statistic is a chi-square line (no alternative: the test is one-tailed by nature). */
-export function chiSquareCore(test: string, procedure: Words, line: FoundStatisticLine, n: number, alpha: number): Omit<Core, 'conclusion'> {
+export function chiSquareCore(test: string, procedure: Phrase, line: FoundStatisticLine, n: number, alpha: number): Omit<Core, 'conclusion'> {
   const df = line.df ?? 1;
   return { test, procedure, statisticSymbol: line.symbol, statistic: line.statistic, df, n, pValue: line.pValue, alternative: null, reference: { kind: 'chi-square', df }, alpha };
 }

@@ -15,7 +15,7 @@ import { chiSquareLine, columnSums, info, labelsOr, pearsonTable, phrase, requir
 import { independenceAssumption, requireLevel } from './assumptions';
 import { normalLowerProbability, normalUpperProbability } from '../distributions/normal';
 import { twoSidedFromTails } from '../distributions/probability';
-import type { Alternative, Probability, FoundStatisticLine, ComputedTestResult, Words } from '../result';
+import type { Alternative, Probability, FoundStatisticLine, ComputedTestResult, Phrase } from '../result';
 
 const ALTERNATIVES: readonly Alternative[] = ['two-sided', 'greater', 'less'];
 
@@ -106,7 +106,7 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
 }
 
 /** The head of a result whose statistic is z (one-sided) or its square on 1 df (two-sided). */
-function signedCore(procedure: Words, squareSymbol: string, square: number, z: number, alternative: Alternative, n: number, pValue: Probability, alpha: number) {
+function signedCore(procedure: Phrase, squareSymbol: string, square: number, z: number, alternative: Alternative, n: number, pValue: Probability, alpha: number) {
   const oneSided = alternative !== 'two-sided';
   return {
     test: 'trend',

@@ -18,7 +18,7 @@ interface Sm {
 }
 const SM = fixture<{ statsmodels: string; stratified: Sm[] }>('statsmodels', 'advanced');
 
-const other = (r: ReturnType<typeof stratifiedTest>, id: string) => r.otherStatistics.find((l) => l.id === id)!;
+const other = (r: { otherStatistics: readonly { id: string; statistic: number; pValue: { value: number } }[] }, id: string) => r.otherStatistics.find((l) => l.id === id)!;
 
 describe('Cochran–Mantel–Haenszel test (2×2×K)', () => {
   it("reproduces R's own help example, the penicillin and rabbits data: X² = 3.9286, p = 0.04747, OR 7 (1.026713, 47.725133)", () => {
