@@ -8,7 +8,7 @@ import type { TestResult } from '../../stats/result';
 import { arr, field, num, obj, oneOf, ownMember, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { WeightsByLevel } from '../types';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { applyMethod } from './method';
 import {
   COUNT_ARRAY,

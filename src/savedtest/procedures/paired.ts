@@ -7,7 +7,7 @@ import type { TestResult } from '../../stats/result';
 import { bool, field, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { CONFIDENCE, COUNT_TABLE, LABELS, type SourceSpec, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 import { FRAGILITY_FIELDS } from '../evidence';
 

@@ -8,7 +8,7 @@ import { cochranArmitageTest, linearByLinearTest } from '../../stats/procedures/
 import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { ALTERNATIVE, COUNT_TABLE, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
 
 export const trendProcedure = defineProcedure({

@@ -6,7 +6,7 @@ import { varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValue
 import type { TestResult } from '../../stats/result';
 import { arr, field, num, obj, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { ALTERNATIVE, CONFIDENCE, VARIABLE_NAME, aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
 import { EQUIVALENCE_VARIANCE_FIELD } from '../evidence';
 

@@ -1,7 +1,7 @@
 // Keeps the arrows of the architecture pointing one way: the pure layers never import
 // `vscode`, and the numerical core never touches Node's I/O, the clock or randomness.
 import { strict as assert } from 'node:assert';
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, relative, resolve, sep } from 'node:path';
 
 const root = join(__dirname, '..', '..', '..', 'src');
@@ -21,6 +21,55 @@ function importsOf(file: string): string[] {
     found.push(m[1] ?? m[2] ?? m[3]);
   }
   return found;
+}
+
+/**
+ * The modules a file loads when it runs: relative imports and re-exports, leaving out `import type` and
+ * imports whose every name is a type (erased by the compiler, so they cannot close a loop at load time).
+ */
+function runtimeImportsOf(file: string): string[] {
+  const text = readFileSync(file, 'utf8');
+  const found: string[] = [];
+  for (const m of text.matchAll(/^(?:import|export)(?!\s+type\b)[^'"]*?from\s+['"](\.[^'"]+)['"]/gm)) {
+    const names = /^\s*(?:import|export)\s*\{([^}]*)\}/.exec(m[0]);
+    if (names && names[1].split(',').map((n) => n.trim()).filter(Boolean).every((n) => n.startsWith('type '))) continue;
+    const base = resolve(dirname(file), m[1]);
+    const target = [`${base}.ts`, join(base, 'index.ts')].find((c) => existsSync(c));
+    if (target) found.push(target);
+  }
+  return found;
+}
+
+/** Groups of modules that load each other in a loop (Tarjan's strongly connected components of size > 1). */
+function importLoops(files: readonly string[]): string[][] {
+  const edges = new Map(files.map((f) => [f, runtimeImportsOf(f)]));
+  const index = new Map<string, number>();
+  const low = new Map<string, number>();
+  const stack: string[] = [];
+  const onStack = new Set<string>();
+  const loops: string[][] = [];
+  const visit = (v: string): void => {
+    index.set(v, index.size);
+    low.set(v, index.get(v) ?? 0);
+    stack.push(v);
+    onStack.add(v);
+    for (const w of edges.get(v) ?? []) {
+      if (!index.has(w)) {
+        visit(w);
+        low.set(v, Math.min(low.get(v) ?? 0, low.get(w) ?? 0));
+      } else if (onStack.has(w)) low.set(v, Math.min(low.get(v) ?? 0, index.get(w) ?? 0));
+    }
+    if (low.get(v) !== index.get(v)) return;
+    const group: string[] = [];
+    for (let w = stack.pop(); w !== undefined; w = stack.pop()) {
+      onStack.delete(w);
+      group.push(relative(root, w));
+      if (w === v) break;
+    }
+    if (group.length > 1) loops.push(group);
+  };
+  for (const f of files) if (!index.has(f)) visit(f);
+  return loops;
 }
 
 /**
@@ -89,6 +138,10 @@ describe('architecture boundaries', () => {
       }
     }
     assert.deepEqual(offenders, []);
+  });
+
+  it('no module loads itself through a loop of imports (a loop leaves names undefined when one file is loaded first)', () => {
+    assert.deepEqual(importLoops(tsFiles(root)), []);
   });
 
   it('stats never reads the clock or an unseeded random source', () => {
