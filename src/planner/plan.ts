@@ -9,7 +9,7 @@ import { aggregateRecords } from '../data/aggregate';
 import type { Records } from '../data/records';
 import { InputError } from '../errors';
 import { askField, parseNumberList } from './ask';
-import { checkCategoryColumns, checkNotOnePerRow } from './guards';
+import { checkCategoryColumns, checkMeasurementColumns, checkNotOnePerRow } from './guards';
 import { inlineFromRecords } from './inline';
 import type { Offer } from './offer';
 import type { Choice, Questions } from './questions';
@@ -230,6 +230,7 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   if (measured || (weight !== undefined && columns.includes(weight))) weight = undefined;
   if (weight !== undefined && shape.kind === 'long-counts' && weight === shape.weightColumn) notes.push(`\`${weight}\` is the frequency weight: ${shape.reason}`);
   await checkCategoryColumns(view, roles, columns, weight, questions);
+  await checkMeasurementColumns(view, roles, columns, questions);
   if (view.records && !measured) checkNotOnePerRow(view.records, columns, weight, proposal.test, view.columns, offer.description);
 
   const source = offer.kind === 'records' && offer.file ? { path: relativePath(request.specFolder, offer.file.path), ...offer.file.source } : offer.kind === 'catalogue' ? { sql: offer.sql } : undefined;
@@ -279,7 +280,10 @@ async function allRecords(offer: Offer): Promise<Records> {
 async function chooseColumns(questions: Questions, columns: readonly ColumnInfo[], roles: readonly Role[], title: string, remembered: readonly string[] | undefined): Promise<string[]> {
   const chosen: string[] = [];
   for (const [k, role] of roles.entries()) {
-    const eligible = columns.filter((c) => !chosen.includes(c.name) && (role.kind === 'measurement' ? c.measurement : c.categorical));
+    // A column that numbers the rows is still offered, but last: it is rarely what anyone means to test.
+    const eligible = columns
+      .filter((c) => !chosen.includes(c.name) && (role.kind === 'measurement' ? c.measurement : c.categorical))
+      .sort((a, b) => Number(a.profile?.rowNumber !== undefined) - Number(b.profile?.rowNumber !== undefined));
     if (eligible.length === 0) throw new InputError(`found no column left for ${role.name}: expected ${role.kind === 'measurement' ? 'a numeric column' : 'a categorical column'}`, {}, 'nothing-to-test');
     const name = await questions.choose({
       title,

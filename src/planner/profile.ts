@@ -36,6 +36,27 @@ export interface ColumnProfile {
   readonly present: number;
   /** Set when most cells are numbers but a few are not: the column is offered, with these named. */
   readonly stray?: StrayCells;
+  /**
+   * Set when the column numbers the rows: at least 10 whole numbers, all different, forming one unbroken run
+   * (1, 2, 3, … or 20001, 20002, …). Its spread and distribution describe the numbering, not a measurement.
+   */
+  readonly rowNumber?: { readonly from: number; readonly to: number };
+}
+
+/** Fewer rows than this never count as a row numbering (a short run of whole numbers may be a real measurement). */
+const ROW_NUMBER_MIN = 10;
+
+/** The run `from … to` when the numbers are whole, all different, and fill the run with no gap; else undefined. */
+export function rowNumbering(values: readonly number[]): { from: number; to: number } | undefined {
+  if (values.length < ROW_NUMBER_MIN || !values.every((x) => Number.isInteger(x))) return undefined;
+  let from = Infinity;
+  let to = -Infinity;
+  for (const x of values) {
+    if (x < from) from = x;
+    if (x > to) to = x;
+  }
+  if (to - from + 1 !== values.length || new Set(values).size !== values.length) return undefined;
+  return { from, to };
 }
 
 /** A column counts as "numeric except a few cells" when at most this share of its cells are not numbers. */
@@ -78,6 +99,7 @@ export function profileColumns(records: Records, missing: readonly string[]): Co
     for (const v of texts) tally.set(v, (tally.get(v) ?? 0) + 1);
     // In the order first seen, as the tables and the saved test put them (one category order everywhere).
     const levels = [...tally.entries()].map(([label, count]) => ({ label, count }));
+    const rowNumber = numeric ? rowNumbering(read.parsed) : undefined;
     return {
       name,
       numeric,
@@ -89,6 +111,7 @@ export function profileColumns(records: Records, missing: readonly string[]): Co
       firstValues: texts.slice(0, 6),
       present: cells.length,
       ...(strayOk ? { stray: { count: read.bad.length, firstLine: read.bad[0].line, firstText: read.bad[0].text } } : {}),
+      ...(rowNumber ? { rowNumber } : {}),
     };
   });
 }
@@ -176,6 +199,7 @@ export function isMeasurement(p: ColumnProfile): boolean {
 
 /** A line for a choice's detail: "12 levels: Oven A (40), Oven B (33), …", "numbers: 12.1, 12.4, …", with stray cells named. */
 export function describeColumn(p: ColumnProfile): string {
+  if (p.rowNumber) return `numbers the rows: every value different, ${grouped(p.rowNumber.from)} to ${grouped(p.rowNumber.to)} with no gap; its spread describes the numbering, not a measurement`;
   if (p.stray) {
     const s = p.stray;
     return `numbers, except ${s.count} cell${s.count === 1 ? '' : 's'} that ${s.count === 1 ? 'is' : 'are'} not (first on line ${s.firstLine}: "${s.firstText}"); running on it stops there`;

@@ -55,6 +55,33 @@ describe('shape inference on the demo files', () => {
     assert.deepEqual((planned.spec.table as number[][])[0], [124, 37, 83, 27], 'Riverside: commute, errand, leisure, tourism');
   });
 
+  it('bakery-defects.csv: `tray` numbers the rows (1 to 1,800, no gap), so it is offered last, said so, and confirmed before its spread is tested', async () => {
+    const trays = readFileSync(join(demo, 'data', 'bakery-defects.csv'), 'utf8').split('\n').slice(2).filter(Boolean).map((l) => Number(l.split(',')[0]));
+    assert.deepEqual([trays.length, Math.min(...trays), Math.max(...trays), new Set(trays).size], [1800, 1, 1800, 1800], 'read from the file');
+    const ask = { 'Which test?': 'Variance of one numeric variable', 'Hypothesised standard deviation σ0': '10', 'Alternative hypothesis': 'σ differs from σ0' };
+    const declined = new ScriptedQuestions({ ...ask, 'Choose the column': 'tray', 'A column that numbers the rows': false });
+    await refusal(() => plan({ offer: fileOffer('bakery-defects.csv'), questions: declined, settings, specFolder: demo }), 'row-number-as-measurement', /`tray` numbers the rows/);
+    const offered = declined.asked.find((a) => a.placeholder === 'Choose the column')!;
+    assert.deepEqual(offered.choices, ['weight_g', 'tray'], 'the measurement first, the numbering last');
+    assert.match(offered.details![1] ?? '', /numbers the rows: every value different, 1 to 1,800 with no gap/);
+    assert.match(declined.asked.at(-1)!.placeholder ?? '', /1,800 different whole numbers from 1 to 1,800 with no gap/);
+    // Accepted, it runs on the numbers as asked; the real measurement is asked without any confirmation.
+    const { result } = await planAndRun(fileOffer('bakery-defects.csv'), { ...ask, 'Choose the column': 'tray', 'A column that numbers the rows': true });
+    assert.equal(result.n, 1800);
+    const weights = await planAndRun(fileOffer('bakery-defects.csv'), { ...ask, 'Choose the column': 'weight_g' });
+    assert.ok(!weights.questions.asked.some((a) => a.title === 'A column that numbers the rows'));
+  });
+
+  it('a short run or a run with a gap or a repeat is not a row numbering', () => {
+    const numbering = (values: number[]) => profileColumns({ columns: ['x'], rows: values.map((v) => [String(v)]), lines: values.map((_, i) => i + 2) }, [])[0].rowNumber;
+    assert.deepEqual(numbering(Array.from({ length: 10 }, (_, i) => 20001 + i)), { from: 20001, to: 20010 });
+    assert.deepEqual(numbering([5, 3, 4, 1, 2, 10, 9, 8, 7, 6]), { from: 1, to: 10 }, 'order does not matter');
+    assert.equal(numbering(Array.from({ length: 9 }, (_, i) => i + 1)), undefined, 'fewer than 10 values');
+    assert.equal(numbering([1, 2, 3, 4, 5, 6, 7, 8, 9, 11]), undefined, 'a gap');
+    assert.equal(numbering([1, 2, 3, 4, 5, 6, 7, 8, 9, 9]), undefined, 'a repeat');
+    assert.equal(numbering([1, 2, 3, 4, 5, 6, 7, 8, 9, 10.5]), undefined, 'a fraction');
+  });
+
   it('a numeric column with one stray word is offered for the variance test with the count and first line of the bad cells', async () => {
     const csv = 'dock,minutes\nPark,12.5\nPark,13.1\nHarbour,9.0\nHarbour,pending\n' + Array.from({ length: 20 }, (_, i) => `Quay,${10 + i / 7}`).join('\n') + '\n';
     const offer = offerFromText(csv, { file: 'trips.csv', description: 'trips.csv' });
