@@ -161,7 +161,10 @@ function longCounts(records: Records, profiles: readonly ColumnProfile[]): Shape
     .filter((w) => w.counts && w.total > records.rows.length)
     .filter((w) => {
       const others = profiles.filter((p) => p !== w);
-      return others.length > 0 && others.every((p) => !p.stray && isCategorical(p)) && combinationsUnique(records, others);
+      // With two or more category columns, one that is different on every row (a bottle or member number) makes
+      // every combination unique by itself: the rows are units, not counted combinations, and \`w\` is a measurement.
+      const labelsRows = others.length > 1 && others.some((p) => p.levels.length === records.rows.length);
+      return others.length > 0 && !labelsRows && others.every((p) => !p.stray && isCategorical(p)) && combinationsUnique(records, others);
     })
     .sort((a, b) => b.levels.length - a.levels.length);
   if (fits.length === 0 || (fits.length > 1 && fits[0].levels.length === fits[1].levels.length)) return undefined;

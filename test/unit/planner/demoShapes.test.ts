@@ -10,7 +10,7 @@ import { offerFromText } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
 import { inferShape, profileColumns } from '../../../src/planner/profile';
 import { ScriptedQuestions } from './fakeQuestions';
-import { demo, fileOffer, planAndRun, settings } from './helpers';
+import { demo, fileOffer, fileOfferAt, planAndRun, settings } from './helpers';
 
 async function refusal(work: () => Promise<unknown>, code: string, pattern: RegExp): Promise<void> {
   try {
@@ -70,6 +70,19 @@ describe('shape inference on the demo files', () => {
     assert.equal(result.n, 1800);
     const weights = await planAndRun(fileOffer('bakery-defects.csv'), { ...ask, 'Choose the column': 'weight_g' });
     assert.ok(!weights.questions.asked.some((a) => a.title === 'A column that numbers the rows'));
+  });
+
+  it('advanced/data/filler-log.csv: the bottle number makes every row unique, so `line_speed` (210, 180, …) is not taken for a frequency weight', async () => {
+    const file = join(demo, 'advanced', 'data', 'filler-log.csv');
+    const records = parseDelimited(readFileSync(file, 'utf8'), { file });
+    assert.equal(records.rows.length, 2000);
+    assert.equal(inferShape(records, profileColumns(records, settings.missingValues)).kind, 'raw', 'one row per bottle');
+    const offer = await fileOfferAt(file, 'advanced/data/filler-log.csv');
+    // Counted per bottle, every cell is 1: refused, not weighted by the line speed.
+    await refusal(() => planAndRun(offer, { 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': 'bottle', 'Expected distribution': 'Equal proportions' }), 'one-per-row', /N = 2000, the number of rows/);
+    const { planned, result } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'line_speed', 'Choose the columns': 'fill_check' });
+    assert.equal((planned.spec.source as { weight?: string }).weight, undefined);
+    assert.equal(result.n, 2000, 'one bottle per row');
   });
 
   it('a short run or a run with a gap or a repeat is not a row numbering', () => {
