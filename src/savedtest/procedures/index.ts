@@ -27,12 +27,16 @@
  *   `ctx.aggregate(request, levels)` for the spec's `source` (paths are resolved and checked for you, and the
  *   data fingerprint is kept for the recorded result). Throw `InputError` with a `jsonPath` for bad data.
  *   Pass `ctx.signal` on to anything long. Return a `TestResult`, `DistributionResult` or `PowerResult`.
+ * - `arguments` (optional): the errors of src/stats name a function argument, not a field; `runSpec` points
+ *   them at the field of the same name (or at `source` for data read from it). List here the arguments that come
+ *   from a field of another name, e.g. `{ labels: 'categories' }` (src/savedtest/arguments.ts).
  *
  * Nothing else needs to change: validation, the schema, the command line (`run`, `check`, `--record`),
  * living report blocks and the reports all work from the handler.
  */
 import type { Result } from '../../stats/result';
 import { any, field, num, str, type Field, type FieldsValue, type SpecProblem } from '../fields';
+import type { ArgumentPlaces } from '../arguments';
 import type { RunContext, SpecV1 } from '../types';
 import { ALPHA } from './shared';
 import { distributionProcedure } from './distribution';
@@ -99,6 +103,8 @@ export interface ProcedureHandler {
   /** How the editor's planner offers it; absent: only by writing a saved test. */
   readonly planning?: Planning;
   readonly fields: Readonly<Record<string, Field>>;
+  /** Arguments of the numbers layer that come from a field of another name (default: the field of the same name). */
+  readonly arguments?: ArgumentPlaces;
   validate(spec: SpecV1, path: string): readonly SpecProblem[];
   run(spec: SpecV1, ctx: RunContext): Promise<Result>;
 }
