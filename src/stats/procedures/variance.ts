@@ -80,7 +80,7 @@ function twoPassMoments(values: readonly number[]): MomentSummary {
 /** From streamed moments (the CSV and SQL paths). m3 and m4 are used for the shape checks when finite. */
 export function varianceTestFromMoments(moments: MomentSummary, options: VarianceTestOptions): TestResult {
   if (!Number.isFinite(moments.m2) || moments.m2 < 0) {
-    // Streamed moments come from the column named by source.columns[0] (the CSV and SQL paths), so that is where to look.
+    // Streamed moments (the file and database readers): the argument is `moments`, wherever they were read from.
     throw new InputError(`moments${options.variable ? ` of ${options.variable}` : ''}: expected a finite sum of squared deviations ≥ 0, found ${String(moments.m2)}`, { argument: { name: 'moments', at: ['m2'] } }, 'invalid-moments');
   }
   return varianceTest(moments, options, 'moments');
