@@ -81,6 +81,19 @@ export function relocated(e: InputError, jsonPath: string, extra: { readonly fil
   return new InputError(`${jsonPath}: ${within}${problem}`, { ...location, ...extra, jsonPath }, e.code);
 }
 
+/**
+ * `jsonPath: message`, naming the place once: a message that already starts with the path is kept, and one that
+ * starts with the field the path names ("method: …" at $.method, "summary.sd: …" at $.summary.sd, "lower: …" at
+ * $.equivalence.lower) has that name replaced by the path rather than repeated after it.
+ */
+export function withPlace(message: string, jsonPath: string): string {
+  if (message.startsWith(jsonPath)) return message;
+  const below = jsonPath.replace(/^\$\.?/, '');
+  const last = below.slice(below.lastIndexOf('.') + 1);
+  const named = [below, last, last.replace(/\[.*$/, '')].find((name) => name !== '' && message.startsWith(`${name}: `));
+  return `${jsonPath}: ${named === undefined ? message : message.slice(named.length + 2)}`;
+}
+
 /** Runs `compute`, turning the arguments its errors name into places of the saved test. */
 export async function withArgumentsLocated<T>(origin: () => ArgumentOrigin, compute: () => Promise<T> | T): Promise<T> {
   try {
