@@ -11,7 +11,7 @@ import type { SpecV1 } from './types';
 /**
  * Where a procedure's arguments come from when not from the field of the same name: a field path below `$`
  * ("categories", "bayesFactor.samplingPlan"; the argument's own indices are appended), or a function giving the
- * whole JSON path (undefined: no field of the spec gave it).
+ * whole JSON path (undefined: no field of the spec stands for it).
  */
 export type ArgumentPlaces = Readonly<Record<string, string | ((argument: ArgumentLocation, spec: SpecV1) => string | undefined)>>;
 
@@ -19,6 +19,8 @@ export type ArgumentPlaces = Readonly<Record<string, string | ((argument: Argume
 export interface ArgumentOrigin {
   readonly spec: SpecV1;
   readonly places: ArgumentPlaces;
+  /** The fields the procedure declares: an argument that is none of them (a value derived from others) has no place. */
+  readonly fields: readonly string[];
   /** Fields that hold data (the field table's `data: true`): when absent from a spec with a source, the source gave them. */
   readonly dataFields: readonly string[];
   /** How the reader described what it read ("data/trays.csv", "sql:warehouse public.orders"), once read. */
@@ -37,15 +39,15 @@ export function locateArgument(e: unknown, origin: ArgumentOrigin): unknown {
     const read = origin.sourceDescription ?? 'the source';
     return relocated(e, '$.source', spec.source.path !== undefined ? { file: spec.source.path } : {}, `${read}: `);
   }
-  const jsonPath = typeof place === 'string' ? fieldPath(place, argument, spec) : place(argument, spec);
+  const jsonPath = typeof place !== 'string' ? place(argument, spec) : origin.fields.includes(field!) ? fieldPath(place, argument, spec) : undefined;
   return jsonPath === undefined ? e : relocated(e, jsonPath);
 }
 
 /**
- * The JSON path of an argument given by the field path `place`, with the argument's indices inside it; undefined
- * when the spec does not give that field (a default or a value derived from others: no place to point at).
+ * The JSON path of an argument given by the field path `place`, with the argument's indices inside it. A field the
+ * spec leaves out (its default was used, or it is missing) is still where the user would write it: its path alone.
  */
-export function fieldPath(place: string, argument: ArgumentLocation, spec: SpecV1): string | undefined {
+export function fieldPath(place: string, argument: ArgumentLocation, spec: SpecV1): string {
   const names = place.split('.');
   let value: unknown = spec;
   let path = '$';
@@ -53,16 +55,16 @@ export function fieldPath(place: string, argument: ArgumentLocation, spec: SpecV
     value = isObject(value) ? value[name] : undefined;
     path = childPath(path, name);
   }
-  if (value === undefined) return undefined;
+  if (value === undefined) return path;
   return (argument.at ?? []).reduce<string>((p, key) => childPath(p, key), path);
 }
 
-/** An argument that comes from the first of `fields` the spec gives (paired labels: "rowLabels", else "columnLabels"). */
-export function firstGiven(...fields: readonly string[]): (argument: ArgumentLocation, spec: SpecV1) => string | undefined {
-  return (argument, spec) => {
-    const given = fields.find((f) => spec[f] !== undefined);
-    return given === undefined ? undefined : fieldPath(given, argument, spec);
-  };
+/**
+ * An argument that comes from the first of `fields` the spec gives (paired labels: "rowLabels", else
+ * "columnLabels"); when it gives none (a default), the first of them.
+ */
+export function firstGiven(first: string, ...others: readonly string[]): (argument: ArgumentLocation, spec: SpecV1) => string {
+  return (argument, spec) => fieldPath([first, ...others].find((f) => spec[f] !== undefined) ?? first, argument, spec);
 }
 
 function isObject(value: unknown): value is Readonly<Record<string, unknown>> {

@@ -13,7 +13,7 @@ import { InputError } from '../errors';
 import { withArgumentsLocated, type ArgumentOrigin } from './arguments';
 import { EVIDENCE_ARGUMENTS, withEvidence } from './evidence';
 import { resolveSourcePath } from './paths';
-import { procedureFor } from './procedures/index';
+import { COMMON_FIELDS, procedureFor } from './procedures/index';
 import type { DataFingerprint, RunContext, RunOptions, SourceNeeds, SourceSpec, SpecRun, SpecV1 } from './types';
 import { assertValidSpec } from './validate';
 
@@ -37,6 +37,7 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   const origin = (): ArgumentOrigin => ({
     spec,
     places: { ...EVIDENCE_ARGUMENTS, ...handler.arguments },
+    fields: [...Object.keys(COMMON_FIELDS), ...Object.keys(handler.fields)],
     dataFields: Object.keys(handler.fields).filter((name) => handler.fields[name].data),
     sourceDescription: provenance?.description,
   });

@@ -4,7 +4,7 @@
 import { strict as assert } from 'node:assert';
 import type { Aggregate } from '../../../src/data/types';
 import { InputError, isInputError } from '../../../src/errors';
-import { withPlace } from '../../../src/savedtest/arguments';
+import { locateArgument, withPlace } from '../../../src/savedtest/arguments';
 import { parseJsonWithLocations } from '../../../src/savedtest/json-text';
 import { describeRunError } from '../../../src/savedtest/living';
 import { runSpec } from '../../../src/savedtest/run';
@@ -114,11 +114,16 @@ describe('errors of the numbers layer located in the saved test', () => {
     assert.equal(m.location.file, undefined, 'a database source names no file');
   });
 
-  it('nowhere in the spec when no field gave the argument (a default): the message keeps its name', async () => {
-    // Default scores 1, 2, 3 with every unit in the first group: the spec has no "scores" to point at.
-    const e = await refusal({ test: 'trend', table: [[1, 0, 0], [2, 0, 0]] });
-    assert.equal(e.location.jsonPath, undefined);
-    assert.match(e.message, /^scores: all units fall in groups with the same score/);
+  it('at the field the user would write when the spec leaves it out (its default was used)', async () => {
+    // Default scores 1, 2, 3 with every unit in the first group: "scores" is where other scores would go.
+    await refusedAt({ test: 'trend', table: [[1, 0, 0], [2, 0, 0]] }, '$.scores', 'all units fall in groups with the same score, so there is no order to test');
+  });
+
+  it('nowhere when the argument is no field of the procedure (a value derived from others): the message keeps its name', () => {
+    // The probabilities of a resampled goodness of fit are derived from the expected counts: no field holds them.
+    const e = new InputError('probabilities[1]: expected a finite number ≥ 0, found NaN', { argument: { name: 'probabilities', at: [1] } }, 'invalid-probability');
+    const spec = { test: 'goodness-of-fit', observed: [1, 2] };
+    assert.equal(locateArgument(e, { spec, places: {}, fields: ['observed', 'expected'], dataFields: ['observed', 'expected'] }), e);
   });
 });
 
