@@ -1,9 +1,4 @@
 /**
- * The one error type the pure layers throw for bad input. It carries where the problem is
- * (file, 1-based line, column name, JSON path, or the function argument) so every host can point the user at it.
- */
-
-/**
  * A function argument of the numbers layer (src/stats), and a place inside it: `{ name: 'table', at: [1, 0] }` is
  * row 2, column 1 of the argument `table`; `{ name: 'summary', at: ['sd'] }` is the member `sd` of `summary`. The
  * numbers layer knows nothing of saved tests: the saved-test layer maps an argument to the JSON path it came from.
@@ -15,6 +10,10 @@ export interface ArgumentLocation {
   readonly at?: readonly (number | string)[];
 }
 
+/**
+ * The one error type the pure layers throw for bad input. It carries where the problem is
+ * (file, 1-based line, column name, JSON path, or the function argument) so every host can point the user at it.
+ */
 export interface InputLocation {
   /** File path as the user gave it (relative to the spec or workspace), if any. */
   readonly file?: string;
@@ -48,14 +47,6 @@ export function argumentText(argument: ArgumentLocation): string {
 /** A place inside an argument: `inside({ name: 'table' }, 1, 0)` is `table[1][0]`. */
 export function inside(argument: ArgumentLocation, ...keys: readonly (number | string)[]): ArgumentLocation {
   return { name: argument.name, at: [...(argument.at ?? []), ...keys] };
-}
-
-/**
- * An error of the numbers layer about one argument: the message is `argument: problem`, and the location names the
- * argument, which the saved-test layer turns into the JSON path of the field it came from.
- */
-export function argumentError(argument: ArgumentLocation, problem: string, code: string): InputError {
-  return new InputError(`${argumentText(argument)}: ${problem}`, { argument }, code);
 }
 
 /**
