@@ -1,6 +1,7 @@
 /** The contract of a procedure handler and the fields every saved test shares; the registry is ./index.ts. */
 import type { Result } from '../../stats/result';
 import { any, field, num, str, type Field, type FieldsValue, type SpecProblem } from '../fields';
+import type { ArgumentPlaces } from '../arguments';
 import type { RunContext, SpecV1 } from '../types';
 import { ALPHA } from './shared';
 
@@ -57,6 +58,8 @@ export interface ProcedureHandler {
   /** How the editor's planner offers it; absent: only by writing a saved test. */
   readonly planning?: Planning;
   readonly fields: Readonly<Record<string, Field>>;
+  /** Arguments of the numbers layer that come from a field of another name (default: the field of the same name). */
+  readonly arguments?: ArgumentPlaces;
   validate(spec: SpecV1, path: string): readonly SpecProblem[];
   run(spec: SpecV1, ctx: RunContext): Promise<Result>;
 }

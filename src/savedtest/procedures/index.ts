@@ -27,6 +27,9 @@
  *   `ctx.aggregate(request, levels)` for the spec's `source` (paths are resolved and checked for you, and the
  *   data fingerprint is kept for the recorded result). Throw `InputError` with a `jsonPath` for bad data.
  *   Pass `ctx.signal` on to anything long. Return a `TestResult`, `DistributionResult` or `PowerResult`.
+ * - `arguments` (optional): the errors of src/stats name a function argument, not a field; `runSpec` points
+ *   them at the field of the same name (or at `source` for data read from it). List here the arguments that come
+ *   from a field of another name, e.g. `{ labels: 'categories' }` (src/savedtest/arguments.ts).
  *
  * Nothing else needs to change: validation, the schema, the command line (`run`, `check`, `--record`),
  * living report blocks and the reports all work from the handler.

@@ -6,6 +6,7 @@ import { InputError } from '../../errors';
 import { pairedTest } from '../../stats/procedures/paired';
 import type { TestResult } from '../../stats/result';
 import { bool, field, str, type SpecProblem } from '../fields';
+import { firstGiven } from '../arguments';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './define';
@@ -21,6 +22,7 @@ export const pairedProcedure = defineProcedure({
     accepts: ['square-table', 'categorical-columns'],
     roles: ['the first classification', 'the second classification'],
   },
+  arguments: { labels: firstGiven('rowLabels', 'columnLabels') },
   fields: {
     ...FRAGILITY_FIELDS,
     table: field(COUNT_TABLE, 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),

@@ -144,6 +144,41 @@ describe('architecture boundaries', () => {
     assert.deepEqual(importLoops(tsFiles(root)), []);
   });
 
+  it('stats writes no JSON path: its errors name the function argument, never a place in a saved test', () => {
+    const offenders = tsFiles(join(root, 'stats')).flatMap((f) =>
+      readFileSync(f, 'utf8')
+        .split('\n')
+        .map((line, i) => ({ line, at: `${relative(root, f)}:${i + 1}` }))
+        // "$.table", `$.${key}`, "$[0]": a JSON path; the word jsonPath: a location of the saved-test layer's kind.
+        .filter(({ line }) => /\$(\.[A-Za-z_$]|\[)|\$\.\$\{|jsonPath/.test(line))
+        .map(({ at, line }) => `${at}: ${line.trim()}`),
+    );
+    assert.deepEqual(offenders, []);
+  });
+
+  it("the arguments stats errors name are the functions' own parameters and options, never a saved test's field", () => {
+    const offenders: string[] = [];
+    const files = tsFiles(join(root, 'stats'));
+    const all = files.map((f) => readFileSync(f, 'utf8')).join('\n');
+    for (const file of files) {
+      const text = readFileSync(file, 'utf8');
+      const named = [
+        ...[...text.matchAll(/\bname: '(\w+)'/g)].map((m) => m[1]),
+        // Helpers whose last string argument is the argument's name (requireLevel(alpha, 'alpha'), fail('df', …)).
+        ...[...text.matchAll(/(?<!function )\b(?:requireLevel|requireChoice|labelsOr|scoresOr|requireScores|requireResamplingTotal|positive)(?:<[^>]*>)?\([^;]*?'(\w+)'\)/g)].map((m) => m[1]),
+        ...[...text.matchAll(/\bfail\('(\w+)'/g)].map((m) => m[1]),
+      ];
+      for (const name of new Set(named)) {
+        // Declared in src/stats as a parameter or an option: `(table: …`, `readonly alpha?: number`.
+        const declared = new RegExp(`(?<![\\w.'"])${name}\\??: `).test(all);
+        // Fields that exist only in the saved-test format: where the data live, and the sections it groups.
+        const specOnly = ['source', 'bayesFactor', 'equivalence', 'test', 'version', 'recorded'].includes(name);
+        if (!declared || specOnly) offenders.push(`${relative(root, file)}: ${name}`);
+      }
+    }
+    assert.deepEqual(offenders, []);
+  });
+
   it('stats never reads the clock or an unseeded random source', () => {
     const offenders = tsFiles(join(root, 'stats')).filter((f) => /Date\.now|new Date\(|Math\.random|performance\.now/.test(readFileSync(f, 'utf8')));
     assert.deepEqual(offenders, []);
