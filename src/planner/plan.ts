@@ -14,6 +14,7 @@ import { inlineFromRecords } from './inline';
 import type { Offer } from './offer';
 import type { Choice, Questions } from './questions';
 import { describeView, sum, viewOf, type ColumnInfo, type DataFacts, type Role, type View } from './view';
+import { namesRows } from './profile';
 import { PROCEDURES, procedureFor, type DataShape } from '../savedtest/procedures/index';
 
 /** Answers given beforehand (keybindings, tests) or remembered from the last run on the same source. */
@@ -277,13 +278,19 @@ async function allRecords(offer: Offer): Promise<Records> {
   return offer.file.readAll();
 }
 
+/** A column different on every row (a row number 1, 2, 3, … or a unit's name such as M1001, M1002, …). */
+function labelsRows(c: ColumnInfo): boolean {
+  const p = c.profile;
+  return p !== undefined && (p.rowNumber !== undefined || namesRows(p));
+}
+
 async function chooseColumns(questions: Questions, columns: readonly ColumnInfo[], roles: readonly Role[], title: string, remembered: readonly string[] | undefined): Promise<string[]> {
   const chosen: string[] = [];
   for (const [k, role] of roles.entries()) {
-    // A column that numbers the rows is still offered, but last: it is rarely what anyone means to test.
+    // A column that numbers or names the rows is still offered, but last: it is rarely what anyone means to test.
     const eligible = columns
       .filter((c) => !chosen.includes(c.name) && (role.kind === 'measurement' ? c.measurement : c.categorical))
-      .sort((a, b) => Number(a.profile?.rowNumber !== undefined) - Number(b.profile?.rowNumber !== undefined));
+      .sort((a, b) => Number(labelsRows(a)) - Number(labelsRows(b)));
     if (eligible.length === 0) throw new InputError(`found no column left for ${role.name}: expected ${role.kind === 'measurement' ? 'a numeric column' : 'a categorical column'}`, {}, 'nothing-to-test');
     const name = await questions.choose({
       title,

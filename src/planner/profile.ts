@@ -200,8 +200,14 @@ export function isMeasurement(p: ColumnProfile): boolean {
   return (p.numeric && p.levels.length > 12) || p.stray !== undefined;
 }
 
+/** Text different on every row (M1001, M1002, …; at least 10 rows): a unit's name, not a classification. */
+export function namesRows(p: ColumnProfile): boolean {
+  return !p.numeric && p.stray === undefined && p.present >= 10 && p.levels.length === p.present;
+}
+
 /** A line for a choice's detail: "12 levels: Oven A (40), Oven B (33), …", "numbers: 12.1, 12.4, …", with stray cells named. */
 export function describeColumn(p: ColumnProfile): string {
+  if (namesRows(p)) return `different on every row (${p.firstValues.slice(0, 3).join(', ')}, …): names the rows, so as a category every count would be 1`;
   if (p.rowNumber) return `numbers the rows: every value different, ${grouped(p.rowNumber.from)} to ${grouped(p.rowNumber.to)} with no gap; its spread describes the numbering, not a measurement`;
   if (p.stray) {
     const s = p.stray;

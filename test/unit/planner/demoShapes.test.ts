@@ -85,6 +85,15 @@ describe('shape inference on the demo files', () => {
     assert.equal(result.n, 2000, 'one bottle per row');
   });
 
+  it('advanced/data/cafe-panel.csv: the member column (different on every row) is offered last for a category, with the reason', async () => {
+    const offer = await fileOfferAt(join(demo, 'advanced', 'data', 'cafe-panel.csv'), 'advanced/data/cafe-panel.csv');
+    const questions = new ScriptedQuestions({ 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': false });
+    await assert.rejects(plan({ offer, questions, settings, specFolder: demo }));
+    const column = questions.asked.find((a) => a.placeholder === 'Choose the column')!;
+    assert.deepEqual(column.choices, ['before', 'after', 'member']);
+    assert.match(column.details![2] ?? '', /different on every row \(M1001, M1002, M1003, …\): names the rows/);
+  });
+
   it('a short run or a run with a gap or a repeat is not a row numbering', () => {
     const numbering = (values: number[]) => profileColumns({ columns: ['x'], rows: values.map((v) => [String(v)]), lines: values.map((_, i) => i + 2) }, [])[0].rowNumber;
     assert.deepEqual(numbering(Array.from({ length: 10 }, (_, i) => 20001 + i)), { from: 20001, to: 20010 });
