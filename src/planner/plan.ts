@@ -71,11 +71,23 @@ interface Proposal {
   readonly anything?: boolean;
 }
 
+/**
+ * For a table whose columns are the same categories as its rows (in any order), the column index of each row's
+ * category; otherwise undefined.
+ */
+function columnOrderAsRows(t: { readonly rowLabels: readonly string[]; readonly columnLabels: readonly string[] }): number[] | undefined {
+  if (t.rowLabels.length !== t.columnLabels.length || new Set(t.rowLabels).size !== t.rowLabels.length) return undefined;
+  const order = t.rowLabels.map((l) => t.columnLabels.indexOf(l));
+  return order.every((j) => j >= 0) ? order : undefined;
+}
+
 /** Which shapes a view offers: a procedure is proposed when it accepts one of them. */
 function shapesOf(view: View): DataShape[] {
   switch (view.form) {
     case 'table':
-      return view.table.rowLabels.length === view.table.columnLabels.length ? ['counted-table', 'square-table', 'anything'] : ['counted-table', 'anything'];
+      // Square for a paired test only when rows and columns are the same categories: a 3×3 of markets × seed
+      // treatments is not one classification made twice.
+      return columnOrderAsRows(view.table) ? ['counted-table', 'square-table', 'anything'] : ['counted-table', 'anything'];
     case 'categories':
       return ['category-counts', 'anything'];
     case 'values':
@@ -194,6 +206,8 @@ function viewData(view: View, test: string): DataFacts {
       const n = sum(t.counts.map((r) => sum(r)));
       const facts = { rows: t.rowLabels.length, columns: t.columnLabels.length, n };
       if (test === 'power' || test === 'distribution') return { fields: {}, ...facts };
+      const order = test === 'paired' ? columnOrderAsRows(t) : undefined;
+      if (order) return { fields: { table: t.counts.map((r) => order.map((j) => r[j])), rowLabels: t.rowLabels, columnLabels: t.rowLabels }, ...facts };
       return { fields: { table: t.counts, rowLabels: t.rowLabels, columnLabels: t.columnLabels }, ...facts };
     }
     case 'categories': {
