@@ -55,7 +55,7 @@ export function readDistributedEnv(file: string): DistributedEnv | undefined {
   return { coordinator, shards, adminPasswordFile: coordinator.COUNTERCHECK_ADMIN_PWFILE };
 }
 
-async function withClient<T>(env: Record<string, string>, f: (client: Client) => Promise<T>, user = env.PGUSER, password = env.PGPASSWORD): Promise<T> {
+export async function withClient<T>(env: Record<string, string>, f: (client: Client) => Promise<T>, user = env.PGUSER, password = env.PGPASSWORD): Promise<T> {
   const client = new Client({ host: env.PGHOST, port: Number(env.PGPORT), user, password, database: env.PGDATABASE, application_name: 'countercheck-setup' });
   await client.connect();
   try {

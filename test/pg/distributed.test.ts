@@ -7,7 +7,7 @@
 // docs/distributed-sql.md describes it. Reference: the CSV route (src/data/file.ts), which shares no code with the
 // server's counting, and PostgreSQL's own aggregation on one server.
 import { strict as assert } from 'node:assert';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import {
@@ -19,6 +19,7 @@ import {
   remoteStatements,
   SHARD_STATIONS,
   SHARDS,
+  withClient,
   type DistributedEnv,
   type PlanNode,
 } from '../../bench/distributed';
@@ -27,7 +28,7 @@ import { main } from '../../src/cli';
 import { aggregateFile } from '../../src/data/file';
 import { aggregateSql, planAggregate, type SqlSource } from '../../src/data/sql/index';
 import type { AggregateRequest } from '../../src/data/types';
-import { assertSameAggregate, liveServer } from './server';
+import { assertSameAggregate, leftoverSessions, liveServer } from './server';
 
 const rows = 1_000_000;
 const table = 'trips_distributed_check';
@@ -74,17 +75,9 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
     }
     let total = 0;
     for (const shard of SHARDS) {
-      const e = dist.shards[shard];
-      const { Client } = await import('pg');
-      const client = new Client({ host: e.PGHOST, port: Number(e.PGPORT), user: e.PGUSER, password: e.PGPASSWORD, database: e.PGDATABASE });
-      await client.connect();
-      try {
-        const r = await client.query(`SELECT station, count(*)::bigint AS n FROM ${table}_rows GROUP BY 1 ORDER BY 1`);
-        assert.deepEqual(r.rows.map((x) => x.station), [...SHARD_STATIONS[shard]].sort(), `${shard} holds exactly its stations`);
-        for (const x of r.rows) total += Number(x.n);
-      } finally {
-        await client.end();
-      }
+      const counted = await withClient(dist.shards[shard], (client) => client.query(`SELECT station, count(*)::bigint AS n FROM ${table}_rows GROUP BY 1 ORDER BY 1`));
+      assert.deepEqual(counted.rows.map((x) => x.station), [...SHARD_STATIONS[shard]].sort(), `${shard} holds exactly its stations`);
+      for (const x of counted.rows) total += Number(x.n);
     }
     assert.equal(total, rows, 'the shards together hold every row once');
     const settings = await coordinator.query(
@@ -134,6 +127,60 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
       for (const sql of remote) assert.match(sql, expected, `${name}: ${sql}`);
       assert.ok(plan.some((n) => n['Partial Mode'] === 'Partial'), `${name}: partial aggregates on the coordinator`);
     }
+  });
+
+  it('names the shard that does not answer, and leaves no session open on the coordinator', async () => {
+    if (!dist.adminPasswordFile) throw new Error('no COUNTERCHECK_ADMIN_PWFILE in the distributed env file');
+    const admin = readFileSync(dist.adminPasswordFile, 'utf8').trim();
+    const reroute = (port: string) => withClient(coordinator.env(), (client) => client.query(`ALTER SERVER shard2 OPTIONS (SET port '${port}')`), 'countercheck_admin', admin);
+    await reroute('1');
+    try {
+      await assert.rejects(
+        aggregateSql({ sql: { connection: 'dist', table } }, { kind: 'categories', column: 'station' }, { connections: { dist: {} }, env: coordinator.env() }),
+        (e: Error & { code?: string }) => {
+          assert.equal(e.code, 'sql-error');
+          assert.match(e.message, /could not connect to server "shard2" \(SQLSTATE 08001\)/);
+          return true;
+        },
+      );
+    } finally {
+      await reroute(dist.shards.shard2.PGPORT);
+    }
+    assert.deepEqual(await leftoverSessions(coordinator.query), []);
+  });
+
+  it('stops the query on the shard too when the statement timeout ends it on the coordinator', async () => {
+    // A lock on shard1 holds the remote scan; the coordinator's timeout must cancel it there (postgres_fdw sends
+    // the cancel request on abort), not leave it waiting until the lock goes.
+    const { Client } = await import('pg');
+    const e = dist.shards.shard1;
+    const holder = new Client({ host: e.PGHOST, port: Number(e.PGPORT), user: e.PGUSER, password: e.PGPASSWORD, database: e.PGDATABASE, application_name: 'test-harness' });
+    await holder.connect();
+    const waiting = () =>
+      withClient(e, async (client) => (await client.query("SELECT pid FROM pg_stat_activity WHERE application_name = 'postgres_fdw' AND wait_event_type = 'Lock'")).rows);
+    try {
+      await holder.query('BEGIN');
+      await holder.query(`LOCK TABLE ${table}_rows IN ACCESS EXCLUSIVE MODE`);
+      const started = Date.now();
+      const run = aggregateSql({ sql: { connection: 'dist', table } }, { kind: 'categories', column: 'station' }, { connections: { dist: {} }, env: coordinator.env(), timeoutMs: 2000 });
+      run.catch(() => undefined);
+      let seen = 0;
+      while (seen === 0 && Date.now() - started < 1500) seen = (await waiting()).length;
+      assert.ok(seen > 0, 'a statement from the coordinator waits on shard1 while the lock is held');
+      await assert.rejects(run, (err: Error & { code?: string }) => err.code === 'sql-timeout');
+      assert.ok(Date.now() - started < 10_000, `stopped after ${Date.now() - started} ms`);
+      const until = Date.now() + 5000;
+      let left = await waiting();
+      while (left.length > 0 && Date.now() < until) {
+        await new Promise((r) => setTimeout(r, 100));
+        left = await waiting();
+      }
+      assert.deepEqual(left, [], 'no remote scan still waits on shard1');
+    } finally {
+      await holder.query('ROLLBACK').catch(() => undefined);
+      await holder.end();
+    }
+    assert.deepEqual(await leftoverSessions(coordinator.query), []);
   });
 
   const requests: { name: string; request: AggregateRequest; higherMoments?: boolean; where?: string }[] = [
