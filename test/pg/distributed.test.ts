@@ -12,7 +12,6 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import {
   coordinatorPlan,
-  distributedRequests,
   dropDistributedTrips,
   ensureDistributedTrips,
   readDistributedEnv,
@@ -56,8 +55,9 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
   });
   after(async () => {
     if (folder) rmSync(folder, { recursive: true, force: true });
+    if (!dist) return; // skipped: no servers configured
     await single.query(`DROP TABLE IF EXISTS ${table}`);
-    if (dist) await dropDistributedTrips(dist, table);
+    await dropDistributedTrips(dist, table);
   });
 
   it('has one foreign partition on each shard server, every row once, and partition-wise aggregation on', async () => {
@@ -183,9 +183,11 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
     assert.deepEqual(await leftoverSessions(coordinator.query), []);
   });
 
+  // The saved tests below cover the other requests through the command line; the one-scan moments
+  // (`higherMoments: false`, var_samp combined from the shards' partial states) only run here.
   const requests: { name: string; request: AggregateRequest; higherMoments?: boolean; where?: string }[] = [
-    ...distributedRequests,
-    { name: 'moments of cargo bikes (a condition)', request: { kind: 'numeric', column: 'minutes' }, where: cargoOnly },
+    { name: 'moments, one scan', request: { kind: 'numeric', column: 'minutes' }, higherMoments: false },
+    { name: 'moments of cargo bikes, one scan (a condition)', request: { kind: 'numeric', column: 'minutes' }, higherMoments: false, where: cargoOnly },
   ];
   for (const { name, request, higherMoments, where } of requests) {
     it(`gives the same aggregate on the shards, on one server and from the CSV: ${name}`, async () => {
@@ -197,8 +199,6 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
       assertSameAggregate(viaShards, viaServer, name, ['shards', 'one server']);
       assertSameAggregate(viaShards, viaFile, name, ['shards', 'CSV']);
       assert.ok(viaShards.provenance.rows >= (where ? 200_000 : rows), `records read: ${viaShards.provenance.rows}`);
-      // Counts are exact, so the fingerprint of the aggregate is the same on both servers.
-      if (viaShards.kind !== 'moments') assert.equal(viaShards.provenance.sha256, viaServer.provenance.sha256, 'fingerprint');
     });
   }
 
@@ -287,14 +287,17 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
         assert.equal(data(viaShards).rows, data(viaFile).rows, 'records read');
         // The description names the source; the CSV's fingerprint is of its bytes.
         for (const r of [viaShards, viaServer, viaFile]) delete data(r).description;
-        const fingerprint = data(viaFile).sha256;
+        assert.equal(typeof data(viaFile).sha256, 'string');
         delete data(viaFile).sha256;
-        assert.equal(typeof fingerprint, 'string');
         if (spec.test === 'variance') {
+          // The fingerprint of moments rounds them to 12 significant digits; values that differ in the 14th digit
+          // can round apart, so it is not compared here.
+          for (const r of [viaShards, viaServer]) delete data(r).sha256;
           assertSameVarianceResult(viaShards, viaServer, 'one server');
-          delete data(viaShards).sha256;
           assertSameVarianceResult(viaShards, viaFile, 'CSV');
         } else {
+          // Counts are exact: the whole result, the data fingerprint included, is the same on both servers.
+          assert.match(String(data(viaShards).sha256), /^[0-9a-f]{64}$/);
           assert.deepEqual(viaShards, viaServer, 'one server');
           delete data(viaShards).sha256;
           assert.deepEqual(viaShards, viaFile, 'CSV');
