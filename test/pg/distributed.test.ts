@@ -7,13 +7,15 @@
 // docs/distributed-sql.md describes it. Reference: the CSV route (src/data/file.ts), which shares no code with the
 // server's counting, and PostgreSQL's own aggregation on one server.
 import { strict as assert } from 'node:assert';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { Client } from 'pg';
 import {
   coordinatorPlan,
   dropDistributedTrips,
   ensureDistributedTrips,
+  pointShards,
   readDistributedEnv,
   remoteStatements,
   SHARD_STATIONS,
@@ -130,10 +132,7 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
   });
 
   it('names the shard that does not answer, and leaves no session open on the coordinator', async () => {
-    if (!dist.adminPasswordFile) throw new Error('no COUNTERCHECK_ADMIN_PWFILE in the distributed env file');
-    const admin = readFileSync(dist.adminPasswordFile, 'utf8').trim();
-    const reroute = (port: string) => withClient(coordinator.env(), (client) => client.query(`ALTER SERVER shard2 OPTIONS (SET port '${port}')`), 'countercheck_admin', admin);
-    await reroute('1');
+    await pointShards(dist, { shard2: '1' });
     try {
       await assert.rejects(
         aggregateSql({ sql: { connection: 'dist', table } }, { kind: 'categories', column: 'station' }, { connections: { dist: {} }, env: coordinator.env() }),
@@ -144,7 +143,7 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
         },
       );
     } finally {
-      await reroute(dist.shards.shard2.PGPORT);
+      await pointShards(dist, {});
     }
     assert.deepEqual(await leftoverSessions(coordinator.query), []);
   });
@@ -152,7 +151,6 @@ describe('a table partitioned across two PostgreSQL shards through postgres_fdw'
   it('stops the query on the shard too when the statement timeout ends it on the coordinator', async () => {
     // A lock on shard1 holds the remote scan; the coordinator's timeout must cancel it there (postgres_fdw sends
     // the cancel request on abort), not leave it waiting until the lock goes.
-    const { Client } = await import('pg');
     const e = dist.shards.shard1;
     const holder = new Client({ host: e.PGHOST, port: Number(e.PGPORT), user: e.PGUSER, password: e.PGPASSWORD, database: e.PGDATABASE, application_name: 'test-harness' });
     await holder.connect();
