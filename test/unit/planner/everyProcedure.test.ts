@@ -60,7 +60,7 @@ describe('the planner reaches every procedure', () => {
     }
   }
 
-  it('from a database catalogue: procedures that read a source get a SQL source, trend its level orders from the server; stratified is not offered', async () => {
+  it('from a database catalogue: procedures that read a source get a SQL source, trend its level orders from the server, stratified its three columns', async () => {
     const offer: Offer = {
       kind: 'catalogue',
       sql: { connection: 'bakery', table: 'public.trays' },
@@ -70,15 +70,29 @@ describe('the planner reaches every procedure', () => {
     };
     const listing = new ScriptedQuestions({ 'Which test?': false });
     await assert.rejects(plan({ offer, questions: listing, settings, specFolder: demo }));
-    assert.ok(!listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string), 'stratified keeps its counts inline, which a database cannot');
-    for (const test of ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'post-hoc', 'trend', 'paired']) {
+    assert.ok(listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string), 'stratified is counted on the server');
+    for (const test of ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'post-hoc', 'trend', 'paired', 'stratified']) {
       const planned = await plan({ offer, questions: new ScriptedQuestions({ ...SCRIPTS[test], 'Which test?': SCRIPTS[test]['Which test?'] }), settings, specFolder: demo, given: { where: "shift = 'late'" } });
       assertValidSpec(planned.spec);
       const source = planned.spec.source as { sql: unknown; where?: string };
       assert.deepEqual(source.sql, offer.sql, test);
       assert.equal(source.where, "shift = 'late'", test);
       if (test === 'trend') assert.deepEqual([planned.spec.rowLabels, planned.spec.columnLabels], [['early', 'late'], ['A', 'B', 'C']]);
+      if (test === 'stratified') assert.deepEqual((planned.spec.source as { columns: unknown }).columns, ['oven', 'shift', 'defect']);
     }
+  });
+
+  it('stratified is not offered for a database table with fewer than three categorical columns', async () => {
+    const offer: Offer = {
+      kind: 'catalogue',
+      sql: { connection: 'bakery', table: 'public.ovens' },
+      columns: [{ name: 'oven', type: 'text', numeric: false }, { name: 'defect', type: 'text', numeric: false }],
+      description: 'bakery: public.ovens',
+    };
+    const listing = new ScriptedQuestions({ 'Which test?': false });
+    await assert.rejects(plan({ offer, questions: listing, settings, specFolder: demo }));
+    assert.ok(listing.asked[0].choices!.includes(SCRIPTS.independence['Which test?'] as string));
+    assert.ok(!listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string));
   });
 
   it('power and distribution from the palette (no data)', async () => {
