@@ -171,7 +171,8 @@ export class Aggregator {
     this.used =
       request.kind === 'counted-table'
         ? [...columns]
-        : [...this.indices, this.numberIndex, this.weightIndex].filter((i) => i >= 0).map((i) => columns[i]);
+        : // Named as the request names them: a stratified table's stratum first.
+          [...(request.kind === 'strata' ? [this.indices[2], this.indices[0], this.indices[1]] : this.indices), this.numberIndex, this.weightIndex].filter((i) => i >= 0).map((i) => columns[i]);
   }
 
   /** Column roles for the byte scanner. */
