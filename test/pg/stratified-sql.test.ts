@@ -66,7 +66,7 @@ describe('stratified tests counted on the server', () => {
     folder = mkdtempSync(join(tmpdir(), 'countercheck-pg-strata-'));
     readers = {
       aggregateFile: (path, request, options, control) => aggregateFile(path, request, options, { signal: control.signal }),
-      aggregateSql: sqlSpecReader(server.context()),
+      aggregateSql: sqlSpecReader({ connections: server.context().connections, env: server.context().env }),
     };
     const all = [...R.cmh, ...R.generalizedCmh].flatMap((c) => cells(c.name, c.strata));
     await server.query('DROP TABLE IF EXISTS strata_counts; DROP TABLE IF EXISTS strata_units');
