@@ -6,7 +6,7 @@ import { aggregateRecords } from '../data/aggregate';
 import type { Records } from '../data/records';
 import type { AggregateRequest } from '../data/types';
 import { InputError } from '../errors';
-import type { Questions } from './questions';
+import { english, text, type Questions } from './questions';
 import { sum, type ColumnInfo, type Role, type View } from './view';
 
 /** A categorical role given a column of measurements, or a count column, is refused or confirmed in words. */
@@ -18,7 +18,7 @@ export async function checkCategoryColumns(view: Extract<View, { form: 'columns'
     if (!p) continue;
     if (p.numeric && p.levels.length > 12) {
       throw new InputError(
-        `column \`${p.name}\` holds numbers with ${p.levels.length} different values; as a category each value would be a level of its own. Choose a categorical column for ${role.name}, or test the numbers themselves (variance, distribution fit)`,
+        `column \`${p.name}\` holds numbers with ${p.levels.length} different values; as a category each value would be a level of its own. Choose a categorical column for ${english(role.name)}, or test the numbers themselves (variance, distribution fit)`,
         { column: p.name },
         'numeric-as-category',
       );
@@ -28,9 +28,14 @@ export async function checkCategoryColumns(view: Extract<View, { form: 'columns'
     const looksLikeCounts = view.shape.kind === 'long-counts' && view.shape.weightColumn === p.name;
     if (looksLikeCounts && weight === undefined) {
       const go = await questions.confirm({
-        title: 'A numeric column as a category',
-        message: `\`${p.name}\` holds whole numbers (total ${p.total.toLocaleString('en-US')} over ${p.present} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?`,
-        accept: 'Use as a category',
+        title: text('A numeric column as a category'),
+        message: text(
+          '`{0}` holds whole numbers (total {1} over {2} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?',
+          p.name,
+          p.total.toLocaleString('en-US'),
+          p.present,
+        ),
+        accept: text('Use as a category'),
       });
       if (!go) throw new InputError(`stopped: \`${p.name}\` looks like a count column, not a category`, { column: p.name }, 'numeric-as-category');
     }

@@ -7,6 +7,7 @@
 import { parseMeasurement } from '../data/numbers';
 import type { DecimalMark } from '../data/options';
 import type { Records } from '../data/records';
+import { listOf, text, type Text } from './questions';
 
 
 /** Cells of an otherwise numeric column that are not numbers. */
@@ -175,12 +176,15 @@ export function isMeasurement(p: ColumnProfile): boolean {
 }
 
 /** A line for a choice's detail: "12 levels: Oven A (40), Oven B (33), …", "numbers: 12.1, 12.4, …", with stray cells named. */
-export function describeColumn(p: ColumnProfile): string {
+export function describeColumn(p: ColumnProfile): Text {
   if (p.stray) {
     const s = p.stray;
-    return `numbers, except ${s.count} cell${s.count === 1 ? '' : 's'} that ${s.count === 1 ? 'is' : 'are'} not (first on line ${s.firstLine}: "${s.firstText}"); running on it stops there`;
+    return s.count === 1
+      ? text('numbers, except {0} cell that is not (first on line {1}: "{2}"); running on it stops there', s.count, s.firstLine, s.firstText)
+      : text('numbers, except {0} cells that are not (first on line {1}: "{2}"); running on it stops there', s.count, s.firstLine, s.firstText);
   }
-  if (p.numeric && p.levels.length > 12) return `numbers: ${p.firstValues.join(', ')}${p.firstValues.length >= 6 ? ', …' : ''}`;
-  const shown = p.levels.slice(0, 5).map((l) => `${l.label || '(blank)'} (${l.count})`).join(', ');
-  return `${p.levels.length} level${p.levels.length === 1 ? '' : 's'}: ${shown}${p.levels.length > 5 ? ', …' : ''}`;
+  if (p.numeric && p.levels.length > 12) return text('numbers: {0}', `${p.firstValues.join(', ')}${p.firstValues.length >= 6 ? ', …' : ''}`);
+  const shown = p.levels.slice(0, 5).map((l) => (l.label ? `${l.label} (${l.count})` : text('(blank) ({0})', l.count)));
+  const list = listOf(shown, p.levels.length > 5);
+  return p.levels.length === 1 ? text('{0} level: {1}', p.levels.length, list) : text('{0} levels: {1}', p.levels.length, list);
 }

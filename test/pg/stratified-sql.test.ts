@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import { aggregateFile } from '../../src/data/file';
 import { aggregateSql, sqlSpecReader } from '../../src/data/sql/index';
 import { plan } from '../../src/planner/plan';
-import type { Choice, Questions } from '../../src/planner/questions';
+import { english, type Choice, type Questions, type Shown } from '../../src/planner/questions';
 import { runSpec } from '../../src/savedtest/run';
 import type { SpecReaders } from '../../src/savedtest/types';
 import type { TestResult } from '../../src/stats/result';
@@ -36,13 +36,14 @@ function cells(name: string, strata: number[][][]): string[] {
 /** Answers the planner's questions by title (the column choices in turn). */
 class Answers implements Questions {
   constructor(private readonly byTitle: Record<string, string | string[]>) {}
-  async choose<T>(q: { title: string; placeholder: string; choices: readonly Choice<T>[] }): Promise<T> {
-    const key = Object.keys(this.byTitle).find((k) => k === q.title || q.placeholder.includes(k));
-    if (!key) throw new Error(`unexpected question ${q.title} (${q.placeholder})`);
+  async choose<T>(q: { title: Shown; placeholder: Shown; choices: readonly Choice<T>[] }): Promise<T> {
+    const [title, placeholder] = [english(q.title), english(q.placeholder)];
+    const key = Object.keys(this.byTitle).find((k) => k === title || placeholder.includes(k));
+    if (!key) throw new Error(`unexpected question ${title} (${placeholder})`);
     const v = this.byTitle[key];
     const label = Array.isArray(v) ? (v.shift() as string) : v;
-    const choice = q.choices.find((c) => c.label === label);
-    if (!choice) throw new Error(`no choice "${label}" for ${q.title}: ${q.choices.map((c) => c.label).join(', ')}`);
+    const choice = q.choices.find((c) => english(c.label) === label);
+    if (!choice) throw new Error(`no choice "${label}" for ${title}: ${q.choices.map((c) => english(c.label)).join(', ')}`);
     return choice.value;
   }
   async enter(): Promise<string> {
