@@ -5,7 +5,9 @@ import { BLOCK_INFO, parseReportBlocks } from '../report/blocks';
 import { parseJsonWithLocations } from '../savedtest/json-text';
 import { savedTestLens, type LensData, type SavedTestLens } from '../savedtest/lens';
 import { COMMON_FIELDS, PROCEDURES, procedureFor } from '../savedtest/procedures/index';
+import { tableText } from '../planner/questions';
 import { COMMANDS } from './commandIds';
+import { shown } from './wizard';
 
 const t = vscode.l10n.t;
 
@@ -30,8 +32,10 @@ function dataText(data: LensData): string {
 export function lensTitles(lens: SavedTestLens): { procedure: string; details: string } {
   const options = lens.options.map((o) => `${o.field} ${o.value}`);
   if (lens.moreOptions > 0) options.push(t('{0} more', lens.moreOptions));
+  // The procedure's label is a field-table string, translated as the wizard's list of tests translates it.
+  const procedure = shown(tableText(lens.procedure));
   return {
-    procedure: lens.title ? t('{0} — {1}', lens.procedure, lens.title) : lens.procedure,
+    procedure: lens.title ? t('{0} — {1}', procedure, lens.title) : procedure,
     details: [dataText(lens.data), ...options].join(' · '),
   };
 }

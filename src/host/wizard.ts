@@ -74,7 +74,7 @@ export async function runWizard(services: Services, offer: Offer, given: Answers
     const remembered = services.context.workspaceState.get<Answers>(storeKey) ?? {};
     const planned = await plan({ offer, questions: quickPickQuestions, settings: s, given, remembered, specFolder: target.specFolder });
     await services.context.workspaceState.update(storeKey, planned.answers);
-    for (const note of planned.notes) {
+    for (const note of planned.notes.map(shown)) {
       services.output.info(`${target.label}: ${note}`);
       // What was inferred from the data (a weight column, an already-counted table) is said where the user looks.
       void vscode.window.showInformationMessage(t('Countercheck: {0}', note));

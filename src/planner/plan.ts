@@ -53,8 +53,8 @@ export interface Plan {
   readonly title: string;
   /** What was asked or given, to remember for the next run on this source. */
   readonly answers: Answers;
-  /** What was inferred and why ("`riders` is used as the frequency weight: …"), for the output log. */
-  readonly notes: readonly string[];
+  /** What was inferred and why ("`riders` is used as the frequency weight: …"), for the output log (`english` reads it). */
+  readonly notes: readonly Shown[];
 }
 
 /** One line of the "Which test?" list. */
@@ -129,7 +129,7 @@ export async function plan(request: PlanRequest): Promise<Plan> {
   const { offer, questions, settings } = request;
   const given = request.given ?? {};
   const remembered = request.remembered ?? {};
-  const notes: string[] = [];
+  const notes: Shown[] = [];
   let view = viewOf(offer, settings, notes);
   if ((view.form === 'table' || view.form === 'categories') && offer.kind === 'records' && offer.file && !offer.file.complete) {
     // Counted data seen only in part: count the whole file, never the preview.
@@ -210,7 +210,7 @@ function viewData(view: View, test: string): DataFacts {
 }
 
 /** Columns chosen for the roles of the procedure, then the spec's data: a source (file, database) or inline counts. */
-async function columnsData(request: PlanRequest, view: Extract<View, { form: 'columns' }>, proposal: Proposal, answers: Record<string, unknown>, remembered: Answers, notes: string[]): Promise<DataFacts> {
+async function columnsData(request: PlanRequest, view: Extract<View, { form: 'columns' }>, proposal: Proposal, answers: Record<string, unknown>, remembered: Answers, notes: Shown[]): Promise<DataFacts> {
   const { offer, questions } = request;
   const given = request.given ?? {};
   const roles = proposal.roles ?? [];
@@ -229,7 +229,7 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   let weight = given.weight === null ? undefined : (given.weight ?? (shape.kind === 'long-counts' ? shape.weightColumn : undefined));
   const measured = roles.some((r) => r.kind === 'measurement');
   if (measured || (weight !== undefined && columns.includes(weight))) weight = undefined;
-  if (weight !== undefined && shape.kind === 'long-counts' && weight === shape.weightColumn) notes.push(`\`${weight}\` is the frequency weight: ${shape.reason}`);
+  if (weight !== undefined && shape.kind === 'long-counts' && weight === shape.weightColumn) notes.push(text('`{0}` is the frequency weight: {1}', weight, shape.reason));
   await checkCategoryColumns(view, roles, columns, weight, questions);
   if (view.records && !measured) checkNotOnePerRow(view.records, columns, weight, proposal.test, view.columns, offer.description);
 

@@ -96,11 +96,11 @@ export function profileColumns(records: Records, missing: readonly string[]): Co
 
 export type Shape =
   /** First column row labels, two or more count columns: an r×c table of counts. */
-  | { readonly kind: 'counted-table'; readonly labelColumn: string; readonly countColumns: readonly string[]; readonly reason: string }
+  | { readonly kind: 'counted-table'; readonly labelColumn: string; readonly countColumns: readonly string[]; readonly reason: Text }
   /** A label column and one count column: category counts. */
-  | { readonly kind: 'category-counts'; readonly labelColumn: string; readonly countColumn: string; readonly reason: string }
+  | { readonly kind: 'category-counts'; readonly labelColumn: string; readonly countColumn: string; readonly reason: Text }
   /** Categorical columns whose combinations each appear once, and a count column: each row stands for `weight` records. */
-  | { readonly kind: 'long-counts'; readonly categoryColumns: readonly string[]; readonly weightColumn: string; readonly reason: string }
+  | { readonly kind: 'long-counts'; readonly categoryColumns: readonly string[]; readonly weightColumn: string; readonly reason: Text }
   /** Raw records: one row per observation. */
   | { readonly kind: 'raw' };
 
@@ -116,14 +116,20 @@ export function inferShape(records: Records, profiles: readonly ColumnProfile[])
         kind: 'counted-table',
         labelColumn: first.name,
         countColumns: rest.map((p) => p.name),
-        reason: `every row label of \`${first.name}\` appears once and the other columns hold whole numbers, so the table is already counted`,
+        reason: text('every row label of `{0}` appears once and the other columns hold whole numbers, so the table is already counted', first.name),
       };
     }
     return {
       kind: 'category-counts',
       labelColumn: first.name,
       countColumn: rest[0].name,
-      reason: `every label of \`${first.name}\` appears once and \`${rest[0].name}\` holds whole numbers (total ${grouped(rest[0].total)} over ${records.rows.length} rows), so each row is a category with its count`,
+      reason: text(
+        'every label of `{0}` appears once and `{1}` holds whole numbers (total {2} over {3} rows), so each row is a category with its count',
+        first.name,
+        rest[0].name,
+        grouped(rest[0].total),
+        records.rows.length,
+      ),
     };
   }
   return longCounts(records, profiles) ?? { kind: 'raw' };
@@ -145,12 +151,18 @@ function longCounts(records: Records, profiles: readonly ColumnProfile[]): Shape
   if (fits.length === 0 || (fits.length > 1 && fits[0].levels.length === fits[1].levels.length)) return undefined;
   const weight = fits[0];
   const categorical = profiles.filter((p) => p !== weight);
-  const names = categorical.map((p) => `\`${p.name}\``).join(' × ');
+  const names = categorical.map((p) => `\`${p.name}\``).join(' × '); // column names: shown as they are
   return {
     kind: 'long-counts',
     categoryColumns: categorical.map((p) => p.name),
     weightColumn: weight.name,
-    reason: `each combination of ${names} appears once and \`${weight.name}\` holds whole numbers (total ${grouped(weight.total)} over ${records.rows.length} rows), so \`${weight.name}\` is used as the frequency weight: each row stands for that many records`,
+    reason: text(
+      'each combination of {0} appears once and `{1}` holds whole numbers (total {2} over {3} rows), so `{1}` is used as the frequency weight: each row stands for that many records',
+      names,
+      weight.name,
+      grouped(weight.total),
+      records.rows.length,
+    ),
   };
 }
 

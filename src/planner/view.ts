@@ -43,7 +43,7 @@ export function columnInfo(p: ColumnProfile, weight: string | undefined): Column
 }
 
 /** The offer read into a view: its shape inferred, with notes saying what was inferred and why. */
-export function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): View {
+export function viewOf(offer: Offer, settings: PlanSettings, notes: Shown[]): View {
   switch (offer.kind) {
     case 'nothing':
       return { form: 'nothing' };
