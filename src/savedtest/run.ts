@@ -21,6 +21,7 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   const handler = procedureFor(spec.test)!;
   throwIfAborted(options.signal);
   let provenance: Provenance | undefined;
+  let countsRead: Readonly<Record<string, unknown>> | undefined;
   const ctx: RunContext = {
     signal: options.signal,
     onProgress: options.onProgress,
@@ -31,13 +32,16 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
       provenance = aggregate.provenance;
       return aggregate;
     },
+    countsRead(fields) {
+      countsRead = fields;
+    },
   };
   const computed = await handler.run(spec, ctx);
   throwIfAborted(options.signal);
   // What the reader noticed (a formula without a stored value, a merged header) goes with the result's notices.
   const withNotices = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
   // Fragility, Bayes factor, equivalence: the sections a count-based test gets beside its p-value.
-  const result = withNotices.kind === 'test' ? withEvidence(withNotices, spec) : withNotices;
+  const result = withNotices.kind === 'test' ? withEvidence(withNotices, countsRead ? { ...spec, ...countsRead } : spec) : withNotices;
   const data: DataFingerprint = provenance
     ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }
     : inlineFingerprint(spec);

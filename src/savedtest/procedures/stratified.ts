@@ -62,6 +62,7 @@ export const stratifiedProcedure = defineProcedure({
   async run(spec, ctx): Promise<TestResult> {
     const columns = spec.source?.columns;
     const counted = spec.source ? await strataFromSource(spec, ctx) : undefined;
+    if (counted) ctx.countsRead?.({ strata: counted.counts });
     if (counted && spec.method === 'exact' && (counted.rowLabels.length !== 2 || counted.columnLabels.length !== 2)) {
       throw new InputError(`$.method: the exact conditional test needs 2×2 strata; the source gives ${counted.rowLabels.length}×${counted.columnLabels.length}`, { jsonPath: '$.method' }, 'exact-not-2x2');
     }
