@@ -63,9 +63,7 @@ export const stratifiedProcedure = defineProcedure({
     const columns = spec.source?.columns;
     const counted = spec.source ? await strataFromSource(spec, ctx) : undefined;
     if (counted) ctx.countsRead?.({ strata: counted.counts });
-    if (counted && spec.method === 'exact' && (counted.rowLabels.length !== 2 || counted.columnLabels.length !== 2)) {
-      throw new InputError(`$.method: the exact conditional test needs 2×2 strata; the source gives ${counted.rowLabels.length}×${counted.columnLabels.length}`, { jsonPath: '$.method' }, 'exact-not-2x2');
-    }
+    // Scores of the wrong length and the exact method on R×C strata are refused by stratifiedTest, with their JSON paths.
     return stratifiedTest(counted?.counts ?? spec.strata!, {
       alpha: spec.alpha,
       confidence: spec.confidence,

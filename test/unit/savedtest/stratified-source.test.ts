@@ -113,6 +113,16 @@ describe('stratified test from a source', () => {
     );
   });
 
+  it('refuses the exact method when the source gives strata larger than 2×2, at $.method', async () => {
+    writeFileSync(join(folder, 'three-rows.csv'), ['site,arm,outcome', 'a,x,p', 'a,y,q', 'a,z,p', 'b,x,q', 'b,y,p', 'b,z,q'].join('\n'));
+    const e = await rejectsInput(
+      () => run({ test: 'stratified', method: 'exact', fragility: false, source: { path: 'three-rows.csv', columns: ['site', 'arm', 'outcome'] } }, folder),
+      'method: the exact conditional test is available for 2×2×K strata only; use "asymptotic" for R×C×K',
+      'method-unavailable',
+    );
+    assert.equal(e.location.jsonPath, '$.method');
+  });
+
   it('asks for exactly one of "strata" and "source", and three columns', () => {
     const messages = (spec: unknown) => validateSpec(spec).map((p) => `${p.path}: ${p.message}`);
     assert.deepEqual(messages({ test: 'stratified' }), ['$: missing data: give "strata", an array of tables of counts, or a "source" with three columns']);
