@@ -23,6 +23,7 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   const handler = procedureFor(spec.test)!;
   throwIfAborted(options.signal);
   let provenance: Provenance | undefined;
+  let countsRead: Readonly<Record<string, unknown>> | undefined;
   const ctx: RunContext = {
     signal: options.signal,
     onProgress: options.onProgress,
@@ -32,6 +33,9 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
       const aggregate = await readSource(spec.source, request, levels, options, needs);
       provenance = aggregate.provenance;
       return aggregate;
+    },
+    countsRead(fields) {
+      countsRead = fields;
     },
   };
   // The numbers layer names the argument at fault; the saved test's user needs the field (or the source) it came from.
@@ -47,7 +51,7 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   // What the reader noticed (a formula without a stored value, a merged header) goes with the result's notices.
   const withNotices = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
   // Fragility, Bayes factor, equivalence: the sections a count-based test gets beside its p-value.
-  const computedWithEvidence = withNotices.kind === 'test' ? await withArgumentsLocated(origin, () => withEvidence(withNotices, spec)) : withNotices;
+  const computedWithEvidence = withNotices.kind === 'test' ? await withArgumentsLocated(origin, () => withEvidence(withNotices, countsRead ? { ...spec, ...countsRead } : spec)) : withNotices;
   // The words are written last, in English unless the caller shows the result to someone in another language.
   const result = wordResult(computedWithEvidence, options.translate);
   const data: DataFingerprint = provenance
