@@ -112,6 +112,15 @@ export function familyLines(result: TestResult): string[] {
   return [`Family: one of ${f.size} tests in this report; ${FAMILY_METHOD_WORDS[f.method] ?? f.method}-adjusted ${p} (own ${formatPApa(result.pValue)}).`];
 }
 
+/**
+ * Words for the notices the evidence sections add (keyed by notice code). The numbers layer and the saved-test
+ * layer only name the code; every output format prints these words.
+ */
+export const EVIDENCE_NOTICE_WORDS: Readonly<Record<string, string>> = {
+  'bayes-factor-estimated-parameters':
+    'No Bayes factor: the expected proportions use parameters estimated from these data, and the Dirichlet–multinomial Bayes factor is defined against proportions fixed in advance (a point null). Give the proportions themselves, or read the p-value alone.',
+};
+
 /** Every section's lines, in report order. */
 export function evidenceLines(result: TestResult, format: FormatOptions = DEFAULT_FORMAT): string[] {
   return [...fragilityLines(result), ...bayesFactorLines(result, format), ...equivalenceLines(result, format), ...familyLines(result)];

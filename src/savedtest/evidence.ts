@@ -14,7 +14,8 @@ import { fitEquivalence, varianceEquivalence } from '../stats/procedures/equival
 import { categoryProblem, fragilityIndex2x2, generalizedFragility, strataProblem, tableProblem, twoByTwoPValue, type Fragility, type TwoByTwoTest } from '../stats/procedures/fragility';
 import { pairedTest } from '../stats/procedures/paired';
 import { stratifiedTest } from '../stats/procedures/stratified';
-import type { EquivalenceSection, FragilityBasis, TestResult } from '../stats/result';
+import type { EquivalenceSection, FragilityBasis, Notice, TestResult } from '../stats/result';
+import { EVIDENCE_NOTICE_WORDS } from '../report/evidence';
 import { bool, field, num, obj, oneOf, str, type Field } from './fields';
 import type { SpecV1 } from './types';
 
@@ -87,7 +88,8 @@ export function withEvidence(result: TestResult, validated: SpecV1): TestResult 
   const fragility = spec.fragility !== false ? fragilityFor(result, spec) : undefined;
   if (fragility) out = { ...out, fragility };
   const bayesFactor = bayesFactorFor(result, spec);
-  if (bayesFactor) out = { ...out, bayesFactor };
+  if (bayesFactor === ESTIMATED_PARAMETERS) out = { ...out, notices: [...out.notices, evidenceNotice('bayes-factor-estimated-parameters')] };
+  else if (bayesFactor) out = { ...out, bayesFactor };
   const equivalence = equivalenceFor(result, spec);
   if (equivalence) out = { ...out, equivalence };
   return out;
@@ -166,7 +168,15 @@ function independenceLog10P(t: number[][], lambda: number): number {
   return chiSquareUpperProbability(statistic, (kept.length - 1) * (kept[0].length - 1)).log10;
 }
 
-function bayesFactorFor(result: TestResult, spec: EvidenceFields): TestResult['bayesFactor'] {
+/** The Bayes factor was asked for (or on by default) but the null is not a point: proportions were estimated. */
+const ESTIMATED_PARAMETERS = 'estimated-parameters';
+
+/** A notice of these sections: its code, and the words src/report writes for it. */
+function evidenceNotice(code: keyof typeof EVIDENCE_NOTICE_WORDS): Notice {
+  return { code, severity: 'info', message: EVIDENCE_NOTICE_WORDS[code] };
+}
+
+function bayesFactorFor(result: TestResult, spec: EvidenceFields): TestResult['bayesFactor'] | typeof ESTIMATED_PARAMETERS {
   const option = spec.bayesFactor;
   if (option === false) return undefined;
   const chosen = typeof option === 'object' ? option : {};
@@ -177,7 +187,8 @@ function bayesFactorFor(result: TestResult, spec: EvidenceFields): TestResult['b
     return contingencyBayesFactor(table, chosen.samplingPlan ?? 'joint-multinomial', a);
   }
   if (result.test === 'goodness-of-fit' && result.categories) {
-    if ((spec.estimatedParameters ?? 0) > 0) return undefined; // the point null would ignore the estimated parameters
+    // The Dirichlet–multinomial factor tests a point null; with fitted parameters the null is composite. Said, not dropped.
+    if ((spec.estimatedParameters ?? 0) > 0) return ESTIMATED_PARAMETERS;
     const observed = result.categories.map((c) => c.observed);
     const n = observed.reduce((s, x) => s + x, 0);
     return goodnessOfFitBayesFactor(observed, result.categories.map((c) => c.expected / n), a);

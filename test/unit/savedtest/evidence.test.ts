@@ -76,6 +76,22 @@ describe('fragility, Bayes factor and equivalence in a run', () => {
     assert.equal(e.margin, 0.05);
   });
 
+  it('goodness of fit with estimated parameters: no Bayes factor, and every format says why (notice "bayes-factor-estimated-parameters")', async () => {
+    const spec = { version: 1, test: 'goodness-of-fit', observed: [18, 30, 27, 25], proportions: [0.2, 0.3, 0.3, 0.2], estimatedParameters: 1 };
+    const json = await runJson(spec);
+    assert.equal(json.bayesFactor, undefined);
+    const codes = (json.notices as { code: string }[]).map((n) => n.code);
+    assert.ok(codes.includes('bayes-factor-estimated-parameters'), codes.join(', '));
+    const withoutFitted = await runJson({ ...spec, estimatedParameters: 0 });
+    assert.ok(withoutFitted.bayesFactor, 'with nothing estimated the Bayes factor is there');
+    assert.ok(!(withoutFitted.notices as { code: string }[]).some((n) => n.code === 'bayes-factor-estimated-parameters'));
+    for (const format of ['text', 'markdown', 'csv']) {
+      const out = await cli(['run', '-', '--format', format], JSON.stringify(spec));
+      assert.equal(out.code, 0, out.stderr);
+      assert.match(out.stdout, /No Bayes factor: the expected proportions use parameters estimated from these data/, format);
+    }
+  });
+
   it('variance: equivalence with σ limits ("lower", "upper") and the 1 − 2α interval; the text says so', async () => {
     const spec = { version: 1, test: 'variance', summary: { n: 25, sd: 0.04 }, sigma0: 0.04, equivalence: { lower: 0.03, upper: 0.05 } };
     const json = await runJson(spec);
