@@ -22,6 +22,7 @@ const BASIS_WORDS: Readonly<Record<string, string>> = {
   pearson: "Pearson's X² without correction",
   yates: "Pearson's X² with Yates' correction",
   asymptotic: 'the chi-square approximation of the reported statistic (the reported exact or Monte Carlo p-value is not recomputed for each change)',
+  'post-hoc-family': 'the family conclusion of the comparisons: whether at least one of them is significant after the adjustment (its smallest adjusted p-value), not each comparison on its own',
 };
 
 /**
@@ -58,7 +59,7 @@ function cellName(cell: FragilityChange['cell'], result: TestResult): string {
 export function fragilityLines(result: TestResult): string[] {
   const f = result.fragility;
   if (!f) return [];
-  const source = result.grid && result.grid.observed.length === 2 && result.grid.observed[0].length === 2 && f.basis !== 'reported' ? 'Walsh et al. 2014' : 'Baer et al. 2021';
+  const source = result.grid && result.grid.observed.length === 2 && result.grid.observed[0].length === 2 && f.basis !== 'reported' && f.basis !== 'post-hoc-family' ? 'Walsh et al. 2014' : 'Baer et al. 2021';
   const by = BASIS_WORDS[f.basis] ?? f.basis;
   const flip = f.reverse ? 'significant' : 'not significant';
   if (f.index === null && f.searchStopped) {

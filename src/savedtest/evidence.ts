@@ -11,8 +11,10 @@ import { contingencyBayesFactor, goodnessOfFitBayesFactor, SAMPLING_PLANS, type 
 import { chiSquareUpperProbability } from '../stats/distributions/chisquare';
 import { powerDivergence, resolveStatistic } from '../stats/procedures/divergence';
 import { fitEquivalence, varianceEquivalence } from '../stats/procedures/equivalence';
-import { categoryProblem, fragilityIndex2x2, generalizedFragility, strataProblem, tableProblem, twoByTwoPValue, type Fragility, type TwoByTwoTest } from '../stats/procedures/fragility';
+import { categoryProblem, columnGroupsProblem, fragilityIndex2x2, generalizedFragility, strataProblem, tableProblem, twoByTwoPValue, type Fragility, type TwoByTwoTest } from '../stats/procedures/fragility';
 import { pairedTest } from '../stats/procedures/paired';
+import { cellTests, pairwiseRows, type Adjustment, type Comparison } from '../stats/procedures/posthoc';
+import { cochranArmitageTest, linearByLinearTest } from '../stats/procedures/trend';
 import { stratifiedTest } from '../stats/procedures/stratified';
 import type { EquivalenceSection, FragilityBasis, Notice, TestResult } from '../stats/result';
 import { EVIDENCE_NOTICE_WORDS } from '../report/evidence';
@@ -138,11 +140,32 @@ function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { 
       return { ...f, basis: resampled ? 'asymptotic' : 'reported' };
     }
     case 'paired': {
-      // The paired result carries no table; with a source the counts are not at hand here (fragility left out).
-      if (!spec.table) return undefined;
+      // Inline, or counted from the records of a source (the procedure returns the table it tested).
+      const table = spec.table ?? countedTable(result);
+      if (!table) return undefined;
       const opts = { alpha, correction: spec.correction, method: spec.method as 'asymptotic' | 'exact' | 'mid-p' | undefined };
       const lp = (t: number[][]): number => guarded(() => pairedTest(t, opts).pValue.log10);
-      return { ...generalizedFragility(tableProblem(spec.table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
+      return { ...generalizedFragility(tableProblem(table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
+    }
+    case 'trend': {
+      // An observation keeps its ordered group (column) and may change its outcome (row); the reported test, with
+      // the reported scores and alternative, decides each changed table.
+      const table = countedTable(result);
+      if (!table) return undefined;
+      const d = result.details as { scores?: number[]; rowScores?: number[]; columnScores?: number[] };
+      const alternative = result.alternative ?? 'two-sided';
+      const lp = d.rowScores
+        ? (t: number[][]): number => guarded(() => linearByLinearTest(t, { alpha, alternative, rowScores: d.rowScores, columnScores: d.columnScores }).pValue.log10)
+        : (t: number[][]): number => guarded(() => cochranArmitageTest(t, { alpha, alternative, scores: d.scores }).pValue.log10);
+      return { ...generalizedFragility(columnGroupsProblem(table, lp, alpha, options)), basis: 'reported' };
+    }
+    case 'post-hoc': {
+      // The family conclusion: at least one comparison significant after the adjustment (its smallest adjusted p).
+      const table = countedTable(result);
+      if (!table) return undefined;
+      const d = result.details as { compare: Comparison; adjustment: Adjustment };
+      const lp = (t: number[][]): number => postHocFamilyLog10P(t, d.compare, d.adjustment, alpha);
+      return { ...generalizedFragility(tableProblem(table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'post-hoc-family' };
     }
     case 'stratified': {
       const strata = spec.strata;
@@ -154,6 +177,29 @@ function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { 
     default:
       return undefined;
   }
+}
+
+/** The table of counts a procedure tested, as it returns it in `details.table` (paired, trend, post-hoc). */
+function countedTable(result: TestResult): number[][] | undefined {
+  const table = result.details?.table;
+  return Array.isArray(table) && table.every((row) => Array.isArray(row)) ? (table as number[][]) : undefined;
+}
+
+/**
+ * log10 of the smallest adjusted p-value of the post-hoc comparisons; a table with an empty column (which the
+ * procedure refuses) counts as not significant.
+ */
+function postHocFamilyLog10P(t: number[][], compare: Comparison, adjustment: Adjustment, alpha: number): number {
+  const rows = t.map((r) => r.reduce((s, x) => s + x, 0));
+  const columns = t[0].map((_, j) => t.reduce((s, r) => s + r[j], 0));
+  if (rows.includes(0) || columns.includes(0)) return 0;
+  const names = (k: number): string[] => Array.from({ length: k }, (_, i) => String(i));
+  const adjusted =
+    compare === 'cells'
+      ? cellTests(t, names(t.length), names(columns.length), adjustment, alpha).map((c) => c.adjustedPValue)
+      : pairwiseRows(compare === 'rows' ? t : columns.map((_, j) => t.map((r) => r[j])), names(compare === 'rows' ? t.length : columns.length), adjustment, alpha).map((c) => c.adjustedPValue);
+  const smallest = Math.min(...adjusted);
+  return smallest > 0 ? Math.log10(smallest) : -Infinity;
 }
 
 /** log10 p of the power-divergence test of independence (rows and columns with total 0 left out). */

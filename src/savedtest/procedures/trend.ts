@@ -9,6 +9,7 @@ import { arr, field, num, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './index';
+import { FRAGILITY_FIELDS } from '../evidence';
 import { ALTERNATIVE, COUNT_TABLE, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
 
 export const trendProcedure = defineProcedure({
@@ -29,6 +30,7 @@ export const trendProcedure = defineProcedure({
     rowLabels: LABELS('rows (with a source: the outcome levels, the event first)'),
     columnLabels: LABELS('ordered groups (columns; with a source: every group level, in order)'),
     alternative: { ...ALTERNATIVE, description: 'Two-sided (default); "greater": the first row’s proportion (or the column score) rises with the score; "less": it falls.' },
+    ...FRAGILITY_FIELDS,
   },
   validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
