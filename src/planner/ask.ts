@@ -7,8 +7,14 @@ import { checkValue, type Field, type FieldType, type SpecProblem } from '../sav
 import { procedureFor } from '../savedtest/procedures/index';
 import type { Questions } from './questions';
 
+/** The field a question names: a top-level field, or with a dotted name a member of an object field. */
 export function fieldOf(test: string, name: string): Field {
-  const f = procedureFor(test)?.fields[name];
+  const [first, ...members] = name.split('.');
+  let f: Field | undefined = procedureFor(test)?.fields[first];
+  for (const member of members) {
+    const type: FieldType | undefined = f?.type.kind === 'oneOf' ? f.type.options.find((o) => o.kind === 'object') : f?.type;
+    f = type?.kind === 'object' ? type.properties[member] : undefined;
+  }
   if (!f) throw new Error(`procedure "${test}" has no field "${name}"`);
   return f;
 }
@@ -25,7 +31,7 @@ export function parseNumberList(text: string): number[] {
 }
 
 /** Asks for one field of a procedure, in the terms its field table gives. */
-export async function askField(questions: Questions, test: string, name: string, title: string, options: { remembered?: unknown; extraPrompt?: string; choiceLabels?: Readonly<Record<string, string>> } = {}): Promise<unknown> {
+export async function askField(questions: Questions, test: string, name: string, title: string, options: { remembered?: unknown; extraPrompt?: string; choiceLabels?: Readonly<Record<string, string>>; choiceDetails?: Readonly<Record<string, string>> } = {}): Promise<unknown> {
   const f = fieldOf(test, name);
   // Pre-filled: the last answer on this source, else the field's default from its table.
   const preset = options.remembered ?? f.default;
@@ -35,7 +41,7 @@ export async function askField(questions: Questions, test: string, name: string,
     return questions.choose({
       title,
       placeholder: prompt,
-      choices: type.enum.map((value) => ({ label: options.choiceLabels?.[value] ?? value, description: options.choiceLabels?.[value] ? value : undefined, value })),
+      choices: type.enum.map((value) => ({ label: options.choiceLabels?.[value] ?? value, description: options.choiceLabels?.[value] ? value : undefined, detail: options.choiceDetails?.[value], value })),
       remembered: (v) => v === preset,
     });
   }

@@ -10,7 +10,7 @@ import { offerFromText } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
 import { inferShape, profileColumns } from '../../../src/planner/profile';
 import { ScriptedQuestions } from './fakeQuestions';
-import { demo, fileOffer, planAndRun, settings } from './helpers';
+import { demo, fileOffer, planAndRun, settings, TOTAL_FIXED } from './helpers';
 
 async function refusal(work: () => Promise<unknown>, code: string, pattern: RegExp): Promise<void> {
   try {
@@ -30,7 +30,7 @@ describe('shape inference on the demo files', () => {
   it('germination.md: "1,152" is a count, so the selected table is a counted 3×2 table with N = 2,950', async () => {
     const offer = offerFromText(germinationTable(), { file: 'germination.md', firstLine: 5, description: 'selection in germination.md' });
     assert.equal(offer.kind, 'records');
-    const { planned, result } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables' });
+    const { planned, result } = await planAndRun(offer, { ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables' });
     assert.deepEqual(planned.spec.table, [[1152, 65], [474, 168], [972, 119]]);
     assert.deepEqual(planned.spec.rowLabels, ['coated', 'uncoated', 'pelleted']);
     assert.equal(result.n, 2950, '1,152 + 65 + 474 + 168 + 972 + 119');
@@ -50,7 +50,7 @@ describe('shape inference on the demo files', () => {
 
   it('bike-share-survey.csv as a selection: area × purpose is cross-tabulated with the weights, N = 1,300', async () => {
     const text = readFileSync(join(demo, 'data', 'bike-share-survey.csv'), 'utf8');
-    const { planned, result } = await planAndRun(offerFromText(text, { description: 'selection' }), { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'area', 'Choose the columns': 'purpose' });
+    const { planned, result } = await planAndRun(offerFromText(text, { description: 'selection' }), { ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'area', 'Choose the columns': 'purpose' });
     assert.equal(result.n, 1300);
     assert.deepEqual((planned.spec.table as number[][])[0], [124, 37, 83, 27], 'Riverside: commute, errand, leisure, tourism');
   });
