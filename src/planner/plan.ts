@@ -334,7 +334,7 @@ async function askOptions(test: string, fields: Record<string, unknown>, data: D
       if (data.n !== undefined && given.n === undefined && given.power === undefined) fields.n = data.n;
     }
   }
-  for (const [k, v] of Object.entries(given)) if (!NOT_FIELDS.includes(k) && v !== undefined) fields[k] = v;
+  for (const [k, v] of Object.entries(given)) if (!NOT_FIELDS.includes(k) && v !== undefined) setField(fields, k, v);
   const all = procedureFor(test)?.planning?.questions ?? [];
   // Fields whose value is asked after the others (`valueLater`), and rivals already decided against.
   const later: typeof all[number][] = [];

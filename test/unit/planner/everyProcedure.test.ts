@@ -90,9 +90,9 @@ describe('the planner reaches every procedure', () => {
     for (const detail of asked.details!) assert.ok(detail && detail.length > 20 && !detail.includes('\n'), `one line of explanation: ${detail}`);
     assert.deepEqual(planned.spec.bayesFactor, { samplingPlan: 'rows-fixed' });
     assert.equal(result.bayesFactor?.samplingPlan, 'rows-fixed');
-    // Given "bayesFactor": false, nothing is asked; a plan already given is kept.
-    for (const bayesFactor of [false, { samplingPlan: 'poisson' }]) {
-      const again = await planAndRun(fileOffer('bakery-defects.csv'), { ...SCRIPTS.independence, [title]: false }, { bayesFactor });
+    // Given "bayesFactor": false, nothing is asked; a plan already given (as the object, or by its dotted name) is kept.
+    for (const [given, bayesFactor] of [[{ bayesFactor: false }, false], [{ bayesFactor: { samplingPlan: 'poisson' } }, { samplingPlan: 'poisson' }], [{ 'bayesFactor.samplingPlan': 'poisson' }, { samplingPlan: 'poisson' }]] as const) {
+      const again = await planAndRun(fileOffer('bakery-defects.csv'), { ...SCRIPTS.independence, [title]: false }, given);
       assert.ok(!again.questions.asked.some((q) => q.title === title));
       assert.deepEqual(again.planned.spec.bayesFactor, bayesFactor);
     }
