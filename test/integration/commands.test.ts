@@ -45,7 +45,7 @@ describe('commands on data', () => {
 
   it('runs on a sheet and range of an Excel workbook, and the spec it builds names them', async () => {
     const payload = await panelFrom(() =>
-      vscode.commands.executeCommand('countercheck.runOnFile', vscode.Uri.file(workspacePath('data', 'glass-inspections.xlsx')), { sheet: 'Line 2', range: 'B3:G483', test: 'independence', columns: ['shift', 'defect'] }),
+      vscode.commands.executeCommand('countercheck.runOnFile', vscode.Uri.file(workspacePath('data', 'glass-inspections.xlsx')), { sheet: 'Line 2', range: 'B3:G483', test: 'independence', ...TOTAL_FIXED, columns: ['shift', 'defect'] }),
     );
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
