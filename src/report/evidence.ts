@@ -122,6 +122,30 @@ export const EVIDENCE_NOTICE_WORDS: Readonly<Record<string, string>> = {
     'No Bayes factor: the expected proportions use parameters estimated from these data, and the Dirichlet–multinomial Bayes factor is defined against proportions fixed in advance (a point null). Give the proportions themselves, or read the p-value alone.',
 };
 
+/** Where one result sits in its family: a saved test among the saved tests of its folder, or a block of a report. */
+export interface FamilyMembership {
+  /** 1-based position among the family's tests (file-name order in a folder, block order in a report). */
+  readonly position: number;
+  /** Number of hypothesis tests in the family (distribution lookups and power questions are not part of it). */
+  readonly size: number;
+  readonly kind: 'report' | 'folder';
+}
+
+/**
+ * "2 of 3 tests in this folder", with the family's adjustment method and adjusted p when the result carries them
+ * (a run with --adjust), else a reminder that the p-value stands alone.
+ */
+export function familyMembershipLine(membership: FamilyMembership, result: TestResult): string {
+  const head = `${membership.position} of ${membership.size} tests in this ${membership.kind}`;
+  const f = result.family;
+  if (f) {
+    const p = formatPApa({ value: f.adjustedPValue, log10: Math.log10(f.adjustedPValue) });
+    return `${head}; ${FAMILY_METHOD_WORDS[f.method] ?? f.method}-adjusted ${p} (own ${formatPApa(result.pValue)})`;
+  }
+  const others = membership.size - 1;
+  return `${head}; its p-value is not adjusted for the other ${others === 1 ? 'one' : others}`;
+}
+
 /** Every section's lines, in report order. */
 export function evidenceLines(result: TestResult, format: FormatOptions = DEFAULT_FORMAT): string[] {
   return [...fragilityLines(result), ...bayesFactorLines(result, format), ...equivalenceLines(result, format), ...familyLines(result)];

@@ -4,6 +4,7 @@
  * under the adjustment. Also the review flag for a recorded significant conclusion that is fragile. Pure.
  */
 import { parseReportBlocks, type ReportBlock } from '../report/blocks';
+import type { FamilyMembership } from '../report/evidence';
 import type { FormatOptions } from '../report/format';
 import { resultMarkdown } from '../report/markdown';
 import { adjustPValues, type MultiplicityMethod } from '../stats/multiplicity';
@@ -79,6 +80,19 @@ export function describeFamily(adjustment: FamilyAdjustment): string {
   lines.push(`  conclusions changed by the adjustment: ${changed} of ${adjustment.size}`);
   if (adjustment.leftOut.length) lines.push(`  not tests, left out of the family: ${adjustment.leftOut.join(', ')}`);
   return lines.join('\n');
+}
+
+/** Saved tests that are not hypothesis tests, so not members of a family. */
+const NOT_TESTS: ReadonlySet<string> = new Set(['distribution', 'power']);
+
+/**
+ * Where the saved test `self` sits among the hypothesis tests of its folder's saved tests (`specs`: each file's name
+ * and its "test"), in file-name order; undefined when it is not a test or the only one.
+ */
+export function folderMembership(specs: readonly { readonly name: string; readonly test: string }[], self: string): FamilyMembership | undefined {
+  const tests = specs.filter((s) => !NOT_TESTS.has(s.test)).map((s) => s.name).sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+  const position = tests.indexOf(self) + 1;
+  return position > 0 && tests.length > 1 ? { position, size: tests.length, kind: 'folder' } : undefined;
 }
 
 export const DEFAULT_FRAGILITY_THRESHOLD = 2;

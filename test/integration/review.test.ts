@@ -32,6 +32,12 @@ describe('saved tests and living reports', () => {
     assert.equal(shown.origin?.saved, true);
   });
 
+  it('the panel of a saved test in a folder of saved tests says which of them it is', async () => {
+    // The demo folder: its saved tests in file-name order, lookups and power questions left out.
+    const shown = await panelFrom(() => vscode.commands.executeCommand('countercheck.runSavedSpec', vscode.Uri.file(workspacePath('bakery-flavour-mix.countercheck.json'))));
+    assert.match(shown.familyLine ?? '', /^\d+ of \d+ tests in this folder; its p-value is not adjusted for the other \d+$/);
+  });
+
   it('runs saved specs in the Testing view: reproduced passes, a changed file fails with the comparison', async () => {
     const a = await api();
     const spec = vscode.Uri.file(workspacePath('integration-data', 'ovens.countercheck.json'));
