@@ -109,7 +109,9 @@ export function fragileConclusion(recordedSignificant: boolean | undefined, resu
   const index = result.fragility.index;
   if (index === null || index > threshold) return undefined;
   const bound = result.fragility.method === 'exact' ? '' : ' (at most; bounded search)';
-  return { index, threshold, message: `fragile: the recorded significant conclusion turns not significant if ${index === 1 ? 'one outcome changes' : `${index} outcomes change`}${bound} (fragility index ${index} ≤ ${threshold})` };
+  // Post-hoc comparisons: the index is for the family conclusion (some comparison significant after adjustment).
+  const what = result.fragility.basis === 'post-hoc-family' ? 'the significant comparisons (after adjustment) all turn' : 'the recorded significant conclusion turns';
+  return { index, threshold, message: `fragile: ${what} not significant if ${index === 1 ? 'one outcome changes' : `${index} outcomes change`}${bound} (fragility index ${index} ≤ ${threshold})` };
 }
 
 /**

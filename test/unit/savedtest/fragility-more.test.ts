@@ -105,6 +105,15 @@ describe('fragility of tables counted from records', () => {
     assert.deepEqual(fromFile, inline);
   });
 
+  it('post-hoc: check words a fragile recorded result as the family conclusion of the comparisons', async () => {
+    // One pair of rows, overall p = .027: a single changed outcome makes it not significant (index at most 2).
+    const spec = { version: 1, test: 'post-hoc', table: [[14, 6], [7, 13]], compare: 'rows' };
+    writeFileSync(join(dir, 'posthoc-fragile.countercheck.json'), JSON.stringify(spec));
+    assert.equal((await cli(['run', '--record', 'posthoc-fragile.countercheck.json'], dir)).code, 0);
+    const out = await cli(['check', 'posthoc-fragile.countercheck.json'], dir);
+    assert.match(out.stdout, /fragile: the significant comparisons \(after adjustment\) all turn not significant if/);
+  });
+
   it('post-hoc: the text says the index is for the family conclusion, not each comparison', async () => {
     writeFileSync(join(dir, 'posthoc.countercheck.json'), JSON.stringify({ version: 1, test: 'post-hoc', table: [[20, 5, 9], [6, 18, 10]], compare: 'rows' }));
     const out = await cli(['run', 'posthoc.countercheck.json'], dir);
