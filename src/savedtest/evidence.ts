@@ -150,8 +150,8 @@ function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { 
       return { ...f, basis: resampled ? 'asymptotic' : 'reported' };
     }
     case 'paired': {
-      // Inline, or counted from the records of a source (the procedure returns the table it tested).
-      const table = spec.table ?? countedTable(result);
+      // Inline, or counted from the records of a source (the handler hands the counts it read to runSpec).
+      const table = spec.table;
       if (!table) return undefined;
       const opts = { alpha, correction: spec.correction, method: spec.method as 'asymptotic' | 'exact' | 'mid-p' | undefined };
       const lp = (t: number[][]): number => guarded(() => pairedTest(t, opts).pValue.log10);
@@ -160,7 +160,7 @@ function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { 
     case 'trend': {
       // An observation keeps its ordered group (column) and may change its outcome (row); the reported test, with
       // the reported scores and alternative, decides each changed table.
-      const table = countedTable(result);
+      const table = spec.table;
       if (!table) return undefined;
       const d = result.details as { scores?: number[]; rowScores?: number[]; columnScores?: number[] };
       const alternative = result.alternative ?? 'two-sided';
@@ -171,7 +171,7 @@ function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { 
     }
     case 'post-hoc': {
       // The family conclusion: at least one comparison significant after the adjustment (its smallest adjusted p).
-      const table = countedTable(result);
+      const table = spec.table;
       if (!table) return undefined;
       const d = result.details as { compare: Comparison; adjustment: Adjustment };
       const lp = (t: number[][]): number => postHocFamilyLog10P(t, d.compare, d.adjustment, alpha);
@@ -187,12 +187,6 @@ function fragilityFor(result: TestResult, spec: EvidenceFields): (Fragility & { 
     default:
       return undefined;
   }
-}
-
-/** The table of counts a procedure tested, as it returns it in `details.table` (paired, trend, post-hoc). */
-function countedTable(result: TestResult): number[][] | undefined {
-  const table = result.details?.table;
-  return Array.isArray(table) && table.every((row) => Array.isArray(row)) ? (table as number[][]) : undefined;
 }
 
 /**

@@ -47,6 +47,7 @@ export const postHocProcedure = defineProcedure({
   },
   async run(spec, ctx): Promise<TestResult> {
     const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
+    if (spec.source) ctx.countsRead?.({ table: counts });
     return postHocTest(counts, {
       compare: spec.compare,
       adjustment: spec.adjustment,

@@ -60,6 +60,7 @@ export const trendProcedure = defineProcedure({
   },
   async run(spec, ctx): Promise<TestResult> {
     const table = spec.table ?? (await orderedTableFromSource(spec, ctx));
+    if (!spec.table) ctx.countsRead?.({ table });
     if (table.length > 2 || spec.rowScores !== undefined) {
       return linearByLinearTest(table, {
         alpha: spec.alpha,

@@ -129,7 +129,7 @@ export function mcnemarTest(table: readonly (readonly number[])[], options: Pair
       confidenceInterval: wald,
       notices,
       assumptions: [pairingAssumption(), independenceAssumption('pair')],
-      details: { table: counts, discordant: { b, c }, method, correctionApplied: method === 'asymptotic' && options.correction === true, differenceDirection: 'row-1 share minus column-1 share: (b − c)/n' },
+      details: { discordant: { b, c }, method, correctionApplied: method === 'asymptotic' && options.correction === true, differenceDirection: 'row-1 share minus column-1 share: (b − c)/n' },
     },
   );
 }
@@ -188,7 +188,7 @@ export function bowkerTest(table: readonly (readonly number[])[], options: Paire
         ? `Moves between categories are not symmetric ${describeAlpha(alpha)} (${describeP(line.pValue)}): for some pairs of categories, more units moved one way than the other.`
         : `The data do not show asymmetric moves between categories ${describeAlpha(alpha)} (${describeP(line.pValue)}).`,
     },
-    { notices, assumptions: [pairingAssumption(), independenceAssumption('pair')], details: { table: counts, pairs } },
+    { notices, assumptions: [pairingAssumption(), independenceAssumption('pair')], details: { pairs } },
   );
 }
 

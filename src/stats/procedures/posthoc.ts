@@ -174,7 +174,7 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
       otherStatistics: lines,
       notices,
       assumptions: [expectedCheck.assumption, independenceAssumption('counted unit')],
-      details: { table: counts, compare, adjustment, ...detail },
+      details: { compare, adjustment, ...detail },
     },
   );
 }

@@ -98,7 +98,6 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
       notices: options.scores === undefined ? [{ code: 'default-scores', severity: 'info', message: `Scores not given: equally spaced scores 1 to ${k} were used. The result depends on the scores; give "scores" when the groups are not evenly spaced.` }] : [],
       assumptions: [independenceAssumption('counted unit')],
       details: {
-        table: counts,
         scores,
         direction: 'z > 0 when the first row’s proportion rises with the score',
         proportions: columnLabels.map((label, j) => ({ group: label, score: scores[j], events: events[j], total: totals[j], proportion: proportions[j] })),
@@ -171,7 +170,7 @@ export function linearByLinearTest(table: readonly (readonly number[])[], option
       otherStatistics: oneSided ? [line] : [],
       estimates: [{ id: 'scoreCorrelation', name: 'Pearson correlation of the scores', value: correlation }],
       assumptions: [independenceAssumption('counted unit')],
-      details: { table: counts, rowScores: u, columnScores: v, correlation, z },
+      details: { rowScores: u, columnScores: v, correlation, z },
     },
   );
 }
