@@ -13,22 +13,22 @@ import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 import { expandInputs, type InputFile } from './cli/inputs';
 import { junitXml, type JunitCase } from './cli/junit';
-import { helpText, parseCommandLine, UsageError, USAGE, type AdjustMethod, type CheckFlags, type CommandFlags, type ReportFlags, type RunFlags } from './cli/options';
+import { DECIMALS, helpText, parseCommandLine, UsageError, USAGE, type AdjustMethod, type CheckFlags, type CommandFlags, type ReportFlags, type RunFlags } from './cli/options';
 import { writeResultPlots } from './cli/plots';
 import { aggregateFile, MAX_TEXT_FILE_BYTES, readTextFile } from './data/file';
 import { sqlSpecReader } from './data/sql/index';
 import { workspaceConnections } from './data/sql/settings';
 import { errorMessage, InputError, isInputError, isInstance, type InputLocation } from './errors';
-import { refreshReport } from './report/blocks';
+import { newlineOf, parseReportBlocks, refreshReport, resultRegion } from './report/blocks';
 import { resultJson } from './report/json';
 import { resultMarkdown } from './report/markdown';
 import { CSV_HEADER, csvField, resultToCsv } from './report/tables';
 import { resultText } from './report/text';
 import { adjustPValues, type Adjustment } from './stats/procedures/posthoc';
 import { isInside } from './savedtest/paths';
-import { describeRunError, runReportBlock } from './savedtest/living';
+import { describeRunError, runReportBlock, type BlockRun, type BlockRunOptions } from './savedtest/living';
 import { locatePath, parseJsonWithLocations, type LocatedJson } from './savedtest/json-text';
-import { STATUS_LABEL, TOLERANCE_TEXT, compareWithRecord, cannotRun, changesOf, describeReview, makeRecord, reviewExitCode, reviewFails, reviewJson, writeRecordedInto, type Review } from './savedtest/review';
+import { STATUS_LABEL, TOLERANCE_TEXT, WRITTEN_RESULT, compareWithRecord, cannotRun, changesOf, describeReview, makeRecord, reviewExitCode, reviewFails, reviewJson, writeRecordedInto, type Review } from './savedtest/review';
 import { runSpec } from './savedtest/run';
 import type { SpecReaders, SpecRun, SpecV1 } from './savedtest/types';
 import { loadSpecText } from './savedtest/validate';
@@ -337,6 +337,11 @@ async function commandCheck(files: readonly InputFile[], flags: CheckFlags & Com
   const reviews: { file: string; title?: string; review: Review; seconds: number; error?: ReturnType<typeof errorEntry> }[] = [];
   await withDataOverride(flags.data, io, async (data) => {
     for (const input of files) {
+      if (!input.error && isMarkdownReport(input.name)) {
+        // A living report: one review per block, and the blocks join the family like the specs of a folder.
+        reviews.push(...(await reviewReport(input.name, flags, io)));
+        continue;
+      }
       const started = performance.now();
       let loaded: Loaded | undefined;
       let review: Review;
@@ -396,6 +401,91 @@ async function commandCheck(files: readonly InputFile[], flags: CheckFlags & Com
   return reviewExitCode(reviews.map((r) => r.review), flags.failOn);
 }
 
+/** How the blocks of the report at `absolute` run: its folder's readers, and paths checked against its root. */
+function blockRunOptions(absolute: string, flags: CommandFlags, io: CliIo): BlockRunOptions {
+  return {
+    reportPath: absolute,
+    readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
+    signal: io.signal,
+    readText: (f) => readTextFile(f, path.relative(path.dirname(absolute), f), MAX_TEXT_FILE_BYTES),
+    allowedRoot: allowedRootFor(absolute, io),
+    allowOutsideRoot: flags.allowOutside,
+  };
+}
+
+const isMarkdownReport = (name: string): boolean => /\.(md|markdown)$/i.test(name);
+
+/**
+ * Reviews every block of a living report: the block's saved test is re-run and compared with its `recorded` result
+ * when it has one, and with the result the report shows between its markers (as `report` writes it, with or without
+ * the family line of --adjust), so an edited or stale number in the report fails the check.
+ */
+async function reviewReport(file: string, flags: CheckFlags & CommandFlags, io: CliIo): Promise<{ file: string; title?: string; review: Review; seconds: number; error?: ReturnType<typeof errorEntry> }[]> {
+  const absolute = path.resolve(io.cwd, file);
+  let text: string;
+  try {
+    if (flags.data !== undefined) throw new InputError(`${file}: --data replaces one spec's data; a report's blocks keep their own`, { file }, 'data-with-report');
+    text = await readTextFile(absolute, file, MAX_TEXT_FILE_BYTES);
+  } catch (e) {
+    const error = errorEntry(e, file);
+    return [{ file, review: cannotRun(error.error.message), seconds: 0, error }];
+  }
+  const runs = new Map<number, Promise<BlockRun>>();
+  const runBlock = (block: ReportBlock): Promise<BlockRun> => {
+    if (!runs.has(block.index)) {
+      runs.set(
+        block.index,
+        runReportBlock(block, blockRunOptions(absolute, flags, io)),
+      );
+    }
+    return runs.get(block.index)!;
+  };
+  const family = flags.adjust ? await familyRenderer(text, runBlock, flags.adjust, { decimals: DECIMALS.default }) : undefined;
+  const newline = newlineOf(text);
+  const out: { file: string; title?: string; review: Review; seconds: number; error?: ReturnType<typeof errorEntry> }[] = [];
+  for (const block of parseReportBlocks(text)) {
+    const started = performance.now();
+    const name = `${file}:${block.fenceLine} (block ${block.index + 1})`;
+    let review: Review;
+    let error: ReturnType<typeof errorEntry> | undefined;
+    let title: string | undefined;
+    try {
+      if (block.problem) throw new InputError(block.problem, { file, line: block.fenceLine }, 'report-markers');
+      const run = await runBlock(block);
+      title = run.spec.title;
+      const rendered = [run.markdown, ...(family ? [await family.render(block)] : [])].map((m) => resultRegion(m, newline));
+      const written = block.existing;
+      const byRecord = run.spec.recorded !== undefined ? compareWithRecord(run.spec.recorded, run.run, TOOL, (io.now ?? (() => new Date()))(), flags.fragilityThreshold) : undefined;
+      if (written === undefined && !byRecord) throw new InputError(`${name}: no result written under the block and no recorded result; run \`countercheck report ${file}\` first`, { file, line: block.fenceLine }, 'no-recorded-result');
+      const textDiffers = written !== undefined && !rendered.includes(written);
+      const base: Review = byRecord ?? { status: 'reproduced', current: makeRecord(run.run, TOOL, (io.now ?? (() => new Date()))()), differences: [], tolerance: TOLERANCE_TEXT };
+      review = base;
+      if (textDiffers) {
+        const difference = firstDifferentLine(written!, rendered[0]);
+        review = { ...base, status: base.status === 'reproduced' ? 'result-differs' : base.status, differences: [...base.differences, { field: `${WRITTEN_RESULT}, line ${difference.line}`, recorded: difference.written, current: difference.now }] };
+      }
+    } catch (e) {
+      error = errorEntry(e, name);
+      review = cannotRun(error.error.message);
+    }
+    out.push({ file: name, title, review, seconds: (performance.now() - started) / 1000, error });
+  }
+  if (out.length === 0) {
+    const error = errorEntry(new InputError(`${file}: no \`\`\`countercheck blocks`, { file }, 'no-blocks'), file);
+    out.push({ file, review: cannotRun(error.error.message), seconds: 0, error });
+  }
+  return out;
+}
+
+/** The first line (1-based, within the result region) where the written result and the re-run's differ. */
+function firstDifferentLine(written: string, now: string): { line: number; written: string; now: string } {
+  const a = written.split(/\r?\n/);
+  const b = now.split(/\r?\n/);
+  let i = 0;
+  while (i < a.length && i < b.length && a[i] === b[i]) i++;
+  return { line: i + 1, written: a[i] ?? '(end of the result)', now: b[i] ?? '(end of the result)' };
+}
+
 async function commandReport(files: readonly InputFile[], flags: ReportFlags & CommandFlags, io: CliIo): Promise<number> {
   let exit = 0;
   const say = (text: string) => {
@@ -426,15 +516,7 @@ async function commandReport(files: readonly InputFile[], flags: ReportFlags & C
     // The plot files the blocks link to, by file: written beside the report once the blocks have run.
     const plotsToWrite = new Map<string, string>();
     const runBlock = async (block: ReportBlock) => {
-      const run = await runReportBlock(block, {
-        reportPath: absolute,
-        readers: io.readers ?? defaultReaders(io, path.dirname(absolute)),
-        signal: io.signal,
-        readText: (f) => readTextFile(f, path.relative(path.dirname(absolute), f), MAX_TEXT_FILE_BYTES),
-        allowedRoot: allowedRootFor(absolute, io),
-        allowOutsideRoot: flags.allowOutside,
-        format: { decimals: flags.decimals },
-      });
+      const run = await runReportBlock(block, { ...blockRunOptions(absolute, flags, io), format: { decimals: flags.decimals } });
       for (const plot of run.plots) plotsToWrite.set(plot.file, plot.svg);
       return run;
     };

@@ -156,6 +156,8 @@ export interface PanelPayload {
   /** The procedure's key estimate, promoted beside the headline. */
   readonly keyEstimate?: { readonly label: string; readonly value: string; readonly explain?: string };
   readonly apaLine: string;
+  /** "2 of 3 tests in this folder" (with the adjusted p when known), when the result belongs to a family of tests. */
+  readonly familyLine?: string;
   readonly significant: boolean | null;
   /** `explain`: what the figure is, how to read it, one formula or citation (src/report/explanations.ts). */
   readonly keyFigures: readonly { readonly label: string; readonly value: string; readonly explain?: string }[];

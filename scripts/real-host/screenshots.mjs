@@ -150,7 +150,9 @@ async function session({ name, theme, scheme }) {
     await check(`${name}: palette runs the test on a counted table`, async () => {
       await quickOpen(page, 'oven-defects.csv');
       await palette(page, 'Countercheck: Test This Data File');
-      // Every procedure that fits is offered; independence, the first, is already highlighted.
+      // Every procedure that fits is offered; independence, the first, is already highlighted; then its sampling
+      // plan for the Bayes factor, "only the grand total fixed" highlighted.
+      await answer(page, '');
       await answer(page, '');
       await waitForPanel(page, /associated/);
       const apa = await panelFrame(page).locator('#apa-line').textContent();

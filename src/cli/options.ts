@@ -98,10 +98,11 @@ Examples:
 
 Exit codes: 0 success; 1 --record found a different earlier record and --force was not given;
 2 a bad spec, bad data, an input that cannot be read, or a usage error.`,
-  check: `Usage: countercheck check [options] <spec|folder|glob|-…>
+  check: `Usage: countercheck check [options] <spec|folder|glob|report.md|-…>
 
 Re-runs each saved test and compares it with its recorded result: reproduced, data changed, result differs
-or cannot run.
+or cannot run. A markdown living report is checked block by block: each block's saved test is re-run and
+compared with its recorded result (when it has one) and with the result the report shows under it.
 
 Options:
   --json                one JSON array, an object per input
@@ -112,8 +113,9 @@ Options:
                         changed). Default: result,conclusion,data
   --data FILE|-         compare using the data in FILE (- for standard input, as CSV); one spec only
   --adjust holm|bh|bonferroni
-                        also adjust the current p-values across the checked specs for multiplicity
-                        (Holm, Benjamini–Hochberg or Bonferroni) and show them beside each result
+                        also adjust the current p-values across the checked specs (or a report's
+                        blocks) for multiplicity (Holm, Benjamini–Hochberg or Bonferroni) and show them
+                        beside each result
   --fragility-threshold N
                         flag a recorded significant conclusion whose fragility index is at most N
                         (default 2): so few changed outcomes would make it not significant
@@ -125,6 +127,7 @@ Examples:
   countercheck check demo
   countercheck check --junit reports/countercheck.xml --fail-on result,conclusion 'specs/**/*.countercheck.json'
   countercheck check --json --adjust holm specs > review.json
+  countercheck check --adjust holm demo/report.md
 
 Exit codes: 0 no change that --fail-on names; 1 some change that --fail-on names; 2 some input cannot run
 (or a usage error).`,

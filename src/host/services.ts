@@ -1,5 +1,6 @@
 // What every command shares: settings, the output channel, the spec runner with the extension's file
 // readers, the panels, and the error notification that points at the place in the file.
+import type { FamilyMembership } from '../report/evidence';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { rememberSpecFolder, resolveErrorFile, sourceKey, specFolderOf } from './locations';
@@ -122,7 +123,7 @@ export class Services {
     return outcome;
   }
 
-  showResult(result: Result, origin: PanelOrigin | undefined, title: string, sourceDescription: string, reuse?: ResultPanel): ResultPanel {
+  showResult(result: Result, origin: PanelOrigin | undefined, title: string, sourceDescription: string, reuse?: ResultPanel, membership?: FamilyMembership): ResultPanel {
     const s = settings(origin ? vscode.Uri.file(origin.specPath) : undefined);
     const payload = buildPayload(result, {
       id: `r${++this.counter}`,
@@ -131,6 +132,7 @@ export class Services {
       decimals: s.decimals,
       canSave: origin !== undefined,
       canRerun: origin !== undefined,
+      ...(membership ? { membership } : {}),
     });
     // One panel per source: a new run replaces the result of the same source unless panels are kept.
     const same = reuse ?? (s.keepSeveralPanels ? undefined : this.panels.forSource(sourceKey({ ...payload, origin })));

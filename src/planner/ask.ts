@@ -7,8 +7,14 @@ import { checkValue, type Field, type FieldType, type SpecProblem } from '../sav
 import { procedureFor } from '../savedtest/procedures/index';
 import { tableText, text, verbatim, type Questions, type Shown } from './questions';
 
+/** The field a question names: a top-level field, or with a dotted name a member of an object field. */
 export function fieldOf(test: string, name: string): Field {
-  const f = procedureFor(test)?.fields[name];
+  const [first, ...members] = name.split('.');
+  let f: Field | undefined = procedureFor(test)?.fields[first];
+  for (const member of members) {
+    const type: FieldType | undefined = f?.type.kind === 'oneOf' ? f.type.options.find((o) => o.kind === 'object') : f?.type;
+    f = type?.kind === 'object' ? type.properties[member] : undefined;
+  }
   if (!f) throw new Error(`procedure "${test}" has no field "${name}"`);
   return f;
 }
@@ -25,7 +31,7 @@ export function parseNumberList(text: string): number[] {
 }
 
 /** Asks for one field of a procedure, in the terms its field table gives. */
-export async function askField(questions: Questions, test: string, name: string, titleText: string, options: { remembered?: unknown; unitsOf?: string; choiceLabels?: Readonly<Record<string, string>> } = {}): Promise<unknown> {
+export async function askField(questions: Questions, test: string, name: string, titleText: string, options: { remembered?: unknown; unitsOf?: string; choiceLabels?: Readonly<Record<string, string>>; choiceDetails?: Readonly<Record<string, string>> } = {}): Promise<unknown> {
   const f = fieldOf(test, name);
   const title = tableText(titleText);
   // Pre-filled: the last answer on this source, else the field's default from its table.
@@ -40,7 +46,8 @@ export async function askField(questions: Questions, test: string, name: string,
       placeholder: prompt,
       choices: type.enum.map((value) => {
         const label = options.choiceLabels?.[value];
-        return { label: label !== undefined ? tableText(label) : verbatim(value), description: label !== undefined ? verbatim(value) : undefined, value };
+        const detail = options.choiceDetails?.[value];
+        return { label: label !== undefined ? tableText(label) : verbatim(value), description: label !== undefined ? verbatim(value) : undefined, ...(detail !== undefined ? { detail: tableText(detail) } : {}), value };
       }),
       remembered: (v) => v === preset,
     });

@@ -15,7 +15,7 @@ import type { Offer } from './offer';
 import { english, tableText, text, verbatim, type Choice, type Questions, type Shown } from './questions';
 import { describeView, sum, viewOf, type ColumnInfo, type DataFacts, type Role, type View } from './view';
 import { namesRows } from './profile';
-import { PROCEDURES, procedureFor, type DataShape } from '../savedtest/procedures/index';
+import { PROCEDURES, procedureFor, type DataShape, type FieldQuestion } from '../savedtest/procedures/index';
 
 /** Answers given beforehand (keybindings, tests) or remembered from the last run on the same source. */
 export interface Answers {
@@ -360,13 +360,13 @@ async function askOptions(test: string, fields: Record<string, unknown>, data: D
       if (data.n !== undefined && given.n === undefined && given.power === undefined) fields.n = data.n;
     }
   }
-  for (const [k, v] of Object.entries(given)) if (!NOT_FIELDS.includes(k) && v !== undefined) fields[k] = v;
+  for (const [k, v] of Object.entries(given)) if (!NOT_FIELDS.includes(k) && v !== undefined) setField(fields, k, v);
   const all = procedureFor(test)?.planning?.questions ?? [];
   // Fields whose value is asked after the others (`valueLater`), and rivals already decided against.
   const later: typeof all[number][] = [];
   const decided = new Set<string>();
   for (const q of all) {
-    if (decided.has(q.field) || fields[q.field] !== undefined || (q.when && !q.when(fields))) continue;
+    if (decided.has(q.field) || fieldValue(fields, q.field) !== undefined || (q.when && !q.when(fields))) continue;
     const rival = q.orElse !== undefined && fields[q.orElse] === undefined ? all.find((r) => r.field === q.orElse) : undefined;
     if (rival) {
       // Two fields that exclude each other (n or power, x or p): which one first, so no number is read as the other.
@@ -378,13 +378,34 @@ async function askOptions(test: string, fields: Record<string, unknown>, data: D
       });
       decided.add(q.field).add(rival.field);
       if (q.valueLater) later.push(which);
-      else fields[which.field] = answers[which.field] = await askField(questions, test, which.field, which.title, { remembered: remembered[which.field] ?? which.preset, choiceLabels: which.choiceLabels });
+      else setField(fields, which.field, (answers[which.field] = await askField(questions, test, which.field, which.title, asked(which, remembered))));
       continue;
     }
     const unitsOf = q.field === 'sigma0' ? data.variable : undefined;
-    fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels, unitsOf });
+    setField(fields, q.field, (answers[q.field] = await askField(questions, test, q.field, q.title, { ...asked(q, remembered), unitsOf })));
   }
-  for (const q of later) fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels });
+  for (const q of later) setField(fields, q.field, (answers[q.field] = await askField(questions, test, q.field, q.title, asked(q, remembered))));
+}
+
+/** How a declared question is asked: pre-filled with the last answer (or its preset), with its choices' words. */
+function asked(q: FieldQuestion, remembered: Answers): { remembered: unknown; choiceLabels?: Readonly<Record<string, string>>; choiceDetails?: Readonly<Record<string, string>> } {
+  return { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels, choiceDetails: q.choiceDetails };
+}
+
+/** A field's value in the spec being planned; a dotted name reads a member of an object field. */
+function fieldValue(fields: Readonly<Record<string, unknown>>, name: string): unknown {
+  return name.split('.').reduce<unknown>((v, k) => (v !== null && typeof v === 'object' ? (v as Record<string, unknown>)[k] : undefined), fields);
+}
+
+/** Sets a field of the spec being planned; a dotted name sets a member of an object field, creating the object. */
+function setField(fields: Record<string, unknown>, name: string, value: unknown): void {
+  const steps = name.split('.');
+  let target = fields;
+  for (const k of steps.slice(0, -1)) {
+    const next = target[k];
+    target = target[k] = next !== null && typeof next === 'object' ? { ...(next as Record<string, unknown>) } : {};
+  }
+  target[steps[steps.length - 1]] = value;
 }
 
 /** Answers that are not fields of the saved test. */

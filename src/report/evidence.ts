@@ -22,6 +22,7 @@ const BASIS_WORDS: Readonly<Record<string, string>> = {
   pearson: "Pearson's X² without correction",
   yates: "Pearson's X² with Yates' correction",
   asymptotic: 'the chi-square approximation of the reported statistic (the reported exact or Monte Carlo p-value is not recomputed for each change)',
+  'post-hoc-family': 'the family conclusion of the comparisons: whether at least one of them is significant after the adjustment (its smallest adjusted p-value), not each comparison on its own',
 };
 
 /**
@@ -58,7 +59,7 @@ function cellName(cell: FragilityChange['cell'], result: TestResult): string {
 export function fragilityLines(result: TestResult): string[] {
   const f = result.fragility;
   if (!f) return [];
-  const source = result.grid && result.grid.observed.length === 2 && result.grid.observed[0].length === 2 && f.basis !== 'reported' ? 'Walsh et al. 2014' : 'Baer et al. 2021';
+  const source = result.grid && result.grid.observed.length === 2 && result.grid.observed[0].length === 2 && f.basis !== 'reported' && f.basis !== 'post-hoc-family' ? 'Walsh et al. 2014' : 'Baer et al. 2021';
   const by = BASIS_WORDS[f.basis] ?? f.basis;
   const flip = f.reverse ? 'significant' : 'not significant';
   if (f.index === null && f.searchStopped) {
@@ -110,6 +111,39 @@ export function familyLines(result: TestResult): string[] {
   if (!f) return [];
   const p = formatPApa({ value: f.adjustedPValue, log10: Math.log10(f.adjustedPValue) });
   return [`Family: one of ${f.size} tests in this report; ${FAMILY_METHOD_WORDS[f.method] ?? f.method}-adjusted ${p} (own ${formatPApa(result.pValue)}).`];
+}
+
+/**
+ * Words for the notices the evidence sections add (keyed by notice code). The numbers layer and the saved-test
+ * layer only name the code; every output format prints these words.
+ */
+export const EVIDENCE_NOTICE_WORDS: Readonly<Record<string, string>> = {
+  'bayes-factor-estimated-parameters':
+    'No Bayes factor: the expected proportions use parameters estimated from these data, and the Dirichlet–multinomial Bayes factor is defined against proportions fixed in advance (a point null). Give the proportions themselves, or read the p-value alone.',
+};
+
+/** Where one result sits in its family: a saved test among the saved tests of its folder, or a block of a report. */
+export interface FamilyMembership {
+  /** 1-based position among the family's tests (file-name order in a folder, block order in a report). */
+  readonly position: number;
+  /** Number of hypothesis tests in the family (distribution lookups and power questions are not part of it). */
+  readonly size: number;
+  readonly kind: 'report' | 'folder';
+}
+
+/**
+ * "2 of 3 tests in this folder", with the family's adjustment method and adjusted p when the result carries them
+ * (a run with --adjust), else a reminder that the p-value stands alone.
+ */
+export function familyMembershipLine(membership: FamilyMembership, result: TestResult): string {
+  const head = `${membership.position} of ${membership.size} tests in this ${membership.kind}`;
+  const f = result.family;
+  if (f) {
+    const p = formatPApa({ value: f.adjustedPValue, log10: Math.log10(f.adjustedPValue) });
+    return `${head}; ${FAMILY_METHOD_WORDS[f.method] ?? f.method}-adjusted ${p} (own ${formatPApa(result.pValue)})`;
+  }
+  const others = membership.size - 1;
+  return `${head}; its p-value is not adjusted for the other ${others === 1 ? 'one' : others}`;
 }
 
 /** Every section's lines, in report order. */

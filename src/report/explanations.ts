@@ -110,6 +110,7 @@ export const EXPLANATIONS: Readonly<Record<string, Explanation>> = {
   'rescaled-expected': E('Expected counts rescaled', 'The expected counts given were rescaled to the observed total.', 'Check that the proportions were meant, not the counts.', '—'),
   'continuity-correction': E('Continuity correction', 'Yates’ correction was applied to the 2×2 table.', 'It makes the test conservative.', 'Yates (1934).'),
   'heterogeneous-odds-ratios': E('Odds ratios differ between strata', 'The strata do not share one odds ratio.', 'The common odds ratio summarizes different associations; report the strata separately.', 'Breslow & Day (1980).'),
+  'bayes-factor-estimated-parameters': E('No Bayes factor with estimated parameters', 'The Dirichlet–multinomial Bayes factor compares the data with proportions fixed in advance; here the proportions were fitted to the same data.', 'Only the p-value (with df reduced for the fitted parameters) is reported; a Bayes factor would need a prior on those parameters too.', 'Point-null Bayes factor: Jamil et al. (2017); composite nulls: Kass & Raftery (1995).'),
   'estimated-parameters': E('Parameters estimated from the data', 'The expected counts use parameters fitted to these data.', 'Each fitted parameter takes one degree of freedom away.', 'Fisher (1924).'),
 };
 

@@ -13,7 +13,7 @@ import { plotDescription, renderPlotSvg } from './svg';
 import { explain, explanationText } from './explanations';
 import { keyEstimate, pLabel, presentedTest, reportedPMethod, testHeadline } from './headline';
 import { apaLine, CAUTION, estimateText, POWER_CAUTION, resultText, statisticLineText } from './text';
-import { evidenceLines } from './evidence';
+import { evidenceLines, familyMembershipLine, type FamilyMembership } from './evidence';
 
 /** A string translator with `{0}`-style placeholders, as vscode.l10n.t. */
 export type Translate = (message: string, ...args: (string | number | boolean)[]) => string;
@@ -31,6 +31,8 @@ export interface PayloadOptions {
   readonly canRerun: boolean;
   /** ISO time the result was computed; default now. */
   readonly computedAt?: string;
+  /** The result's place in a family of tests (a folder of saved tests, a report's blocks), when it has one. */
+  readonly membership?: FamilyMembership;
 }
 
 function signText(residual: number, t: Translate): string {
@@ -238,6 +240,7 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
       ...(headline.assumption ? { headlineAssumption: headline.assumption } : {}),
       ...(key ? { keyEstimate: { label: key.name, value: estimateText(key, f).slice(key.name.length + 3), ...explained(key.id) } } : {}),
       apaLine: apaLine(result, f),
+      ...(options.membership && options.membership.size > 1 ? { familyLine: familyMembershipLine(options.membership, result) } : {}),
       significant: result.significant,
       keyFigures: keyFigures(result, f, t),
       tables: testTables(result, f, t),

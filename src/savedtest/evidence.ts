@@ -11,10 +11,13 @@ import { contingencyBayesFactor, goodnessOfFitBayesFactor, SAMPLING_PLANS, type 
 import { chiSquareUpperProbability } from '../stats/distributions/chisquare';
 import { powerDivergence, resolveStatistic } from '../stats/procedures/divergence';
 import { fitEquivalence, varianceEquivalence } from '../stats/procedures/equivalence';
-import { categoryProblem, fragilityIndex2x2, generalizedFragility, strataProblem, tableProblem, twoByTwoPValue, type Fragility, type TwoByTwoTest } from '../stats/procedures/fragility';
+import { categoryProblem, columnGroupsProblem, fragilityIndex2x2, generalizedFragility, strataProblem, tableProblem, twoByTwoPValue, type Fragility, type TwoByTwoTest } from '../stats/procedures/fragility';
 import { pairedTest } from '../stats/procedures/paired';
+import { cellTests, pairwiseRows, type Adjustment, type Comparison } from '../stats/procedures/posthoc';
+import { cochranArmitageTest, linearByLinearTest } from '../stats/procedures/trend';
 import { stratifiedTest } from '../stats/procedures/stratified';
-import type { EquivalenceSection, FragilityBasis, ComputedTestResult } from '../stats/result';
+import type { EquivalenceSection, FragilityBasis, Notice, ComputedTestResult } from '../stats/result';
+import { EVIDENCE_NOTICE_WORDS } from '../report/evidence';
 import type { ArgumentPlaces } from './arguments';
 import { bool, field, num, obj, oneOf, str, type Field } from './fields';
 import type { SpecV1 } from './types';
@@ -97,7 +100,8 @@ export function withEvidence(result: ComputedTestResult, validated: SpecV1): Com
   const fragility = spec.fragility !== false ? fragilityFor(result, spec) : undefined;
   if (fragility) out = { ...out, fragility };
   const bayesFactor = bayesFactorFor(result, spec);
-  if (bayesFactor) out = { ...out, bayesFactor };
+  if (bayesFactor === ESTIMATED_PARAMETERS) out = { ...out, notices: [...out.notices, evidenceNotice('bayes-factor-estimated-parameters')] };
+  else if (bayesFactor) out = { ...out, bayesFactor };
   const equivalence = equivalenceFor(result, spec);
   if (equivalence) out = { ...out, equivalence };
   return out;
@@ -146,11 +150,32 @@ function fragilityFor(result: ComputedTestResult, spec: EvidenceFields): (Fragil
       return { ...f, basis: resampled ? 'asymptotic' : 'reported' };
     }
     case 'paired': {
-      // The paired result carries no table; with a source the counts are not at hand here (fragility left out).
-      if (!spec.table) return undefined;
+      // Inline, or counted from the records of a source (the handler hands the counts it read to runSpec).
+      const table = spec.table;
+      if (!table) return undefined;
       const opts = { alpha, correction: spec.correction, method: spec.method as 'asymptotic' | 'exact' | 'mid-p' | undefined };
       const lp = (t: number[][]): number => guarded(() => pairedTest(t, opts).pValue.log10);
-      return { ...generalizedFragility(tableProblem(spec.table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
+      return { ...generalizedFragility(tableProblem(table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'reported' };
+    }
+    case 'trend': {
+      // An observation keeps its ordered group (column) and may change its outcome (row); the reported test, with
+      // the reported scores and alternative, decides each changed table.
+      const table = spec.table;
+      if (!table) return undefined;
+      const d = result.details as { scores?: number[]; rowScores?: number[]; columnScores?: number[] };
+      const alternative = result.alternative ?? 'two-sided';
+      const lp = d.rowScores
+        ? (t: number[][]): number => guarded(() => linearByLinearTest(t, { alpha, alternative, rowScores: d.rowScores, columnScores: d.columnScores }).pValue.log10)
+        : (t: number[][]): number => guarded(() => cochranArmitageTest(t, { alpha, alternative, scores: d.scores }).pValue.log10);
+      return { ...generalizedFragility(columnGroupsProblem(table, lp, alpha, options)), basis: 'reported' };
+    }
+    case 'post-hoc': {
+      // The family conclusion: at least one comparison significant after the adjustment (its smallest adjusted p).
+      const table = spec.table;
+      if (!table) return undefined;
+      const d = result.details as { compare: Comparison; adjustment: Adjustment };
+      const lp = (t: number[][]): number => postHocFamilyLog10P(t, d.compare, d.adjustment, alpha);
+      return { ...generalizedFragility(tableProblem(table, lp, alpha, { ...options, maxTables: EXPENSIVE_TEST_TABLES, maxGreedyEvaluations: EXPENSIVE_TEST_TABLES })), basis: 'post-hoc-family' };
     }
     case 'stratified': {
       const strata = spec.strata;
@@ -162,6 +187,23 @@ function fragilityFor(result: ComputedTestResult, spec: EvidenceFields): (Fragil
     default:
       return undefined;
   }
+}
+
+/**
+ * log10 of the smallest adjusted p-value of the post-hoc comparisons; a table with an empty column (which the
+ * procedure refuses) counts as not significant.
+ */
+function postHocFamilyLog10P(t: number[][], compare: Comparison, adjustment: Adjustment, alpha: number): number {
+  const rows = t.map((r) => r.reduce((s, x) => s + x, 0));
+  const columns = t[0].map((_, j) => t.reduce((s, r) => s + r[j], 0));
+  if (rows.includes(0) || columns.includes(0)) return 0;
+  const names = (k: number): string[] => Array.from({ length: k }, (_, i) => String(i));
+  const adjusted =
+    compare === 'cells'
+      ? cellTests(t, names(t.length), names(columns.length), adjustment, alpha).map((c) => c.adjustedPValue)
+      : pairwiseRows(compare === 'rows' ? t : columns.map((_, j) => t.map((r) => r[j])), names(compare === 'rows' ? t.length : columns.length), adjustment, alpha).map((c) => c.adjustedPValue);
+  const smallest = Math.min(...adjusted);
+  return smallest > 0 ? Math.log10(smallest) : -Infinity;
 }
 
 /** log10 p of the power-divergence test of independence (rows and columns with total 0 left out). */
@@ -176,7 +218,15 @@ function independenceLog10P(t: number[][], lambda: number): number {
   return chiSquareUpperProbability(statistic, (kept.length - 1) * (kept[0].length - 1)).log10;
 }
 
-function bayesFactorFor(result: ComputedTestResult, spec: EvidenceFields): ComputedTestResult['bayesFactor'] {
+/** The Bayes factor was asked for (or on by default) but the null is not a point: proportions were estimated. */
+const ESTIMATED_PARAMETERS = 'estimated-parameters';
+
+/** A notice of these sections: its code, and the words src/report writes for it. */
+function evidenceNotice(code: keyof typeof EVIDENCE_NOTICE_WORDS): Notice {
+  return { code, severity: 'info', message: EVIDENCE_NOTICE_WORDS[code] };
+}
+
+function bayesFactorFor(result: ComputedTestResult, spec: EvidenceFields): ComputedTestResult['bayesFactor'] | typeof ESTIMATED_PARAMETERS {
   const option = spec.bayesFactor;
   if (option === false) return undefined;
   const chosen = typeof option === 'object' ? option : {};
@@ -187,7 +237,8 @@ function bayesFactorFor(result: ComputedTestResult, spec: EvidenceFields): Compu
     return contingencyBayesFactor(table, chosen.samplingPlan ?? 'joint-multinomial', a);
   }
   if (result.test === 'goodness-of-fit' && result.categories) {
-    if ((spec.estimatedParameters ?? 0) > 0) return undefined; // the point null would ignore the estimated parameters
+    // The Dirichlet–multinomial factor tests a point null; with fitted parameters the null is composite. Said, not dropped.
+    if ((spec.estimatedParameters ?? 0) > 0) return ESTIMATED_PARAMETERS;
     const observed = result.categories.map((c) => c.observed);
     const n = observed.reduce((s, x) => s + x, 0);
     return goodnessOfFitBayesFactor(observed, result.categories.map((c) => c.expected / n), a);

@@ -4,6 +4,7 @@
  * under the adjustment. Also the review flag for a recorded significant conclusion that is fragile. Pure.
  */
 import { parseReportBlocks, type ReportBlock } from '../report/blocks';
+import type { FamilyMembership } from '../report/evidence';
 import type { FormatOptions } from '../report/format';
 import { resultMarkdown } from '../report/markdown';
 import { adjustPValues, type MultiplicityMethod } from '../stats/multiplicity';
@@ -81,6 +82,19 @@ export function describeFamily(adjustment: FamilyAdjustment): string {
   return lines.join('\n');
 }
 
+/** Saved tests that are not hypothesis tests, so not members of a family. */
+const NOT_TESTS: ReadonlySet<string> = new Set(['distribution', 'power']);
+
+/**
+ * Where the saved test `self` sits among the hypothesis tests of its folder's saved tests (`specs`: each file's name
+ * and its "test"), in file-name order; undefined when it is not a test or the only one.
+ */
+export function folderMembership(specs: readonly { readonly name: string; readonly test: string }[], self: string): FamilyMembership | undefined {
+  const tests = specs.filter((s) => !NOT_TESTS.has(s.test)).map((s) => s.name).sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+  const position = tests.indexOf(self) + 1;
+  return position > 0 && tests.length > 1 ? { position, size: tests.length, kind: 'folder' } : undefined;
+}
+
 export const DEFAULT_FRAGILITY_THRESHOLD = 2;
 
 /** A recorded significant conclusion whose fragility index is at most the threshold; undefined when not fragile. */
@@ -95,7 +109,9 @@ export function fragileConclusion(recordedSignificant: boolean | undefined, resu
   const index = result.fragility.index;
   if (index === null || index > threshold) return undefined;
   const bound = result.fragility.method === 'exact' ? '' : ' (at most; bounded search)';
-  return { index, threshold, message: `fragile: the recorded significant conclusion turns not significant if ${index === 1 ? 'one outcome changes' : `${index} outcomes change`}${bound} (fragility index ${index} ≤ ${threshold})` };
+  // Post-hoc comparisons: the index is for the family conclusion (some comparison significant after adjustment).
+  const what = result.fragility.basis === 'post-hoc-family' ? 'the significant comparisons (after adjustment) all turn' : 'the recorded significant conclusion turns';
+  return { index, threshold, message: `fragile: ${what} not significant if ${index === 1 ? 'one outcome changes' : `${index} outcomes change`}${bound} (fragility index ${index} ≤ ${threshold})` };
 }
 
 /**

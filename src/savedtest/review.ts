@@ -84,6 +84,9 @@ export function makeRecord(run: SpecRun, tool: string, now: Date): RecordedResul
   return { tool, recordedAt: now.toISOString(), data: run.data, result: recordedNumbers(run.result) };
 }
 
+/** The field name of a difference between a report's written result and its re-run (`check` on a report). */
+export const WRITTEN_RESULT = 'result written in the report';
+
 export type ReviewStatus = 'reproduced' | 'data-changed' | 'result-differs' | 'cannot-run';
 
 export interface Difference {
@@ -174,20 +177,25 @@ const show = (x: unknown): string => (typeof x === 'number' ? String(Number(x.to
 export function describeReview(review: Review, name: string): string {
   const head = `${STATUS_LABEL[review.status]}: ${name}`;
   if (review.status === 'cannot-run') return `${head}\n  ${review.reason}`;
-  const r = review.recorded!;
+  // A block of a report without a recorded result is compared only with what the report shows.
+  const r = review.recorded;
   const c = review.current!;
   const lines = [head];
   const stat = (x: RecordedResult): string => (x.result.statistic === null ? 'n/a' : show(x.result.statistic));
   if (review.status === 'reproduced') {
     lines.push(`  same data (sha256 ${c.data.sha256.slice(0, 12)}…, ${c.data.rows} rows); statistic ${stat(c)}, p ${show(c.result.pValue)}`);
-  } else if (review.status === 'data-changed') {
+  } else if (review.status === 'data-changed' && r) {
     lines.push(`  data fingerprint differs: recorded ${r.data.rows} rows (sha256 ${r.data.sha256.slice(0, 12)}…), now ${c.data.rows} rows (sha256 ${c.data.sha256.slice(0, 12)}…)`);
     lines.push(`  n ${show(r.result.n)} → ${show(c.result.n)}; statistic ${stat(r)} → ${stat(c)}; p ${show(r.result.pValue)} → ${show(c.result.pValue)}`);
   } else {
-    lines.push(`  same data, different numbers (a regression; ${review.tolerance}):`);
-    for (const d of review.differences) lines.push(`    ${d.field}: recorded ${show(d.recorded)}, now ${show(d.current)}`);
+    const numbers = review.differences.filter((d) => !d.field.startsWith(WRITTEN_RESULT));
+    if (numbers.length > 0) lines.push(`  same data, different numbers (a regression; ${review.tolerance}):`);
+    for (const d of numbers) lines.push(`    ${d.field}: recorded ${show(d.recorded)}, now ${show(d.current)}`);
   }
-  if (review.conclusionFlipped !== undefined && review.status !== 'reproduced') {
+  const written = review.differences.filter((d) => d.field.startsWith(WRITTEN_RESULT));
+  if (written.length > 0) lines.push(`  the result the report shows differs from the re-run (statistic ${stat(c)}, p ${show(c.result.pValue)}):`);
+  for (const d of written) lines.push(`    ${d.field}: written ${show(d.recorded)}, now ${show(d.current)}`);
+  if (r && review.conclusionFlipped !== undefined && review.status !== 'reproduced') {
     const alpha = c.result.alpha ?? r.result.alpha;
     const word = (s: boolean | undefined): string => (s ? 'significant' : 'not significant');
     lines.push(
@@ -197,7 +205,7 @@ export function describeReview(review: Review, name: string): string {
     );
   }
   if (review.fragile) lines.push(`  ${review.fragile.message}`);
-  lines.push(`  recorded ${r.recordedAt} by ${r.tool}`);
+  lines.push(r ? `  recorded ${r.recordedAt} by ${r.tool}` : '  compared with the result written in the report');
   return lines.join('\n');
 }
 

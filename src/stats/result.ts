@@ -157,9 +157,10 @@ export interface TestResult {
 /**
  * The p-value the fragility search recomputed: the reported test itself ("reported"), Fisher's exact, Pearson's
  * X² with or without Yates' correction, or the chi-square approximation of the reported statistic when the
- * reported p-value is exact or resampled ("asymptotic").
+ * reported p-value is exact or resampled ("asymptotic"), or, for post-hoc comparisons, the smallest adjusted p-value of
+ * the family: the conclusion that at least one comparison is significant after the adjustment ("post-hoc-family").
  */
-export type FragilityBasis = 'reported' | 'fisher' | 'pearson' | 'yates' | 'asymptotic';
+export type FragilityBasis = 'reported' | 'fisher' | 'pearson' | 'yates' | 'asymptotic' | 'post-hoc-family';
 
 export interface EquivalenceSection {
   readonly pValue: number;

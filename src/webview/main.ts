@@ -61,6 +61,7 @@ function render(payload: PanelPayload): void {
   if (payload.headlineAssumption) header.append(el('p', { class: 'failed-assumption', id: 'headline-assumption', role: 'note' }, icon('warning'), ` ${payload.headlineAssumption}`));
   if (payload.apaLine) header.append(el('p', { class: 'apa', id: 'apa-line' }, payload.apaLine));
   header.append(el('p', { class: 'source' }, icon('database'), ` ${payload.sourceDescription}`));
+  if (payload.familyLine) header.append(el('p', { class: 'source family', id: 'family-line' }, icon('layers'), ` ${payload.familyLine}`));
   root.append(header, actionBar(payload));
   if (payload.comparison) root.append(renderComparison(payload));
 

@@ -50,3 +50,6 @@ export async function until(condition: () => boolean, ms = 5000): Promise<boolea
   }
   return true;
 }
+
+/** Pre-filled answer to the independence test's sampling-plan question (for its Bayes factor), so nothing is asked. */
+export const TOTAL_FIXED = { 'bayesFactor.samplingPlan': 'joint-multinomial' } as const;

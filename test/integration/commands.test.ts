@@ -1,13 +1,13 @@
 import { strict as assert } from 'node:assert';
 import * as vscode from 'vscode';
 import type { TestResult } from '../../src/stats/result';
-import { api, closeAllEditors, closeTo, dataUri, panelFrom, workspacePath } from './api';
+import { api, closeAllEditors, closeTo, dataUri, panelFrom, workspacePath, TOTAL_FIXED } from './api';
 
 describe('commands on data', () => {
   afterEach(closeAllEditors);
 
-  it('runs the test of independence on a counted table file without asking anything', async () => {
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+  it('runs the test of independence on a counted table file without asking anything when the sampling plan is given', async () => {
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
     // scipy 1.10.1 stats.chi2_contingency([[12,5,9],[7,14,6],[9,8,21]]): 13.790222727600893, p 0.00799557024064535, dof 4.
@@ -21,7 +21,7 @@ describe('commands on data', () => {
   });
 
   it('cross-tabulates two columns of a raw file, as pre-filled answers say', async () => {
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'independence', columns: ['rider', 'weather'] }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'independence', ...TOTAL_FIXED, columns: ['rider', 'weather'] }));
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
     assert.deepEqual(r.grid?.rowLabels, ['member', 'casual']);
@@ -45,7 +45,7 @@ describe('commands on data', () => {
 
   it('runs on a sheet and range of an Excel workbook, and the spec it builds names them', async () => {
     const payload = await panelFrom(() =>
-      vscode.commands.executeCommand('countercheck.runOnFile', vscode.Uri.file(workspacePath('data', 'glass-inspections.xlsx')), { sheet: 'Line 2', range: 'B3:G483', test: 'independence', columns: ['shift', 'defect'] }),
+      vscode.commands.executeCommand('countercheck.runOnFile', vscode.Uri.file(workspacePath('data', 'glass-inspections.xlsx')), { sheet: 'Line 2', range: 'B3:G483', test: 'independence', ...TOTAL_FIXED, columns: ['shift', 'defect'] }),
     );
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
@@ -77,7 +77,7 @@ describe('commands on data', () => {
     const doc = await vscode.workspace.openTextDocument(dataUri('report.md'));
     const editor = await vscode.window.showTextDocument(doc);
     editor.selection = new vscode.Selection(4, 0, 9, 0);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnSelection', { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnSelection', { test: 'independence', ...TOTAL_FIXED }));
     const r = payload.result as TestResult;
     // scipy 1.10.1 stats.chi2_contingency([[4,96],[11,89],[6,94]]): 3.993855606758832, p 0.13575169916469682.
     closeTo(r.statistic, 3.993855606758832, 1e-9, 'X²');
@@ -108,7 +108,7 @@ describe('bad input', () => {
     const bad = dataUri('ragged.csv');
     const text = 'shift,outcome\nearly,pass\nlate,fail,extra\nnight,pass\n';
     await vscode.workspace.fs.writeFile(bad, new TextEncoder().encode(text));
-    await vscode.commands.executeCommand('countercheck.runOnFile', bad, { test: 'independence', columns: ['shift', 'outcome'] });
+    await vscode.commands.executeCommand('countercheck.runOnFile', bad, { test: 'independence', ...TOTAL_FIXED, columns: ['shift', 'outcome'] });
     const err = a.lastError();
     assert.ok(err, 'an error notification was shown');
     assert.equal(err.line, 3, `line of the ragged record in: ${err.message}`);
@@ -126,7 +126,7 @@ describe('long reads', () => {
     await vscode.workspace.fs.writeFile(file, new TextEncoder().encode(`rider,weather,trip_minutes,dock\n${row.repeat(2_000_000)}`));
     const panelsBefore = a.panels().length;
     const errorBefore = a.lastError();
-    const running = vscode.commands.executeCommand('countercheck.runOnFile', file, { test: 'independence', columns: ['rider', 'dock'] });
+    const running = vscode.commands.executeCommand('countercheck.runOnFile', file, { test: 'independence', ...TOTAL_FIXED, columns: ['rider', 'dock'] });
     let cancelled = 0;
     for (let i = 0; i < 200 && cancelled === 0; i++) {
       await new Promise((r) => setTimeout(r, 10));
@@ -146,7 +146,7 @@ describe('notebook cells', () => {
   it("runs the test on a cell's HTML table output", async () => {
     const nb = await vscode.workspace.openNotebookDocument(vscode.Uri.file(workspacePath('weekend-loaves.ipynb')));
     await vscode.window.showNotebookDocument(nb);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(1), { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnCellOutput', nb.cellAt(1), { test: 'independence', ...TOTAL_FIXED }));
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
     // scipy 1.10.1 stats.chi2_contingency([[41,18,25],[33,29,19],[52,14,30]]): 11.339110585158599, p 0.023005956745473254, dof 4.
@@ -185,7 +185,7 @@ describe('timing figures (printed, not asserted)', () => {
     const file = dataUri('kiosk-1000.csv');
     await vscode.workspace.fs.writeFile(file, new TextEncoder().encode(`${lines.join('\n')}\n`));
     const started = performance.now();
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', file, { test: 'independence', columns: ['kiosk', 'payment'] }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', file, { test: 'independence', ...TOTAL_FIXED, columns: ['kiosk', 'payment'] }));
     console.log(`      command to panel content, 1,000 rows: ${(performance.now() - started).toFixed(0)} ms (target < 300 ms)`);
     assert.equal((payload.result as TestResult).n, 1000);
   });

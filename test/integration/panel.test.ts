@@ -1,13 +1,13 @@
 import { strict as assert } from 'node:assert';
 import * as vscode from 'vscode';
 import { PANEL_VIEW_TYPE } from '../../src/host/panel';
-import { api, closeAllEditors, dataUri, panelFrom, until, workspacePath } from './api';
+import { api, closeAllEditors, dataUri, panelFrom, until, workspacePath, TOTAL_FIXED } from './api';
 
 describe('results panel', () => {
   afterEach(closeAllEditors);
 
   it('copies the plain text and the markdown to the clipboard', async () => {
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     const a = await api();
     await a.panelAction('copy-text');
     assert.equal(await vscode.env.clipboard.readText(), payload.text);
@@ -21,7 +21,7 @@ describe('results panel', () => {
     const doc = await vscode.workspace.openTextDocument({ language: 'markdown', content: '# Notes\n\nEnd.\n' });
     const editor = await vscode.window.showTextDocument(doc);
     editor.selection = new vscode.Selection(1, 0, 1, 0);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     await vscode.window.showTextDocument(doc, { viewColumn: editor.viewColumn });
     const a = await api();
     await a.panelAction('insert');
@@ -43,7 +43,7 @@ describe('results panel', () => {
   });
 
   it('restores a panel from its serialized state', async () => {
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     const a = await api();
     const panel = vscode.window.createWebviewPanel(PANEL_VIEW_TYPE, 'restored', vscode.ViewColumn.One, {});
     const count = a.panels().length;
@@ -55,7 +55,7 @@ describe('results panel', () => {
   });
 
   it('re-runs the result in the same panel', async () => {
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     const a = await api();
     const before = a.panels().length;
     await a.panelAction('rerun');
@@ -83,7 +83,7 @@ describe('results panel', () => {
     const doc = await vscode.workspace.openTextDocument(uri);
     const editor = await vscode.window.showTextDocument(doc);
     editor.selection = new vscode.Selection(1, 0, 1, 0);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     await vscode.window.showTextDocument(doc, { viewColumn: editor.viewColumn });
     const a = await api();
     await a.panelAction('insert');
@@ -99,7 +99,7 @@ describe('results panel', () => {
   });
 
   it("saves a plot as a standalone SVG, and as a PNG drawn by the panel's canvas at twice its size", async () => {
-    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     const a = await api();
     const svgUri = vscode.Uri.file(workspacePath('integration-data', 'plot-1.svg'));
     const pngUri = vscode.Uri.file(workspacePath('integration-data', 'plot-1.png'));

@@ -3,7 +3,7 @@
 import { strict as assert } from 'node:assert';
 import * as vscode from 'vscode';
 import type { TestResult } from '../../src/stats/result';
-import { closeAllEditors, dataUri, panelFrom } from './api';
+import { closeAllEditors, dataUri, panelFrom, TOTAL_FIXED } from './api';
 
 /** 120 invented clinic visits: site, status before and after, dose group, outcome, weight (deterministic). */
 function visits(): string {
@@ -21,7 +21,7 @@ function visits(): string {
 }
 
 const ANSWERS: Record<string, Record<string, unknown>> = {
-  independence: { test: 'independence', columns: ['site', 'outcome'] },
+  independence: { test: 'independence', ...TOTAL_FIXED, columns: ['site', 'outcome'] },
   'goodness-of-fit': { test: 'goodness-of-fit', columns: ['site'], proportions: 'equal' },
   variance: { test: 'variance', columns: ['weight_kg'], sigma0: 8, alternative: 'two-sided' },
   'distribution-fit': { test: 'distribution-fit', columns: ['weight_kg'], family: 'normal' },
@@ -80,7 +80,7 @@ describe('every procedure through the one wizard', () => {
     await vscode.workspace.fs.writeFile(md, new TextEncoder().encode('| tray | sprouted | failed |\n|:--|--:|--:|\n| coated | 1,152 | 65 |\n| uncoated | 474 | 168 |\n| pelleted | 972 | 119 |\n'));
     const editor = await vscode.window.showTextDocument(await vscode.workspace.openTextDocument(md));
     editor.selection = new vscode.Selection(0, 0, 5, 0);
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnSelection', { test: 'independence' }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnSelection', { test: 'independence', ...TOTAL_FIXED }));
     assert.equal((payload.result as TestResult).n, 2950, '1,152 + 65 + 474 + 168 + 972 + 119');
     await closeAllEditors();
     await vscode.workspace.fs.delete(md);

@@ -1,7 +1,7 @@
 import { strict as assert } from 'node:assert';
 import * as vscode from 'vscode';
 import { RESULT_START } from '../../src/report/blocks';
-import { api, closeAllEditors, dataUri, panelFrom, workspacePath } from './api';
+import { api, closeAllEditors, dataUri, panelFrom, workspacePath, TOTAL_FIXED } from './api';
 
 async function runProfile(include?: readonly vscode.TestItem[]): Promise<void> {
   const a = await api();
@@ -13,7 +13,7 @@ describe('saved tests and living reports', () => {
   afterEach(closeAllEditors);
 
   it('saves a result as a spec, runs it from the palette command and re-runs it as reproduced', async () => {
-    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'independence', columns: ['rider', 'dock'] }));
+    const payload = await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('bike-trips.csv'), { test: 'independence', ...TOTAL_FIXED, columns: ['rider', 'dock'] }));
     const target = vscode.Uri.file(workspacePath('integration-data', 'rider-dock.countercheck.json'));
     assert.ok(payload.origin);
     const a = await api();
@@ -32,10 +32,16 @@ describe('saved tests and living reports', () => {
     assert.equal(shown.origin?.saved, true);
   });
 
+  it('the panel of a saved test in a folder of saved tests says which of them it is', async () => {
+    // The demo folder: its saved tests in file-name order, lookups and power questions left out.
+    const shown = await panelFrom(() => vscode.commands.executeCommand('countercheck.runSavedSpec', vscode.Uri.file(workspacePath('bakery-flavour-mix.countercheck.json'))));
+    assert.match(shown.familyLine ?? '', /^\d+ of \d+ tests in this folder; its p-value is not adjusted for the other \d+$/);
+  });
+
   it('runs saved specs in the Testing view: reproduced passes, a changed file fails with the comparison', async () => {
     const a = await api();
     const spec = vscode.Uri.file(workspacePath('integration-data', 'ovens.countercheck.json'));
-    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence' }));
+    await panelFrom(() => vscode.commands.executeCommand('countercheck.runOnFile', dataUri('oven-defects.csv'), { test: 'independence', ...TOTAL_FIXED }));
     await a.saveActive(spec);
     await runProfile();
     assert.equal(a.savedTests.outcomes.get(spec.toString())?.status, 'reproduced', `outcomes for ${spec.toString()}: ${JSON.stringify([...a.savedTests.outcomes])}`);

@@ -10,7 +10,7 @@ import * as vscode from 'vscode';
 import { main as cli } from '../../src/cli';
 import { previewSql } from '../../src/data/sql/index';
 import type { TestResult } from '../../src/stats/result';
-import { api, closeAllEditors, closeTo, panelFrom, workspacePath } from './api';
+import { api, closeAllEditors, closeTo, panelFrom, workspacePath, TOTAL_FIXED } from './api';
 
 const CONNECTION = 'itest';
 const table = `public.van_log_${randomBytes(4).toString('hex')}`;
@@ -126,7 +126,7 @@ describe('database command on a live PostgreSQL server', function () {
   });
 
   it('cross-tabulates two columns on the server: the panel equals the same counts given inline', async () => {
-    const payload = await panelFrom(() => database({ test: 'independence', columns: ['route', 'outcome'] }));
+    const payload = await panelFrom(() => database({ test: 'independence', ...TOTAL_FIXED, columns: ['route', 'outcome'] }));
     const r = payload.result as TestResult;
     assert.equal(r.test, 'independence');
     assert.match(payload.sourceDescription, new RegExp(`sql:${CONNECTION} .*van_log_`));
@@ -152,7 +152,7 @@ describe('database command on a live PostgreSQL server', function () {
   });
 
   it('the saved result re-runs from the command line, with the connection the editor keeps in .vscode/settings.json', async () => {
-    const payload = await panelFrom(() => database({ test: 'independence', columns: ['route', 'outcome'] }));
+    const payload = await panelFrom(() => database({ test: 'independence', ...TOTAL_FIXED, columns: ['route', 'outcome'] }));
     const target = vscode.Uri.file(workspacePath('integration-data', 'van-log.countercheck.json'));
     await (await api()).saveActive(target);
     const settings = new TextDecoder().decode(await vscode.workspace.fs.readFile(vscode.Uri.file(workspacePath('.vscode', 'settings.json'))));
@@ -223,7 +223,7 @@ describe('database command on a live PostgreSQL server', function () {
     const a = await api();
     const panels = a.panels().length;
     // Names are exact: "Route" is not "route".
-    await database({ test: 'independence', columns: ['Route', 'outcome'] });
+    await database({ test: 'independence', ...TOTAL_FIXED, columns: ['Route', 'outcome'] });
     const err = a.lastError();
     assert.ok(err, 'an error notification was shown');
     assert.equal(err.code, 'sql-unknown-column', err.message);

@@ -3,6 +3,8 @@ import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { Comparison } from '../../protocol';
 import { compareRecorded } from '../../report/comparison';
+import type { FamilyMembership } from '../../report/evidence';
+import { folderMembership } from '../../savedtest/family';
 import { compareWithRecord, describeReview, STATUS_LABEL, type Review } from '../../savedtest/review';
 import type { SpecRun } from '../../savedtest/types';
 import { loadSpecText } from '../../savedtest/validate';
@@ -46,7 +48,30 @@ export async function runSpecFile(services: Services, uri: vscode.Uri): Promise<
   const { spec } = loadSpecText(text, uri.fsPath);
   const run = await services.run(spec, uri.fsPath, path.basename(uri.fsPath));
   const title = typeof spec.title === 'string' ? spec.title : path.basename(uri.fsPath, '.countercheck.json');
-  services.showResult(run.result, { spec: spec as Record<string, unknown>, specPath: uri.fsPath, saved: true }, title, `${vscode.workspace.asRelativePath(uri)} · ${run.data.description}`);
+  services.showResult(run.result, { spec: spec as Record<string, unknown>, specPath: uri.fsPath, saved: true }, title, `${vscode.workspace.asRelativePath(uri)} · ${run.data.description}`, undefined, await membershipOf(uri));
+}
+
+/**
+ * The saved test's place among the saved tests of its own folder (the family `check <folder>` adjusts together,
+ * without subfolders); a file that is not a valid saved test is left out. Never throws.
+ */
+async function membershipOf(uri: vscode.Uri): Promise<FamilyMembership | undefined> {
+  try {
+    const folder = vscode.Uri.file(path.dirname(uri.fsPath));
+    const names = (await vscode.workspace.fs.readDirectory(folder)).filter(([name, type]) => type === vscode.FileType.File && name.endsWith('.countercheck.json')).map(([name]) => name);
+    const specs: { name: string; test: string }[] = [];
+    for (const name of names) {
+      try {
+        const { spec } = loadSpecText(await readText(vscode.Uri.joinPath(folder, name)), name);
+        specs.push({ name, test: spec.test });
+      } catch {
+        // Not a valid saved test: not counted in the family.
+      }
+    }
+    return folderMembership(specs, path.basename(uri.fsPath));
+  } catch {
+    return undefined;
+  }
 }
 
 export async function runSavedSpec(services: Services, uri?: vscode.Uri): Promise<void> {
@@ -100,7 +125,7 @@ export async function rerunAndCompare(services: Services, uri?: vscode.Uri): Pro
     // The result opens with the recorded one beside it (a before/after table, a flipped conclusion marked).
     if (run && spec) {
       const title = typeof spec.title === 'string' ? spec.title : path.basename(target.fsPath, '.countercheck.json');
-      const panel = services.showResult(run.result, { spec, specPath: target.fsPath, saved: true }, title, `${vscode.workspace.asRelativePath(target)} · ${run.data.description}`);
+      const panel = services.showResult(run.result, { spec, specPath: target.fsPath, saved: true }, title, `${vscode.workspace.asRelativePath(target)} · ${run.data.description}`, undefined, await membershipOf(target));
       const comparison = reviewComparison(review, settings(target).decimals);
       if (comparison) panel.update({ ...panel.payload, comparison });
     }

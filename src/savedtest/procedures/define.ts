@@ -24,6 +24,7 @@ export type DataShape =
 
 /** A field the planner asks for when it is missing, in the words of its field table. */
 export interface FieldQuestion {
+  /** The field asked; a dotted name asks one member of an object field ("bayesFactor.samplingPlan"). */
   readonly field: string;
   /** Short title of the question; the prompt is the field's description. */
   readonly title: string;
@@ -37,6 +38,8 @@ export interface FieldQuestion {
   readonly preset?: unknown;
   /** Labels for the values of an enumerated field. */
   readonly choiceLabels?: Readonly<Record<string, string>>;
+  /** A one-line explanation under each value of an enumerated field. */
+  readonly choiceDetails?: Readonly<Record<string, string>>;
 }
 
 /** How the editor offers a procedure: what it is called, which data it takes, what it asks. */

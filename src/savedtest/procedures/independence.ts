@@ -37,6 +37,29 @@ export const independenceProcedure = defineProcedure({
       { label: 'Independence, Monte Carlo p-value', detail: 'The same test with a p-value from random tables with these margins (small expected counts)', preset: MONTE_CARLO },
       { label: 'Independence, exact p-value', detail: 'Fisher–Freeman–Halton exact conditional test (small tables)', preset: { method: 'exact' } },
     ],
+    questions: [
+      {
+        // The Bayes factor beside the p-value depends on which totals the design fixed; the p-value does not.
+        field: 'bayesFactor.samplingPlan',
+        title: 'How were the counts collected? (for the Bayes factor)',
+        when: (spec) => spec.bayesFactor !== false,
+        preset: 'joint-multinomial',
+        choiceLabels: {
+          poisson: 'Nothing fixed in advance',
+          'joint-multinomial': 'Only the grand total fixed',
+          'rows-fixed': 'Each row total fixed',
+          'columns-fixed': 'Each column total fixed',
+          hypergeometric: 'Row and column totals both fixed (2×2 only)',
+        },
+        choiceDetails: {
+          poisson: 'Counts gathered over a set time or place: how many units turned up was itself left to chance.',
+          'joint-multinomial': 'A planned number of units, each sorted into a row and a column only after it was drawn.',
+          'rows-fixed': 'Each row is a group whose size was decided beforehand (say, trays baked per oven); the columns are the outcome.',
+          'columns-fixed': 'Each column is a group whose size was decided beforehand; the rows are the outcome.',
+          hypergeometric: 'The design set every row total and every column total, so only how they pair up was left to chance.',
+        },
+      },
+    ],
   },
   fields: {
     table: field(COUNT_TABLE, 'The table of counts: an array of rows, each an array of counts.', true),

@@ -56,6 +56,8 @@ export const pairedProcedure = defineProcedure({
   },
   async run(spec, ctx): Promise<ComputedTestResult> {
     const data = spec.table ? { counts: spec.table, labels: spec.rowLabels ?? spec.columnLabels } : await squareFromSource(spec, ctx);
+    // Counted from records: the fragility search works on the table as if it were inline.
+    if (!spec.table) ctx.countsRead?.({ table: data.counts });
     return pairedTest(data.counts, {
       alpha: spec.alpha,
       confidence: spec.confidence,

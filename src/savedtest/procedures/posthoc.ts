@@ -7,6 +7,7 @@ import type { ComputedTestResult } from '../../stats/result';
 import { field, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
 import { defineProcedure } from './define';
+import { FRAGILITY_FIELDS } from '../evidence';
 import { COUNT_TABLE, LABELS, checkSourceColumns, requireLength, requireOneOf, sourceField, tableFromSource } from './shared';
 
 export const postHocProcedure = defineProcedure({
@@ -29,6 +30,7 @@ export const postHocProcedure = defineProcedure({
     columnLabels: LABELS('columns (with a source: the order and full set of levels of the second column)'),
     compare: withDefault(field(str({ enum: ['cells', 'rows', 'columns'] }), 'What to compare: "cells" (adjusted residual per cell, default), "rows" or "columns" (each pair by a chi-square test).'), 'cells'),
     adjustment: withDefault(field(str({ enum: ['holm', 'bonferroni', 'benjamini-hochberg'] }), 'Multiplicity adjustment of the p-values. Default "holm".'), 'holm'),
+    ...FRAGILITY_FIELDS,
   },
   validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
@@ -45,6 +47,7 @@ export const postHocProcedure = defineProcedure({
   },
   async run(spec, ctx): Promise<ComputedTestResult> {
     const { counts, rowLabels, columnLabels } = spec.source ? await tableFromSource(spec, ctx) : { counts: spec.table!, rowLabels: spec.rowLabels, columnLabels: spec.columnLabels };
+    if (spec.source) ctx.countsRead?.({ table: counts });
     return postHocTest(counts, {
       compare: spec.compare,
       adjustment: spec.adjustment,

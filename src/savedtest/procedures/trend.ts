@@ -10,6 +10,7 @@ import { firstGiven } from '../arguments';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
 import { defineProcedure } from './define';
+import { FRAGILITY_FIELDS } from '../evidence';
 import { ALTERNATIVE, COUNT_TABLE, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
 
 export const trendProcedure = defineProcedure({
@@ -32,6 +33,7 @@ export const trendProcedure = defineProcedure({
     rowLabels: LABELS('rows (with a source: the outcome levels, the event first)'),
     columnLabels: LABELS('ordered groups (columns; with a source: every group level, in order)'),
     alternative: { ...ALTERNATIVE, description: 'Two-sided (default); "greater": the first row’s proportion (or the column score) rises with the score; "less": it falls.' },
+    ...FRAGILITY_FIELDS,
   },
   validate(spec, path): readonly SpecProblem[] {
     const problems: SpecProblem[] = [];
@@ -58,6 +60,7 @@ export const trendProcedure = defineProcedure({
   },
   async run(spec, ctx): Promise<ComputedTestResult> {
     const table = spec.table ?? (await orderedTableFromSource(spec, ctx));
+    if (!spec.table) ctx.countsRead?.({ table });
     if (table.length > 2 || spec.rowScores !== undefined) {
       return linearByLinearTest(table, {
         alpha: spec.alpha,

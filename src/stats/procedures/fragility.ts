@@ -6,7 +6,7 @@
  *   non-event to event, one at a time, until p ≥ α; the index is the number of changes. For a non-significant
  *   result the reverse index counts the changes, one at a time, in one group and one direction, until p < α; it is
  *   the smallest such count over the two groups and the two directions. The quotient is index / N.
- * - Any table, goodness of fit, paired and stratified tables: the generalized fragility index of Baer, Gaudino,
+ * - Any table, goodness of fit, paired, stratified, trend and post-hoc tables: the generalized fragility index of Baer, Gaudino,
  *   Charlson, Fremes & Wells (2021, PNAS 118:e2105254118): the smallest number of single-observation outcome
  *   changes (one observation moved from one cell to another cell of its own group) that flips the conclusion at α.
  *   Optionally only "sufficiently likely" changes are allowed: an observation of a group may take a new outcome
@@ -297,6 +297,25 @@ export function tableProblem(
   const groups = Array.from({ length: r }, (_, i) => Array.from({ length: c }, (_, j) => i * c + j));
   const unflatten = (x: readonly number[]): number[][] => Array.from({ length: r }, (_, i) => x.slice(i * c, i * c + c));
   return { cells, groups, log10P: (x) => log10P(unflatten(x)), alpha, cellName: (i) => [Math.floor(i / c), i % c] as const, ...options };
+}
+
+/**
+ * Columns of an r×c table as groups: an observation keeps its column and may change its row (a trend test's ordered
+ * groups are its columns, its outcome the rows). Cells are named [row, column] of the table as given.
+ */
+export function columnGroupsProblem(
+  table: readonly (readonly number[])[],
+  log10P: (table: number[][]) => number,
+  alpha: number,
+  options: SearchLimits = {},
+): FragilityProblem {
+  const transposed = transpose(table);
+  const problem = tableProblem(transposed, (t) => log10P(transpose(t)), alpha, options);
+  return { ...problem, cellName: (i) => { const [j, r] = problem.cellName(i) as readonly [number, number]; return [r, j] as const; } };
+}
+
+function transpose(table: readonly (readonly number[])[]): number[][] {
+  return table[0].map((_, j) => table.map((row) => row[j]));
 }
 
 /** Goodness of fit: one group, the categories; an observation may change category. */

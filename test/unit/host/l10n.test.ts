@@ -4,6 +4,7 @@
 // The planner's words (src/planner, shown by the wizard through vscode.l10n.t) are in the bundle too: the literal
 // templates of its `text('…')` calls and the strings of the procedures' field tables it shows (`tableText`).
 // Contributions: every %key% in package.json has its English text in package.nls.json, and every entry is used.
+import { fieldOf } from '../../../src/planner/ask';
 import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
@@ -54,7 +55,7 @@ function plannerMessages(): { messages: Set<string>; dynamic: string[]; verbatim
   return { messages, dynamic, verbatimWords };
 }
 
-/** The field-table strings the planner shows: planning labels, details, roles, question titles, choice labels, and the prompts (field descriptions) of the questions. */
+/** The field-table strings the planner shows: planning labels, details, roles, question titles, choice labels and details, and the prompts (field descriptions, a dotted name's member) of the questions. */
 function tableMessages(): Set<string> {
   const messages = new Set<string>();
   for (const p of PROCEDURES) {
@@ -63,8 +64,8 @@ function tableMessages(): Set<string> {
     for (const s of [planning.label, planning.detail, ...(planning.roles ?? []), ...(planning.variants ?? []).flatMap((v) => [v.label, v.detail])]) messages.add(s);
     for (const q of planning.questions ?? []) {
       messages.add(q.title);
-      messages.add(p.fields[q.field].description);
-      for (const label of Object.values(q.choiceLabels ?? {})) messages.add(label);
+      messages.add(fieldOf(p.test, q.field).description);
+      for (const label of [...Object.values(q.choiceLabels ?? {}), ...Object.values(q.choiceDetails ?? {})]) messages.add(label);
     }
   }
   return messages;

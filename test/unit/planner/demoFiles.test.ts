@@ -9,7 +9,7 @@ import { plan } from '../../../src/planner/plan';
 import { runSpec } from '../../../src/savedtest/run';
 import type { TestResult } from '../../../src/stats/result';
 import { ScriptedQuestions } from './fakeQuestions';
-import { demo, fileOffer, fileOfferAt, planAndRun, readers, settings } from './helpers';
+import { demo, fileOffer, fileOfferAt, planAndRun, readers, settings, TOTAL_FIXED } from './helpers';
 
 /** The notebook's cell outputs by MIME type, as the editor hands them over. */
 function cellOutput(cell: number, mime: string): string {
@@ -31,7 +31,7 @@ describe('the planner on the other demo data', () => {
 
   it('germination.md as a file: its reader shows the first table, a counted table read again from the file when run (N = 2,950)', async () => {
     const offer = await fileOfferAt(join(demo, 'data', 'germination.md'), 'data/germination.md');
-    const { planned, result } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables' });
+    const { planned, result } = await planAndRun(offer, { ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables' });
     assert.deepEqual(planned.spec.source, { path: 'data/germination.md' });
     assert.equal(result.n, 2950);
   });
@@ -41,7 +41,7 @@ describe('the planner on the other demo data', () => {
     const records = Array.from({ length: 40 }, (_, i) => ({ shift: i % 2 ? 'early' : 'late', outcome: i % 5 < 2 ? 'fail' : 'pass' }));
     writeFileSync(join(folder, 'checks.json'), JSON.stringify(records));
     const offer = await fileOfferAt(join(folder, 'checks.json'), 'checks.json');
-    const questions = new ScriptedQuestions({ 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'shift', 'Choose the columns': 'outcome' });
+    const questions = new ScriptedQuestions({ ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'shift', 'Choose the columns': 'outcome' });
     const planned = await plan({ offer, questions, settings, specFolder: folder });
     assert.deepEqual(planned.spec.source, { path: 'checks.json', columns: ['shift', 'outcome'] });
     const run = await runSpec(planned.spec, { readers, specPath: join(folder, 'untitled.countercheck.json') });
@@ -50,7 +50,7 @@ describe('the planner on the other demo data', () => {
 
   it("weekend-loaves.ipynb, cell 2's HTML table: a counted 3×3 table, N from the cells", async () => {
     const offer = offerFromNotebookOutput('text/html', cellOutput(1, 'text/html'), { file: 'weekend-loaves.ipynb, cell 2', description: 'output of cell 2' });
-    const { result, planned } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables' });
+    const { result, planned } = await planAndRun(offer, { ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables' });
     const table = planned.spec.table as number[][];
     assert.equal(table.length, 3);
     assert.equal((result as TestResult).n, table.flat().reduce((a, b) => a + b, 0));

@@ -11,7 +11,7 @@ import { plan } from '../../../src/planner/plan';
 import { english } from '../../../src/planner/questions';
 import { inferShape, profileColumns } from '../../../src/planner/profile';
 import { ScriptedQuestions } from './fakeQuestions';
-import { demo, fileOffer, fileOfferAt, planAndRun, settings } from './helpers';
+import { demo, fileOffer, fileOfferAt, planAndRun, settings, TOTAL_FIXED } from './helpers';
 
 async function refusal(work: () => Promise<unknown>, code: string, pattern: RegExp): Promise<void> {
   try {
@@ -31,7 +31,7 @@ describe('shape inference on the demo files', () => {
   it('germination.md: "1,152" is a count, so the selected table is a counted 3×2 table with N = 2,950', async () => {
     const offer = offerFromText(germinationTable(), { file: 'germination.md', firstLine: 5, description: 'selection in germination.md' });
     assert.equal(offer.kind, 'records');
-    const { planned, result } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables' });
+    const { planned, result } = await planAndRun(offer, { ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables' });
     assert.deepEqual(planned.spec.table, [[1152, 65], [474, 168], [972, 119]]);
     assert.deepEqual(planned.spec.rowLabels, ['coated', 'uncoated', 'pelleted']);
     assert.equal(result.n, 2950, '1,152 + 65 + 474 + 168 + 972 + 119');
@@ -51,7 +51,7 @@ describe('shape inference on the demo files', () => {
 
   it('bike-share-survey.csv as a selection: area × purpose is cross-tabulated with the weights, N = 1,300', async () => {
     const text = readFileSync(join(demo, 'data', 'bike-share-survey.csv'), 'utf8');
-    const { planned, result } = await planAndRun(offerFromText(text, { description: 'selection' }), { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'area', 'Choose the columns': 'purpose' });
+    const { planned, result } = await planAndRun(offerFromText(text, { description: 'selection' }), { ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'area', 'Choose the columns': 'purpose' });
     assert.equal(result.n, 1300);
     assert.deepEqual((planned.spec.table as number[][])[0], [124, 37, 83, 27], 'Riverside: commute, errand, leisure, tourism');
   });
@@ -81,7 +81,7 @@ describe('shape inference on the demo files', () => {
     const offer = await fileOfferAt(file, 'advanced/data/filler-log.csv');
     // Counted per bottle, every cell is 1: refused, not weighted by the line speed.
     await refusal(() => planAndRun(offer, { 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': 'bottle', 'Expected distribution': 'Equal proportions' }), 'one-per-row', /N = 2000, the number of rows/);
-    const { planned, result } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'line_speed', 'Choose the columns': 'fill_check' });
+    const { planned, result } = await planAndRun(offer, { ...TOTAL_FIXED, 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'line_speed', 'Choose the columns': 'fill_check' });
     assert.equal((planned.spec.source as { weight?: string }).weight, undefined);
     assert.equal(result.n, 2000, 'one bottle per row');
   });

@@ -4,6 +4,7 @@ import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { offerFromText, type Offer } from '../../../src/planner/offer';
+import { fieldOf } from '../../../src/planner/ask';
 import { plan } from '../../../src/planner/plan';
 import { PROCEDURES, TEST_NAMES } from '../../../src/savedtest/procedures/index';
 import { assertValidSpec } from '../../../src/savedtest/validate';
@@ -12,7 +13,7 @@ import { demo, fileOffer, fileOfferAt, planAndRun, settings } from './helpers';
 
 /** The label to pick for each procedure, and the columns of the bakery defect log to use. */
 const SCRIPTS: Record<string, Record<string, string | boolean | readonly string[]>> = {
-  independence: { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'oven', 'Choose the columns': 'defect' },
+  independence: { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'oven', 'Choose the columns': 'defect', 'How were the counts collected? (for the Bayes factor)': 'Each row total fixed' },
   'goodness-of-fit': { 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': 'oven', 'Expected distribution': 'Equal proportions' },
   variance: { 'Which test?': 'Variance of one numeric variable', 'Choose the column': 'weight_g', 'Hypothesised standard deviation σ0': '10', 'Alternative hypothesis': 'σ differs from σ0' },
   'distribution-fit': { 'Which test?': 'Fit of a distribution to the values', 'Choose the column': 'weight_g', 'Distribution family': 'normal' },
@@ -42,7 +43,7 @@ describe('the planner reaches every procedure', () => {
   it('every registered procedure declares how the editor offers it, and its questions name its own fields', () => {
     for (const h of PROCEDURES) {
       assert.ok(h.planning, `${h.test} has no planning declaration`);
-      for (const q of h.planning.questions ?? []) assert.ok(h.fields[q.field], `${h.test} asks for "${q.field}", which is not one of its fields`);
+      for (const q of h.planning.questions ?? []) assert.doesNotThrow(() => fieldOf(h.test, q.field), `${h.test} asks for "${q.field}", which is not one of its fields`);
     }
   });
 
@@ -90,6 +91,22 @@ describe('the planner reaches every procedure', () => {
       assert.equal(source.where, "shift = 'late'", test);
       if (test === 'trend') assert.deepEqual([planned.spec.rowLabels, planned.spec.columnLabels], [['early', 'late'], ['A', 'B', 'C']]);
       if (test === 'stratified') assert.deepEqual((planned.spec.source as { columns: unknown }).columns, ['oven', 'shift', 'defect']);
+    }
+  });
+
+  it('independence asks how the counts were collected, with a one-line explanation of each plan, and the Bayes factor uses the answer', async () => {
+    const title = 'How were the counts collected? (for the Bayes factor)';
+    const { planned, result, questions } = await planAndRun(fileOffer('bakery-defects.csv'), { ...SCRIPTS.independence, [title]: 'Each row total fixed' });
+    const asked = questions.asked.find((q) => q.title === title)!;
+    assert.equal(asked.choices!.length, 5);
+    for (const detail of asked.details!) assert.ok(detail && detail.length > 20 && !detail.includes('\n'), `one line of explanation: ${detail}`);
+    assert.deepEqual(planned.spec.bayesFactor, { samplingPlan: 'rows-fixed' });
+    assert.equal(result.bayesFactor?.samplingPlan, 'rows-fixed');
+    // Given "bayesFactor": false, nothing is asked; a plan already given (as the object, or by its dotted name) is kept.
+    for (const [given, bayesFactor] of [[{ bayesFactor: false }, false], [{ bayesFactor: { samplingPlan: 'poisson' } }, { samplingPlan: 'poisson' }], [{ 'bayesFactor.samplingPlan': 'poisson' }, { samplingPlan: 'poisson' }]] as const) {
+      const again = await planAndRun(fileOffer('bakery-defects.csv'), { ...SCRIPTS.independence, [title]: false }, given);
+      assert.ok(!again.questions.asked.some((q) => q.title === title));
+      assert.deepEqual(again.planned.spec.bayesFactor, bayesFactor);
     }
   });
 

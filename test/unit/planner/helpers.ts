@@ -36,3 +36,6 @@ export async function planAndRun(offer: Offer, answers: Record<string, string | 
   return { planned, run, result: run.result as TestResult, questions };
 }
 
+
+/** The answer to the independence test's sampling-plan question (for its Bayes factor): the total fixed. */
+export const TOTAL_FIXED = { 'How were the counts collected? (for the Bayes factor)': 'Only the grand total fixed' } as const;

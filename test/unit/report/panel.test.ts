@@ -66,3 +66,24 @@ describe('panel payload', () => {
     assert.equal(untranslated('{1} missing', 'a'), '{1} missing');
   });
 });
+
+describe('panel payload: the family a result belongs to', () => {
+  const result = wordResult(independenceTest([[30, 10], [18, 22]]));
+
+  it('says "k of N tests in this folder" and that the p-value stands alone when no adjustment is known', () => {
+    const payload = buildPanelPayload(result, { ...options, membership: { position: 2, size: 5, kind: 'folder' } });
+    assert.equal(payload.familyLine, '2 of 5 tests in this folder; its p-value is not adjusted for the other 4');
+    assert.equal(buildPanelPayload(result, { ...options, membership: { position: 1, size: 2, kind: 'report' } }).familyLine, '1 of 2 tests in this report; its p-value is not adjusted for the other one');
+  });
+
+  it('names the adjustment method and the adjusted p when the result carries its family', () => {
+    const adjusted = { ...result, family: { size: 3, method: 'holm', adjustedPValue: 0.0834 } };
+    const payload = buildPanelPayload(adjusted, { ...options, membership: { position: 1, size: 3, kind: 'report' } });
+    assert.match(payload.familyLine!, /^1 of 3 tests in this report; Holm-adjusted p = \.083 \(own p = \.0\d+\)$/);
+  });
+
+  it('shows no family line for a result alone, or without a family', () => {
+    assert.equal(buildPanelPayload(result, options).familyLine, undefined);
+    assert.equal(buildPanelPayload(result, { ...options, membership: { position: 1, size: 1, kind: 'folder' } }).familyLine, undefined);
+  });
+});

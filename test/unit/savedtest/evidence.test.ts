@@ -3,7 +3,7 @@
 // against outside references in test/unit/stats/advanced/{fragility,bayes-factor,equivalence}.test.ts; here the
 // Bayes factor of one table is also compared with R BayesFactor through the whole path.
 import { strict as assert } from 'node:assert';
-import { cpSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { cpSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli';
@@ -76,6 +76,22 @@ describe('fragility, Bayes factor and equivalence in a run', () => {
     assert.equal(e.margin, 0.05);
   });
 
+  it('goodness of fit with estimated parameters: no Bayes factor, and every format says why (notice "bayes-factor-estimated-parameters")', async () => {
+    const spec = { version: 1, test: 'goodness-of-fit', observed: [18, 30, 27, 25], proportions: [0.2, 0.3, 0.3, 0.2], estimatedParameters: 1 };
+    const json = await runJson(spec);
+    assert.equal(json.bayesFactor, undefined);
+    const codes = (json.notices as { code: string }[]).map((n) => n.code);
+    assert.ok(codes.includes('bayes-factor-estimated-parameters'), codes.join(', '));
+    const withoutFitted = await runJson({ ...spec, estimatedParameters: 0 });
+    assert.ok(withoutFitted.bayesFactor, 'with nothing estimated the Bayes factor is there');
+    assert.ok(!(withoutFitted.notices as { code: string }[]).some((n) => n.code === 'bayes-factor-estimated-parameters'));
+    for (const format of ['text', 'markdown', 'csv']) {
+      const out = await cli(['run', '-', '--format', format], JSON.stringify(spec));
+      assert.equal(out.code, 0, out.stderr);
+      assert.match(out.stdout, /No Bayes factor: the expected proportions use parameters estimated from these data/, format);
+    }
+  });
+
   it('variance: equivalence with σ limits ("lower", "upper") and the 1 − 2α interval; the text says so', async () => {
     const spec = { version: 1, test: 'variance', summary: { n: 25, sd: 0.04 }, sigma0: 0.04, equivalence: { lower: 0.03, upper: 0.05 } };
     const json = await runJson(spec);
@@ -139,6 +155,61 @@ describe('check: fragile conclusions and the family of tests', function () {
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }
+  });
+
+  describe('check on a living report (a copy of demo/report.md)', () => {
+    let dir: string;
+    beforeEach(() => {
+      dir = mkdtempSync(join(tmpdir(), 'countercheck-check-report-'));
+      for (const f of ['report.md', 'report.plots', 'bakery-flavour-mix.countercheck.json', 'bakery-oven-defects.countercheck.json', 'data']) cpSync(join(root, 'demo', f), join(dir, f), { recursive: true });
+    });
+    afterEach(() => rmSync(dir, { recursive: true, force: true }));
+
+    it('re-runs each block and compares it with what the report recorded; --adjust makes the blocks one family (R p.adjust)', async () => {
+      const plain = await cli(['check', 'report.md'], '', dir);
+      assert.equal(plain.code, 0, plain.stdout + plain.stderr);
+      assert.match(plain.stdout, /3 reproduced/);
+      for (const method of ['holm', 'bh', 'bonferroni'] as const) {
+        const out = await cli(['check', 'report.md', '--adjust', method, '--json'], '', dir);
+        assert.equal(out.code, 0, out.stderr);
+        const entries = JSON.parse(out.stdout) as { file: string; status: string; adjusted: { family: number; pValue: number } }[];
+        const ref = family('demo_report');
+        assert.deepEqual(entries.map((e) => e.file), ['report.md:11 (block 1)', 'report.md:48 (block 2)', 'report.md:94 (block 3)']);
+        entries.forEach((e, i) => {
+          assert.equal(e.status, 'reproduced');
+          assert.equal(e.adjusted.family, 3);
+          assert.ok(Math.abs(e.adjusted.pValue - ref[method][i]) <= 1e-9 * ref[method][i], `${e.file} ${method}: ${e.adjusted.pValue} vs R p.adjust ${ref[method][i]}`);
+        });
+      }
+      // A report written with its family lines checks the same.
+      assert.equal((await cli(['report', 'report.md', '--adjust', 'holm'], '', dir)).code, 0);
+      assert.equal((await cli(['check', 'report.md', '--adjust', 'holm'], '', dir)).code, 0);
+    });
+
+    it('fails (exit 1) when a value written in the report was edited, naming the block and the line', async () => {
+      const text = readFileSync(join(dir, 'report.md'), 'utf8');
+      assert.ok(text.includes('χ²(3, N = 450) = 8.22, p = .042'));
+      writeFileSync(join(dir, 'report.md'), text.replace('χ²(3, N = 450) = 8.22, p = .042', 'χ²(3, N = 450) = 8.22, p = .012'));
+      const out = await cli(['check', 'report.md'], '', dir);
+      assert.equal(out.code, 1, out.stdout);
+      assert.match(out.stdout, /result differs: report\.md:11 \(block 1\)[^]*result written in the report, line \d+: written "χ²\(3, N = 450\) = 8\.22, p = \.012[^]*now "χ²\(3, N = 450\) = 8\.22, p = \.042/);
+      assert.match(out.stdout, /1 result differs, 2 reproduced/);
+      const junit = await cli(['check', 'report.md', '--junit', 'check.xml'], '', dir);
+      assert.equal(junit.code, 1);
+      assert.match(readFileSync(join(dir, 'check.xml'), 'utf8'), /<failure[^>]*>[^<]*result written in the report/);
+    });
+
+    it('fails (exit 1) when the recorded result of a block\'s saved test was tampered with', async () => {
+      const specFile = join(dir, 'bakery-oven-defects.countercheck.json');
+      const spec = JSON.parse(readFileSync(specFile, 'utf8')) as { recorded: { result: { statistic: number } } };
+      spec.recorded.result.statistic += 0.5;
+      writeFileSync(specFile, JSON.stringify(spec, null, 2));
+      const out = await cli(['check', 'report.md', '--json'], '', dir);
+      assert.equal(out.code, 1);
+      const entries = JSON.parse(out.stdout) as { file: string; status: string; differences: { field: string }[] }[];
+      assert.deepEqual(entries.map((e) => e.status), ['reproduced', 'result-differs', 'reproduced']);
+      assert.deepEqual(entries[1].differences.map((d) => d.field), ['statistic']);
+    });
   });
 
   it('run --json --adjust gives each test result "family": {size, method, adjustedPValue} (R p.adjust "bonferroni"); a distribution query stays out', async () => {

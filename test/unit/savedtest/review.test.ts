@@ -1,5 +1,6 @@
 // Recording a result into a spec's text, and comparing a re-run with it.
 import { strict as assert } from 'node:assert';
+import { folderMembership } from '../../../src/savedtest/family';
 import { parseJsonWithLocations } from '../../../src/savedtest/json-text';
 import { compareWithRecord, describeReview, makeRecord, numberDifferences, reviewExitCode, writeRecordedInto, type RecordedResult } from '../../../src/savedtest/review';
 import type { SpecRun } from '../../../src/savedtest/types';
@@ -120,5 +121,20 @@ describe('recorded results', () => {
     assert.equal(review.status, 'cannot-run');
     assert.match(review.reason!, /--record/);
     assert.equal(reviewExitCode([review, compareWithRecord(record(fakeRun(1, 0.5)), fakeRun(1, 0.5), 't', now)]), 2);
+  });
+});
+
+describe('a saved test among the saved tests of its folder', () => {
+  it('is numbered in file-name order among the hypothesis tests; lookups and power questions are not members', () => {
+    const specs = [
+      { name: 'c-variance.countercheck.json', test: 'variance' },
+      { name: 'a-lookup.countercheck.json', test: 'distribution' },
+      { name: 'b-mix.countercheck.json', test: 'goodness-of-fit' },
+      { name: 'd-plan.countercheck.json', test: 'power' },
+      { name: 'e-ovens.countercheck.json', test: 'independence' },
+    ];
+    assert.deepEqual(folderMembership(specs, 'c-variance.countercheck.json'), { position: 2, size: 3, kind: 'folder' });
+    assert.equal(folderMembership(specs, 'a-lookup.countercheck.json'), undefined);
+    assert.equal(folderMembership([specs[0]], 'c-variance.countercheck.json'), undefined);
   });
 });
