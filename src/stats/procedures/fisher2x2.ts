@@ -7,9 +7,10 @@
  * Hypergeometric probabilities are ratios of binomial ones (logBinomialPmf in discrete.ts: Loader's (2000)
  * saddle-point form with Stirling-series errors and the deviance term bd0), which keeps full relative precision for counts up to 1e9 and beyond, where a difference of
  * log-binomial coefficients of size 1e10 would lose five digits. Tails are summed outwards from their start
- * until the terms no longer matter, so a table with margins of 1e9 costs about 10·sqrt(N) terms at most.
+ * until the terms no longer matter, or integrated when that would take more than about 1e5 terms (logTailSum),
+ * so a tail costs the same at margins of 1e9 and 1e15.
  */
-import { logBinomialPmf } from '../distributions/discrete';
+import { logBinomialPmf, logBinomialTerm, logTailSum } from '../distributions/discrete';
 import { probabilityFromLog, probabilityFromValue } from '../distributions/probability';
 import type { Probability } from '../result';
 
@@ -68,22 +69,21 @@ class Hypergeometric {
     return ((this.row1 - x) * (this.column1 - x)) / ((x + 1) * (this.row2 - this.column1 + x + 1));
   }
 
+  /** ln P(X = x) on the smooth curve through the probabilities, for any real x in (lo, hi). */
+  private logSmooth(x: number): number {
+    if (Number.isInteger(x)) return this.logProbability(x);
+    return logBinomialTerm(x, this.row1, this.p, this.q) + logBinomialTerm(this.column1 - x, this.row2, this.p, this.q) - this.logDenominator;
+  }
+
   /**
-   * Σ P(X = y) / P(X = reference) over y from `start` outwards (step +1 or −1) to the end of the support,
-   * where the terms are non-increasing. The recurrence is re-anchored on the exact log-probability every
-   * 1024 steps so rounding does not accumulate over long tails (at most about 1e-13 relative).
+   * Σ P(X = y) / P(X = reference) over y from `start` outwards (step +1 or −1) to the end of the support, where
+   * the terms are non-increasing: summed term by term when short, else integrated (logTailSum in discrete.ts), so
+   * the cost does not grow with the margins.
    */
   relativeTail(start: number, step: 1 | -1, logReference: number): number {
-    const end = step === 1 ? this.hi : this.lo;
-    let sum = 0;
-    let w = Math.exp(this.logProbability(start) - logReference);
-    for (let x = start, i = 0; step === 1 ? x <= end : x >= end; x += step, i++) {
-      if ((i & 1023) === 0) w = Math.exp(this.logProbability(x) - logReference);
-      sum += w;
-      if (w <= 1e-17 * sum) break;
-      w *= step === 1 ? this.ratioUp(x) : 1 / this.ratioUp(x - 1);
-    }
-    return sum;
+    const ratio = step === 1 ? (x: number) => this.ratioUp(x) : (x: number) => 1 / this.ratioUp(x - 1);
+    const logSum = logTailSum(start, step === 1 ? this.hi : this.lo, (x) => this.logSmooth(x), ratio);
+    return Math.exp(logSum - logReference);
   }
 
   /** P(X ≥ x) */

@@ -35,7 +35,7 @@ function refused(run: () => unknown, code: string, jsonPath: string, message: Re
 const LN10 = Math.LN10;
 
 describe('counts from 1e7 to 1e15', function () {
-  // A hang guard, not a speed check (figures are in npm run bench): tails at 1e15 sum about 1e8 terms each.
+  // A hang guard, not a speed check (figures are in npm run bench -- hardening).
   this.timeout(60_000);
   assert.ok(R.mcnemar.length >= 7 && R.fisher.length >= 3, 'fixture has its cases');
   for (const c of R.mcnemar) {
