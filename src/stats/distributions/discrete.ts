@@ -4,7 +4,7 @@
  * summed relative to their largest term so that tails far below the double range keep a log10;
  * long tails (huge counts) are integrated instead (logTailSum).
  */
-import { deviance, logChoose, stirlingError } from './gamma';
+import { deviance, devianceWithDifference, logChoose, stirlingError } from './gamma';
 import { log1mExp, probabilityFromLog } from './probability';
 import type { Probability } from '../result';
 
@@ -23,15 +23,21 @@ export function logBinomialPmf(k: number, n: number, p: number, q = 1 - p): numb
   if (q === 0) return k === n ? 0 : -Infinity;
   if (k === 0) return n === 0 ? 0 : p < 0.1 ? -deviance(n, n * q) - n * p : n * Math.log(q);
   if (k === n) return q < 0.1 ? -deviance(n, n * p) - n * q : n * Math.log(p);
-  return logBinomialTerm(k, n, p, q);
+  return logBinomialTermAt(k, 0, n, p, q);
 }
 
 /**
- * The same saddle-point form for any real k in (0, n): ln[Γ(n + 1)/(Γ(k + 1)Γ(n − k + 1)) p^k q^(n−k)], the smooth
- * curve through the binomial probabilities, which the Euler–Maclaurin tail sums (logTailSum) integrate.
+ * The same saddle-point form at k = base + offset for a real offset, k in (0, n): the smooth curve through the binomial
+ * probabilities, ln[Γ(n + 1)/(Γ(k + 1)Γ(n − k + 1)) p^k q^(n−k)], which the Euler–Maclaurin tail sums (logTailSum)
+ * integrate. The deviance terms take k − np and (n − k) − nq from the whole `base` and the offset apart, because
+ * above 2^52 the double nearest base + offset has no fraction (an error of up to ½ in k, 1e-8 in the tail at n = 9e15).
  */
-export function logBinomialTerm(k: number, n: number, p: number, q = 1 - p): number {
-  const lc = stirlingError(n) - stirlingError(k) - stirlingError(n - k) - deviance(k, n * p) - deviance(n - k, n * q);
+export function logBinomialTermAt(base: number, offset: number, n: number, p: number, q = 1 - p): number {
+  const k = base + offset;
+  const np = n * p;
+  const nq = n * q;
+  const lc =
+    stirlingError(n) - stirlingError(k) - stirlingError(n - k) - devianceWithDifference(k, np, base - np + offset) - devianceWithDifference(n - k, nq, n - base - nq - offset);
   return lc - 0.5 * (LN_2PI + Math.log(k) + Math.log1p(-k / n));
 }
 
@@ -71,13 +77,14 @@ export function binomialLowerTail(k: number, n: number, p: number): Probability 
   const q = 1 - p;
   const mode = Math.min(n, Math.floor((n + 1) * p));
   const odds = p / q;
-  const logTerm = (x: number): number => (Number.isInteger(x) ? logBinomialPmf(x, n, p, q) : logBinomialTerm(x, n, p, q));
   if (top <= mode) {
     // P(i − 1)/P(i) = i / ((n − i + 1)·odds)
-    return probabilityFromLog(Math.min(0, logTailSum(top, 0, logTerm, (i) => i / ((n - i + 1) * odds))));
+    const at = (t: number): number => (Number.isInteger(t) ? logBinomialPmf(top - t, n, p, q) : logBinomialTermAt(top, -t, n, p, q));
+    return probabilityFromLog(Math.min(0, logTailSum(top, 0, at, (i) => i / ((n - i + 1) * odds))));
   }
   // P(i + 1)/P(i) = (n − i)·odds / (i + 1)
-  const upper = logTailSum(top + 1, n, logTerm, (i) => ((n - i) * odds) / (i + 1));
+  const at = (t: number): number => (Number.isInteger(t) ? logBinomialPmf(top + 1 + t, n, p, q) : logBinomialTermAt(top + 1, t, n, p, q));
+  const upper = logTailSum(top + 1, n, at, (i) => ((n - i) * odds) / (i + 1));
   return probabilityFromLog(Math.min(0, log1mExp(upper)));
 }
 
@@ -89,7 +96,8 @@ const TAIL_DROP = 45;
 /**
  * ln Σ exp(L(x)) over the integers x from `start` to `end` (either direction), for terms that do not increase away
  * from `start` and whose log L is concave and smooth (binomial and hypergeometric probabilities and their tails).
- * `logTerm` is L at any real x between start and end; `ratio(x)` = exp(L(x ± 1) − L(x)), the next term's ratio.
+ * `at(t)` is L(start ± t) at any real offset t from 0 to |end − start| (passed apart from start, which may be above
+ * 2^52 where a double has no fraction); `ratio(x)` = exp(L(x ± 1) − L(x)) at whole x, the next term's ratio.
  *
  * Cost model: at most DIRECT_TERMS terms, or one integration of about 1,000 evaluations of L, whatever the counts;
  * O(1) memory.
@@ -100,22 +108,27 @@ const TAIL_DROP = 45;
  *   integral by 48 panels of 20-point Gauss–Legendre up to the W where the terms have fallen by e^−45, and the
  *   derivatives of f = exp(L) from five-point differences of L at whole offsets. The next term of the series,
  *   f⁽⁵⁾/30240, is below 1e-19 of the sum in this regime, and so is the part beyond W.
+ * Measured against 60-digit mpmath (test/fixtures/mpmath/large_tails.json, counts 1e3 to 2^53 − 1): at most 4e-15
+ * relative on ln p, a few milliseconds per tail. A library instead, measured on the same kind of tails: the incomplete
+ * beta of @stdlib/math-base-special-betainc 0.2.3 is off by 3e-10 relative at n = 2e7, 3e-8 at 2e9, 2e-6 at 2e12
+ * and 3e-2 at 1e15 (P(X ≤ k) for p = ½), and @stdlib/stats-base-dists-hypergeometric-cdf 0.2.1 takes 0.4 s at
+ * N = 4e7 and fails past about 1e12 (it allocates the support).
  */
-export function logTailSum(start: number, end: number, logTerm: (x: number) => number, ratio: (x: number) => number): number {
-  const log0 = logTerm(start);
+export function logTailSum(start: number, end: number, at: (t: number) => number, ratio: (x: number) => number): number {
+  const log0 = at(0);
   if (log0 === -Infinity) return -Infinity;
   const step = end >= start ? 1 : -1;
   const length = Math.abs(end - start);
   const probe = Math.min(length, DIRECT_TERMS);
-  if (probe === length || log0 - logTerm(start + step * probe) >= 40) return log0 + Math.log(directTailSum(start, end, step, log0, logTerm, ratio));
-  return log0 + Math.log(eulerMaclaurinTail(start, step, length, log0, logTerm));
+  if (probe === length || log0 - at(probe) >= 40) return log0 + Math.log(directTailSum(start, end, step, log0, at, ratio));
+  return log0 + Math.log(eulerMaclaurinTail(length, log0, at));
 }
 
-function directTailSum(start: number, end: number, step: 1 | -1, log0: number, logTerm: (x: number) => number, ratio: (x: number) => number): number {
+function directTailSum(start: number, end: number, step: 1 | -1, log0: number, at: (t: number) => number, ratio: (x: number) => number): number {
   let sum = 0;
   let w = 1;
   for (let x = start, done = 0; step === 1 ? x <= end : x >= end; x += step, done++) {
-    if ((done & 1023) === 0 && done > 0) w = Math.exp(logTerm(x) - log0);
+    if ((done & 1023) === 0 && done > 0) w = Math.exp(at(done) - log0);
     sum += w;
     if (w <= 1e-17 * sum) break;
     w *= ratio(x);
@@ -123,8 +136,8 @@ function directTailSum(start: number, end: number, step: 1 | -1, log0: number, l
   return sum;
 }
 
-function eulerMaclaurinTail(start: number, step: 1 | -1, length: number, log0: number, logTerm: (x: number) => number): number {
-  const at = (t: number): number => logTerm(start + step * t) - log0;
+function eulerMaclaurinTail(length: number, log0: number, term: (t: number) => number): number {
+  const at = (t: number): number => term(t) - log0;
   // W: the whole offset where the terms have fallen by e^−TAIL_DROP (bracketed by doubling, then bisected), or the end.
   let inside = DIRECT_TERMS;
   let width = length;
@@ -138,7 +151,7 @@ function eulerMaclaurinTail(start: number, step: 1 | -1, length: number, log0: n
   }
   if (width < length || at(length) <= -TAIL_DROP) {
     while (width - inside > 1) {
-      const mid = Math.floor((inside + width) / 2);
+      const mid = inside + Math.floor((width - inside) / 2);
       if (at(mid) <= -TAIL_DROP) width = mid;
       else inside = mid;
     }
