@@ -1,5 +1,5 @@
-// Exact and Monte Carlo p-values for r×c tables: Fisher's exact test (network algorithm) on the issue's table
-// sizes and 1e5 Monte Carlo resamples on a 5×5 table with N = 1000, with R's fisher.test and
+// Exact and Monte Carlo p-values for r×c tables: Fisher's exact test (network algorithm, without a work limit) on the
+// issue's table sizes, the hard 5×5 among them, and 1e5 Monte Carlo resamples on a 5×5 table with N = 1000, with R's fisher.test and
 // chisq.test(simulate.p.value = TRUE) timed in the same run when /usr/bin/Rscript is present.
 import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
@@ -11,6 +11,8 @@ const EXACT_TABLES: Record<string, number[][]> = {
   '3×4 N=200': [[10, 20, 15, 25], [12, 18, 22, 8], [20, 15, 10, 25]],
   '5×5 N=100 (no association)': [[4, 5, 3, 4, 4], [3, 4, 5, 4, 4], [5, 3, 4, 4, 4], [4, 4, 4, 5, 3], [4, 4, 4, 3, 5]],
   '5×5 N=100 (mild association)': [[6, 5, 4, 3, 2], [5, 5, 4, 3, 3], [4, 4, 5, 4, 3], [3, 4, 4, 5, 4], [2, 3, 4, 5, 6]],
+  // The hard one: p ≈ 2e-5, 1.4e8 steps, far beyond the default work limit (timed here without a limit).
+  '5×5 N=80 (strong association)': [[8, 3, 2, 1, 0], [2, 7, 3, 1, 1], [1, 2, 6, 3, 2], [0, 2, 3, 7, 3], [1, 0, 2, 4, 9]],
 };
 const MC_TABLE = [[45, 38, 42, 36, 39], [40, 44, 37, 41, 38], [38, 41, 46, 35, 40], [42, 36, 39, 44, 39], [35, 41, 36, 44, 44]];
 
@@ -22,13 +24,19 @@ function rMatrix(t: number[][]): string {
   return `matrix(c(${t.flat().join(',')}), ${t.length}, byrow = TRUE)`;
 }
 
-/** Elapsed seconds of each R expression, timed by R's system.time in one Rscript process. */
-function timeInR(expressions: string[]): number[] | null {
+/**
+ * Elapsed and CPU (user + system) milliseconds of each R expression, timed by R's system.time in one Rscript process.
+ * Both are printed: on a loaded machine the elapsed times of both sides grow with the load, the CPU times much less.
+ */
+function timeInR(expressions: string[]): { elapsed: number; cpu: number }[] | null {
   if (!existsSync('/usr/bin/Rscript')) return null;
-  const code = expressions.map((e) => `tryCatch(cat(system.time(invisible(${e}))[["elapsed"]], "\\n"), error = function(err) cat("NaN\\n"))`).join('; ');
-  const out = spawnSync('/usr/bin/Rscript', ['-e', code], { encoding: 'utf8', timeout: 300_000 });
+  const code = expressions.map((e) => `tryCatch({ t <- system.time(invisible(${e})); cat(t[["elapsed"]], t[["user.self"]] + t[["sys.self"]], "\\n") }, error = function(err) cat("NaN NaN\\n"))`).join('; ');
+  const out = spawnSync('/usr/bin/Rscript', ['-e', code], { encoding: 'utf8', timeout: 600_000 });
   if (out.status !== 0) return null;
-  return out.stdout.trim().split(/\s+/).map((x) => Number(x) * 1000);
+  return out.stdout.trim().split('\n').map((line) => {
+    const [elapsed, cpu] = line.trim().split(/\s+/).map((x) => Number(x) * 1000);
+    return { elapsed, cpu };
+  });
 }
 
 export async function run(): Promise<void> {
@@ -38,9 +46,11 @@ export async function run(): Promise<void> {
   monteCarloTable(MC_TABLE, { statistic: 'probability', resamples: 10_000, seed: 9 });
   const names = Object.keys(EXACT_TABLES);
   const ours = names.map((name) => {
+    const cpu = process.cpuUsage();
     const start = process.hrtime.bigint();
-    const result = fisherExactRxC(EXACT_TABLES[name]);
-    return { name, ms: ms(start), p: result.pValue?.value, work: result.work };
+    const result = fisherExactRxC(EXACT_TABLES[name], { workLimit: Infinity });
+    const used = process.cpuUsage(cpu);
+    return { name, ms: ms(start), cpu: (used.user + used.system) / 1000, p: result.pValue?.value, work: result.work };
   });
   const mcStarts: { statistic: 'pearson' | 'probability'; ms: number; p: number }[] = [];
   for (const statistic of ['pearson', 'probability'] as const) {
@@ -56,12 +66,12 @@ export async function run(): Promise<void> {
   ]);
   for (let i = 0; i < ours.length; i++) {
     const o = ours[i];
-    const rText = r ? `R fisher.test (workspace 2e8) ${r[i].toFixed(0)} ms` : 'R not available';
-    console.log(`Fisher exact ${o.name.padEnd(30)} ${o.ms.toFixed(0).padStart(6)} ms  p = ${o.p?.toPrecision(6)}  paths ${o.work}   ${rText}`);
+    const rText = r ? `R fisher.test (workspace 2e8) ${r[i].elapsed.toFixed(0)} ms (CPU ${r[i].cpu.toFixed(0)} ms)` : 'R not installed';
+    console.log(`Fisher exact ${o.name.padEnd(30)} ${o.ms.toFixed(0).padStart(6)} ms (CPU ${o.cpu.toFixed(0)} ms)  p = ${o.p?.toPrecision(6)}  steps ${o.work}   ${rText}`);
   }
-  if (r) console.log(`R fisher.test on 3×4 N=200 with its default workspace: ${Number.isNaN(r[names.length]) ? 'failed' : `${r[names.length].toFixed(0)} ms`}`);
-  const rChisq = r ? r[names.length + 1] : NaN;
-  const rFisher = r ? r[names.length + 2] : NaN;
+  if (r) console.log(`R fisher.test on 3×4 N=200 with its default workspace: ${Number.isNaN(r[names.length].elapsed) ? 'failed' : `${r[names.length].elapsed.toFixed(0)} ms`}`);
+  const rChisq = r ? r[names.length + 1].elapsed : NaN;
+  const rFisher = r ? r[names.length + 2].elapsed : NaN;
   for (const m of mcStarts) {
     const rMs = m.statistic === 'pearson' ? rChisq : rFisher;
     const rName = m.statistic === 'pearson' ? 'chisq.test' : 'fisher.test';

@@ -291,6 +291,12 @@ function devianceParts(a: number, x: number, difference?: number): void {
   twoSum(ddHi, e + me + a * (le + lae - lxe) + dxe);
 }
 
+/** The rounding error of the product a·b: a·b − fl(a·b), exactly (Dekker's two-product). */
+export function productError(a: number, b: number): number {
+  twoProduct(a, b);
+  return ddLo;
+}
+
 /** a ln(a/x) + x − a (Loader's bd0), for a, x > 0. */
 export function deviance(a: number, x: number): number {
   devianceParts(a, x);
