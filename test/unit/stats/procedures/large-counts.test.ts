@@ -14,7 +14,9 @@ import { fixture } from '../../fixtures';
 
 interface McNemarCase { b: number; c: number; lnExactP: number; lnMidP: number }
 interface FisherCase { table: number[][]; lnGreater: number; lnLess: number }
-const R = fixture<{ rVersion: string; mcnemar: McNemarCase[]; fisher: FisherCase[] }>('R', 'large-counts');
+interface BinomTestCase { b: number; c: number; pValue: number }
+interface FisherTestCase { table: number[][]; pValue: number; greater: number; less: number }
+const R = fixture<{ rVersion: string; mcnemar: McNemarCase[]; fisher: FisherCase[]; binomTest: BinomTestCase[]; fisherTest: FisherTestCase[] }>('R', 'large-counts');
 
 /** A fixture field that the check compares: present and a number, or the test fails. */
 function field<T extends object>(entry: T, key: keyof T & string): number {
@@ -91,6 +93,23 @@ describe('tails from 1e3 to 2^53 − 1 against 60-digit mpmath, central and far 
     assert.ok(r.pValue.value > 0.99, String(r.pValue.value));
     refused(() => mcnemarTest([[0, b + 1], [b + 1, 0]]), 'count-too-large', '$.table', /total/);
   });
+});
+
+describe('R binom.test and fisher.test themselves, where R can compute them (counts up to 1e6)', () => {
+  assert.ok(R.binomTest.length >= 5 && R.fisherTest.length >= 5, 'fixture has its cases');
+  for (const c of R.binomTest) {
+    it(`McNemar exact p for b = ${c.b}, c = ${c.c} is binom.test's`, () => {
+      closeTo(mcnemarStatistics(c.b, c.c).exact.pValue.value, field(c, 'pValue'), 1e-12, `binom.test p (R ${R.rVersion})`, c);
+    });
+  }
+  for (const c of R.fisherTest) {
+    it(`Fisher 2×2 p-values for ${JSON.stringify(c.table)} are fisher.test's`, () => {
+      const f = fisherExact2x2(c.table);
+      closeTo(f.twoSided.value, field(c, 'pValue'), 1e-12, `fisher.test two-sided p (R ${R.rVersion})`, c.table);
+      closeTo(f.greater.value, field(c, 'greater'), 1e-12, `fisher.test "greater" p (R ${R.rVersion})`, c.table);
+      closeTo(f.less.value, field(c, 'less'), 1e-12, `fisher.test "less" p (R ${R.rVersion})`, c.table);
+    });
+  }
 });
 
 describe('counts beyond 2^53 are refused, not looped over', () => {
