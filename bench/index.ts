@@ -11,6 +11,7 @@ const parts: BenchPart[] = [
   require('./tables').tablesBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./distribution').distributionBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./postgres').postgresBench, // eslint-disable-line @typescript-eslint/no-require-imports
+  require('./distributed').distributedBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./exact').exactBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./extension').extensionBench, // eslint-disable-line @typescript-eslint/no-require-imports
   require('./activation').activationBench, // eslint-disable-line @typescript-eslint/no-require-imports

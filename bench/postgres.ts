@@ -18,7 +18,12 @@ import type { AggregateRequest } from '../src/data/types';
  */
 export function tripsTableSql(table: string, rows: number): string {
   return `CREATE UNLOGGED TABLE ${table} AS
-    SELECT i AS id,
+    ${tripsSelectSql(rows)}`;
+}
+
+/** The rows of the trip log as a SELECT (the distributed setup keeps on each shard the rows of its stations). */
+export function tripsSelectSql(rows: number): string {
+  return `SELECT i AS id,
       (ARRAY['Harbour', 'Old Town', 'Campus', 'Riverside', 'Station', 'Hillside'])[(1 + (i * 7 + i / 13) % 6)::int] AS station,
       (ARRAY['classic', 'electric', 'cargo', 'tandem'])[(1 + ((i * 2654435761) % 1000003) % 4)::int] AS bike,
       CASE WHEN i % 1000 = 0 THEN NULL
@@ -31,7 +36,7 @@ export const tripRequests: readonly AggregateRequest[] = [
   { kind: 'numeric', column: 'minutes' },
 ];
 
-function envFile(file = process.env.COUNTERCHECK_PG_ENV ?? (existsSync('/tmp/countercheck-ci-pg/env') ? '/tmp/countercheck-ci-pg/env' : undefined)): Record<string, string> | undefined {
+export function envFile(file = process.env.COUNTERCHECK_PG_ENV ?? (existsSync('/tmp/countercheck-ci-pg/env') ? '/tmp/countercheck-ci-pg/env' : undefined)): Record<string, string> | undefined {
   if (!file || !existsSync(file)) return undefined;
   return Object.fromEntries(
     readFileSync(file, 'utf8')

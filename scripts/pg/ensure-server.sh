@@ -1,9 +1,12 @@
 #!/usr/bin/env bash
 # Installs the PostgreSQL server from Debian's packages when it is missing, then starts a throwaway
 # cluster in DIR (scripts/pg/start.sh): scripts/pg/ensure-server.sh DIR
+# With --distributed, starts the coordinator and two shards of scripts/pg/start-distributed.sh instead.
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
-DIR="${1:?usage: ensure-server.sh DIR}"
+start="$here/start.sh"
+if [ "${1:-}" = "--distributed" ]; then start="$here/start-distributed.sh"; shift; fi
+DIR="${1:?usage: ensure-server.sh [--distributed] DIR}"
 
 if ! ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1; then
   bash "$here/../lib/apt-install.sh" "the PostgreSQL tests" postgresql || exit 1
@@ -16,4 +19,4 @@ if ! ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1; then
   fi
 fi
 
-bash "$here/start.sh" "$DIR"
+bash "$start" "$DIR"

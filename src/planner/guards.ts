@@ -37,6 +37,22 @@ export async function checkCategoryColumns(view: Extract<View, { form: 'columns'
   }
 }
 
+/** A measurement role given a column that numbers the rows (1, 2, 3, … with no gap) is confirmed in words first. */
+export async function checkMeasurementColumns(view: Extract<View, { form: 'columns' }>, roles: readonly Role[], columns: readonly string[], questions: Questions): Promise<void> {
+  for (const [k, role] of roles.entries()) {
+    if (role.kind !== 'measurement') continue;
+    const p = view.columns.find((c) => c.name === columns[k])?.profile;
+    if (!p?.rowNumber) continue;
+    const { from, to } = p.rowNumber;
+    const go = await questions.confirm({
+      title: 'A column that numbers the rows',
+      message: `\`${p.name}\` holds ${p.present.toLocaleString('en-US')} different whole numbers from ${from.toLocaleString('en-US')} to ${to.toLocaleString('en-US')} with no gap: it looks like a row or unit number, and its spread and distribution would describe the numbering. Test its values anyway?`,
+      accept: 'Test the values anyway',
+    });
+    if (!go) throw new InputError(`stopped: \`${p.name}\` numbers the rows rather than measuring them`, { column: p.name }, 'row-number-as-measurement');
+  }
+}
+
 /**
  * Refuses the misread that gives N = number of rows with every cell 1: each row was counted once, so the rows
  * were already counts (or labels), and any test on that table would be meaningless.

@@ -9,11 +9,12 @@ import { aggregateRecords } from '../data/aggregate';
 import type { Records } from '../data/records';
 import { InputError } from '../errors';
 import { askField, parseNumberList } from './ask';
-import { checkCategoryColumns, checkNotOnePerRow } from './guards';
+import { checkCategoryColumns, checkMeasurementColumns, checkNotOnePerRow } from './guards';
 import { inlineFromRecords } from './inline';
 import type { Offer } from './offer';
 import type { Choice, Questions } from './questions';
 import { describeView, sum, viewOf, type ColumnInfo, type DataFacts, type Role, type View } from './view';
+import { namesRows } from './profile';
 import { PROCEDURES, procedureFor, type DataShape } from '../savedtest/procedures/index';
 
 /** Answers given beforehand (keybindings, tests) or remembered from the last run on the same source. */
@@ -70,11 +71,23 @@ interface Proposal {
   readonly anything?: boolean;
 }
 
+/**
+ * For a table whose columns are the same categories as its rows (in any order), the column index of each row's
+ * category; otherwise undefined.
+ */
+function columnOrderAsRows(t: { readonly rowLabels: readonly string[]; readonly columnLabels: readonly string[] }): number[] | undefined {
+  if (t.rowLabels.length !== t.columnLabels.length || new Set(t.rowLabels).size !== t.rowLabels.length) return undefined;
+  const order = t.rowLabels.map((l) => t.columnLabels.indexOf(l));
+  return order.every((j) => j >= 0) ? order : undefined;
+}
+
 /** Which shapes a view offers: a procedure is proposed when it accepts one of them. */
 function shapesOf(view: View): DataShape[] {
   switch (view.form) {
     case 'table':
-      return view.table.rowLabels.length === view.table.columnLabels.length ? ['counted-table', 'square-table', 'anything'] : ['counted-table', 'anything'];
+      // Square for a paired test only when rows and columns are the same categories: a 3×3 of markets × seed
+      // treatments is not one classification made twice.
+      return columnOrderAsRows(view.table) ? ['counted-table', 'square-table', 'anything'] : ['counted-table', 'anything'];
     case 'categories':
       return ['category-counts', 'anything'];
     case 'values':
@@ -193,6 +206,8 @@ function viewData(view: View, test: string): DataFacts {
       const n = sum(t.counts.map((r) => sum(r)));
       const facts = { rows: t.rowLabels.length, columns: t.columnLabels.length, n };
       if (test === 'power' || test === 'distribution') return { fields: {}, ...facts };
+      const order = test === 'paired' ? columnOrderAsRows(t) : undefined;
+      if (order) return { fields: { table: t.counts.map((r) => order.map((j) => r[j])), rowLabels: t.rowLabels, columnLabels: t.rowLabels }, ...facts };
       return { fields: { table: t.counts, rowLabels: t.rowLabels, columnLabels: t.columnLabels }, ...facts };
     }
     case 'categories': {
@@ -230,6 +245,7 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   if (measured || (weight !== undefined && columns.includes(weight))) weight = undefined;
   if (weight !== undefined && shape.kind === 'long-counts' && weight === shape.weightColumn) notes.push(`\`${weight}\` is the frequency weight: ${shape.reason}`);
   await checkCategoryColumns(view, roles, columns, weight, questions);
+  await checkMeasurementColumns(view, roles, columns, questions);
   if (view.records && !measured) checkNotOnePerRow(view.records, columns, weight, proposal.test, view.columns, offer.description);
 
   const source = offer.kind === 'records' && offer.file ? { path: relativePath(request.specFolder, offer.file.path), ...offer.file.source } : offer.kind === 'catalogue' ? { sql: offer.sql } : undefined;
@@ -276,10 +292,19 @@ async function allRecords(offer: Offer): Promise<Records> {
   return offer.file.readAll();
 }
 
+/** A column different on every row (a row number 1, 2, 3, … or a unit's name such as M1001, M1002, …). */
+function labelsRows(c: ColumnInfo): boolean {
+  const p = c.profile;
+  return p !== undefined && (p.rowNumber !== undefined || namesRows(p));
+}
+
 async function chooseColumns(questions: Questions, columns: readonly ColumnInfo[], roles: readonly Role[], title: string, remembered: readonly string[] | undefined): Promise<string[]> {
   const chosen: string[] = [];
   for (const [k, role] of roles.entries()) {
-    const eligible = columns.filter((c) => !chosen.includes(c.name) && (role.kind === 'measurement' ? c.measurement : c.categorical));
+    // A column that numbers or names the rows is still offered, but last: it is rarely what anyone means to test.
+    const eligible = columns
+      .filter((c) => !chosen.includes(c.name) && (role.kind === 'measurement' ? c.measurement : c.categorical))
+      .sort((a, b) => Number(labelsRows(a)) - Number(labelsRows(b)));
     if (eligible.length === 0) throw new InputError(`found no column left for ${role.name}: expected ${role.kind === 'measurement' ? 'a numeric column' : 'a categorical column'}`, {}, 'nothing-to-test');
     const name = await questions.choose({
       title,

@@ -36,6 +36,27 @@ export interface ColumnProfile {
   readonly present: number;
   /** Set when most cells are numbers but a few are not: the column is offered, with these named. */
   readonly stray?: StrayCells;
+  /**
+   * Set when the column numbers the rows: at least 10 whole numbers, all different, forming one unbroken run
+   * (1, 2, 3, … or 20001, 20002, …). Its spread and distribution describe the numbering, not a measurement.
+   */
+  readonly rowNumber?: { readonly from: number; readonly to: number };
+}
+
+/** Fewer rows than this never count as a row numbering (a short run of whole numbers may be a real measurement). */
+const ROW_NUMBER_MIN = 10;
+
+/** The run `from … to` when the numbers are whole, all different, and fill the run with no gap; else undefined. */
+export function rowNumbering(values: readonly number[]): { from: number; to: number } | undefined {
+  if (values.length < ROW_NUMBER_MIN || !values.every((x) => Number.isInteger(x))) return undefined;
+  let from = Infinity;
+  let to = -Infinity;
+  for (const x of values) {
+    if (x < from) from = x;
+    if (x > to) to = x;
+  }
+  if (to - from + 1 !== values.length || new Set(values).size !== values.length) return undefined;
+  return { from, to };
 }
 
 /** A column counts as "numeric except a few cells" when at most this share of its cells are not numbers. */
@@ -78,6 +99,7 @@ export function profileColumns(records: Records, missing: readonly string[]): Co
     for (const v of texts) tally.set(v, (tally.get(v) ?? 0) + 1);
     // In the order first seen, as the tables and the saved test put them (one category order everywhere).
     const levels = [...tally.entries()].map(([label, count]) => ({ label, count }));
+    const rowNumber = numeric ? rowNumbering(read.parsed) : undefined;
     return {
       name,
       numeric,
@@ -89,6 +111,7 @@ export function profileColumns(records: Records, missing: readonly string[]): Co
       firstValues: texts.slice(0, 6),
       present: cells.length,
       ...(strayOk ? { stray: { count: read.bad.length, firstLine: read.bad[0].line, firstText: read.bad[0].text } } : {}),
+      ...(rowNumber ? { rowNumber } : {}),
     };
   });
 }
@@ -138,7 +161,10 @@ function longCounts(records: Records, profiles: readonly ColumnProfile[]): Shape
     .filter((w) => w.counts && w.total > records.rows.length)
     .filter((w) => {
       const others = profiles.filter((p) => p !== w);
-      return others.length > 0 && others.every((p) => !p.stray && isCategorical(p)) && combinationsUnique(records, others);
+      // With two or more category columns, one that is different on every row (a bottle or member number) makes
+      // every combination unique by itself: the rows are units, not counted combinations, and \`w\` is a measurement.
+      const labelsRows = others.length > 1 && others.some((p) => p.levels.length === records.rows.length);
+      return others.length > 0 && !labelsRows && others.every((p) => !p.stray && isCategorical(p)) && combinationsUnique(records, others);
     })
     .sort((a, b) => b.levels.length - a.levels.length);
   if (fits.length === 0 || (fits.length > 1 && fits[0].levels.length === fits[1].levels.length)) return undefined;
@@ -174,8 +200,15 @@ export function isMeasurement(p: ColumnProfile): boolean {
   return (p.numeric && p.levels.length > 12) || p.stray !== undefined;
 }
 
+/** Text different on every row (M1001, M1002, …; at least 10 rows): a unit's name, not a classification. */
+export function namesRows(p: ColumnProfile): boolean {
+  return !p.numeric && p.stray === undefined && p.present >= 10 && p.levels.length === p.present;
+}
+
 /** A line for a choice's detail: "12 levels: Oven A (40), Oven B (33), …", "numbers: 12.1, 12.4, …", with stray cells named. */
 export function describeColumn(p: ColumnProfile): string {
+  if (namesRows(p)) return `different on every row (${p.firstValues.slice(0, 3).join(', ')}, …): names the rows, so as a category every count would be 1`;
+  if (p.rowNumber) return `numbers the rows: every value different, ${grouped(p.rowNumber.from)} to ${grouped(p.rowNumber.to)} with no gap; its spread describes the numbering, not a measurement`;
   if (p.stray) {
     const s = p.stray;
     return `numbers, except ${s.count} cell${s.count === 1 ? '' : 's'} that ${s.count === 1 ? 'is' : 'are'} not (first on line ${s.firstLine}: "${s.firstText}"); running on it stops there`;

@@ -76,7 +76,7 @@ function testTables(result: TestResult, f: FormatOptions, t: Translate): ResultT
             ...g.observed[i].map((o, j) => {
               const r = g.adjustedResiduals[i][j];
               return {
-                text: `${formatCount(o, f.decimals)} (${formatNumber(g.expected[i][j], f.decimals)}) ${Number.isFinite(r) ? (r >= 0 ? '+' : '') + formatNumber(r, f.decimals) : ''}`,
+                text: `${formatCount(o, f.decimals)} (${formatNumber(g.expected[i][j], f.decimals)}) ${Number.isFinite(r) ? signedNumber(r, f.decimals) : ''}`,
                 residual: r,
                 shade: residualShade(r),
                 signText: signText(r, t).split(' ')[0],

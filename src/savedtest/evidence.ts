@@ -15,6 +15,7 @@ import { categoryProblem, fragilityIndex2x2, generalizedFragility, strataProblem
 import { pairedTest } from '../stats/procedures/paired';
 import { stratifiedTest } from '../stats/procedures/stratified';
 import type { EquivalenceSection, FragilityBasis, TestResult } from '../stats/result';
+import type { ArgumentPlaces } from './arguments';
 import { bool, field, num, obj, oneOf, str, type Field } from './fields';
 import type { SpecV1 } from './types';
 
@@ -55,6 +56,15 @@ export const EQUIVALENCE_FIT_FIELD: Field = field(
   obj({ margin: field(num({ exclusiveMin: 0, exclusiveMax: Math.SQRT2 }), 'ε: the largest Euclidean distance between the observed and the stated proportions that counts as equivalent.') }, { required: ['margin'] }),
   "Equivalence: show that the distribution lies within distance ε of the stated proportions (Wellek's test).",
 );
+
+/** The fields the arguments of the Bayes factor and equivalence functions come from. */
+export const EVIDENCE_ARGUMENTS: ArgumentPlaces = {
+  samplingPlan: 'bayesFactor.samplingPlan',
+  priorConcentration: 'bayesFactor.priorConcentration',
+  lower: 'equivalence.lower',
+  upper: 'equivalence.upper',
+  margin: 'equivalence.margin',
+};
 
 /** The fragility fields every count-based procedure declares. */
 export const FRAGILITY_FIELDS = { fragility: FRAGILITY_FIELD, fragilityMinLikelihood: FRAGILITY_MIN_LIKELIHOOD_FIELD } as const;

@@ -9,6 +9,7 @@ import type { ReportBlock } from '../report/blocks';
 import type { FormatOptions } from '../report/format';
 import { plotFolderName, resultMarkdown, withPlotLinks } from '../report/markdown';
 import { plotFiles } from '../report/svg';
+import { withPlace } from './arguments';
 import { childPath, locatePath, parseJsonWithLocations, type LocatedJson } from './json-text';
 import { resolveSourcePath } from './paths';
 import { runSpec } from './run';
@@ -40,8 +41,7 @@ export function describeRunError(e: unknown, file: string, located?: LocatedJson
     const at = located && jsonPath ? locatePath(located, jsonPath) : undefined;
     // A data error names its own file, line and column in the message; the spec file goes in front.
     const where = at ? `${file}:${at.line}:${at.column}` : file;
-    const prefix = jsonPath && !e.message.startsWith(jsonPath) ? `${jsonPath}: ` : '';
-    return `${where}: ${prefix}${e.message}`;
+    return `${where}: ${jsonPath ? withPlace(e.message, jsonPath) : e.message}`;
   }
   if (isInstance(e, Error) && e.name === 'AbortError') return `${file}: cancelled`;
   return `${file}: ${errorMessage(e)}`;

@@ -10,9 +10,10 @@ import type { CategoryOptions, IntakeOptions, MissingOptions } from '../data/opt
 import { deliveryNeeded, fileReaderFor, SQL_READER } from '../data/readers';
 import type { Aggregate, AggregateRequest, Provenance } from '../data/types';
 import { InputError } from '../errors';
-import { withEvidence } from './evidence';
+import { withArgumentsLocated, type ArgumentOrigin } from './arguments';
+import { EVIDENCE_ARGUMENTS, withEvidence } from './evidence';
 import { resolveSourcePath } from './paths';
-import { procedureFor } from './procedures/index';
+import { COMMON_FIELDS, procedureFor } from './procedures/index';
 import type { DataFingerprint, RunContext, RunOptions, SourceNeeds, SourceSpec, SpecRun, SpecV1 } from './types';
 import { assertValidSpec } from './validate';
 
@@ -32,12 +33,20 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
       return aggregate;
     },
   };
-  const computed = await handler.run(spec, ctx);
+  // The numbers layer names the argument at fault; the saved test's user needs the field (or the source) it came from.
+  const origin = (): ArgumentOrigin => ({
+    spec,
+    places: { ...EVIDENCE_ARGUMENTS, ...handler.arguments },
+    fields: [...Object.keys(COMMON_FIELDS), ...Object.keys(handler.fields)],
+    dataFields: Object.keys(handler.fields).filter((name) => handler.fields[name].data),
+    sourceDescription: provenance?.description,
+  });
+  const computed = await withArgumentsLocated(origin, () => handler.run(spec, ctx));
   throwIfAborted(options.signal);
   // What the reader noticed (a formula without a stored value, a merged header) goes with the result's notices.
   const withNotices = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
   // Fragility, Bayes factor, equivalence: the sections a count-based test gets beside its p-value.
-  const result = withNotices.kind === 'test' ? withEvidence(withNotices, spec) : withNotices;
+  const result = withNotices.kind === 'test' ? await withArgumentsLocated(origin, () => withEvidence(withNotices, spec)) : withNotices;
   const data: DataFingerprint = provenance
     ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }
     : inlineFingerprint(spec);

@@ -9,7 +9,7 @@ import { aggregateFile } from '../../src/data/file';
 import type { IntakeOptions } from '../../src/data/options';
 import { aggregateSql, type SqlAggregateOptions } from '../../src/data/sql/index';
 import type { Aggregate, AggregateRequest } from '../../src/data/types';
-import { liveServer } from './server';
+import { assertSameAggregate as assertSame, liveServer, relative } from './server';
 
 const server = liveServer();
 let folder = '';
@@ -26,35 +26,6 @@ async function exportCsv(name: string, select: string): Promise<string> {
   const file = join(folder, `${name}.csv`);
   await server.psql(`\\copy (${select}) TO '${file}' WITH (FORMAT csv, HEADER)`);
   return file;
-}
-
-function relative(a: number, b: number): number {
-  return a === b ? 0 : Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b));
-}
-
-/** Compares what the two sources give; the fingerprints differ by design (bytes vs aggregate). */
-function assertSame(viaSql: Aggregate, viaFile: Aggregate, what: string): void {
-  assert.equal(viaSql.kind, viaFile.kind, what);
-  assert.equal(viaSql.provenance.rows, viaFile.provenance.rows, `${what}: records read`);
-  assert.equal(viaSql.provenance.dropped, viaFile.provenance.dropped, `${what}: records dropped`);
-  assert.deepEqual(viaSql.provenance.columns, viaFile.provenance.columns, `${what}: columns`);
-  if (viaSql.kind === 'table' && viaFile.kind === 'table') assert.deepEqual(viaSql.table, viaFile.table, what);
-  else if (viaSql.kind === 'categories' && viaFile.kind === 'categories') assert.deepEqual(viaSql.counts, viaFile.counts, what);
-  else if (viaSql.kind === 'moments' && viaFile.kind === 'moments') {
-    const s = viaSql.moments;
-    const f = viaFile.moments;
-    assert.equal(s.n, f.n, `${what}: n`);
-    assert.equal(s.min, f.min, `${what}: min`);
-    assert.equal(s.max, f.max, `${what}: max`);
-    const checks: [string, number, number, number][] = [
-      ['variance m2/(n-1)', s.m2 / (s.n - 1), f.m2 / (f.n - 1), 1e-12],
-      ['mean', s.mean, f.mean, 1e-12],
-    ];
-    for (const [name, got, expected, tolerance] of checks) {
-      const delta = relative(got, expected);
-      assert.ok(delta <= tolerance, `${what}: ${name}: PostgreSQL ${got}, CSV path ${expected}, relative Δ ${delta}, tolerance ${tolerance}`);
-    }
-  }
 }
 
 async function both(table: string, request: AggregateRequest, options: SqlAggregateOptions = {}): Promise<[Aggregate, Aggregate]> {

@@ -3,18 +3,19 @@
  * PG* lines written by scripts/pg/start.sh (`npm run test:pg`, scripts/pg/run-tests.mjs, starts one and
  * sets it). When the variable is set, every failure to reach the server FAILS the tests; when it is
  * unset (a developer's machine without a server), the suite is skipped with a message saying how to run it; with CI=true it fails.
+ * COUNTERCHECK_PG_DIST_ENV names the coordinator of the distributed setup (scripts/pg/start-distributed.sh) the same way.
  */
+import { strict as assert } from 'node:assert';
 import { execFile } from 'node:child_process';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import { Client } from 'pg';
 import type { SqlReaderContext } from '../../src/data/sql/index';
-
-export const pgEnvFile = process.env.COUNTERCHECK_PG_ENV;
+import type { Aggregate } from '../../src/data/types';
 
 export function readEnvFile(file: string): Record<string, string> {
-  if (!existsSync(file)) throw new Error(`COUNTERCHECK_PG_ENV=${file}, but the file does not exist: was the server started (scripts/pg/start.sh)?`);
+  if (!existsSync(file)) throw new Error(`${file} does not exist: was the server started (scripts/pg/start.sh, or start-distributed.sh for COUNTERCHECK_PG_DIST_ENV)?`);
   const env: Record<string, string> = {};
   for (const line of readFileSync(file, 'utf8').split('\n')) {
     const m = /^([A-Z_][A-Z0-9_]*)=(.*)$/.exec(line.trim());
@@ -26,21 +27,25 @@ export function readEnvFile(file: string): Record<string, string> {
   return env;
 }
 
-/** Registers the suite's `before` hook: skip without a server configured (fail in CI), fail with one that does not answer. */
-export function liveServer(): { env: () => Record<string, string>; context: () => SqlReaderContext; query: (text: string, values?: unknown[]) => Promise<Record<string, unknown>[]>; psql: (command: string) => Promise<string> } {
+/**
+ * Registers the suite's `before` hook: skip without a server configured (fail in CI), fail with one that does not answer.
+ * `variable` names the environment variable holding the env file (the single server by default).
+ */
+export function liveServer(variable = 'COUNTERCHECK_PG_ENV', start = 'bash scripts/pg/start.sh /tmp/cc-pg'): { env: () => Record<string, string>; context: () => SqlReaderContext; query: (text: string, values?: unknown[]) => Promise<Record<string, unknown>[]>; psql: (command: string) => Promise<string> } {
   let env: Record<string, string> | undefined;
+  const envFile = process.env[variable];
   before(async function () {
-    if (!pgEnvFile) {
+    if (!envFile) {
       // In CI a missing server is a failure, never a silent pass (npm run test:pg starts one; .ci/run sets CI=true).
-      if (process.env.CI === 'true') throw new Error('COUNTERCHECK_PG_ENV is not set in CI: the PostgreSQL suite must run there (npm run test:pg starts a server)');
-      console.log('    (skipped: COUNTERCHECK_PG_ENV is not set; run `bash scripts/pg/start.sh /tmp/cc-pg` and `COUNTERCHECK_PG_ENV=/tmp/cc-pg/env npm run test:pg`)');
+      if (process.env.CI === 'true') throw new Error(`${variable} is not set in CI: the PostgreSQL suite must run there (npm run test:pg starts a server)`);
+      console.log(`    (skipped: ${variable} is not set; run \`${start}\` and \`${variable}=/tmp/cc-pg/env npm run test:pg\`)`);
       this.skip();
     }
-    env = readEnvFile(pgEnvFile);
+    env = readEnvFile(envFile);
     try {
       await query('SELECT 1');
     } catch (e) {
-      throw new Error(`the PostgreSQL server of COUNTERCHECK_PG_ENV=${pgEnvFile} (${env.PGHOST}:${env.PGPORT}) does not answer: ${(e as Error).message}`);
+      throw new Error(`the PostgreSQL server of ${variable}=${envFile} (${env.PGHOST}:${env.PGPORT}) does not answer: ${(e as Error).message}`);
     }
   });
   const need = (): Record<string, string> => {
@@ -84,4 +89,37 @@ export async function leftoverSessions(query: (text: string) => Promise<Record<s
     if (rows.length === 0 || Date.now() > until) return rows;
     await new Promise((r) => setTimeout(r, 100));
   }
+}
+
+export function relative(a: number, b: number): number {
+  return a === b ? 0 : Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b));
+}
+
+/**
+ * Compares what two sources give for one request: records read and dropped and the columns exactly, tables and
+ * category counts exactly, n, min and max exactly, mean and variance to 1e-12 relative. The fingerprints are not
+ * compared (a file's is of its bytes). `names` label the two sides in messages.
+ */
+export function assertSameAggregate(a: Aggregate, b: Aggregate, what: string, names: readonly [string, string] = ['PostgreSQL', 'CSV path']): void {
+  assert.equal(a.kind, b.kind, what);
+  assert.equal(a.provenance.rows, b.provenance.rows, `${what}: records read`);
+  assert.equal(a.provenance.dropped, b.provenance.dropped, `${what}: records dropped`);
+  assert.deepEqual(a.provenance.columns, b.provenance.columns, `${what}: columns`);
+  if (a.kind === 'table' && b.kind === 'table') assert.deepEqual(a.table, b.table, what);
+  else if (a.kind === 'categories' && b.kind === 'categories') assert.deepEqual(a.counts, b.counts, what);
+  else if (a.kind === 'moments' && b.kind === 'moments') {
+    const s = a.moments;
+    const f = b.moments;
+    assert.equal(s.n, f.n, `${what}: n`);
+    assert.equal(s.min, f.min, `${what}: min`);
+    assert.equal(s.max, f.max, `${what}: max`);
+    const checks: [string, number, number, number][] = [
+      ['variance m2/(n-1)', s.m2 / (s.n - 1), f.m2 / (f.n - 1), 1e-12],
+      ['mean', s.mean, f.mean, 1e-12],
+    ];
+    for (const [name, got, expected, tolerance] of checks) {
+      const delta = relative(got, expected);
+      assert.ok(delta <= tolerance, `${what}: ${name}: ${names[0]} ${got}, ${names[1]} ${expected}, relative Δ ${delta}, tolerance ${tolerance}`);
+    }
+  } else assert.fail(`${what}: unexpected kinds ${a.kind} and ${b.kind}`);
 }

@@ -7,7 +7,7 @@ import { distributionFitTest } from '../../stats/procedures/distfit';
 import type { TestResult } from '../../stats/result';
 import { arr, field, num, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
 
 export const distributionFitProcedure = defineProcedure({

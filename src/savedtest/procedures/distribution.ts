@@ -24,7 +24,7 @@ import {
 import { probabilityFromBoth } from '../../stats/distributions/probability';
 import type { DistributionResult } from '../../stats/result';
 import { arr, field, num, oneOf, type SpecProblem } from '../fields';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 
 /** `{ [key]: log10 }` when a positive value underflowed to 0 and its logarithm is finite; otherwise nothing. */
 function underflowLog<K extends string>(key: K, value: number, log10: () => number): Partial<Record<K, number>> {

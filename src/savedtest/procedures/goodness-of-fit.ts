@@ -6,9 +6,12 @@ import { InputError } from '../../errors';
 import { goodnessOfFit } from '../../stats/procedures/fit';
 import type { TestResult } from '../../stats/result';
 import { arr, field, num, obj, oneOf, ownMember, str, type SpecProblem } from '../fields';
+import type { ArgumentLocation } from '../../errors';
+import { fieldPath } from '../arguments';
 import { childPath } from '../json-text';
+import type { SpecV1 } from '../types';
 import type { WeightsByLevel } from '../types';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { applyMethod } from './method';
 import {
   COUNT_ARRAY,
@@ -39,6 +42,7 @@ export const goodnessOfFitProcedure = defineProcedure({
       { label: 'Goodness of fit, exact p-value', detail: 'Exact multinomial p-value (small samples)', preset: { method: 'exact' } },
     ],
   },
+  arguments: { labels: 'categories', proportions: weightPath('proportions'), ratios: weightPath('ratios') },
   fields: {
     ...FRAGILITY_FIELDS,
     bayesFactor: BAYES_FACTOR_FIT_FIELD,
@@ -140,6 +144,20 @@ export const goodnessOfFitProcedure = defineProcedure({
     );
   },
 });
+
+/**
+ * Where the i-th proportion or ratio is: `$.proportions[i]`, or `$.proportions.<level>` for weights keyed by level
+ * (in the order of "categories", else of the object's keys, as `run` reads them).
+ */
+function weightPath(key: 'proportions' | 'ratios'): (argument: ArgumentLocation, spec: SpecV1) => string | undefined {
+  return (argument, spec) => {
+    const weights = spec[key];
+    const index = argument.at?.[0];
+    if (weights === null || typeof weights !== 'object' || Array.isArray(weights) || typeof index !== 'number') return fieldPath(key, argument, spec);
+    const level = ((spec.categories as readonly string[] | undefined) ?? Object.keys(weights))[index];
+    return level === undefined ? childPath('$', key) : childPath(childPath('$', key), level);
+  };
+}
 
 function keyedWeights(spec: { readonly proportions?: WeightsByLevel; readonly ratios?: WeightsByLevel }): { key: string; weights: Readonly<Record<string, number>> } | undefined {
   for (const key of ['proportions', 'ratios'] as const) {

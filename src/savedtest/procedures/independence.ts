@@ -7,7 +7,7 @@ import { independenceTest } from '../../stats/procedures/table';
 import type { TestResult } from '../../stats/result';
 import { bool, field, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { applyMethod } from './method';
 import {
   CONFIDENCE,

@@ -8,6 +8,8 @@ import { exactIndependence, exactMultinomialFit, outcomeCount, tryExactIndepende
 import { DEFAULT_RESAMPLES, monteCarloFitInSlices, monteCarloIndependenceInSlices, type ResamplingResult, type ResamplingStatistic } from '../../stats/procedures/montecarlo';
 import { DEFAULT_SEED } from '../../stats/random';
 import type { StatisticLine, TestResult } from '../../stats/result';
+import { isInputError } from '../../errors';
+import { relocated } from '../arguments';
 /** The fields of a count test that choose and tune its p-value method. */
 export interface MethodFields {
   readonly method?: 'asymptotic' | 'exact' | 'monte-carlo';
@@ -38,18 +40,23 @@ export async function applyMethod(result: TestResult, spec: MethodFields, contro
     shouldCancel: control.signal ? () => control.signal!.aborted : undefined,
   };
   let resampled: ResamplingResult;
-  if (result.grid) {
-    const table = result.grid.observed;
-    resampled = method === 'exact' ? exactIndependence(table, { fallback: mc }) : await monteCarloIndependenceInSlices(table, { ...mc, statistic, lambda: spec.lambda }, pause);
-  } else if (result.categories) {
-    const observed = result.categories.map((c) => c.observed);
-    const probabilities = result.categories.map((c) => c.expected);
-    resampled =
-      method === 'exact'
-        ? exactMultinomialFit(observed, probabilities, { statistic, lambda: spec.lambda, fallback: mc })
-        : await monteCarloFitInSlices(observed, probabilities, { ...mc, statistic, lambda: spec.lambda }, pause);
-  } else {
-    return result;
+  try {
+    if (result.grid) {
+      const table = result.grid.observed;
+      resampled = method === 'exact' ? exactIndependence(table, { fallback: mc }) : await monteCarloIndependenceInSlices(table, { ...mc, statistic, lambda: spec.lambda }, pause);
+    } else if (result.categories) {
+      const observed = result.categories.map((c) => c.observed);
+      const probabilities = result.categories.map((c) => c.expected);
+      resampled =
+        method === 'exact'
+          ? exactMultinomialFit(observed, probabilities, { statistic, lambda: spec.lambda, fallback: mc })
+          : await monteCarloFitInSlices(observed, probabilities, { ...mc, statistic, lambda: spec.lambda }, pause);
+    } else {
+      return result;
+    }
+  } catch (e) {
+    // Counts too large to resample: what the user changes is the method the spec chose, not the data.
+    throw isInputError(e) && e.code === 'too-large-for-resampling' ? relocated(e, '$.method') : e;
   }
   const merged = merge(result, resampled, method);
   if (result.grid && resampled.details.method === 'exact') {

@@ -2,12 +2,14 @@
  * `"test": "paired"`: the same units classified twice. A 2×2 `"table"` gives McNemar's test (with the
  * continuity-corrected, exact binomial and mid-p versions beside it); a k×k table gives Bowker's test of symmetry.
  */
+import { InputError } from '../../errors';
 import { pairedTest } from '../../stats/procedures/paired';
 import type { TestResult } from '../../stats/result';
 import { bool, field, str, type SpecProblem } from '../fields';
+import { firstGiven } from '../arguments';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { CONFIDENCE, COUNT_TABLE, LABELS, type SourceSpec, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField } from './shared';
 import { FRAGILITY_FIELDS } from '../evidence';
 
@@ -20,6 +22,7 @@ export const pairedProcedure = defineProcedure({
     accepts: ['square-table', 'categorical-columns'],
     roles: ['the first classification', 'the second classification'],
   },
+  arguments: { labels: firstGiven('rowLabels', 'columnLabels') },
   fields: {
     ...FRAGILITY_FIELDS,
     table: field(COUNT_TABLE, 'Square table of counts: rows are the first classification, columns the second, same categories in the same order.', true),
@@ -71,6 +74,16 @@ async function squareFromSource(spec: { readonly source?: SourceSpec; readonly r
   const [first, second] = spec.source!.columns!;
   const given = spec.rowLabels ?? spec.columnLabels;
   const { table } = await aggregateOf(ctx, { kind: 'crosstab', rowColumn: first, columnColumn: second, weight: spec.source!.weight }, 'table', given ? { rowLevels: given, columnLevels: given } : undefined);
+  if (!given && !table.rowLabels.some((l) => table.columnLabels.includes(l))) {
+    // Two different variables (a shift and an oven) make a table whose every count lies off the diagonal, so the
+    // symmetry test would report a huge, meaningless departure. Refuse it in words.
+    const list = (labels: readonly string[]) => (labels.length > 6 ? [...labels.slice(0, 5), '…'] : labels).join(', ');
+    throw new InputError(
+      `paired: \`${first}\` (${list(table.rowLabels)}) and \`${second}\` (${list(table.columnLabels)}) share no category. A paired test compares the same classification made twice (before and after, two raters), so both columns need the same categories; for two different variables use the test of independence.`,
+      { jsonPath: '$.source.columns' },
+      'paired-no-common-category',
+    );
+  }
   const labels = given ? [...given] : [...table.rowLabels, ...table.columnLabels.filter((l) => !table.rowLabels.includes(l))];
   return { counts: placeCounts(table, labels, labels, [first, second], given ? ['rowLabels', 'rowLabels'] : ['rowLabels', 'columnLabels']), labels };
 }

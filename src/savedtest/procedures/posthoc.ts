@@ -6,7 +6,7 @@ import { postHocTest } from '../../stats/procedures/posthoc';
 import type { TestResult } from '../../stats/result';
 import { field, str, withDefault, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { COUNT_TABLE, LABELS, checkSourceColumns, requireLength, requireOneOf, sourceField, tableFromSource } from './shared';
 
 export const postHocProcedure = defineProcedure({

@@ -6,7 +6,7 @@ import { powerAnalysis } from '../../stats/procedures/power';
 import type { PowerResult } from '../../stats/result';
 import { field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { ALTERNATIVE } from './shared';
 
 export const powerProcedure = defineProcedure({

@@ -7,7 +7,7 @@ import type { TestResult } from '../../stats/result';
 import { stratifiedTest } from '../../stats/procedures/stratified';
 import { arr, bool, field, num, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { CONFIDENCE, COUNT_ARRAY, LABELS, requireLength, VARIABLE_NAME } from './shared';
 import { FRAGILITY_FIELDS } from '../evidence';
 

@@ -6,9 +6,10 @@
 import type { TestResult } from '../../stats/result';
 import { cochranArmitageTest, linearByLinearTest } from '../../stats/procedures/trend';
 import { arr, field, num, type SpecProblem } from '../fields';
+import { firstGiven } from '../arguments';
 import { childPath } from '../json-text';
 import type { RunContext } from '../types';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { ALTERNATIVE, COUNT_TABLE, LABELS, aggregateOf, checkSourceColumns, placeCounts, requireLength, requireOneOf, sourceField, type SourceSpec } from './shared';
 
 export const trendProcedure = defineProcedure({
@@ -20,6 +21,8 @@ export const trendProcedure = defineProcedure({
     accepts: ['counted-table', 'categorical-columns'],
     roles: ['the outcome (rows)', 'the ordered groups (columns)'],
   },
+  // Cochran–Armitage scores: "scores", else "columnScores" (as `run` passes them).
+  arguments: { scores: firstGiven('scores', 'columnScores') },
   fields: {
     table: field(COUNT_TABLE, 'Counts: 2 rows (events, non-events) by ordered groups, or an r×c table of two ordinal variables.', true),
     scores: field(arr(num()), 'Scores of the ordered groups (columns) for Cochran–Armitage. Default 1, 2, …, k (equally spaced).'),

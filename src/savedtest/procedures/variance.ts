@@ -6,7 +6,7 @@ import { varianceTestFromMoments, varianceTestFromSummary, varianceTestFromValue
 import type { TestResult } from '../../stats/result';
 import { arr, field, num, obj, str, type SpecProblem } from '../fields';
 import { childPath } from '../json-text';
-import { defineProcedure } from './index';
+import { defineProcedure } from './define';
 import { ALTERNATIVE, CONFIDENCE, VARIABLE_NAME, aggregateOf, checkSourceColumns, requireOneOf, sourceField } from './shared';
 import { EQUIVALENCE_VARIANCE_FIELD } from '../evidence';
 
@@ -22,6 +22,8 @@ export const varianceProcedure = defineProcedure({
       { field: 'alternative', title: 'Alternative hypothesis', choiceLabels: { 'two-sided': 'σ differs from σ0', greater: 'σ is larger than σ0', less: 'σ is smaller than σ0' } },
     ],
   },
+  // Moments are only ever streamed from the source's column (the raw values were not kept).
+  arguments: { moments: 'values' },
   fields: {
     equivalence: EQUIVALENCE_VARIANCE_FIELD,
     values: field(arr(num(), { minItems: 2 }), 'Raw measurements.', true),

@@ -2,32 +2,32 @@
  * Small pieces shared by the exact, paired, stratified, trend and post-hoc procedures: count checks with
  * the cell named, statistic lines, and the assembly of a TestResult.
  */
-import { InputError } from '../../errors';
+import { InputError, inside, type ArgumentLocation } from '../../errors';
 import { requireCount, requireCountTotal } from './assumptions';
 import { chiSquareUpperProbability } from '../distributions/chisquare';
 import { compensatedSum } from '../moments';
 import type { Notice, Probability, StatisticLine, TestResult } from '../result';
 
-/** A count table checked cell by cell; the message names the row, the column and the JSON path. */
-export function requireCountTable(table: unknown, jsonPath: string, what = 'table'): number[][] {
+/** A count table checked cell by cell; the message names the row and the column, the location the argument and the cell. */
+export function requireCountTable(table: unknown, argument: ArgumentLocation, what = 'table'): number[][] {
   if (!Array.isArray(table) || table.length === 0) {
-    throw new InputError(`${what}: expected an array of rows of counts, found ${JSON.stringify(table)}`, { jsonPath }, 'table-too-small');
+    throw new InputError(`${what}: expected an array of rows of counts, found ${JSON.stringify(table)}`, { argument }, 'table-too-small');
   }
   const width = Array.isArray(table[0]) ? table[0].length : -1;
   const counts = table.map((row: unknown, i: number) => {
-    if (!Array.isArray(row)) throw new InputError(`${what}, row ${i + 1}: expected an array of counts, found ${JSON.stringify(row)}`, { jsonPath: `${jsonPath}[${i}]` }, 'invalid-row');
+    if (!Array.isArray(row)) throw new InputError(`${what}, row ${i + 1}: expected an array of counts, found ${JSON.stringify(row)}`, { argument: inside(argument, i) }, 'invalid-row');
     if (row.length !== width) {
-      throw new InputError(`${what}, row ${i + 1}: expected ${width} counts like row 1, found ${row.length}`, { jsonPath: `${jsonPath}[${i}]` }, 'ragged-row');
+      throw new InputError(`${what}, row ${i + 1}: expected ${width} counts like row 1, found ${row.length}`, { argument: inside(argument, i) }, 'ragged-row');
     }
     return row.map((x: unknown, j: number) => {
       if (typeof x !== 'number' || !Number.isFinite(x) || x < 0 || !Number.isInteger(x)) {
-        throw new InputError(`${what}, row ${i + 1}, column ${j + 1}: expected a count (a whole number ≥ 0), found ${JSON.stringify(x)}`, { jsonPath: `${jsonPath}[${i}][${j}]` }, 'invalid-count');
+        throw new InputError(`${what}, row ${i + 1}, column ${j + 1}: expected a count (a whole number ≥ 0), found ${JSON.stringify(x)}`, { argument: inside(argument, i, j) }, 'invalid-count');
       }
-      requireCount(x, `${what}, row ${i + 1}, column ${j + 1}`, `${jsonPath}[${i}][${j}]`);
+      requireCount(x, `${what}, row ${i + 1}, column ${j + 1}`, inside(argument, i, j));
       return x;
     });
   });
-  requireCountTotal(sum(counts.flat()), what, jsonPath);
+  requireCountTotal(sum(counts.flat()), what, argument);
   return counts;
 }
 
@@ -89,7 +89,7 @@ export function warning(code: string, message: string): Notice {
 export function requireChoice<T extends string>(value: T | undefined, allowed: readonly T[], fallback: T, field: string): T {
   if (value === undefined) return fallback;
   if (!allowed.includes(value)) {
-    throw new InputError(`${field}: expected one of ${allowed.map((a) => `"${a}"`).join(', ')}, found ${JSON.stringify(value)}`, { jsonPath: `$.${field}` }, `invalid-${field}`);
+    throw new InputError(`${field}: expected one of ${allowed.map((a) => `"${a}"`).join(', ')}, found ${JSON.stringify(value)}`, { argument: { name: field } }, `invalid-${field}`);
   }
   return value;
 }
@@ -101,7 +101,7 @@ export function requireChoice<T extends string>(value: T | undefined, allowed: r
 export function labelsOr(labels: readonly string[] | undefined, count: number, prefix: string, field: string): string[] {
   if (labels === undefined) return Array.from({ length: count }, (_, i) => `${prefix}${i + 1}`);
   if (labels.length !== count) {
-    throw new InputError(`${field}: expected ${count} labels (one per ${prefix.trim()}), found ${labels.length}`, { jsonPath: `$.${field}` }, 'length-mismatch');
+    throw new InputError(`${field}: expected ${count} labels (one per ${prefix.trim()}), found ${labels.length}`, { argument: { name: field } }, 'length-mismatch');
   }
   return labels.map(String);
 }

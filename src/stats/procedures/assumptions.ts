@@ -4,7 +4,7 @@
  * post-hoc comparisons).
  */
 import { formatProbability } from './probabilityText';
-import { InputError } from '../../errors';
+import { InputError, type ArgumentLocation } from '../../errors';
 import type { Assumption, Notice, Probability } from '../result';
 
 /** The expected-count rule of thumb, common practice (often attributed to Cochran 1954). */
@@ -116,7 +116,7 @@ export function describeAlpha(alpha: number): string {
 /** Refuses a significance level or confidence level outside (0, 1). */
 export function requireLevel(value: number, name: 'alpha' | 'confidence'): number {
   if (!(typeof value === 'number' && value > 0 && value < 1)) {
-    throw new InputError(`${name}: expected a number strictly between 0 and 1, found ${String(value)}`, { jsonPath: `$.${name}` }, `invalid-${name}`);
+    throw new InputError(`${name}: expected a number strictly between 0 and 1, found ${String(value)}`, { argument: { name } }, `invalid-${name}`);
   }
   return value;
 }
@@ -125,12 +125,12 @@ export function requireLevel(value: number, name: 'alpha' | 'confidence'): numbe
  * Refuses a count that is not a finite non-negative whole number.
  * @param where how the user finds it, e.g. "category `Blue`" or "row 2 (`Night`), column 3 (`Late`)"
  */
-export function requireCount(value: number, where: string, jsonPath: string): void {
+export function requireCount(value: number, where: string, argument: ArgumentLocation): void {
   if (typeof value !== 'number' || !Number.isFinite(value) || value < 0 || !Number.isInteger(value)) {
     const found = typeof value === 'number' ? String(value) : JSON.stringify(value);
-    throw new InputError(`${where}: expected a count (a whole number ≥ 0), found ${found}`, { jsonPath }, 'invalid-count');
+    throw new InputError(`${where}: expected a count (a whole number ≥ 0), found ${found}`, { argument }, 'invalid-count');
   }
-  if (value > MAX_COUNT) throw new InputError(`${where}: found ${value}, above the largest exactly representable count (2^53 − 1)`, { jsonPath }, 'count-too-large');
+  if (value > MAX_COUNT) throw new InputError(`${where}: found ${value}, above the largest exactly representable count (2^53 − 1)`, { argument }, 'count-too-large');
 }
 
 /**
@@ -140,9 +140,9 @@ export function requireCount(value: number, where: string, jsonPath: string): vo
 export const MAX_COUNT = Number.MAX_SAFE_INTEGER;
 
 /** Refuses a total of counts above MAX_COUNT (each count being below it). */
-export function requireCountTotal(total: number, what: string, jsonPath: string): void {
+export function requireCountTotal(total: number, what: string, argument: ArgumentLocation): void {
   if (total > MAX_COUNT) {
-    throw new InputError(`${what}: the total count ${total} is above the largest exactly representable count (2^53 − 1); counts this large cannot be tested exactly`, { jsonPath }, 'count-too-large');
+    throw new InputError(`${what}: the total count ${total} is above the largest exactly representable count (2^53 − 1); counts this large cannot be tested exactly`, { argument }, 'count-too-large');
   }
 }
 

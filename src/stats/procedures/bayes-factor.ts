@@ -54,7 +54,7 @@ function logDirichletRatioVector(y: readonly number[], alpha: readonly number[])
 
 function requireConcentration(a: number): void {
   if (!(typeof a === 'number' && Number.isFinite(a) && a > 0)) {
-    throw new InputError(`bayesFactor.priorConcentration: expected a number greater than 0, found ${JSON.stringify(a)}`, { jsonPath: '$.bayesFactor.priorConcentration' }, 'invalid-prior-concentration');
+    throw new InputError(`priorConcentration: expected a number greater than 0, found ${JSON.stringify(a)}`, { argument: { name: 'priorConcentration' } }, 'invalid-prior-concentration');
   }
 }
 
@@ -101,7 +101,7 @@ function lnPoisson(y: readonly (readonly number[])[], a: number): number {
 
 function lnHypergeometric(y: readonly (readonly number[])[], a: number): number {
   if (y.length !== 2 || y[0].length !== 2) {
-    throw new InputError(`bayesFactor.samplingPlan "hypergeometric": implemented for 2×2 tables only, found ${y.length}×${y[0].length}; choose "rows-fixed" or "joint-multinomial"`, { jsonPath: '$.bayesFactor.samplingPlan' }, 'hypergeometric-not-2x2');
+    throw new InputError(`samplingPlan: "hypergeometric" is implemented for 2×2 tables only, found ${y.length}×${y[0].length}; choose "rows-fixed" or "joint-multinomial"`, { argument: { name: 'samplingPlan' } }, 'hypergeometric-not-2x2');
   }
   const { rows, cols, n } = margins(y);
   // Tables with these margins: x = y[0][0] from lo to hi.
@@ -148,7 +148,7 @@ function lnHypergeometric(y: readonly (readonly number[])[], a: number): number 
 export function contingencyBayesFactor(table: readonly (readonly number[])[], samplingPlan: SamplingPlan, priorConcentration = 1): BayesFactor {
   requireConcentration(priorConcentration);
   if (table.length < 2 || table[0].length < 2) {
-    throw new InputError(`bayesFactor: needs a table of at least 2×2, found ${table.length}×${table[0]?.length ?? 0}`, { jsonPath: '$.table' }, 'table-too-small');
+    throw new InputError(`table: the Bayes factor needs a table of at least 2×2, found ${table.length}×${table[0]?.length ?? 0}`, { argument: { name: 'table' } }, 'table-too-small');
   }
   const a = priorConcentration;
   switch (samplingPlan) {
@@ -163,7 +163,7 @@ export function contingencyBayesFactor(table: readonly (readonly number[])[], sa
     case 'hypergeometric':
       return fromLn(lnHypergeometric(table, a), a, samplingPlan);
     default:
-      throw new InputError(`bayesFactor.samplingPlan: expected one of ${SAMPLING_PLANS.map((p) => `"${p}"`).join(', ')}, found ${JSON.stringify(samplingPlan)}`, { jsonPath: '$.bayesFactor.samplingPlan' }, 'invalid-samplingPlan');
+      throw new InputError(`samplingPlan: expected one of ${SAMPLING_PLANS.map((p) => `"${p}"`).join(', ')}, found ${JSON.stringify(samplingPlan)}`, { argument: { name: 'samplingPlan' } }, 'invalid-samplingPlan');
   }
 }
 
@@ -171,7 +171,7 @@ export function contingencyBayesFactor(table: readonly (readonly number[])[], sa
 export function goodnessOfFitBayesFactor(observed: readonly number[], proportions: readonly number[], priorConcentration = 1): BayesFactor {
   requireConcentration(priorConcentration);
   if (observed.length !== proportions.length || observed.length < 2) {
-    throw new InputError(`bayesFactor: expected one proportion per category (${observed.length}), found ${proportions.length}`, { jsonPath: '$.expected' }, 'length-mismatch');
+    throw new InputError(`proportions: expected one proportion per category (${observed.length}), found ${proportions.length}`, { argument: { name: 'proportions' } }, 'length-mismatch');
   }
   let lnNull = 0;
   for (let k = 0; k < observed.length; k++) {

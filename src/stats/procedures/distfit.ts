@@ -56,12 +56,12 @@ export interface PooledGroup {
 }
 
 function requireValues(values: readonly number[], integer: boolean, family: FitFamily, upper?: number): void {
-  if (!Array.isArray(values) || values.length < 2) throw new InputError(`values: expected at least 2 values, found ${Array.isArray(values) ? values.length : 0}`, { jsonPath: '$.values' }, 'too-few-values');
+  if (!Array.isArray(values) || values.length < 2) throw new InputError(`values: expected at least 2 values, found ${Array.isArray(values) ? values.length : 0}`, { argument: { name: 'values' } }, 'too-few-values');
   values.forEach((x, i) => {
     const ok = typeof x === 'number' && Number.isFinite(x) && (!integer || (Number.isInteger(x) && x >= 0 && x <= (upper ?? MAX_COUNT)));
     if (!ok) {
       const want = integer ? `a whole number from 0 to ${upper ?? '2^53 − 1'} (${family} counts)` : 'a finite number';
-      throw new InputError(`values[${i}]: expected ${want}, found ${JSON.stringify(x)}`, { jsonPath: `$.values[${i}]` }, 'invalid-value');
+      throw new InputError(`values[${i}]: expected ${want}, found ${JSON.stringify(x)}`, { argument: { name: 'values', at: [i] } }, 'invalid-value');
     }
   });
 }
@@ -116,7 +116,7 @@ function cappedDiscreteBins(values: readonly number[], top: number, logPmf: (k: 
   if (single > MAX_DISCRETE_BINS) {
     throw new InputError(
       `values: the fitted ${FAMILY_NAMES[family]} distribution spreads over ${single} values with expected counts that matter, more than the ${MAX_DISCRETE_BINS} bins a fit builds; group the values into classes and test the class counts with "goodness-of-fit"`,
-      { jsonPath: '$.values' },
+      { argument: { name: 'values' } },
       'too-many-bins',
     );
   }
@@ -192,10 +192,10 @@ const FAMILY_NAMES: Record<FitFamily, string> = { poisson: 'Poisson', binomial: 
 
 export function distributionFitTest(values: readonly number[], options: DistributionFitOptions): TestResult {
   const family = options.family;
-  if (!(family in FAMILY_NAMES)) throw new InputError(`family: expected one of poisson, binomial, geometric, normal, found ${String(family)}`, { jsonPath: '$.family' }, 'invalid-family');
+  if (!(family in FAMILY_NAMES)) throw new InputError(`family: expected one of poisson, binomial, geometric, normal, found ${String(family)}`, { argument: { name: 'family' } }, 'invalid-family');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const minimum = options.minExpected ?? 5;
-  if (!(minimum > 0 && Number.isFinite(minimum))) throw new InputError(`minExpected: expected a positive number, found ${String(options.minExpected)}`, { jsonPath: '$.minExpected' }, 'invalid-min-expected');
+  if (!(minimum > 0 && Number.isFinite(minimum))) throw new InputError(`minExpected: expected a positive number, found ${String(options.minExpected)}`, { argument: { name: 'minExpected' } }, 'invalid-min-expected');
   const n = values.length;
   const uncapped = options.singleBinsUpTo ?? MAX_DISCRETE_BINS;
   let bins: Bin[];
@@ -205,12 +205,12 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     requireValues(values, false, family);
     const mu = sum(values) / n;
     const sigma = Math.sqrt(sum(values.map((x) => (x - mu) * (x - mu))) / n);
-    if (!(sigma > 0)) throw new InputError('values: all values are equal, so a normal distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
+    if (!(sigma > 0)) throw new InputError('values: all values are equal, so a normal distribution cannot be fitted', { argument: { name: 'values' } }, 'constant-values');
     let cuts: number[];
     if (options.cuts) {
       cuts = options.cuts.slice();
       cuts.forEach((c, i) => {
-        if (!Number.isFinite(c) || (i > 0 && c <= cuts[i - 1])) throw new InputError(`cuts[${i}]: expected finite, strictly increasing cut points, found ${JSON.stringify(options.cuts)}`, { jsonPath: `$.cuts[${i}]` }, 'invalid-cuts');
+        if (!Number.isFinite(c) || (i > 0 && c <= cuts[i - 1])) throw new InputError(`cuts[${i}]: expected finite, strictly increasing cut points, found ${JSON.stringify(options.cuts)}`, { argument: { name: 'cuts', at: [i] } }, 'invalid-cuts');
       });
     } else {
       const k = Math.max(4, Math.min(Math.ceil(2 * Math.pow(n, 0.4)), Math.floor(n / minimum)));
@@ -224,8 +224,8 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     ];
   } else if (family === 'binomial') {
     const m = options.trials;
-    if (m === undefined || !Number.isInteger(m) || m < 1) throw new InputError(`trials: the binomial fit needs the number of trials, a whole number ≥ 1, found ${String(m)}`, { jsonPath: '$.trials' }, 'invalid-trials');
-    if (m > MAX_COUNT) throw new InputError(`trials: expected at most 2^53 − 1 trials, found ${m}`, { jsonPath: '$.trials' }, 'invalid-trials');
+    if (m === undefined || !Number.isInteger(m) || m < 1) throw new InputError(`trials: the binomial fit needs the number of trials, a whole number ≥ 1, found ${String(m)}`, { argument: { name: 'trials' } }, 'invalid-trials');
+    if (m > MAX_COUNT) throw new InputError(`trials: expected at most 2^53 − 1 trials, found ${m}`, { argument: { name: 'trials' } }, 'invalid-trials');
     requireValues(values, true, family, m);
     const p = sum(values) / (n * m);
     const logPmf = (k: number): number => logBinomialPmf(k, m, p);
@@ -239,7 +239,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
     const mean = sum(values) / n;
     const top = Math.max(...values);
     if (family === 'poisson') {
-      if (mean === 0) throw new InputError('values: all values are 0, so a Poisson distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
+      if (mean === 0) throw new InputError('values: all values are 0, so a Poisson distribution cannot be fitted', { argument: { name: 'values' } }, 'constant-values');
       // P(X ≥ k) for the Poisson is the regularised lower incomplete gamma P(k, λ).
       const logPmf = (k: number): number => k * Math.log(mean) - mean - logFactorial(k);
       const upper = (k: number): number => (k <= 0 ? 1 : regularizedGammaLower(k, mean));
@@ -250,7 +250,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
       estimated = [{ id: 'lambda', name: 'λ (mean)', value: mean }];
     } else {
       const p = 1 / (1 + mean);
-      if (p === 1) throw new InputError('values: all values are 0, so a geometric distribution cannot be fitted', { jsonPath: '$.values' }, 'constant-values');
+      if (p === 1) throw new InputError('values: all values are 0, so a geometric distribution cannot be fitted', { argument: { name: 'values' } }, 'constant-values');
       const logPmf = (k: number): number => Math.log(p) + k * Math.log1p(-p);
       const upper = (k: number): number => Math.exp(k * Math.log1p(-p));
       bins =
@@ -265,7 +265,7 @@ export function distributionFitTest(values: readonly number[], options: Distribu
   const m = estimated.length;
   const df = groups.length - 1 - m;
   if (df < 1) {
-    throw new InputError(`values: after pooling bins to expected counts of at least ${minimum}, only ${groups.length} bin${groups.length === 1 ? ' remains' : 's remain'}, leaving ${Math.max(df, 0)} degrees of freedom for ${m} estimated parameter${m > 1 ? 's' : ''}; more data are needed`, { jsonPath: '$.values' }, 'too-few-bins');
+    throw new InputError(`values: after pooling bins to expected counts of at least ${minimum}, only ${groups.length} bin${groups.length === 1 ? ' remains' : 's remain'}, leaving ${Math.max(df, 0)} degrees of freedom for ${m} estimated parameter${m > 1 ? 's' : ''}; more data are needed`, { argument: { name: 'values' } }, 'too-few-bins');
   }
   const pooled = groups.filter((g) => g.bins.length > 1);
   if (pooled.length > 0) {

@@ -112,11 +112,11 @@ export const DIVERGENCE_STATISTICS: readonly DivergenceStatistic[] = ['pearson',
 export function resolveStatistic(options: DivergenceSettings): { statistic: DivergenceStatistic; lambda: number; cressieReadLambda: number } {
   const statistic = options.statistic ?? 'pearson';
   if (!DIVERGENCE_STATISTICS.includes(statistic)) {
-    throw new InputError(`statistic: expected one of ${DIVERGENCE_STATISTICS.join(', ')}, found ${String(statistic)}`, { jsonPath: '$.statistic' }, 'invalid-statistic');
+    throw new InputError(`statistic: expected one of ${DIVERGENCE_STATISTICS.join(', ')}, found ${String(statistic)}`, { argument: { name: 'statistic' } }, 'invalid-statistic');
   }
   const lambda = lambdaFor(statistic, options.lambda);
   if (typeof lambda !== 'number' || !Number.isFinite(lambda)) {
-    throw new InputError(`lambda: expected a finite number, found ${String(options.lambda)}`, { jsonPath: '$.lambda' }, 'invalid-lambda');
+    throw new InputError(`lambda: expected a finite number, found ${String(options.lambda)}`, { argument: { name: 'lambda' } }, 'invalid-lambda');
   }
   // The Cressie–Read line shown beside the main statistic always uses the chosen λ (default 2/3),
   // whatever the main statistic is; otherwise it would repeat Pearson (λ = 1) or G² (λ = 0).

@@ -41,14 +41,14 @@ export interface VarianceEquivalence {
   readonly form: 'equivalence' | 'non-inferiority';
 }
 
-function positive(x: number | undefined, path: string): void {
+function positive(x: number | undefined, name: 'lower' | 'upper'): void {
   if (x !== undefined && !(typeof x === 'number' && Number.isFinite(x) && x > 0)) {
-    throw new InputError(`${path.replace('$.', '')}: expected a standard deviation greater than 0, found ${JSON.stringify(x)}`, { jsonPath: path }, 'invalid-equivalence-limit');
+    throw new InputError(`${name}: expected a standard deviation greater than 0, found ${JSON.stringify(x)}`, { argument: { name } }, 'invalid-equivalence-limit');
   }
 }
 
 function requireAlpha(alpha: number): void {
-  if (!(alpha > 0 && alpha < 0.5)) throw new InputError(`alpha: expected a number between 0 and 0.5 for an equivalence test, found ${JSON.stringify(alpha)}`, { jsonPath: '$.alpha' }, 'invalid-alpha');
+  if (!(alpha > 0 && alpha < 0.5)) throw new InputError(`alpha: expected a number between 0 and 0.5 for an equivalence test, found ${JSON.stringify(alpha)}`, { argument: { name: 'alpha' } }, 'invalid-alpha');
 }
 
 /**
@@ -58,14 +58,15 @@ function requireAlpha(alpha: number): void {
  * @param upper σU or σmax
  */
 export function varianceEquivalence(n: number, variance: number, lower: number | undefined, upper: number, alpha = 0.05): VarianceEquivalence {
-  positive(lower, '$.equivalence.lower');
-  positive(upper, '$.equivalence.upper');
+  positive(lower, 'lower');
+  positive(upper, 'upper');
   requireAlpha(alpha);
   if (lower !== undefined && !(lower < upper)) {
-    throw new InputError(`equivalence: expected lower < upper, found lower ${lower} and upper ${upper}`, { jsonPath: '$.equivalence' }, 'invalid-equivalence-band');
+    throw new InputError(`lower: expected a standard deviation below upper (${upper}), found ${lower}`, { argument: { name: 'lower' } }, 'invalid-equivalence-band');
   }
   if (!(Number.isInteger(n) && n >= 2) || !(variance >= 0 && Number.isFinite(variance))) {
-    throw new InputError(`equivalence: needs at least 2 values and a finite variance, found n = ${n}, s² = ${variance}`, { jsonPath: '$.equivalence' }, 'too-few-values');
+    const name = Number.isInteger(n) && n >= 2 ? 'variance' : 'n';
+    throw new InputError(`${name}: an equivalence test needs at least 2 values and a finite variance, found n = ${n}, s² = ${variance}`, { argument: { name } }, 'too-few-values');
   }
   const df = n - 1;
   const ss = df * variance;
@@ -98,14 +99,14 @@ export interface FitEquivalence {
 /** Wellek's asymptotic equivalence test for goodness of fit (see the top of this file). */
 export function fitEquivalence(observed: readonly number[], proportions: readonly number[], margin: number, alpha = 0.05): FitEquivalence {
   if (!(typeof margin === 'number' && Number.isFinite(margin) && margin > 0 && margin < Math.SQRT2)) {
-    throw new InputError(`equivalence.margin: expected a distance ε between 0 and √2, found ${JSON.stringify(margin)}`, { jsonPath: '$.equivalence.margin' }, 'invalid-equivalence-margin');
+    throw new InputError(`margin: expected a distance ε between 0 and √2, found ${JSON.stringify(margin)}`, { argument: { name: 'margin' } }, 'invalid-equivalence-margin');
   }
   requireAlpha(alpha);
   if (observed.length !== proportions.length) {
-    throw new InputError(`equivalence: expected one target proportion per category (${observed.length}), found ${proportions.length}`, { jsonPath: '$.expected' }, 'length-mismatch');
+    throw new InputError(`proportions: expected one target proportion per category (${observed.length}), found ${proportions.length}`, { argument: { name: 'proportions' } }, 'length-mismatch');
   }
   const n = observed.reduce((s, x) => s + x, 0);
-  if (!(n > 0)) throw new InputError('equivalence: the counts sum to 0', { jsonPath: '$.observed' }, 'empty-table');
+  if (!(n > 0)) throw new InputError('observed: the counts sum to 0', { argument: { name: 'observed' } }, 'empty-table');
   let d2 = 0;
   let m1 = 0;
   let m2 = 0;

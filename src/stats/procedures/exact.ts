@@ -163,7 +163,7 @@ interface NodeBounds {
  * Fisher's exact test on an r×c table of counts (at least 2×2 after empty rows and columns are removed).
  */
 export function fisherExactRxC(table: readonly (readonly number[])[], options: FisherExactOptions = {}): FisherExactOutcome {
-  const cleaned = dropEmptyMargins(requireCountTable(table, '$.table'));
+  const cleaned = dropEmptyMargins(requireCountTable(table, { name: 'table' }));
   if (cleaned.length < 2 || cleaned[0].length < 2) {
     throw new InputError('The table needs at least two non-empty rows and two non-empty columns for an exact test of independence.', {}, 'table-too-small');
   }
@@ -371,7 +371,7 @@ export interface ExactIndependenceTestOptions {
  * computation would exceed its work limit it switches to a Monte Carlo p-value of the same test and says so.
  */
 export function exactIndependence(table: readonly (readonly number[])[], options: ExactIndependenceTestOptions = {}): ResamplingResult {
-  const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
+  const counts = dropEmptyMargins(requireCountTable(table, { name: 'table' }));
   const exact = tryExactIndependence(counts, options.workLimit);
   if (exact !== null) return exact;
   const mc = monteCarloIndependence(counts, { ...options.fallback, statistic: 'probability' });
@@ -385,7 +385,7 @@ export function exactIndependence(table: readonly (readonly number[])[], options
 
 /** Fisher's exact test as a result line, or null when it would exceed the work limit. */
 export function tryExactIndependence(table: readonly (readonly number[])[], workLimit?: number): ResamplingResult | null {
-  const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
+  const counts = dropEmptyMargins(requireCountTable(table, { name: 'table' }));
   const outcome = fisherExactRxC(counts, { workLimit });
   if (!outcome.completed) return null;
   const line: StatisticLine = {

@@ -31,16 +31,16 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
   const { statistic, lambda, cressieReadLambda } = resolveStatistic(options);
   const m = options.estimatedParameters ?? 0;
   if (!Number.isInteger(m) || m < 0) {
-    throw new InputError(`estimatedParameters: expected a whole number ≥ 0, found ${String(m)}`, { jsonPath: '$.estimatedParameters' }, 'invalid-estimated-parameters');
+    throw new InputError(`estimatedParameters: expected a whole number ≥ 0, found ${String(m)}`, { argument: { name: 'estimatedParameters' } }, 'invalid-estimated-parameters');
   }
 
   const k = observed.length;
-  if (k < 2) throw new InputError(`observed: expected at least 2 categories, found ${k}`, { jsonPath: '$.observed' }, 'too-few-categories');
+  if (k < 2) throw new InputError(`observed: expected at least 2 categories, found ${k}`, { argument: { name: 'observed' } }, 'too-few-categories');
   const labels = categoryLabels(k, options.labels);
-  observed.forEach((o, i) => requireCount(o, `category \`${labels[i]}\``, `$.observed[${i}]`));
+  observed.forEach((o, i) => requireCount(o, `category \`${labels[i]}\``, { name: 'observed', at: [i] }));
   const n = compensatedSum(observed);
-  requireCountTotal(n, 'observed', '$.observed');
-  if (n === 0) throw new InputError('observed: every count is 0, so there is nothing to test', { jsonPath: '$.observed' }, 'empty-observed');
+  requireCountTotal(n, 'observed', { name: 'observed' });
+  if (n === 0) throw new InputError('observed: every count is 0, so there is nothing to test', { argument: { name: 'observed' } }, 'empty-observed');
 
   const notices: Notice[] = [];
   const { source, weights } = expectedWeights(k, labels, options);
@@ -67,7 +67,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
     if (e === 0 && observed[i] > 0) {
       throw new InputError(
         `category \`${labels[i]}\`: expected count is 0 but ${observed[i]} observed; a category with expected 0 can never occur under the hypothesis. Give it a positive expected value or remove it.`,
-        { jsonPath: `$.${source === 'uniform' ? 'observed' : source === 'counts' ? 'expected' : source}[${i}]` },
+        { argument: { name: source === 'uniform' ? 'observed' : source === 'counts' ? 'expected' : source, at: [i] } },
         'zero-expected',
       );
     }
@@ -86,7 +86,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
   if (df < 1) {
     throw new InputError(
       `estimatedParameters: with ${kUsed} categories and ${m} estimated parameter(s) the degrees of freedom would be ${df}; they must be at least 1`,
-      { jsonPath: '$.estimatedParameters' },
+      { argument: { name: 'estimatedParameters' } },
       'no-degrees-of-freedom',
     );
   }
@@ -177,7 +177,7 @@ export function goodnessOfFit(observed: readonly number[], options: GoodnessOfFi
 function categoryLabels(k: number, labels: readonly string[] | undefined): string[] {
   if (labels === undefined) return Array.from({ length: k }, (_, i) => `category ${i + 1}`);
   if (labels.length !== k) {
-    throw new InputError(`labels: expected ${k} labels (one per observed count), found ${labels.length}`, { jsonPath: '$.labels' }, 'length-mismatch');
+    throw new InputError(`labels: expected ${k} labels (one per observed count), found ${labels.length}`, { argument: { name: 'labels' } }, 'length-mismatch');
   }
   return labels.map(String);
 }
@@ -185,21 +185,21 @@ function categoryLabels(k: number, labels: readonly string[] | undefined): strin
 function expectedWeights(k: number, labels: readonly string[], options: GoodnessOfFitOptions): { source: ExpectedSource; weights: readonly number[] } {
   const given = (['expected', 'proportions', 'ratios'] as const).filter((key) => options[key] !== undefined);
   if (given.length > 1) {
-    throw new InputError(`give only one of expected, proportions or ratios; found ${given.join(' and ')}`, { jsonPath: `$.${given[1]}` }, 'conflicting-expected');
+    throw new InputError(`give only one of expected, proportions or ratios; found ${given.join(' and ')}`, { argument: { name: given[1] } }, 'conflicting-expected');
   }
   if (given.length === 0) return { source: 'uniform', weights: new Array<number>(k).fill(1) };
   const key = given[0];
   const weights = options[key]!;
   if (weights.length !== k) {
-    throw new InputError(`${key}: expected ${k} values (one per observed count), found ${weights.length}`, { jsonPath: `$.${key}` }, 'length-mismatch');
+    throw new InputError(`${key}: expected ${k} values (one per observed count), found ${weights.length}`, { argument: { name: key } }, 'length-mismatch');
   }
   weights.forEach((w, i) => {
     if (typeof w !== 'number' || !Number.isFinite(w) || w < 0) {
-      throw new InputError(`category \`${labels[i]}\`: ${key} must be a finite number ≥ 0, found ${String(w)}`, { jsonPath: `$.${key}[${i}]` }, 'invalid-expected');
+      throw new InputError(`category \`${labels[i]}\`: ${key} must be a finite number ≥ 0, found ${String(w)}`, { argument: { name: key, at: [i] } }, 'invalid-expected');
     }
   });
   if (!(compensatedSum(weights) > 0)) {
-    throw new InputError(`${key}: every value is 0; at least one category must be expected`, { jsonPath: `$.${key}` }, 'invalid-expected');
+    throw new InputError(`${key}: every value is 0; at least one category must be expected`, { argument: { name: key } }, 'invalid-expected');
   }
   return { source: key === 'expected' ? 'counts' : key, weights };
 }

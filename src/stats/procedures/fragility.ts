@@ -169,7 +169,7 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
   const startLogP = problem.log10P(start);
   const significant = startLogP < logAlpha;
   const flipped = (lp: number): boolean => (significant ? !(lp < logAlpha) : lp < logAlpha);
-  const moves = allowedMoves(problem);
+  const moves = () => allowedMoves(problem);
   // The cost of a p-value grows with the number of cells: the default limits keep about the same work for any size.
   const maxTables = problem.maxTables ?? Math.max(100, Math.min(20_000, Math.floor(5e5 / start.length)));
 
@@ -213,6 +213,7 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
   for (let step = 1; step <= n * Math.max(1, problem.groups.length); step++) {
     let best: number[] | null = null;
     let bestLp = significant ? -Infinity : Infinity;
+    let stopped = false;
     for (const { candidate } of unseenNeighbours(table, moves, visited)) {
       const clp = problem.log10P(candidate);
       examined++;
@@ -220,11 +221,16 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
         best = candidate;
         bestLp = clp;
       }
+      // Checked per table, not per step: one step of a table with thousands of cells has millions of neighbours.
+      if (examined > budget) {
+        stopped = true;
+        break;
+      }
     }
-    if (best === null) break;
-    if (examined > budget) {
+    if (stopped) {
       return { index: null, quotient: null, reverse: !significant, method: 'bounded-search', changes: [], lowerBound: provenNotEnough + 1, tablesExamined: examined, searchStopped: true };
     }
+    if (best === null) break;
     table = best;
     lp = bestLp;
     visited.add(key(table));
@@ -238,8 +244,8 @@ export function generalizedFragility(problem: FragilityProblem): Fragility {
 const key = (c: readonly number[]): string => c.join(',');
 
 /** Tables one allowed move away that are not in `seen` (checked as they are produced, so a caller may add to it). */
-function* unseenNeighbours(table: readonly number[], moves: readonly Move[], seen: ReadonlySet<string>): Generator<{ candidate: number[]; k: string }> {
-  for (const m of moves) {
+function* unseenNeighbours(table: readonly number[], moves: () => Iterable<Move>, seen: ReadonlySet<string>): Generator<{ candidate: number[]; k: string }> {
+  for (const m of moves()) {
     if (table[m.from] === 0) continue;
     const candidate = table.slice();
     candidate[m.from]--;
@@ -249,20 +255,22 @@ function* unseenNeighbours(table: readonly number[], moves: readonly Move[], see
   }
 }
 
-function allowedMoves(problem: FragilityProblem): Move[] {
+/**
+ * The allowed single-observation moves, produced as they are needed: a table with k categories has k(k − 1) of
+ * them (4 million at k = 2,000), too many to hold in a list, and a bounded search usually stops long before the end.
+ */
+function* allowedMoves(problem: FragilityProblem): Generator<Move> {
   const q = problem.minLikelihood ?? 0;
-  const moves: Move[] = [];
   for (const group of problem.groups) {
     const total = group.reduce((s, i) => s + problem.cells[i], 0);
     for (const from of group) {
       for (const to of group) {
         if (from === to) continue;
         if (q > 0 && !(total > 0 && problem.cells[to] / total >= q)) continue;
-        moves.push({ from, to });
+        yield { from, to };
       }
     }
   }
-  return moves;
 }
 
 function result(problem: FragilityProblem, start: readonly number[], end: readonly number[], index: number, n: number, reverse: boolean, method: FragilityMethod, examined: number): Fragility {

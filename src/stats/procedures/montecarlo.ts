@@ -55,11 +55,11 @@ export const DEFAULT_RESAMPLES = 100_000;
 export const MAX_RESAMPLING_TOTAL = 10_000_000;
 
 /** Refuses totals whose lookup tables would not fit in memory; at such sizes the chi-square approximation is the tool. */
-export function requireResamplingTotal(n: number): void {
+export function requireResamplingTotal(n: number, argument: 'table' | 'observed'): void {
   if (n > MAX_RESAMPLING_TOTAL) {
     throw new InputError(
-      `method: the total count ${n} is above ${MAX_RESAMPLING_TOTAL.toExponential(0)}, too large for exact or Monte Carlo p-values here; with counts this large the chi-square approximation is accurate unless some expected counts are tiny — use "asymptotic"`,
-      { jsonPath: '$.method' },
+      `${argument}: the total count ${n} is above ${MAX_RESAMPLING_TOTAL.toExponential(0)}, too large for exact or Monte Carlo p-values here; with counts this large the chi-square approximation is accurate unless some expected counts are tiny — use "asymptotic"`,
+      { argument: { name: argument } },
       'too-large-for-resampling',
     );
   }
@@ -328,7 +328,7 @@ export function tableSession(table: readonly (readonly number[])[], options: Mon
   const rowTotals = table.map((row) => row.reduce((a, b) => a + b, 0));
   const columnTotals = table[0].map((_, j) => table.reduce((a, row) => a + row[j], 0));
   const n = rowTotals.reduce((a, b) => a + b, 0);
-  requireResamplingTotal(n);
+  requireResamplingTotal(n, 'table');
   const expected: number[] = [];
   for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) expected.push((rowTotals[i] * columnTotals[j]) / n);
   const evaluate = statisticEvaluator(expected, options.statistic, n, options.lambda);
@@ -351,7 +351,7 @@ export function monteCarloMultinomial(observed: readonly number[], probabilities
 /** A resampling session of multinomial samples. */
 export function multinomialSession(observed: readonly number[], probabilities: readonly number[], options: MonteCarloOptions): ResamplingSession {
   const n = observed.reduce((a, b) => a + b, 0);
-  requireResamplingTotal(n);
+  requireResamplingTotal(n, 'observed');
   const k = observed.length;
   const pTotal = probabilities.reduce((a, b) => a + b, 0);
   const p = probabilities.map((x) => x / pTotal);
@@ -444,9 +444,9 @@ export async function monteCarloIndependenceInSlices(table: readonly (readonly n
 }
 
 function independenceInput(table: readonly (readonly number[])[], options: MonteCarloOptions): number[][] {
-  const counts = dropEmptyMargins(requireCountTable(table, '$.table'));
+  const counts = dropEmptyMargins(requireCountTable(table, { name: 'table' }));
   if (counts.length < 2 || counts[0].length < 2) {
-    throw new InputError('table: a Monte Carlo test of independence needs at least two non-empty rows and two non-empty columns', { jsonPath: '$.table' }, 'table-too-small');
+    throw new InputError('table: a Monte Carlo test of independence needs at least two non-empty rows and two non-empty columns', { argument: { name: 'table' } }, 'table-too-small');
   }
   requireResamples(options.resamples);
   return counts;
@@ -480,18 +480,18 @@ function fitResult(outcome: MonteCarloOutcome, observed: readonly number[], opti
 
 function requireResamples(resamples: number | undefined): void {
   if (resamples !== undefined && !(Number.isInteger(resamples) && resamples >= 1 && resamples <= 1e9)) {
-    throw new InputError(`resamples: expected a whole number from 1 to 1e9, found ${String(resamples)}`, { jsonPath: '$.resamples' }, 'invalid-resamples');
+    throw new InputError(`resamples: expected a whole number from 1 to 1e9, found ${String(resamples)}`, { argument: { name: 'resamples' } }, 'invalid-resamples');
   }
 }
 
 /** Observed counts and probabilities of the same length; a category with probability 0 must have no count. */
 export function checkFitInput(observed: readonly number[], probabilities: readonly number[]): void {
   if (observed.length !== probabilities.length || observed.length < 2) {
-    throw new InputError(`observed: expected at least 2 categories and one probability per category, found ${observed.length} counts and ${probabilities.length} probabilities`, { jsonPath: '$.observed' }, 'length-mismatch');
+    throw new InputError(`observed: expected at least 2 categories and one probability per category, found ${observed.length} counts and ${probabilities.length} probabilities`, { argument: { name: 'observed' } }, 'length-mismatch');
   }
   observed.forEach((x, i) => {
-    if (!(Number.isInteger(x) && x >= 0)) throw new InputError(`observed[${i}]: expected a count (a whole number ≥ 0), found ${String(x)}`, { jsonPath: `$.observed[${i}]` }, 'invalid-count');
-    if (!(probabilities[i] >= 0 && Number.isFinite(probabilities[i]))) throw new InputError(`probability of category ${i + 1}: expected a finite number ≥ 0, found ${String(probabilities[i])}`, { jsonPath: '$.proportions' }, 'invalid-probability');
-    if (probabilities[i] === 0 && x > 0) throw new InputError(`category ${i + 1}: probability 0 under the hypothesis but ${x} observed`, { jsonPath: `$.observed[${i}]` }, 'zero-expected');
+    if (!(Number.isInteger(x) && x >= 0)) throw new InputError(`observed[${i}]: expected a count (a whole number ≥ 0), found ${String(x)}`, { argument: { name: 'observed', at: [i] } }, 'invalid-count');
+    if (!(probabilities[i] >= 0 && Number.isFinite(probabilities[i]))) throw new InputError(`probability of category ${i + 1}: expected a finite number ≥ 0, found ${String(probabilities[i])}`, { argument: { name: 'probabilities', at: [i] } }, 'invalid-probability');
+    if (probabilities[i] === 0 && x > 0) throw new InputError(`category ${i + 1}: probability 0 under the hypothesis but ${x} observed`, { argument: { name: 'observed', at: [i] } }, 'zero-expected');
   });
 }

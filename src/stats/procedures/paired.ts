@@ -31,10 +31,10 @@ export interface PairedOptions {
 
 /** McNemar (2×2) or Bowker (k×k) according to the size of the square table. */
 export function pairedTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {
-  const counts = requireCountTable(table, '$.table');
+  const counts = requireCountTable(table, { name: 'table' });
   const k = counts.length;
   if (k < 2 || counts.some((row) => row.length !== k)) {
-    throw new InputError(`table: paired data need a square table (the same categories for both classifications), found ${k}×${counts[0].length}`, { jsonPath: '$.table' }, 'not-square');
+    throw new InputError(`table: paired data need a square table (the same categories for both classifications), found ${k}×${counts[0].length}`, { argument: { name: 'table' } }, 'not-square');
   }
   return k === 2 ? mcnemarTest(counts, options) : bowkerTest(counts, options);
 }
@@ -75,9 +75,9 @@ export function mcnemarStatistics(b: number, c: number): McNemarStatistics {
 }
 
 export function mcnemarTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {
-  const counts = requireCountTable(table, '$.table');
+  const counts = requireCountTable(table, { name: 'table' });
   if (counts.length !== 2 || counts[0].length !== 2) {
-    throw new InputError(`table: McNemar's test needs a 2×2 table, found ${counts.length}×${counts[0].length}`, { jsonPath: '$.table' }, 'wrong-shape');
+    throw new InputError(`table: McNemar's test needs a 2×2 table, found ${counts.length}×${counts[0].length}`, { argument: { name: 'table' } }, 'wrong-shape');
   }
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
@@ -150,10 +150,10 @@ function pairingAssumption(): TestResult['assumptions'][number] {
 }
 
 export function bowkerTest(table: readonly (readonly number[])[], options: PairedOptions = {}): TestResult {
-  const counts = requireCountTable(table, '$.table');
+  const counts = requireCountTable(table, { name: 'table' });
   const k = counts.length;
   if (counts.some((row) => row.length !== k)) {
-    throw new InputError(`table: Bowker's test of symmetry needs a square table, found ${k}×${counts[0].length}`, { jsonPath: '$.table' }, 'not-square');
+    throw new InputError(`table: Bowker's test of symmetry needs a square table, found ${k}×${counts[0].length}`, { argument: { name: 'table' } }, 'not-square');
   }
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const labels = labelsOr(options.labels, k, 'category ', 'labels');
@@ -177,7 +177,7 @@ export function bowkerTest(table: readonly (readonly number[])[], options: Paire
     notices.push(info('empty-pairs-dropped', `No unit moved either way between ${skipped.join(', ')}; ${skipped.length === 1 ? 'this pair adds' : 'these pairs add'} nothing to the statistic and ${skipped.length === 1 ? 'was' : 'were'} left out of the degrees of freedom.`));
   }
   const df = terms.length;
-  if (df === 0) throw new InputError('table: every unit kept its category (all off-diagonal counts are 0), so symmetry cannot be tested.', { jsonPath: '$.table' }, 'no-discordant-pairs');
+  if (df === 0) throw new InputError('table: every unit kept its category (all off-diagonal counts are 0), so symmetry cannot be tested.', { argument: { name: 'table' } }, 'no-discordant-pairs');
   const line = chiSquareLine('bowker', "Bowker's test of symmetry", 'X²', sum(terms), df);
   const n = sum(counts.flat());
   const significant = line.pValue.value < alpha;

@@ -97,11 +97,11 @@ const ADJUSTMENT_NAMES: Record<Adjustment, string> = {
 
 /** Post-hoc comparisons on an r×c table, with the overall Pearson test at the head of the result. */
 export function postHocTest(table: readonly (readonly number[])[], options: PostHocOptions = {}): TestResult {
-  const counts = requireCountTable(table, '$.table');
+  const counts = requireCountTable(table, { name: 'table' });
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const compare = requireChoice<Comparison>(options.compare, ['rows', 'columns', 'cells'], 'cells', 'compare');
   const adjustment = options.adjustment ?? 'holm';
-  if (!(adjustment in ADJUSTMENT_NAMES)) throw new InputError(`adjustment: expected one of ${Object.keys(ADJUSTMENT_NAMES).join(', ')}, found ${String(adjustment)}`, { jsonPath: '$.adjustment' }, 'invalid-adjustment');
+  if (!(adjustment in ADJUSTMENT_NAMES)) throw new InputError(`adjustment: expected one of ${Object.keys(ADJUSTMENT_NAMES).join(', ')}, found ${String(adjustment)}`, { argument: { name: 'adjustment' } }, 'invalid-adjustment');
   const rowLabels = labelsOr(options.rowLabels, counts.length, 'row ', 'rowLabels');
   const columnLabels = labelsOr(options.columnLabels, counts[0].length, 'column ', 'columnLabels');
   const rows = rowSums(counts);
@@ -110,9 +110,9 @@ export function postHocTest(table: readonly (readonly number[])[], options: Post
   const emptyColumn = cols.findIndex((x) => x === 0);
   if (emptyRow >= 0 || emptyColumn >= 0) {
     const what = emptyRow >= 0 ? `row ${emptyRow + 1} ("${rowLabels[emptyRow]}")` : `column ${emptyColumn + 1} ("${columnLabels[emptyColumn]}")`;
-    throw new InputError(`table: ${what} has no counts; remove it before post-hoc comparisons`, { jsonPath: '$.table' }, 'empty-margin');
+    throw new InputError(`table: ${what} has no counts; remove it before post-hoc comparisons`, { argument: { name: 'table' } }, 'empty-margin');
   }
-  if (counts.length < 2 || counts[0].length < 2) throw new InputError(`table: expected at least a 2×2 table, found ${counts.length}×${counts[0].length}`, { jsonPath: '$.table' }, 'wrong-shape');
+  if (counts.length < 2 || counts[0].length < 2) throw new InputError(`table: expected at least a 2×2 table, found ${counts.length}×${counts[0].length}`, { argument: { name: 'table' } }, 'wrong-shape');
   const overall = pearsonTable(counts);
   const overallLine = chiSquareLine('pearson', 'Pearson chi-square (overall)', 'X²', overall.statistic, overall.df);
   const notices: Notice[] = [];

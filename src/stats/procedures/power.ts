@@ -37,7 +37,7 @@ export interface PowerQuestion {
 const MAX_N = 1e9;
 
 function fail(field: string, message: string): never {
-  throw new InputError(`${field}: ${message}`, { jsonPath: `$.${field}` }, `invalid-${field}`);
+  throw new InputError(`${field}: ${message}`, { argument: { name: field } }, `invalid-${field}`);
 }
 
 /** Power of the chi-square test with df degrees of freedom for effect size w and n units. */

@@ -46,18 +46,18 @@ export interface Stratum {
 
 function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stratum[]; notices: Notice[]; r: number; c: number } {
   if (!Array.isArray(strata) || strata.length === 0) {
-    throw new InputError('strata: expected an array of tables (one per stratum), found none', { jsonPath: '$.strata' }, 'no-strata');
+    throw new InputError('strata: expected an array of tables (one per stratum), found none', { argument: { name: 'strata' } }, 'no-strata');
   }
   const labels = labelsOr(options.stratumLabels, strata.length, 'stratum ', 'stratumLabels');
-  const tables = strata.map((t, k) => requireCountTable(t, `$.strata[${k}]`, `stratum ${k + 1} (${labels[k]})`));
+  const tables = strata.map((t, k) => requireCountTable(t, { name: 'strata', at: [k] }, `stratum ${k + 1} (${labels[k]})`));
   const r = tables[0].length;
   const c = tables[0][0].length;
   tables.forEach((t, k) => {
     if (t.length !== r || t[0].length !== c) {
-      throw new InputError(`strata[${k}] (${labels[k]}): expected a ${r}×${c} table like the first stratum, found ${t.length}×${t[0].length}`, { jsonPath: `$.strata[${k}]` }, 'wrong-shape');
+      throw new InputError(`strata[${k}] (${labels[k]}): expected a ${r}×${c} table like the first stratum, found ${t.length}×${t[0].length}`, { argument: { name: 'strata', at: [k] } }, 'wrong-shape');
     }
   });
-  if (r < 2 || c < 2) throw new InputError(`strata: each stratum must be at least 2×2, found ${r}×${c}`, { jsonPath: '$.strata' }, 'wrong-shape');
+  if (r < 2 || c < 2) throw new InputError(`strata: each stratum must be at least 2×2, found ${r}×${c}`, { argument: { name: 'strata' } }, 'wrong-shape');
   const notices: Notice[] = [];
   const kept: Stratum[] = [];
   const dropped: string[] = [];
@@ -69,8 +69,8 @@ function readStrata(strata: unknown, options: StratifiedOptions): { strata: Stra
   if (dropped.length > 0) {
     notices.push(info('strata-dropped', `Strata with fewer than 2 units carry no information and were left out: ${dropped.join(', ')}.`));
   }
-  if (kept.length === 0) throw new InputError('strata: every stratum has fewer than 2 units', { jsonPath: '$.strata' }, 'no-strata');
-  requireCountTotal(sum(kept.map((x) => x.n)), 'strata', '$.strata');
+  if (kept.length === 0) throw new InputError('strata: every stratum has fewer than 2 units', { argument: { name: 'strata' } }, 'no-strata');
+  requireCountTotal(sum(kept.map((x) => x.n)), 'strata', { name: 'strata' });
   return { strata: kept, notices, r, c };
 }
 
@@ -293,7 +293,7 @@ function cmh2x2(strata: readonly Stratum[], notices: Notice[], options: Stratifi
   const exactFits = cost.work <= EXACT_STRATIFIED_WORK_LIMIT && cost.support <= EXACT_STRATIFIED_SUPPORT_LIMIT;
   const limitText = `the exact conditional distribution of Σa here has ${cost.support} values and costs ${cost.work.toPrecision(3)} steps; the limits are ${EXACT_STRATIFIED_SUPPORT_LIMIT} values and ${EXACT_STRATIFIED_WORK_LIMIT.toPrecision(1)} steps`;
   if (!exactFits && method === 'exact') {
-    throw new InputError(`method: ${limitText}, so the exact test is not computed for counts this large; use "asymptotic" (the chi-square approximation is accurate at these sizes)`, { jsonPath: '$.method' }, 'exact-too-large');
+    throw new InputError(`method: ${limitText}, so the exact test is not computed for counts this large; use "asymptotic" (the chi-square approximation is accurate at these sizes)`, { argument: { name: 'method' } }, 'exact-too-large');
   }
   if (!exactFits) notices.push(info('exact-too-large', `The exact conditional test and the conditional estimate of the common odds ratio are left out: ${limitText}.`));
   const exact = exactFits ? convolvedLogPmf(tables) : null;
@@ -454,10 +454,10 @@ function cmhQuadratic(strata: readonly Stratum[], rowPart: Matrix, columnPart: M
   return { statistic: g.reduce((acc, gi, i) => acc + gi * x[i], 0), df: q };
 }
 
-function scoresOr(scores: readonly number[] | undefined, count: number, what: string, jsonPath: string): number[] {
+function scoresOr(scores: readonly number[] | undefined, count: number, what: 'rowScores' | 'columnScores'): number[] {
   if (scores === undefined) return Array.from({ length: count }, (_, i) => i + 1);
   if (scores.length !== count || scores.some((x) => !Number.isFinite(x))) {
-    throw new InputError(`${what}: expected ${count} finite scores, found ${JSON.stringify(scores)}`, { jsonPath }, 'invalid-scores');
+    throw new InputError(`${what}: expected ${count} finite scores, found ${JSON.stringify(scores)}`, { argument: { name: what } }, 'invalid-scores');
   }
   return scores.slice();
 }
@@ -483,10 +483,10 @@ export function generalizedCmhStatistics(
 function generalizedCmh(strata: readonly Stratum[], notices: Notice[], r: number, c: number, options: StratifiedOptions): TestResult {
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   if (options.method === 'exact') {
-    throw new InputError('method: the exact conditional test is available for 2×2×K strata only; use "asymptotic" for R×C×K', { jsonPath: '$.method' }, 'method-unavailable');
+    throw new InputError('method: the exact conditional test is available for 2×2×K strata only; use "asymptotic" for R×C×K', { argument: { name: 'method' } }, 'method-unavailable');
   }
-  const rowScores = scoresOr(options.rowScores, r, 'rowScores', '$.rowScores');
-  const columnScores = scoresOr(options.columnScores, c, 'columnScores', '$.columnScores');
+  const rowScores = scoresOr(options.rowScores, r, 'rowScores');
+  const columnScores = scoresOr(options.columnScores, c, 'columnScores');
   const s = generalizedCmhStatistics(strata, r, c, rowScores, columnScores);
   const main = s.general;
   const significant = main.pValue.value < alpha;

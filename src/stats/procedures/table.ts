@@ -212,23 +212,23 @@ export function adjustedResidual(o: number, rowTotal: number, columnTotal: numbe
 
 function prepare(table: readonly (readonly number[])[], options: IndependenceTestOptions): Prepared {
   if (!Array.isArray(table as unknown) || table.length === 0) {
-    throw new InputError('table: expected an array of rows of counts, found an empty table', { jsonPath: '$.table' }, 'table-too-small');
+    throw new InputError('table: expected an array of rows of counts, found an empty table', { argument: { name: 'table' } }, 'table-too-small');
   }
   table.forEach((row, i) => {
-    if (!Array.isArray(row as unknown)) throw new InputError(`row ${i + 1}: expected an array of counts, found ${JSON.stringify(row)}`, { jsonPath: `$.table[${i}]` }, 'invalid-row');
+    if (!Array.isArray(row as unknown)) throw new InputError(`row ${i + 1}: expected an array of counts, found ${JSON.stringify(row)}`, { argument: { name: 'table', at: [i] } }, 'invalid-row');
   });
   const width = table[0].length;
   table.forEach((row, i) => {
     if (row.length !== width) {
-      throw new InputError(`row ${i + 1}: expected ${width} counts like row 1, found ${row.length}`, { jsonPath: `$.table[${i}]` }, 'ragged-row');
+      throw new InputError(`row ${i + 1}: expected ${width} counts like row 1, found ${row.length}`, { argument: { name: 'table', at: [i] } }, 'ragged-row');
     }
   });
   const rowLabels = labelsFor(options.rowLabels, table.length, 'row', 'rowLabels');
   const columnLabels = labelsFor(options.columnLabels, width, 'column', 'columnLabels');
   table.forEach((row, i) =>
-    row.forEach((value, j) => requireCount(value, `row ${i + 1} (\`${rowLabels[i]}\`), column ${j + 1} (\`${columnLabels[j]}\`)`, `$.table[${i}][${j}]`)),
+    row.forEach((value, j) => requireCount(value, `row ${i + 1} (\`${rowLabels[i]}\`), column ${j + 1} (\`${columnLabels[j]}\`)`, { name: 'table', at: [i, j] })),
   );
-  requireCountTotal(compensatedSum(table.flat()), 'table', '$.table');
+  requireCountTotal(compensatedSum(table.flat()), 'table', { name: 'table' });
 
   const notices: Notice[] = [];
   const keepRows = table.map((row) => row.some((v) => v > 0));
@@ -248,7 +248,7 @@ function prepare(table: readonly (readonly number[])[], options: IndependenceTes
     const dropped = droppedRows.length + droppedColumns.length > 0 ? ' after leaving out rows and columns whose total is 0' : '';
     throw new InputError(
       `table: a test of independence needs at least 2 rows and 2 columns with counts; this table is ${r}×${c}${dropped}`,
-      { jsonPath: '$.table' },
+      { argument: { name: 'table' } },
       'table-too-small',
     );
   }
@@ -263,7 +263,7 @@ function prepare(table: readonly (readonly number[])[], options: IndependenceTes
 function labelsFor(given: readonly string[] | undefined, count: number, kind: 'row' | 'column', key: string): string[] {
   if (given === undefined) return Array.from({ length: count }, (_, i) => `${kind} ${i + 1}`);
   if (given.length !== count) {
-    throw new InputError(`${key}: expected ${count} labels (one per ${kind}), found ${given.length}`, { jsonPath: `$.${key}` }, 'length-mismatch');
+    throw new InputError(`${key}: expected ${count} labels (one per ${kind}), found ${given.length}`, { argument: { name: key } }, 'length-mismatch');
   }
   return given.map(String);
 }

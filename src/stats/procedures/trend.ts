@@ -29,15 +29,15 @@ export interface TrendOptions {
   readonly columnLabels?: readonly string[];
 }
 
-function requireScores(scores: readonly number[] | undefined, count: number, jsonPath: string, what: string): number[] {
+function requireScores(scores: readonly number[] | undefined, count: number, what: 'scores' | 'rowScores' | 'columnScores'): number[] {
   if (scores === undefined) return Array.from({ length: count }, (_, i) => i + 1);
   if (!Array.isArray(scores) || scores.length !== count) {
-    throw new InputError(`${what}: expected ${count} scores (one per ordered category), found ${Array.isArray(scores) ? scores.length : JSON.stringify(scores)}`, { jsonPath }, 'invalid-scores');
+    throw new InputError(`${what}: expected ${count} scores (one per ordered category), found ${Array.isArray(scores) ? scores.length : JSON.stringify(scores)}`, { argument: { name: what } }, 'invalid-scores');
   }
   scores.forEach((s, i) => {
-    if (typeof s !== 'number' || !Number.isFinite(s)) throw new InputError(`${what}[${i}]: expected a finite number, found ${JSON.stringify(s)}`, { jsonPath: `${jsonPath}[${i}]` }, 'invalid-scores');
+    if (typeof s !== 'number' || !Number.isFinite(s)) throw new InputError(`${what}[${i}]: expected a finite number, found ${JSON.stringify(s)}`, { argument: { name: what, at: [i] } }, 'invalid-scores');
   });
-  if (new Set(scores).size === 1) throw new InputError(`${what}: all scores are equal, so there is no order to test`, { jsonPath }, 'invalid-scores');
+  if (new Set(scores).size === 1) throw new InputError(`${what}: all scores are equal, so there is no order to test`, { argument: { name: what } }, 'invalid-scores');
   return scores.slice();
 }
 
@@ -49,15 +49,15 @@ function normalSides(z: number): { greater: Probability; less: Probability; twoS
 }
 
 export function cochranArmitageTest(table: readonly (readonly number[])[], options: TrendOptions = {}): TestResult {
-  const counts = requireCountTable(table, '$.table');
+  const counts = requireCountTable(table, { name: 'table' });
   if (counts.length !== 2) {
-    throw new InputError(`table: the trend test needs 2 rows (events, non-events) and one column per ordered group, found ${counts.length} rows`, { jsonPath: '$.table' }, 'wrong-shape');
+    throw new InputError(`table: the trend test needs 2 rows (events, non-events) and one column per ordered group, found ${counts.length} rows`, { argument: { name: 'table' } }, 'wrong-shape');
   }
   const k = counts[0].length;
-  if (k < 2) throw new InputError(`table: the trend test needs at least 2 ordered groups, found ${k}`, { jsonPath: '$.table' }, 'wrong-shape');
+  if (k < 2) throw new InputError(`table: the trend test needs at least 2 ordered groups, found ${k}`, { argument: { name: 'table' } }, 'wrong-shape');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const alternative = requireChoice<Alternative>(options.alternative, ALTERNATIVES, 'two-sided', 'alternative');
-  const scores = requireScores(options.scores, k, '$.scores', 'scores');
+  const scores = requireScores(options.scores, k, 'scores');
   const rowLabels = labelsOr(options.rowLabels, 2, 'row ', 'rowLabels');
   const columnLabels = labelsOr(options.columnLabels, k, 'group ', 'columnLabels');
   const events = counts[0];
@@ -65,13 +65,13 @@ export function cochranArmitageTest(table: readonly (readonly number[])[], optio
   const n = sum(totals);
   const eventTotal = sum(events);
   if (eventTotal === 0 || eventTotal === n) {
-    throw new InputError(`table: every unit is in row "${rowLabels[eventTotal === 0 ? 1 : 0]}", so the proportion cannot vary`, { jsonPath: '$.table' }, 'constant-row');
+    throw new InputError(`table: every unit is in row "${rowLabels[eventTotal === 0 ? 1 : 0]}", so the proportion cannot vary`, { argument: { name: 'table' } }, 'constant-row');
   }
   const pBar = eventTotal / n;
   const sBar = sum(totals.map((t, j) => t * scores[j])) / n;
   const numerator = sum(events.map((x, j) => x * (scores[j] - sBar)));
   const spread = sum(totals.map((t, j) => t * (scores[j] - sBar) ** 2));
-  if (!(spread > 0)) throw new InputError('scores: all units fall in groups with the same score, so there is no order to test', { jsonPath: '$.scores' }, 'invalid-scores');
+  if (!(spread > 0)) throw new InputError('scores: all units fall in groups with the same score, so there is no order to test', { argument: { name: 'scores' } }, 'invalid-scores');
   const z = numerator / Math.sqrt(pBar * (1 - pBar) * spread);
   const trend = z * z;
   const sides = normalSides(z);
@@ -134,14 +134,14 @@ export interface LinearByLinearOptions {
 
 /** Linear-by-linear association M² = (N − 1) r² for an r×c table of two ordinal variables. */
 export function linearByLinearTest(table: readonly (readonly number[])[], options: LinearByLinearOptions = {}): TestResult {
-  const counts = requireCountTable(table, '$.table');
+  const counts = requireCountTable(table, { name: 'table' });
   const r = counts.length;
   const c = counts[0].length;
-  if (r < 2 || c < 2) throw new InputError(`table: expected at least a 2×2 table, found ${r}×${c}`, { jsonPath: '$.table' }, 'wrong-shape');
+  if (r < 2 || c < 2) throw new InputError(`table: expected at least a 2×2 table, found ${r}×${c}`, { argument: { name: 'table' } }, 'wrong-shape');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
   const alternative = requireChoice<Alternative>(options.alternative, ALTERNATIVES, 'two-sided', 'alternative');
-  const u = requireScores(options.rowScores, r, '$.rowScores', 'rowScores');
-  const v = requireScores(options.columnScores, c, '$.columnScores', 'columnScores');
+  const u = requireScores(options.rowScores, r, 'rowScores');
+  const v = requireScores(options.columnScores, c, 'columnScores');
   const rows = rowSums(counts);
   const cols = columnSums(counts);
   const n = sum(rows);
@@ -150,7 +150,7 @@ export function linearByLinearTest(table: readonly (readonly number[])[], option
   const sxy = sum(counts.flatMap((row, i) => row.map((x, j) => x * (u[i] - uBar) * (v[j] - vBar))));
   const sxx = sum(rows.map((x, i) => x * (u[i] - uBar) ** 2));
   const syy = sum(cols.map((x, j) => x * (v[j] - vBar) ** 2));
-  if (!(sxx > 0 && syy > 0)) throw new InputError('table: all units share one row score or one column score, so the correlation is undefined', { jsonPath: '$.table' }, 'invalid-scores');
+  if (!(sxx > 0 && syy > 0)) throw new InputError('table: all units share one row score or one column score, so the correlation is undefined', { argument: { name: 'table' } }, 'invalid-scores');
   const correlation = sxy / Math.sqrt(sxx * syy);
   const m2 = (n - 1) * correlation * correlation;
   const z = Math.sign(correlation) * Math.sqrt(m2);

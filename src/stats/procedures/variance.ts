@@ -9,7 +9,7 @@
  * raw data (or streamed moments) the result also reports skewness, excess kurtosis and Bonett's (2006)
  * kurtosis-adjusted interval as a robust alternative.
  */
-import { InputError } from '../../errors';
+import { InputError, type ArgumentLocation } from '../../errors';
 import { describeAlpha, describeP, formatNumber, independenceAssumption, nameOf, requireLevel } from './assumptions';
 import { chiSquareLowerProbability, chiSquareQuantile, chiSquareUpperProbability, chiSquareUpperQuantile } from '../distributions/chisquare';
 import { compensatedSum, MomentAccumulator, type MomentSummary, sampleExcessKurtosis, sampleSkewness } from '../moments';
@@ -40,7 +40,7 @@ export type VarianceSummary = { readonly n: number; readonly sd: number } | { re
 export function varianceTestFromValues(values: readonly number[], options: VarianceTestOptions): TestResult {
   values.forEach((v, i) => {
     if (typeof v !== 'number' || !Number.isFinite(v)) {
-      throw new InputError(`value ${i + 1}: expected a finite number, found ${String(v)}`, { jsonPath: `$.values[${i}]` }, 'invalid-value');
+      throw new InputError(`value ${i + 1}: expected a finite number, found ${String(v)}`, { argument: { name: 'values', at: [i] } }, 'invalid-value');
     }
   });
   return varianceTest(twoPassMoments(values), options, 'values', values);
@@ -80,8 +80,8 @@ function twoPassMoments(values: readonly number[]): MomentSummary {
 /** From streamed moments (the CSV and SQL paths). m3 and m4 are used for the shape checks when finite. */
 export function varianceTestFromMoments(moments: MomentSummary, options: VarianceTestOptions): TestResult {
   if (!Number.isFinite(moments.m2) || moments.m2 < 0) {
-    // Streamed moments come from the column named by source.columns[0] (the CSV and SQL paths), so that is where to look.
-    throw new InputError(`moments${options.variable ? ` of ${options.variable}` : ''}: expected a finite sum of squared deviations ≥ 0, found ${String(moments.m2)}`, { jsonPath: '$.source.columns[0]' }, 'invalid-moments');
+    // Streamed moments (the file and database readers): the argument is `moments`, wherever they were read from.
+    throw new InputError(`moments${options.variable ? ` of ${options.variable}` : ''}: expected a finite sum of squared deviations ≥ 0, found ${String(moments.m2)}`, { argument: { name: 'moments', at: ['m2'] } }, 'invalid-moments');
   }
   return varianceTest(moments, options, 'moments');
 }
@@ -91,22 +91,22 @@ export function varianceTestFromSummary(summary: VarianceSummary, options: Varia
   const hasSd = 'sd' in summary && summary.sd !== undefined;
   const hasVariance = 'variance' in summary && summary.variance !== undefined;
   if (hasSd === hasVariance) {
-    throw new InputError(`summary: give exactly one of sd or variance, found ${hasSd ? 'both' : 'neither'}`, { jsonPath: '$.summary' }, 'invalid-summary');
+    throw new InputError(`summary: give exactly one of sd or variance, found ${hasSd ? 'both' : 'neither'}`, { argument: { name: 'summary' } }, 'invalid-summary');
   }
   const key = hasSd ? 'sd' : 'variance';
   const given = hasSd ? (summary as { sd: number }).sd : (summary as { variance: number }).variance;
   if (typeof given !== 'number' || !Number.isFinite(given) || given < 0) {
-    throw new InputError(`summary.${key}: expected a finite number ≥ 0, found ${String(given)}`, { jsonPath: `$.summary.${key}` }, 'invalid-summary');
+    throw new InputError(`summary.${key}: expected a finite number ≥ 0, found ${String(given)}`, { argument: { name: 'summary', at: [key] } }, 'invalid-summary');
   }
   const variance = hasSd ? given * given : given;
-  requireSampleSize(summary.n, '$.summary.n');
+  requireSampleSize(summary.n, { name: 'summary', at: ['n'] });
   const moments: MomentSummary = { n: summary.n, mean: NaN, m2: variance * (summary.n - 1), m3: NaN, m4: NaN, min: NaN, max: NaN };
   return varianceTest(moments, options, 'summary');
 }
 
-function requireSampleSize(n: number, jsonPath: string): void {
+function requireSampleSize(n: number, argument: ArgumentLocation): void {
   if (typeof n !== 'number' || !Number.isInteger(n) || n < 2) {
-    throw new InputError(`n: expected a whole number ≥ 2 (the variance needs at least two values), found ${String(n)}`, { jsonPath }, 'too-few-values');
+    throw new InputError(`n: expected a whole number ≥ 2 (the variance needs at least two values), found ${String(n)}`, { argument }, 'too-few-values');
   }
 }
 
@@ -119,19 +119,19 @@ interface Hypothesis {
 function hypothesisFrom(options: VarianceTestOptions): Hypothesis {
   const { sigma0, variance0 } = options;
   if ((sigma0 === undefined) === (variance0 === undefined)) {
-    throw new InputError(`give exactly one of sigma0 or variance0, found ${sigma0 === undefined ? 'neither' : 'both'}`, { jsonPath: '$.sigma0' }, 'invalid-hypothesis');
+    throw new InputError(`give exactly one of sigma0 or variance0, found ${sigma0 === undefined ? 'neither' : 'both'}`, { argument: { name: 'sigma0' } }, 'invalid-hypothesis');
   }
   const key = sigma0 !== undefined ? 'sigma0' : 'variance0';
   const value = (sigma0 ?? variance0) as number;
   if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) {
-    throw new InputError(`${key}: expected a finite number > 0, found ${String(value)}`, { jsonPath: `$.${key}` }, 'invalid-hypothesis');
+    throw new InputError(`${key}: expected a finite number > 0, found ${String(value)}`, { argument: { name: key } }, 'invalid-hypothesis');
   }
   const squared = sigma0 !== undefined ? value * value : value;
   // σ0² must be a normal double: below about 2.2e-308 it has lost digits (1e-160² = 1e-320), above 1.8e308 it is ∞.
   if (!(squared >= MIN_NORMAL && squared < Infinity)) {
     throw new InputError(
       `${key}: ${String(value)}${sigma0 !== undefined ? ', whose square' : ''} is outside the range of double-precision numbers (about 2.2e-308 to 1.8e308); express the values and ${key} in other units`,
-      { jsonPath: `$.${key}` },
+      { argument: { name: key } },
       'out-of-range',
     );
   }
@@ -146,28 +146,27 @@ function varianceTest(moments: MomentSummary, options: VarianceTestOptions, sour
   const hypothesis = hypothesisFrom(options);
   const alternative = options.alternative ?? 'two-sided';
   if (!ALTERNATIVES.includes(alternative)) {
-    throw new InputError(`alternative: expected one of ${ALTERNATIVES.join(', ')}, found ${String(alternative)}`, { jsonPath: '$.alternative' }, 'invalid-alternative');
+    throw new InputError(`alternative: expected one of ${ALTERNATIVES.join(', ')}, found ${String(alternative)}`, { argument: { name: 'alternative' } }, 'invalid-alternative');
   }
   const confidence = requireLevel(options.confidence ?? 0.95, 'confidence');
   const alpha = requireLevel(options.alpha ?? 0.05, 'alpha');
-  requireSampleSize(moments.n, source === 'values' ? '$.values' : source === 'summary' ? '$.summary.n' : '$');
+  requireSampleSize(moments.n, source === 'values' ? { name: 'values' } : { name: source, at: ['n'] });
 
   const n = moments.n;
   const df = n - 1;
   const sumSquares = moments.m2;
   const variance = sumSquares / df;
   const statistic = sumSquares / hypothesis.variance0;
-  const where = source === 'values' ? '$.values' : source === 'summary' ? '$.summary' : '$.source.columns[0]';
-  if (!Number.isFinite(sumSquares)) {
+    if (!Number.isFinite(sumSquares)) {
     throw new InputError(
       `values: the sum of squared deviations from the mean is beyond the range of double-precision numbers (about 1.8e308); express the values in smaller units (divide them and ${hypothesis.bySd ? 'sigma0' : 'variance0'} by a power of ten)`,
-      { jsonPath: where },
+      { argument: { name: source } },
       'out-of-range',
     );
   }
   if (!Number.isFinite(statistic)) {
     const key = hypothesis.bySd ? 'sigma0' : 'variance0';
-    throw new InputError(`${key}: the statistic Σ(x − x̄)²/σ0² = ${sumSquares.toPrecision(3)}/${hypothesis.variance0.toPrecision(3)} is beyond the range of double-precision numbers; ${key} is far smaller than the spread of the values (s = ${Math.sqrt(variance).toPrecision(3)})`, { jsonPath: `$.${key}` }, 'out-of-range');
+    throw new InputError(`${key}: the statistic Σ(x − x̄)²/σ0² = ${sumSquares.toPrecision(3)}/${hypothesis.variance0.toPrecision(3)} is beyond the range of double-precision numbers; ${key} is far smaller than the spread of the values (s = ${Math.sqrt(variance).toPrecision(3)})`, { argument: { name: key } }, 'out-of-range');
   }
   const lower = chiSquareLowerProbability(statistic, df);
   const upper = chiSquareUpperProbability(statistic, df);

@@ -4,7 +4,7 @@ import { strict as assert } from 'node:assert';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { offerFromNotebookOutput } from '../../../src/planner/offer';
+import { offerFromNotebookOutput, offerFromText } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
 import { runSpec } from '../../../src/savedtest/run';
 import type { TestResult } from '../../../src/stats/result';
@@ -56,6 +56,20 @@ describe('the planner on the other demo data', () => {
     assert.equal((result as TestResult).n, table.flat().reduce((a, b) => a + b, 0));
     // The table as the notebook prints it (41 18 25 / 33 29 19 / 52 14 30): N = 261.
     assert.equal((result as TestResult).n, 261);
+  });
+
+  it("cell 2's 3×3 (markets × seed treatments) is not offered for the paired test; a table whose columns repeat its rows in another order is, aligned", async () => {
+    const cell = offerFromNotebookOutput('text/html', cellOutput(1, 'text/html'), { file: 'weekend-loaves.ipynb, cell 2', description: 'output of cell 2' });
+    const listing = new ScriptedQuestions({ 'Which test?': false });
+    await assert.rejects(plan({ offer: cell, questions: listing, settings, specFolder: demo }));
+    assert.ok(!listing.asked[0].choices!.includes('Paired classifications'), listing.asked[0].choices!.join(' | '));
+    // Before (rows) × after (columns) of 40 invented kiln checks, the after columns written fail-first.
+    const square = offerFromText('before,fail,pass\npass,5,25\nfail,6,4\n', { description: 'selection' });
+    const { planned, result } = await planAndRun(square, { 'Which test?': 'Paired classifications' });
+    assert.deepEqual(planned.spec.table, [[25, 5], [4, 6]], 'columns reordered to pass, fail');
+    assert.deepEqual([planned.spec.rowLabels, planned.spec.columnLabels], [['pass', 'fail'], ['pass', 'fail']]);
+    // McNemar's statistic from the discordant cells b = 5, c = 4: (b − c)² / (b + c) = 1/9 (closed form).
+    assert.ok(Math.abs(result.statistic - 1 / 9) < 1e-12, String(result.statistic));
   });
 
   it("weekend-loaves.ipynb, cell 4's JSON values: the variance test on 12 values (too few for a distribution fit, which says so)", async () => {

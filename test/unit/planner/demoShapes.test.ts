@@ -10,7 +10,7 @@ import { offerFromText } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
 import { inferShape, profileColumns } from '../../../src/planner/profile';
 import { ScriptedQuestions } from './fakeQuestions';
-import { demo, fileOffer, planAndRun, settings } from './helpers';
+import { demo, fileOffer, fileOfferAt, planAndRun, settings } from './helpers';
 
 async function refusal(work: () => Promise<unknown>, code: string, pattern: RegExp): Promise<void> {
   try {
@@ -53,6 +53,55 @@ describe('shape inference on the demo files', () => {
     const { planned, result } = await planAndRun(offerFromText(text, { description: 'selection' }), { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'area', 'Choose the columns': 'purpose' });
     assert.equal(result.n, 1300);
     assert.deepEqual((planned.spec.table as number[][])[0], [124, 37, 83, 27], 'Riverside: commute, errand, leisure, tourism');
+  });
+
+  it('bakery-defects.csv: `tray` numbers the rows (1 to 1,800, no gap), so it is offered last, said so, and confirmed before its spread is tested', async () => {
+    const trays = readFileSync(join(demo, 'data', 'bakery-defects.csv'), 'utf8').split('\n').slice(2).filter(Boolean).map((l) => Number(l.split(',')[0]));
+    assert.deepEqual([trays.length, Math.min(...trays), Math.max(...trays), new Set(trays).size], [1800, 1, 1800, 1800], 'read from the file');
+    const ask = { 'Which test?': 'Variance of one numeric variable', 'Hypothesised standard deviation σ0': '10', 'Alternative hypothesis': 'σ differs from σ0' };
+    const declined = new ScriptedQuestions({ ...ask, 'Choose the column': 'tray', 'A column that numbers the rows': false });
+    await refusal(() => plan({ offer: fileOffer('bakery-defects.csv'), questions: declined, settings, specFolder: demo }), 'row-number-as-measurement', /`tray` numbers the rows/);
+    const offered = declined.asked.find((a) => a.placeholder === 'Choose the column')!;
+    assert.deepEqual(offered.choices, ['weight_g', 'tray'], 'the measurement first, the numbering last');
+    assert.match(offered.details![1] ?? '', /numbers the rows: every value different, 1 to 1,800 with no gap/);
+    assert.match(declined.asked.at(-1)!.placeholder ?? '', /1,800 different whole numbers from 1 to 1,800 with no gap/);
+    // Accepted, it runs on the numbers as asked; the real measurement is asked without any confirmation.
+    const { result } = await planAndRun(fileOffer('bakery-defects.csv'), { ...ask, 'Choose the column': 'tray', 'A column that numbers the rows': true });
+    assert.equal(result.n, 1800);
+    const weights = await planAndRun(fileOffer('bakery-defects.csv'), { ...ask, 'Choose the column': 'weight_g' });
+    assert.ok(!weights.questions.asked.some((a) => a.title === 'A column that numbers the rows'));
+  });
+
+  it('advanced/data/filler-log.csv: the bottle number makes every row unique, so `line_speed` (210, 180, …) is not taken for a frequency weight', async () => {
+    const file = join(demo, 'advanced', 'data', 'filler-log.csv');
+    const records = parseDelimited(readFileSync(file, 'utf8'), { file });
+    assert.equal(records.rows.length, 2000);
+    assert.equal(inferShape(records, profileColumns(records, settings.missingValues)).kind, 'raw', 'one row per bottle');
+    const offer = await fileOfferAt(file, 'advanced/data/filler-log.csv');
+    // Counted per bottle, every cell is 1: refused, not weighted by the line speed.
+    await refusal(() => planAndRun(offer, { 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': 'bottle', 'Expected distribution': 'Equal proportions' }), 'one-per-row', /N = 2000, the number of rows/);
+    const { planned, result } = await planAndRun(offer, { 'Which test?': 'Independence of two categorical variables', 'Choose the rows': 'line_speed', 'Choose the columns': 'fill_check' });
+    assert.equal((planned.spec.source as { weight?: string }).weight, undefined);
+    assert.equal(result.n, 2000, 'one bottle per row');
+  });
+
+  it('advanced/data/cafe-panel.csv: the member column (different on every row) is offered last for a category, with the reason', async () => {
+    const offer = await fileOfferAt(join(demo, 'advanced', 'data', 'cafe-panel.csv'), 'advanced/data/cafe-panel.csv');
+    const questions = new ScriptedQuestions({ 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': false });
+    await assert.rejects(plan({ offer, questions, settings, specFolder: demo }));
+    const column = questions.asked.find((a) => a.placeholder === 'Choose the column')!;
+    assert.deepEqual(column.choices, ['before', 'after', 'member']);
+    assert.match(column.details![2] ?? '', /different on every row \(M1001, M1002, M1003, …\): names the rows/);
+  });
+
+  it('a short run or a run with a gap or a repeat is not a row numbering', () => {
+    const numbering = (values: number[]) => profileColumns({ columns: ['x'], rows: values.map((v) => [String(v)]), lines: values.map((_, i) => i + 2) }, [])[0].rowNumber;
+    assert.deepEqual(numbering(Array.from({ length: 10 }, (_, i) => 20001 + i)), { from: 20001, to: 20010 });
+    assert.deepEqual(numbering([5, 3, 4, 1, 2, 10, 9, 8, 7, 6]), { from: 1, to: 10 }, 'order does not matter');
+    assert.equal(numbering(Array.from({ length: 9 }, (_, i) => i + 1)), undefined, 'fewer than 10 values');
+    assert.equal(numbering([1, 2, 3, 4, 5, 6, 7, 8, 9, 11]), undefined, 'a gap');
+    assert.equal(numbering([1, 2, 3, 4, 5, 6, 7, 8, 9, 9]), undefined, 'a repeat');
+    assert.equal(numbering([1, 2, 3, 4, 5, 6, 7, 8, 9, 10.5]), undefined, 'a fraction');
   });
 
   it('a numeric column with one stray word is offered for the variance test with the count and first line of the bad cells', async () => {

@@ -8,7 +8,7 @@ import { plan } from '../../../src/planner/plan';
 import { PROCEDURES, TEST_NAMES } from '../../../src/savedtest/procedures/index';
 import { assertValidSpec } from '../../../src/savedtest/validate';
 import { ScriptedQuestions } from './fakeQuestions';
-import { demo, fileOffer, planAndRun, settings } from './helpers';
+import { demo, fileOffer, fileOfferAt, planAndRun, settings } from './helpers';
 
 /** The label to pick for each procedure, and the columns of the bakery defect log to use. */
 const SCRIPTS: Record<string, Record<string, string | boolean | readonly string[]>> = {
@@ -18,15 +18,24 @@ const SCRIPTS: Record<string, Record<string, string | boolean | readonly string[
   'distribution-fit': { 'Which test?': 'Fit of a distribution to the values', 'Choose the column': 'weight_g', 'Distribution family': 'normal' },
   'post-hoc': { 'Which test?': 'Post-hoc comparisons', 'Choose the rows': 'oven', 'Choose the columns': 'defect', 'What to compare': 'Cells (adjusted residuals)', 'Multiplicity adjustment': 'Holm' },
   trend: { 'Which test?': 'Trend across ordered groups', 'Choose the outcome (rows)': 'shift', 'Choose the ordered groups (columns)': 'oven', 'Outcome levels of `shift`, the event first': '#1', 'Order of the groups of `oven`': '#1' },
-  paired: { 'Which test?': 'Paired classifications', 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' },
+  // The defect log has no classification made twice, so the paired test reads the café panel's before and after.
+  paired: { 'Which test?': 'Paired classifications', 'Choose the first classification': 'before', 'Choose the second classification': 'after' },
   stratified: { 'Which test?': 'Stratified tables (Cochran–Mantel–Haenszel)', 'Choose the strata': 'oven', 'Choose the rows': 'shift', 'Choose the columns': 'defect' },
   power: { 'Which test?': 'Power or sample size', 'Which test the power is for': 'independence', "Effect size (Cohen's w)": '0.3', 'Degrees of freedom': '4', 'What to give': 'Target power', 'Target power': '0.8' },
   distribution: { 'Which test?': 'Chi-square distribution', 'Degrees of freedom': '3', 'What to give': 'Critical value for α', 'Critical value for α': '0.05' },
 };
 
-function selectionOffer(): Offer {
+function selectionOffer(test?: string): Offer {
+  if (test === 'paired') return offerFromText(readFileSync(cafePanel, 'utf8'), { file: 'cafe-panel.csv', description: 'selection in cafe-panel.csv' });
   const text = readFileSync(join(demo, 'data', 'bakery-defects.csv'), 'utf8').split('\n').slice(0, 401).join('\n');
   return offerFromText(text, { file: 'bakery-defects.csv', description: 'selection in bakery-defects.csv' });
+}
+
+const cafePanel = join(demo, 'advanced', 'data', 'cafe-panel.csv');
+
+/** The demo file each procedure is tried on: the defect log, except the paired test (the café panel). */
+async function fileOfferFor(test?: string): Promise<Offer> {
+  return test === 'paired' ? fileOfferAt(cafePanel, 'advanced/data/cafe-panel.csv') : fileOffer('bakery-defects.csv');
 }
 
 describe('the planner reaches every procedure', () => {
@@ -48,10 +57,10 @@ describe('the planner reaches every procedure', () => {
     for (const label of Object.values(SCRIPTS).map((s) => s['Which test?'] as string)) assert.ok(offered.has(label), `"${label}" offered: ${[...offered].join(' | ')}`);
   });
 
-  for (const [where, offer] of [['a data file', () => fileOffer('bakery-defects.csv')], ['a selection', selectionOffer]] as const) {
+  for (const [where, offer] of [['a data file', fileOfferFor], ['a selection', selectionOffer]] as const) {
     for (const test of Object.keys(SCRIPTS)) {
       it(`${test} from ${where}: planned, valid, and run`, async () => {
-        const { planned, run } = await planAndRun(offer(), { ...SCRIPTS[test] });
+        const { planned, run } = await planAndRun(await offer(test), { ...SCRIPTS[test] });
         assert.equal(planned.test, test);
         assertValidSpec(planned.spec);
         assert.ok(run.result.kind === 'test' || run.result.kind === 'power' || run.result.kind === 'distribution');
@@ -72,13 +81,23 @@ describe('the planner reaches every procedure', () => {
     await assert.rejects(plan({ offer, questions: listing, settings, specFolder: demo }));
     assert.ok(!listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string), 'stratified keeps its counts inline, which a database cannot');
     for (const test of ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'post-hoc', 'trend', 'paired']) {
-      const planned = await plan({ offer, questions: new ScriptedQuestions({ ...SCRIPTS[test], 'Which test?': SCRIPTS[test]['Which test?'] }), settings, specFolder: demo, given: { where: "shift = 'late'" } });
+      // The catalogue has no before/after pair; planning does not count, so any two columns show the SQL source.
+      const script = test === 'paired' ? { ...SCRIPTS[test], 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' } : SCRIPTS[test];
+      const planned = await plan({ offer, questions: new ScriptedQuestions({ ...script }), settings, specFolder: demo, given: { where: "shift = 'late'" } });
       assertValidSpec(planned.spec);
       const source = planned.spec.source as { sql: unknown; where?: string };
       assert.deepEqual(source.sql, offer.sql, test);
       assert.equal(source.where, "shift = 'late'", test);
       if (test === 'trend') assert.deepEqual([planned.spec.rowLabels, planned.spec.columnLabels], [['early', 'late'], ['A', 'B', 'C']]);
     }
+  });
+
+  it('refuses a paired test on two different variables (no category in common), naming both columns and their levels', async () => {
+    // shift (early, late, night) and oven (A–D): every count off the diagonal, a meaningless "departure from symmetry".
+    await assert.rejects(
+      planAndRun(fileOffer('bakery-defects.csv'), { 'Which test?': 'Paired classifications', 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' }),
+      (e: Error & { code?: string }) => e.code === 'paired-no-common-category' && /`shift` \((early|late|night)(, (early|late|night)){2}\) and `oven` \([A-D](, [A-D]){3}\) share no category/.test(e.message) && /test of independence/.test(e.message),
+    );
   });
 
   it('power and distribution from the palette (no data)', async () => {

@@ -49,6 +49,17 @@ describe('panel payload', () => {
     assert.equal(payload.computedAt, options.computedAt);
   });
 
+  it('writes negative residuals in the grid with a true minus sign, as the category table does', () => {
+    // Adjusted residuals of a 2×2 are ±z with the same magnitude in every cell, two of each sign.
+    const result = independenceTest([[30, 10], [10, 30]], { rowLabels: ['a', 'b'], columnLabels: ['x', 'y'] });
+    const grid = cells(buildPanelPayload(result, options)).at(-1) ?? [];
+    const signed = grid.filter((t) => /[+−-]\d/.test(t)).map((t) => t.split(' ').at(-1) ?? '');
+    assert.equal(signed.length, 4, grid.join(' | '));
+    assert.equal(signed.filter((t) => t.startsWith('−')).length, 2, signed.join(' '));
+    assert.equal(signed.filter((t) => t.startsWith('+')).length, 2, signed.join(' '));
+    for (const t of grid) assert.doesNotMatch(t, /(^| )-\d/, `cell "${t}" uses a hyphen for minus`);
+  });
+
   it('fills placeholders when no translator is given', () => {
     assert.equal(untranslated('Power {0} at n = {1}', '0.800', 52), 'Power 0.800 at n = 52');
     assert.equal(untranslated('{1} missing', 'a'), '{1} missing');

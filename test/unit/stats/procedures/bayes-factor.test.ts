@@ -3,6 +3,7 @@ import { InputError, isInstance } from '../../../../src/errors';
 import { contingencyBayesFactor, goodnessOfFitBayesFactor, type SamplingPlan } from '../../../../src/stats/procedures/bayes-factor';
 import { closeTo } from '../../tolerance';
 import { fixture } from '../../fixtures';
+import { argumentNamed } from '../argument';
 
 /**
  * ln Γ of a count N is about N ln N and carries an absolute rounding error of about 1e-16 of that in any double
@@ -45,7 +46,7 @@ describe('Gunel–Dickey Bayes factors for contingency tables', () => {
   });
 
   it('refuses a hypergeometric plan on a table larger than 2×2 and a non-positive concentration, naming the field', () => {
-    assert.throws(() => contingencyBayesFactor([[1, 2, 3], [4, 5, 6]], 'hypergeometric'), (e: unknown) => isInstance(e, InputError) && e.location.jsonPath === '$.bayesFactor.samplingPlan');
+    assert.throws(() => contingencyBayesFactor([[1, 2, 3], [4, 5, 6]], 'hypergeometric'), (e: unknown) => isInstance(e, InputError) && argumentNamed(e) === 'samplingPlan');
     assert.throws(() => contingencyBayesFactor([[1, 2], [4, 5]], 'poisson', 0), (e: unknown) => isInstance(e, InputError) && /priorConcentration/.test(e.message));
   });
 });

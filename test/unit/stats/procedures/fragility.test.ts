@@ -135,4 +135,21 @@ describe('generalized fragility index: work limits', () => {
     assert.equal(got.searchStopped, true);
     assert.ok(got.lowerBound! >= 1);
   });
+
+  it('bounds the work on thousands of categories: 2,000 categories of one count each (4 million moves per table)', () => {
+    // Goodness of fit of a bottle number counted once per bottle: X² = 0, p = 1; making it significant needs many
+    // changes. The default limits (500,000 / k tables, 1,000,000 / k greedy evaluations) stop the search early.
+    const k = 2000;
+    const observed = new Array<number>(k).fill(1);
+    const pOf = (o: readonly number[]) => {
+      const n = o.reduce((a, b) => a + b, 0);
+      const e = n / o.length;
+      return chiSquareUpperProbability(o.reduce((s, x) => s + (x - e) ** 2 / e, 0), o.length - 1).log10;
+    };
+    const got = generalizedFragility(categoryProblem(observed, observed.map((_, i) => `B${i}`), pOf, 0.05));
+    assert.equal(got.method, 'bounded-search');
+    assert.equal(got.searchStopped, true);
+    assert.equal(got.index, null);
+    assert.ok(got.tablesExamined <= 250 + 500 + 2, `examined ${got.tablesExamined} tables`);
+  });
 });
