@@ -192,11 +192,12 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
   const start = Int32Array.from(rowTotals).sort();
   const first = new PastTable();
   first.add(0, 1);
-  let stage = new Map<number | string, Node>([[keys.of(start), { rows: start, pasts: first }]]);
+  let stage = new KeyedStore<Node>();
+  stage.set(keys.of(start), { rows: start, pasts: first });
 
   for (let s = 0; s < c - 1; s++) {
-    const next = new Map<number | string, Node>();
-    const boundsMemo = new Map<number | string, NodeBounds>();
+    const next = new KeyedStore<Node>();
+    const boundsMemo = new KeyedStore<NodeBounds>();
     const remaining = columnTotals.slice(s + 1);
     const lastColumn = s + 1 === c - 1;
     for (const node of stage.values()) {
@@ -238,6 +239,81 @@ export function fisherExactRxC(table: readonly (readonly number[])[], options: F
 
   const logP = Math.min(0, logObserved + Math.log(relativeSum));
   return { completed: true, pValue: { value: Math.exp(logP), log10: logP / LN10 }, logTableProbability: logObserved, work };
+}
+
+/**
+ * A map from node keys to values: numeric keys in an open-addressing table of typed arrays (a Map would box each
+ * key above 2^31 on every lookup: 10% of the time went to collecting them on a 5×5 table), string keys in a Map.
+ */
+class KeyedStore<T> {
+  private keys = new Float64Array(16);
+  private slots = new Int32Array(16).fill(-1);
+  private readonly items: T[] = [];
+  private readonly byString = new Map<string, number>();
+
+  get(key: number | string): T | undefined {
+    if (typeof key === 'string') {
+      const slot = this.byString.get(key);
+      return slot === undefined ? undefined : this.items[slot];
+    }
+    const mask = this.slots.length - 1;
+    let h = hashKey(key) & mask;
+    for (;;) {
+      const slot = this.slots[h];
+      if (slot === -1) return undefined;
+      if (this.keys[h] === key) return this.items[slot];
+      h = (h + 1) & mask;
+    }
+  }
+
+  set(key: number | string, value: T): void {
+    if (typeof key === 'string') {
+      const slot = this.byString.get(key);
+      if (slot !== undefined) this.items[slot] = value;
+      else {
+        this.byString.set(key, this.items.length);
+        this.items.push(value);
+      }
+      return;
+    }
+    if (2 * (this.items.length + 1) > this.slots.length) this.grow();
+    const mask = this.slots.length - 1;
+    let h = hashKey(key) & mask;
+    while (this.slots[h] !== -1) {
+      if (this.keys[h] === key) {
+        this.items[this.slots[h]] = value;
+        return;
+      }
+      h = (h + 1) & mask;
+    }
+    this.keys[h] = key;
+    this.slots[h] = this.items.length;
+    this.items.push(value);
+  }
+
+  /** Every value, in the order first set. */
+  values(): readonly T[] {
+    return this.items;
+  }
+
+  get size(): number {
+    return this.items.length;
+  }
+
+  private grow(): void {
+    const keys = this.keys;
+    const slots = this.slots;
+    this.keys = new Float64Array(keys.length * 2);
+    this.slots = new Int32Array(slots.length * 2).fill(-1);
+    const mask = this.slots.length - 1;
+    for (let i = 0; i < slots.length; i++) {
+      if (slots[i] === -1) continue;
+      let h = hashKey(keys[i]) & mask;
+      while (this.slots[h] !== -1) h = (h + 1) & mask;
+      this.keys[h] = keys[i];
+      this.slots[h] = slots[i];
+    }
+  }
 }
 
 /** Keys for sorted row-total vectors: a number in base n + 1 when it fits in 53 bits, else a string. */
