@@ -4,6 +4,7 @@
 // rVersion); counts a double cannot hold exactly are refused with the cell named.
 import { strict as assert } from 'node:assert';
 import { InputError, isInstance } from '../../../../src/errors';
+import { binomialLowerTail } from '../../../../src/stats/distributions/discrete';
 import { fisherExact2x2 } from '../../../../src/stats/procedures/fisher2x2';
 import { mcnemarStatistics, mcnemarTest } from '../../../../src/stats/procedures/paired';
 import { stratifiedTest } from '../../../../src/stats/procedures/stratified';
@@ -60,12 +61,13 @@ describe('counts from 1e7 to 1e15', function () {
 
 interface MpMcNemarCase { b: number; c: number; lnExactP: number; lnMidP: number; method: string }
 interface MpFisherCase { table: number[][]; lnLess: number; lnGreater: number; lnTwoSided: number; method: string }
-const MP = fixture<{ source: string; mcnemar: MpMcNemarCase[]; fisher: MpFisherCase[] }>('mpmath', 'large_tails');
+interface MpBinomialCase { k: number; n: number; p: number; lnLower: number }
+const MP = fixture<{ source: string; binomial: MpBinomialCase[]; mcnemar: MpMcNemarCase[]; fisher: MpFisherCase[] }>('mpmath', 'large_tails');
 
 describe('tails from 1e3 to 2^53 − 1 against 60-digit mpmath, central and far (ln p down to −1.4e15)', function () {
   this.timeout(60_000); // a hang guard; each case takes milliseconds (npm run bench -- hardening)
   it('has central, far and at-the-limit cases of both kinds, long tails among them', () => {
-    assert.ok(MP.mcnemar.length >= 15 && MP.fisher.length >= 12);
+    assert.ok(MP.mcnemar.length >= 15 && MP.fisher.length >= 12 && MP.binomial.length >= 5);
     assert.ok(MP.mcnemar.some((c) => c.b + c.c === Number.MAX_SAFE_INTEGER));
     assert.ok(MP.fisher.some((c) => c.table.flat().reduce((a, b) => a + b, 0) === Number.MAX_SAFE_INTEGER));
     assert.ok(MP.mcnemar.some((c) => c.lnExactP < -1e6 * LN10) && MP.fisher.some((c) => c.lnGreater < -1e5 * LN10));
@@ -85,6 +87,12 @@ describe('tails from 1e3 to 2^53 − 1 against 60-digit mpmath, central and far 
       closeTo(f.less.log10 * LN10, field(c, 'lnLess'), 1e-13, `ln P(X ≤ a) (${MP.source})`, c.table, 1e-14);
       closeTo(f.greater.log10 * LN10, field(c, 'lnGreater'), 1e-13, `ln P(X ≥ a) (${MP.source})`, c.table, 1e-14);
       closeTo(f.twoSided.log10 * LN10, field(c, 'lnTwoSided'), 1e-13, `ln two-sided p (${MP.source})`, c.table, 1e-14);
+    });
+  }
+  for (const c of MP.binomial) {
+    it(`binomial P(X ≤ ${c.k}) for n = ${c.n}, p = ${c.p} (the tail the distribution fit and the b/c interval use)`, () => {
+      // p other than ½: n·p is rounded, and the tail is right only because k − np is taken with its rounding error.
+      closeTo(binomialLowerTail(c.k, c.n, c.p).log10 * LN10, field(c, 'lnLower'), 1e-13, `ln P(X ≤ k) (${MP.source})`, c, 1e-14);
     });
   }
   it('McNemar at the limit: b + c = 2^53 − 1 is computed, one more is refused', () => {
