@@ -25,7 +25,7 @@ export interface FisherExactOptions {
   /**
    * Upper limit on the work (allocations and past paths examined). Beyond it the computation stops and reports
    * `completed: false` so that the caller can switch to Monte Carlo. Default 5e6. Measured CPU time to reach it on
-   * the 2-core reference machine: 0.35–0.7 s for tables of 3 to 5 rows (about 100 ns a step), 2.7 s for a 15×15
+   * the 2-core reference machine: 0.3–0.7 s for tables of 3 to 5 rows (about 100 ns a step), 2.8 s for a 15×15
    * table and 3.8 s for a 20×20 one (wide tables cost more a step: longer sorts and string node keys).
    */
   readonly workLimit?: number;
