@@ -11,7 +11,7 @@ import { fileURLToPath } from 'node:url';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const pkg = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8'));
-const expectedFiles = ['CHANGELOG.md', 'LICENSE', 'README.md', 'THIRD-PARTY-NOTICES.md', 'bin/countercheck.js', 'dist/cli.js', 'dist/pg.js', 'dist/scanWorker.js', 'package.json'];
+const expectedFiles = ['CHANGELOG.md', 'LICENSE', 'README.md', 'THIRD-PARTY-NOTICES.md', 'bin/countercheck.js', 'dist/cli.js', 'dist/parquet.js', 'dist/pg.js', 'dist/scanWorker.js', 'dist/xlsx.js', 'package.json'];
 
 /** The environment of a fresh shell: no npm_* variables from an outer `npm run`. */
 function cleanEnv(extraPath) {

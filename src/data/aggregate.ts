@@ -6,6 +6,7 @@
 import { MomentAccumulator } from '../stats/moments';
 import type { Aggregate, AggregateRequest, CountTable } from './types';
 import { CategoryCoder, MISSING, missingTokens } from './categories';
+import { StrataCounter } from './strata';
 import { wholeCount } from './counts';
 import { parseDecimal, parseMeasurement } from './numbers';
 import type { DecimalMark, IntakeOptions } from './options';
@@ -106,6 +107,8 @@ export class Aggregator {
   private readonly decimal: DecimalMark;
   private readonly tokens: ReadonlySet<string>;
   private readonly grid = new CountGrid();
+  /** Three-way counts, for a `strata` request. */
+  private readonly strata: StrataCounter | undefined;
   private readonly moments = new MomentAccumulator();
   private readonly values: number[] | undefined;
   private readonly coders: CategoryCoder[] = [];
@@ -135,6 +138,16 @@ export class Aggregator {
           new CategoryCoder(request.columnColumn, cats?.columnLevels, settings),
         ];
         break;
+      case 'strata':
+        // Row and column first, the stratum third: the readers that code two categories per record code a third only here.
+        this.indices = [columnIndex(columns, request.rowColumn, at), columnIndex(columns, request.columnColumn, at), columnIndex(columns, request.stratumColumn, at)];
+        this.coders = [
+          new CategoryCoder(request.rowColumn, cats?.rowLevels, settings),
+          new CategoryCoder(request.columnColumn, cats?.columnLevels, settings),
+          new CategoryCoder(request.stratumColumn, cats?.levels, settings),
+        ];
+        this.strata = new StrataCounter();
+        break;
       case 'categories':
         this.indices = [columnIndex(columns, request.column, at)];
         this.coders = [new CategoryCoder(request.column, cats?.levels, settings)];
@@ -153,12 +166,13 @@ export class Aggregator {
         break;
       }
     }
-    if ((request.kind === 'crosstab' || request.kind === 'categories') && request.weight !== undefined)
+    if ((request.kind === 'crosstab' || request.kind === 'strata' || request.kind === 'categories') && request.weight !== undefined)
       this.weightIndex = columnIndex(columns, request.weight, at);
     this.used =
       request.kind === 'counted-table'
         ? [...columns]
-        : [...this.indices, this.numberIndex, this.weightIndex].filter((i) => i >= 0).map((i) => columns[i]);
+        : // Named as the request names them: a stratified table's stratum first.
+          [...(request.kind === 'strata' ? [this.indices[2], this.indices[0], this.indices[1]] : this.indices), this.numberIndex, this.weightIndex].filter((i) => i >= 0).map((i) => columns[i]);
   }
 
   /** Column roles for the byte scanner. */
@@ -205,8 +219,10 @@ export class Aggregator {
   drop(): void {
     this.dropped++;
   }
-  addCell(r: number, c: number, w: number): void {
-    this.grid.add(r, c, w);
+  /** A kept record's cell; `s` is the stratum of a `strata` request (its third category). */
+  addCell(r: number, c: number, w: number, s = 0): void {
+    if (this.strata) this.strata.add(s, r, c, w);
+    else this.grid.add(r, c, w);
   }
   addValue(x: number): void {
     this.moments.push(x);
@@ -218,12 +234,14 @@ export class Aggregator {
     this.rows++;
     switch (this.request.kind) {
       case 'crosstab':
+      case 'strata':
       case 'categories': {
         const w = this.weightIndex >= 0 ? this.readWeight(fields[this.weightIndex], line) : 1;
         const r = this.coders[0].code(fields[this.indices[0]], line);
         const c = this.indices.length > 1 ? this.coders[1].code(fields[this.indices[1]], line) : 0;
-        if (r === MISSING || c === MISSING || w < 0) this.dropped++;
-        else this.grid.add(r, c, w);
+        const s = this.indices.length > 2 ? this.coders[2].code(fields[this.indices[2]], line) : 0;
+        if (r === MISSING || c === MISSING || s === MISSING || w < 0) this.dropped++;
+        else this.addCell(r, c, w, s);
         return;
       }
       case 'numeric': {
@@ -259,6 +277,8 @@ export class Aggregator {
       case 'crosstab':
       case 'counted-table':
         return { kind: 'table', table: this.grid.table(this.coders[0], this.coders[1]), provenance };
+      case 'strata':
+        return { kind: 'strata', strata: (this.strata as StrataCounter).result(this.coders[2], this.coders[0], this.coders[1]), provenance };
       case 'categories': {
         const order = this.grid.rowsShown(this.coders[0]);
         return {

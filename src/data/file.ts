@@ -292,7 +292,7 @@ export async function aggregateFileMany(
     const makeAggregators = (columns: string[]) => requests.map((request) => new Aggregator(columns, request, intake, 'line'));
     const scannable =
       control.engine !== 'csv-parse' &&
-      requests.every((r) => r.kind !== 'counted-table') &&
+      requests.every((r) => r.kind !== 'counted-table' && r.kind !== 'strata') &&
       (opened.encoding === 'utf-8' || opened.encoding === 'latin1');
     let reader: FileReader = 'csv-parse';
     // UTF-8 files: every byte that is hashed is also checked (utf8.ts), so invalid bytes are refused by line.

@@ -336,6 +336,9 @@ function merge(done: readonly Extract<Outcome, { type: 'done' }>[], input: Paral
         if (aggregate.kind === 'table') {
           const { rowLabels, columnLabels, counts } = aggregate.table;
           rowLabels.forEach((r, i) => columnLabels.forEach((col, j) => aggregator.addCell(code(0, r), code(1, col), counts[i][j])));
+        } else if (aggregate.kind === 'strata') {
+          const { stratumLabels, rowLabels, columnLabels, counts } = aggregate.strata;
+          stratumLabels.forEach((s, k) => rowLabels.forEach((r, i) => columnLabels.forEach((col, j) => aggregator.addCell(code(0, r), code(1, col), counts[k][i][j], code(2, s)))));
         } else if (aggregate.kind === 'categories') {
           aggregate.counts.labels.forEach((label, i) => aggregator.addCell(code(0, label), 0, aggregate.counts.counts[i]));
         } else {

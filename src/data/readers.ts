@@ -8,8 +8,7 @@ import { sha256Hex } from './delimited';
 import { aggregateFile, MAX_TEXT_FILE_BYTES, readTextFile } from './file';
 import { readJsonData, type JsonData } from './json';
 import { parseMarkdownTable } from './markdown';
-import { aggregateParquet, previewParquet } from './parquet';
-import { aggregateWorkbook, previewWorkbook, workbookChoices } from './xlsx';
+import { loadChunk } from './lazy';
 import { readDelimitedPreview, readDelimitedRecords } from './preview';
 import type { IntakeOptions } from './options';
 import type { Records } from './records';
@@ -57,6 +56,10 @@ export interface FilePart {
   readonly source: { readonly sheet?: string; readonly range?: string };
 }
 
+// The workbook and Parquet readers are chunks loaded on first use (src/data/lazy.ts); only their types are imported here.
+const xlsx = () => loadChunk(() => require('./xlsx') as typeof import('./xlsx')); // eslint-disable-line @typescript-eslint/no-require-imports
+const parquetReader = () => loadChunk(() => require('./parquet') as typeof import('./parquet')); // eslint-disable-line @typescript-eslint/no-require-imports
+
 /** Rows of a workbook or Parquet file shown to the planner (about what 64 KB of CSV holds). */
 const PREVIEW_ROWS = 2000;
 /** Rows read when a procedure keeps every record inline. */
@@ -64,12 +67,12 @@ const WHOLE_ROWS = 1_000_000;
 
 /** The typed readers report bytes and rows; the table's callers want a fraction. */
 const typedControl = (control: ReadControl) => ({ signal: control.signal, onProgress: (p: { bytesRead: number; totalBytes: number }) => { if (p.totalBytes) control.onProgress?.(p.bytesRead / p.totalBytes); } });
-const workbook: ReadAggregate = async (path, request, options, control) => (await aggregateWorkbook(path, [request], options, typedControl(control))).aggregates[0];
-const parquet: ReadAggregate = async (path, request, options, control) => (await aggregateParquet(path, [request], options, typedControl(control)))[0];
+const workbook: ReadAggregate = async (path, request, options, control) => (await xlsx().aggregateWorkbook(path, [request], options, typedControl(control))).aggregates[0];
+const parquet: ReadAggregate = async (path, request, options, control) => (await parquetReader().aggregateParquet(path, [request], options, typedControl(control)))[0];
 
 async function workbookParts(path: string, file: string): Promise<readonly FilePart[]> {
   const kinds = { sheet: 'sheet', name: 'defined name', table: 'table' } as const;
-  return (await workbookChoices(path, file)).map((c) => ({
+  return (await xlsx().workbookChoices(path, file)).map((c) => ({
     label: c.label,
     detail: c.detail ? `${kinds[c.kind]} · ${c.detail}` : kinds[c.kind],
     source: c.kind === 'sheet' || c.range === undefined ? { sheet: c.sheet } : { sheet: c.sheet, range: c.range },
@@ -127,9 +130,9 @@ export const FILE_READERS: readonly FileReaderEntry[] = [
   { name: 'JSON records', extensions: ['.json'], delivers: ALL, read: wholeText(jsonRecords), view: wholeView((text, file) => readJsonData(text, { file })) },
   { name: 'markdown table', extensions: ['.md', '.markdown'], delivers: ALL, read: wholeText(markdownRecords), view: wholeView((text, file) => ({ kind: 'records', records: markdownRecords(text, file) })) },
   { name: 'Excel workbook', extensions: ['.xlsx'], delivers: ALL, read: workbook, parts: workbookParts,
-    view: async (path, file, whole, part = {}) => { const { records, complete } = await previewWorkbook(path, part, whole ? WHOLE_ROWS : PREVIEW_ROWS, file); return { data: { kind: 'records', records }, complete }; } },
+    view: async (path, file, whole, part = {}) => { const { records, complete } = await xlsx().previewWorkbook(path, part, whole ? WHOLE_ROWS : PREVIEW_ROWS, file); return { data: { kind: 'records', records }, complete }; } },
   { name: 'Parquet', extensions: ['.parquet'], delivers: ALL, read: parquet,
-    view: async (path, file, whole) => { const { records, complete } = await previewParquet(path, whole ? WHOLE_ROWS : PREVIEW_ROWS, file); return { data: { kind: 'records', records }, complete }; } },
+    view: async (path, file, whole) => { const { records, complete } = await parquetReader().previewParquet(path, whole ? WHOLE_ROWS : PREVIEW_ROWS, file); return { data: { kind: 'records', records }, complete }; } },
   { name: 'delimited text', extensions: ['.csv', '.tsv', '.tab', '.txt', ''], delivers: ALL, read: delimited, hostInjected: true, view: delimitedView },
 ];
 

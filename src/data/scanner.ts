@@ -277,6 +277,7 @@ export class ByteScanner {
     this.parts = aggregators.map((aggregator) => {
       const request = aggregator.request;
       if (request.kind === 'counted-table') throw new ScannerFallback(this.line, 'counted tables are read by csv-parse');
+      if (request.kind === 'strata') throw new ScannerFallback(this.line, 'three-way counts are read by csv-parse');
       const slots = aggregator.slots().map((slot): SlotState => {
         const field = fieldOf(slot.index);
         if (slot.role !== 'category') return { field, role: slot.role === 'weight' ? WEIGHT_ROLE : NUMBER_ROLE, interner: null, code: null };

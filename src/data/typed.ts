@@ -183,8 +183,10 @@ export class TypedSink {
     const r = part.code(first.coder, cell(first.index), position);
     const second = part.categories[1];
     const c = second ? part.code(second.coder, cell(second.index), position) : 0;
-    if (r === MISSING || c === MISSING || w < 0) a.drop();
-    else a.addCell(r, c, w);
+    const third = part.categories[2];
+    const s = third ? part.code(third.coder, cell(third.index), position) : 0;
+    if (r === MISSING || c === MISSING || s === MISSING || w < 0) a.drop();
+    else a.addCell(r, c, w, s);
   }
 
   /**
@@ -247,14 +249,15 @@ export class TypedSink {
         return ids;
       });
       const weights = part.weightIndex >= 0 ? columns[part.weightIndex]! : undefined;
-      const [rows, cols] = coded;
+      const [rows, cols, strata] = coded;
       for (let i = 0; i < count; i++) {
         a.addRecord();
         const w = weights ? this.weightOf(part, toTyped(valueAt(weights, i), part.weightIndex), firstPosition + i) : 1;
         const r = rows[i];
         const c = cols ? cols[i] : 0;
-        if (r === MISSING || c === MISSING || w < 0) a.drop();
-        else a.addCell(r, c, w);
+        const s = strata ? strata[i] : 0;
+        if (r === MISSING || c === MISSING || s === MISSING || w < 0) a.drop();
+        else a.addCell(r, c, w, s);
       }
     }
   }

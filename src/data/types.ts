@@ -20,6 +20,16 @@ export interface CategoryCounts {
   readonly counts: readonly number[];
 }
 
+/** The same r×c cross-classification counted in each stratum of a third variable. */
+export interface StratifiedCounts {
+  readonly stratumLabels: readonly string[];
+  /** Rows and columns are the same in every stratum: the levels seen in any of them. */
+  readonly rowLabels: readonly string[];
+  readonly columnLabels: readonly string[];
+  /** counts[k][i][j] for stratum k, row i, column j. */
+  readonly counts: readonly (readonly (readonly number[])[])[];
+}
+
 /** Where the data came from, for reports and for drift detection in saved tests. */
 export interface Provenance {
   /** Human description: "demo/bakery-defects.csv", "selection in report.md lines 12–20", "sql:warehouse public.orders". */
@@ -40,6 +50,8 @@ export interface Provenance {
 export type AggregateRequest =
   /** Cross-tabulate two categorical columns (optionally weighted by a frequency column). */
   | { readonly kind: 'crosstab'; readonly rowColumn: string; readonly columnColumn: string; readonly weight?: string }
+  /** Cross-tabulate two categorical columns within each level of a third (optionally weighted). */
+  | { readonly kind: 'strata'; readonly stratumColumn: string; readonly rowColumn: string; readonly columnColumn: string; readonly weight?: string }
   /** Count the levels of one categorical column (optionally weighted). */
   | { readonly kind: 'categories'; readonly column: string; readonly weight?: string }
   /** Moments of one numeric column. */
@@ -50,4 +62,5 @@ export type AggregateRequest =
 export type Aggregate =
   | { readonly kind: 'table'; readonly table: CountTable; readonly provenance: Provenance }
   | { readonly kind: 'categories'; readonly counts: CategoryCounts; readonly provenance: Provenance }
+  | { readonly kind: 'strata'; readonly strata: StratifiedCounts; readonly provenance: Provenance }
   | { readonly kind: 'moments'; readonly moments: MomentSummary; readonly provenance: Provenance; readonly values?: readonly number[] };

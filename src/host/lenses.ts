@@ -2,19 +2,66 @@
 import * as vscode from 'vscode';
 import { explanationAt, explanationMarkdown } from '../report/explanations';
 import { BLOCK_INFO, parseReportBlocks } from '../report/blocks';
+import { parseJsonWithLocations } from '../savedtest/json-text';
+import { savedTestLens, type LensData, type SavedTestLens } from '../savedtest/lens';
 import { COMMON_FIELDS, PROCEDURES, procedureFor } from '../savedtest/procedures/index';
+import { tableText } from '../planner/questions';
 import { COMMANDS } from './commandIds';
+import { shown } from './wizard';
 
 const t = vscode.l10n.t;
+
+/** Where the data lives, in words. */
+function dataText(data: LensData): string {
+  const columns = (c: readonly string[]) => c.map((x) => `\`${x}\``).join(', ');
+  switch (data.kind) {
+    case 'inline':
+      return data.fields.length ? t('data in the test: {0}', data.fields.join(', ')) : t('no data yet');
+    case 'file':
+      return data.columns.length ? t('file {0}, columns {1}', data.path, columns(data.columns)) : t('file {0}', data.path);
+    case 'database': {
+      const from = data.relation ?? t('a query');
+      return data.columns.length ? t('database {0}: {1}, columns {2}', data.connection, from, columns(data.columns)) : t('database {0}: {1}', data.connection, from);
+    }
+    case 'none':
+      return t('no data needed');
+  }
+}
+
+/** The line above the run lenses: the procedure (from its field table) and what the test reads and sets. */
+export function lensTitles(lens: SavedTestLens): { procedure: string; details: string } {
+  const options = lens.options.map((o) => `${o.field} ${o.value}`);
+  if (lens.moreOptions > 0) options.push(t('{0} more', lens.moreOptions));
+  // The procedure's label is a field-table string, translated as the wizard's list of tests translates it.
+  const procedure = shown(tableText(lens.procedure));
+  return {
+    procedure: lens.title ? t('{0} — {1}', procedure, lens.title) : procedure,
+    details: [dataText(lens.data), ...options].join(' · '),
+  };
+}
 
 export class SpecCodeLensProvider implements vscode.CodeLensProvider {
   provideCodeLenses(doc: vscode.TextDocument): vscode.CodeLens[] {
     const top = new vscode.Range(0, 0, 0, 0);
-    return [
+    const lenses: vscode.CodeLens[] = [];
+    let lens: SavedTestLens | undefined;
+    try {
+      lens = savedTestLens(parseJsonWithLocations(doc.getText()).value);
+    } catch {
+      lens = undefined; // Text that is not JSON yet: only the run lenses (running it says what is wrong).
+    }
+    if (lens) {
+      const words = lensTitles(lens);
+      // Text only: a lens without a command is shown and not clickable.
+      lenses.push(new vscode.CodeLens(top, { title: `$(beaker) ${words.procedure}`, tooltip: lens.summary, command: '' }));
+      lenses.push(new vscode.CodeLens(top, { title: words.details, tooltip: lens.summary, command: '' }));
+    }
+    lenses.push(
       new vscode.CodeLens(top, { title: `$(play) ${t('Run')}`, command: COMMANDS.runSavedSpec, arguments: [doc.uri] }),
       new vscode.CodeLens(top, { title: `$(history) ${t('Re-run and compare')}`, command: COMMANDS.rerunAndCompare, arguments: [doc.uri] }),
       new vscode.CodeLens(top, { title: `$(preview) ${t('Open result')}`, command: COMMANDS.openSpecResult, arguments: [doc.uri] }),
-    ];
+    );
+    return lenses;
   }
 }
 

@@ -6,7 +6,7 @@ import { aggregateRecords } from '../data/aggregate';
 import type { Records } from '../data/records';
 import type { AggregateRequest } from '../data/types';
 import { InputError } from '../errors';
-import type { Questions } from './questions';
+import { english, text, type Questions } from './questions';
 import { sum, type ColumnInfo, type Role, type View } from './view';
 
 /** A categorical role given a column of measurements, or a count column, is refused or confirmed in words. */
@@ -18,7 +18,7 @@ export async function checkCategoryColumns(view: Extract<View, { form: 'columns'
     if (!p) continue;
     if (p.numeric && p.levels.length > 12) {
       throw new InputError(
-        `column \`${p.name}\` holds numbers with ${p.levels.length} different values; as a category each value would be a level of its own. Choose a categorical column for ${role.name}, or test the numbers themselves (variance, distribution fit)`,
+        `column \`${p.name}\` holds numbers with ${p.levels.length} different values; as a category each value would be a level of its own. Choose a categorical column for ${english(role.name)}, or test the numbers themselves (variance, distribution fit)`,
         { column: p.name },
         'numeric-as-category',
       );
@@ -28,9 +28,14 @@ export async function checkCategoryColumns(view: Extract<View, { form: 'columns'
     const looksLikeCounts = view.shape.kind === 'long-counts' && view.shape.weightColumn === p.name;
     if (looksLikeCounts && weight === undefined) {
       const go = await questions.confirm({
-        title: 'A numeric column as a category',
-        message: `\`${p.name}\` holds whole numbers (total ${p.total.toLocaleString('en-US')} over ${p.present} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?`,
-        accept: 'Use as a category',
+        title: text('A numeric column as a category'),
+        message: text(
+          '`{0}` holds whole numbers (total {1} over {2} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?',
+          p.name,
+          p.total.toLocaleString('en-US'),
+          p.present,
+        ),
+        accept: text('Use as a category'),
       });
       if (!go) throw new InputError(`stopped: \`${p.name}\` looks like a count column, not a category`, { column: p.name }, 'numeric-as-category');
     }
@@ -45,9 +50,15 @@ export async function checkMeasurementColumns(view: Extract<View, { form: 'colum
     if (!p?.rowNumber) continue;
     const { from, to } = p.rowNumber;
     const go = await questions.confirm({
-      title: 'A column that numbers the rows',
-      message: `\`${p.name}\` holds ${p.present.toLocaleString('en-US')} different whole numbers from ${from.toLocaleString('en-US')} to ${to.toLocaleString('en-US')} with no gap: it looks like a row or unit number, and its spread and distribution would describe the numbering. Test its values anyway?`,
-      accept: 'Test the values anyway',
+      title: text('A column that numbers the rows'),
+      message: text(
+        '`{0}` holds {1} different whole numbers from {2} to {3} with no gap: it looks like a row or unit number, and its spread and distribution would describe the numbering. Test its values anyway?',
+        p.name,
+        p.present.toLocaleString('en-US'),
+        from.toLocaleString('en-US'),
+        to.toLocaleString('en-US'),
+      ),
+      accept: text('Test the values anyway'),
     });
     if (!go) throw new InputError(`stopped: \`${p.name}\` numbers the rows rather than measuring them`, { column: p.name }, 'row-number-as-measurement');
   }

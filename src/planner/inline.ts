@@ -29,17 +29,11 @@ export function inlineFromRecords(records: Records, test: string, columns: reado
       return { fields: { table: square.table.counts, rowLabels: square.table.rowLabels, columnLabels: square.table.columnLabels } };
     }
     case 'stratified': {
-      const [stratum, row, column] = columns;
-      const all = read({ kind: 'crosstab', rowColumn: row, columnColumn: column, weight });
-      const strata = read({ kind: 'categories', column: stratum });
-      if (all.kind !== 'table' || strata.kind !== 'categories') break;
-      const j = records.columns.indexOf(stratum);
-      const tables = strata.counts.labels.map((level) => {
-        const subset: Records = { ...records, rows: records.rows.filter((r) => (r[j] ?? '').trim() === level), lines: records.lines.filter((_, i) => (records.rows[i][j] ?? '').trim() === level) };
-        const t = aggregateRecords(subset, { kind: 'crosstab', rowColumn: row, columnColumn: column, weight }, { description, categories: { rowLevels: all.table.rowLabels, columnLevels: all.table.columnLabels } });
-        return t.kind === 'table' ? t.table.counts : [];
-      });
-      return { fields: { strata: tables, stratumLabels: strata.counts.labels, rowLabels: all.table.rowLabels, columnLabels: all.table.columnLabels, rowVariable: row, columnVariable: column } };
+      const [stratumColumn, rowColumn, columnColumn] = columns;
+      const a = read({ kind: 'strata', stratumColumn, rowColumn, columnColumn, weight });
+      if (a.kind !== 'strata') break;
+      const { counts, stratumLabels, rowLabels, columnLabels } = a.strata;
+      return { fields: { strata: counts, stratumLabels, rowLabels, columnLabels, rowVariable: rowColumn, columnVariable: columnColumn } };
     }
     default: {
       const a = read({ kind: 'crosstab', rowColumn: columns[0], columnColumn: columns[1], weight });

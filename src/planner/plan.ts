@@ -12,7 +12,7 @@ import { askField, parseNumberList } from './ask';
 import { checkCategoryColumns, checkMeasurementColumns, checkNotOnePerRow } from './guards';
 import { inlineFromRecords } from './inline';
 import type { Offer } from './offer';
-import type { Choice, Questions } from './questions';
+import { english, tableText, text, verbatim, type Choice, type Questions, type Shown } from './questions';
 import { describeView, sum, viewOf, type ColumnInfo, type DataFacts, type Role, type View } from './view';
 import { namesRows } from './profile';
 import { PROCEDURES, procedureFor, type DataShape } from '../savedtest/procedures/index';
@@ -54,13 +54,14 @@ export interface Plan {
   readonly title: string;
   /** What was asked or given, to remember for the next run on this source. */
   readonly answers: Answers;
-  /** What was inferred and why ("`riders` is used as the frequency weight: …"), for the output log. */
-  readonly notes: readonly string[];
+  /** What was inferred and why ("`riders` is used as the frequency weight: …"), for the output log (`english` reads it). */
+  readonly notes: readonly Shown[];
 }
 
 /** One line of the "Which test?" list. */
 interface Proposal {
   readonly test: string;
+  /** From the procedure's planning declaration (English; the host translates it). */
   readonly label: string;
   readonly detail: string;
   /** Fields the choice sets (a p-value method). */
@@ -116,10 +117,10 @@ function proposalsFor(view: View, offer: Offer, settings: PlanSettings): Proposa
       const names = planning.roles ?? [];
       // Counts written inline (a procedure without a `source` field) cannot come from a database.
       if (names.length > categorical || (!handler.fields.source && offer.kind === 'catalogue')) continue;
-      roles = names.map((name) => ({ name, kind: 'categorical' }));
+      roles = names.map((name) => ({ name: tableText(name), kind: 'categorical' }));
     } else if (view.form === 'columns' && shape === 'numeric-column') {
       if (measurement === 0) continue;
-      roles = [{ name: 'the column', kind: 'measurement' }];
+      roles = [{ name: text('the column'), kind: 'measurement' }];
     }
     const base = { test: handler.test, roles, anything: shape === 'anything' };
     list.push({ ...base, label: planning.label, detail: planning.detail });
@@ -141,7 +142,7 @@ export async function plan(request: PlanRequest): Promise<Plan> {
   const { offer, questions, settings } = request;
   const given = request.given ?? {};
   const remembered = request.remembered ?? {};
-  const notes: string[] = [];
+  const notes: Shown[] = [];
   let view = viewOf(offer, settings, notes);
   if ((view.form === 'table' || view.form === 'categories') && offer.kind === 'records' && offer.file && !offer.file.complete) {
     // Counted data seen only in part: count the whole file, never the preview.
@@ -185,14 +186,14 @@ async function chooseProposal(proposals: readonly Proposal[], given: Answers, re
     const match = proposals.find((p) => p.test === given.test && (p.preset?.method ?? undefined) === method) ?? proposals.find((p) => p.test === given.test && !p.preset);
     if (!match) {
       const fits = [...new Set(proposals.map((p) => p.test))].join(', ');
-      throw new InputError(`"${given.test}" does not fit this data (${describeView(view)}); what fits: ${fits}`, {}, 'test-does-not-fit');
+      throw new InputError(`"${given.test}" does not fit this data (${english(describeView(view))}); what fits: ${fits}`, {}, 'test-does-not-fit');
     }
     return match;
   }
-  const choices: Choice<Proposal>[] = proposals.map((p) => ({ label: p.label, detail: p.detail, value: p }));
+  const choices: Choice<Proposal>[] = proposals.map((p) => ({ label: tableText(p.label), detail: tableText(p.detail), value: p }));
   return questions.choose({
-    title: 'Which test?',
-    placeholder: `Countercheck inferred these from the data (${describeView(view)})`,
+    title: text('Which test?'),
+    placeholder: text('Countercheck inferred these from the data ({0})', describeView(view)),
     choices,
     remembered: (p) => p.test === remembered.test && !p.preset === (remembered.method === undefined),
   });
@@ -224,13 +225,13 @@ function viewData(view: View, test: string): DataFacts {
 }
 
 /** Columns chosen for the roles of the procedure, then the spec's data: a source (file, database) or inline counts. */
-async function columnsData(request: PlanRequest, view: Extract<View, { form: 'columns' }>, proposal: Proposal, answers: Record<string, unknown>, remembered: Answers, notes: string[]): Promise<DataFacts> {
+async function columnsData(request: PlanRequest, view: Extract<View, { form: 'columns' }>, proposal: Proposal, answers: Record<string, unknown>, remembered: Answers, notes: Shown[]): Promise<DataFacts> {
   const { offer, questions } = request;
   const given = request.given ?? {};
   const roles = proposal.roles ?? [];
   if (roles.length === 0) return { fields: {} };
   const columns = given.columns ? [...given.columns] : await chooseColumns(questions, view.columns, roles, proposal.label, remembered.columns);
-  if (columns.length !== roles.length) throw new InputError(`${proposal.test} needs ${roles.length} column${roles.length === 1 ? '' : 's'} (${roles.map((r) => r.name).join(', ')}); found ${columns.length}`, {}, 'column-count');
+  if (columns.length !== roles.length) throw new InputError(`${proposal.test} needs ${roles.length} column${roles.length === 1 ? '' : 's'} (${roles.map((r) => english(r.name)).join(', ')}); found ${columns.length}`, {}, 'column-count');
   // A database checks the names itself (and says which it has); records are checked here.
   for (const c of offer.kind === 'catalogue' ? [] : columns) {
     if (!view.columns.some((x) => x.name === c)) {
@@ -243,7 +244,7 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
   let weight = given.weight === null ? undefined : (given.weight ?? (shape.kind === 'long-counts' ? shape.weightColumn : undefined));
   const measured = roles.some((r) => r.kind === 'measurement');
   if (measured || (weight !== undefined && columns.includes(weight))) weight = undefined;
-  if (weight !== undefined && shape.kind === 'long-counts' && weight === shape.weightColumn) notes.push(`\`${weight}\` is the frequency weight: ${shape.reason}`);
+  if (weight !== undefined && shape.kind === 'long-counts' && weight === shape.weightColumn) notes.push(text('`{0}` is the frequency weight: {1}', weight, shape.reason));
   await checkCategoryColumns(view, roles, columns, weight, questions);
   await checkMeasurementColumns(view, roles, columns, questions);
   if (view.records && !measured) checkNotOnePerRow(view.records, columns, weight, proposal.test, view.columns, offer.description);
@@ -261,8 +262,8 @@ async function columnsData(request: PlanRequest, view: Extract<View, { form: 'co
 
   if (proposal.test === 'trend') {
     const givenOrder = (key: 'rowLabels' | 'columnLabels') => (Array.isArray(given[key]) ? (given[key] as string[]) : undefined);
-    const outcome = givenOrder('rowLabels') ?? (await askOrder(questions, await levelsOf(columns[0]), `Outcome levels of \`${columns[0]}\`, the event first`, remembered.rowLabels));
-    const groups = givenOrder('columnLabels') ?? (await askOrder(questions, await levelsOf(columns[1]), `Order of the groups of \`${columns[1]}\``, remembered.columnLabels));
+    const outcome = givenOrder('rowLabels') ?? (await askOrder(questions, await levelsOf(columns[0]), text('Outcome levels of `{0}`, the event first', columns[0]), remembered.rowLabels));
+    const groups = givenOrder('columnLabels') ?? (await askOrder(questions, await levelsOf(columns[1]), text('Order of the groups of `{0}`', columns[1]), remembered.columnLabels));
     answers.rowLabels = outcome;
     answers.columnLabels = groups;
     if (source && hasSourceField) return { fields: { source: sourceWith(), ...(outcome ? { rowLabels: outcome } : {}), ...(groups ? { columnLabels: groups } : {}) }, ...facts };
@@ -305,11 +306,11 @@ async function chooseColumns(questions: Questions, columns: readonly ColumnInfo[
     const eligible = columns
       .filter((c) => !chosen.includes(c.name) && (role.kind === 'measurement' ? c.measurement : c.categorical))
       .sort((a, b) => Number(labelsRows(a)) - Number(labelsRows(b)));
-    if (eligible.length === 0) throw new InputError(`found no column left for ${role.name}: expected ${role.kind === 'measurement' ? 'a numeric column' : 'a categorical column'}`, {}, 'nothing-to-test');
+    if (eligible.length === 0) throw new InputError(`found no column left for ${english(role.name)}: expected ${role.kind === 'measurement' ? 'a numeric column' : 'a categorical column'}`, {}, 'nothing-to-test');
     const name = await questions.choose({
-      title,
-      placeholder: `Choose ${role.name}`,
-      choices: eligible.map((c) => ({ label: c.name, description: c.description, detail: c.detail, value: c.name })),
+      title: tableText(title),
+      placeholder: text('Choose {0}', role.name),
+      choices: eligible.map((c) => ({ label: verbatim(c.name), description: c.description, detail: c.detail, value: c.name })),
       remembered: (v) => v === remembered?.[k],
     });
     chosen.push(name);
@@ -318,7 +319,7 @@ async function chooseColumns(questions: Questions, columns: readonly ColumnInfo[
 }
 
 /** Level order for a trend test: as first seen, sorted, or reversed; asked only when there is more than one order. */
-async function askOrder(questions: Questions, levels: readonly string[] | undefined, title: string, remembered: unknown): Promise<string[] | undefined> {
+async function askOrder(questions: Questions, levels: readonly string[] | undefined, title: Shown, remembered: unknown): Promise<string[] | undefined> {
   if (!levels || levels.length < 2) return undefined;
   const seen = [...levels];
   const numeric = seen.every((l) => Number.isFinite(Number(l)));
@@ -327,8 +328,8 @@ async function askOrder(questions: Questions, levels: readonly string[] | undefi
   if (orders.length === 1) return orders[0];
   return questions.choose({
     title,
-    placeholder: 'The order matters for a trend test',
-    choices: orders.map((o) => ({ label: o.join(' < '), value: o })),
+    placeholder: text('The order matters for a trend test'),
+    choices: orders.map((o) => ({ label: verbatim(o.join(' < ')), value: o })),
     remembered: (o) => Array.isArray(remembered) && o.join('\u0000') === remembered.join('\u0000'),
   });
 }
@@ -369,14 +370,19 @@ async function askOptions(test: string, fields: Record<string, unknown>, data: D
     const rival = q.orElse !== undefined && fields[q.orElse] === undefined ? all.find((r) => r.field === q.orElse) : undefined;
     if (rival) {
       // Two fields that exclude each other (n or power, x or p): which one first, so no number is read as the other.
-      const which = await questions.choose({ title: 'What to give', placeholder: `${q.title}, or ${rival.title.toLowerCase()}?`, choices: [q, rival].map((x) => ({ label: x.title, value: x })), remembered: (x) => remembered[x.field] !== undefined });
+      const which = await questions.choose({
+        title: text('What to give'),
+        placeholder: text('{0}, or {1}?', tableText(q.title), tableText(rival.title)),
+        choices: [q, rival].map((x) => ({ label: tableText(x.title), value: x })),
+        remembered: (x) => remembered[x.field] !== undefined,
+      });
       decided.add(q.field).add(rival.field);
       if (q.valueLater) later.push(which);
       else fields[which.field] = answers[which.field] = await askField(questions, test, which.field, which.title, { remembered: remembered[which.field] ?? which.preset, choiceLabels: which.choiceLabels });
       continue;
     }
-    const extraPrompt = q.field === 'sigma0' && data.variable ? `(in the units of "${data.variable}")` : undefined;
-    fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels, extraPrompt });
+    const unitsOf = q.field === 'sigma0' ? data.variable : undefined;
+    fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels, unitsOf });
   }
   for (const q of later) fields[q.field] = answers[q.field] = await askField(questions, test, q.field, q.title, { remembered: remembered[q.field] ?? q.preset, choiceLabels: q.choiceLabels });
 }
@@ -387,26 +393,32 @@ const NOT_FIELDS = ['test', 'columns', 'weight', 'proportions', 'where', 'sheet'
 async function askProportions(questions: Questions, levels: readonly string[] | undefined, remembered: unknown): Promise<'equal' | number[]> {
   const k = levels?.length;
   const choice = await questions.choose<'equal' | 'enter'>({
-    title: 'Expected distribution',
-    placeholder: 'What does the null hypothesis expect?',
+    title: text('Expected distribution'),
+    placeholder: text('What does the null hypothesis expect?'),
     choices: [
-      { label: 'Equal proportions', detail: k ? `Every level is expected equally often (${k} levels)` : 'Every level is expected equally often', value: 'equal' },
-      { label: 'Enter proportions or ratios…', detail: levels ? `One number per level, in order: ${levels.join(', ')}` : 'One number per level, in the order the levels first appear', value: 'enter' },
+      { label: text('Equal proportions'), detail: k ? text('Every level is expected equally often ({0} levels)', k) : text('Every level is expected equally often'), value: 'equal' },
+      {
+        label: text('Enter proportions or ratios…'),
+        detail: levels ? text('One number per level, in order: {0}', levels.join(', ')) : text('One number per level, in the order the levels first appear'),
+        value: 'enter',
+      },
     ],
     remembered: (v) => (remembered === 'equal' ? v === 'equal' : Array.isArray(remembered) ? v === 'enter' : false),
   });
   if (choice === 'equal') return 'equal';
-  const text = await questions.enter({
-    title: 'Expected proportions',
-    prompt: levels ? `${levels.length} numbers separated by commas, for ${levels.join(', ')} (ratios such as 9:3:3:1 also work)` : 'Numbers separated by commas, one per level (ratios such as 9:3:3:1 also work)',
+  const entered = await questions.enter({
+    title: text('Expected proportions'),
+    prompt: levels
+      ? text('{0} numbers separated by commas, for {1} (ratios such as 9:3:3:1 also work)', levels.length, levels.join(', '))
+      : text('Numbers separated by commas, one per level (ratios such as 9:3:3:1 also work)'),
     value: Array.isArray(remembered) ? remembered.join(', ') : undefined,
     validate: (v) => {
       const parts = parseNumberList(v);
-      if (k !== undefined && parts.length !== k) return `Expected ${k} numbers, found ${parts.length}`;
-      if (parts.length < 2) return 'Expected at least 2 numbers';
-      if (parts.some((n) => !Number.isFinite(n) || n < 0)) return 'Every number must be ≥ 0';
+      if (k !== undefined && parts.length !== k) return text('Expected {0} numbers, found {1}', k, parts.length);
+      if (parts.length < 2) return text('Expected at least 2 numbers');
+      if (parts.some((n) => !Number.isFinite(n) || n < 0)) return text('Every number must be ≥ 0');
       return undefined;
     },
   });
-  return parseNumberList(text);
+  return parseNumberList(entered);
 }

@@ -7,6 +7,7 @@
 import { parseMeasurement } from '../data/numbers';
 import type { DecimalMark } from '../data/options';
 import type { Records } from '../data/records';
+import { listOf, text, type Text } from './questions';
 
 
 /** Cells of an otherwise numeric column that are not numbers. */
@@ -118,11 +119,11 @@ export function profileColumns(records: Records, missing: readonly string[]): Co
 
 export type Shape =
   /** First column row labels, two or more count columns: an r×c table of counts. */
-  | { readonly kind: 'counted-table'; readonly labelColumn: string; readonly countColumns: readonly string[]; readonly reason: string }
+  | { readonly kind: 'counted-table'; readonly labelColumn: string; readonly countColumns: readonly string[]; readonly reason: Text }
   /** A label column and one count column: category counts. */
-  | { readonly kind: 'category-counts'; readonly labelColumn: string; readonly countColumn: string; readonly reason: string }
+  | { readonly kind: 'category-counts'; readonly labelColumn: string; readonly countColumn: string; readonly reason: Text }
   /** Categorical columns whose combinations each appear once, and a count column: each row stands for `weight` records. */
-  | { readonly kind: 'long-counts'; readonly categoryColumns: readonly string[]; readonly weightColumn: string; readonly reason: string }
+  | { readonly kind: 'long-counts'; readonly categoryColumns: readonly string[]; readonly weightColumn: string; readonly reason: Text }
   /** Raw records: one row per observation. */
   | { readonly kind: 'raw' };
 
@@ -138,14 +139,20 @@ export function inferShape(records: Records, profiles: readonly ColumnProfile[])
         kind: 'counted-table',
         labelColumn: first.name,
         countColumns: rest.map((p) => p.name),
-        reason: `every row label of \`${first.name}\` appears once and the other columns hold whole numbers, so the table is already counted`,
+        reason: text('every row label of `{0}` appears once and the other columns hold whole numbers, so the table is already counted', first.name),
       };
     }
     return {
       kind: 'category-counts',
       labelColumn: first.name,
       countColumn: rest[0].name,
-      reason: `every label of \`${first.name}\` appears once and \`${rest[0].name}\` holds whole numbers (total ${grouped(rest[0].total)} over ${records.rows.length} rows), so each row is a category with its count`,
+      reason: text(
+        'every label of `{0}` appears once and `{1}` holds whole numbers (total {2} over {3} rows), so each row is a category with its count',
+        first.name,
+        rest[0].name,
+        grouped(rest[0].total),
+        records.rows.length,
+      ),
     };
   }
   return longCounts(records, profiles) ?? { kind: 'raw' };
@@ -170,12 +177,18 @@ function longCounts(records: Records, profiles: readonly ColumnProfile[]): Shape
   if (fits.length === 0 || (fits.length > 1 && fits[0].levels.length === fits[1].levels.length)) return undefined;
   const weight = fits[0];
   const categorical = profiles.filter((p) => p !== weight);
-  const names = categorical.map((p) => `\`${p.name}\``).join(' × ');
+  const names = categorical.map((p) => `\`${p.name}\``).join(' × '); // column names: shown as they are
   return {
     kind: 'long-counts',
     categoryColumns: categorical.map((p) => p.name),
     weightColumn: weight.name,
-    reason: `each combination of ${names} appears once and \`${weight.name}\` holds whole numbers (total ${grouped(weight.total)} over ${records.rows.length} rows), so \`${weight.name}\` is used as the frequency weight: each row stands for that many records`,
+    reason: text(
+      'each combination of {0} appears once and `{1}` holds whole numbers (total {2} over {3} rows), so `{1}` is used as the frequency weight: each row stands for that many records',
+      names,
+      weight.name,
+      grouped(weight.total),
+      records.rows.length,
+    ),
   };
 }
 
@@ -206,14 +219,17 @@ export function namesRows(p: ColumnProfile): boolean {
 }
 
 /** A line for a choice's detail: "12 levels: Oven A (40), Oven B (33), …", "numbers: 12.1, 12.4, …", with stray cells named. */
-export function describeColumn(p: ColumnProfile): string {
-  if (namesRows(p)) return `different on every row (${p.firstValues.slice(0, 3).join(', ')}, …): names the rows, so as a category every count would be 1`;
-  if (p.rowNumber) return `numbers the rows: every value different, ${grouped(p.rowNumber.from)} to ${grouped(p.rowNumber.to)} with no gap; its spread describes the numbering, not a measurement`;
+export function describeColumn(p: ColumnProfile): Text {
+  if (namesRows(p)) return text('different on every row ({0}, …): names the rows, so as a category every count would be 1', p.firstValues.slice(0, 3).join(', '));
+  if (p.rowNumber) return text('numbers the rows: every value different, {0} to {1} with no gap; its spread describes the numbering, not a measurement', grouped(p.rowNumber.from), grouped(p.rowNumber.to));
   if (p.stray) {
     const s = p.stray;
-    return `numbers, except ${s.count} cell${s.count === 1 ? '' : 's'} that ${s.count === 1 ? 'is' : 'are'} not (first on line ${s.firstLine}: "${s.firstText}"); running on it stops there`;
+    return s.count === 1
+      ? text('numbers, except {0} cell that is not (first on line {1}: "{2}"); running on it stops there', s.count, s.firstLine, s.firstText)
+      : text('numbers, except {0} cells that are not (first on line {1}: "{2}"); running on it stops there', s.count, s.firstLine, s.firstText);
   }
-  if (p.numeric && p.levels.length > 12) return `numbers: ${p.firstValues.join(', ')}${p.firstValues.length >= 6 ? ', …' : ''}`;
-  const shown = p.levels.slice(0, 5).map((l) => `${l.label || '(blank)'} (${l.count})`).join(', ');
-  return `${p.levels.length} level${p.levels.length === 1 ? '' : 's'}: ${shown}${p.levels.length > 5 ? ', …' : ''}`;
+  if (p.numeric && p.levels.length > 12) return text('numbers: {0}', `${p.firstValues.join(', ')}${p.firstValues.length >= 6 ? ', …' : ''}`);
+  const shown = p.levels.slice(0, 5).map((l) => (l.label ? `${l.label} (${l.count})` : text('(blank) ({0})', l.count)));
+  const list = listOf(shown, p.levels.length > 5);
+  return p.levels.length === 1 ? text('{0} level: {1}', p.levels.length, list) : text('{0} levels: {1}', p.levels.length, list);
 }

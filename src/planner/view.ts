@@ -7,6 +7,7 @@ import type { Records } from '../data/records';
 import type { CategoryCounts, CountTable } from '../data/types';
 import type { Offer } from './offer';
 import type { PlanSettings } from './plan';
+import { text, verbatim, type Shown } from './questions';
 import { describeColumn, inferShape, isCategorical, isMeasurement, profileColumns, type ColumnProfile, type Shape } from './profile';
 
 /** A column as the planner sees it, from a file's records or a database catalogue. */
@@ -14,8 +15,8 @@ export interface ColumnInfo {
   readonly name: string;
   readonly categorical: boolean;
   readonly measurement: boolean;
-  readonly detail: string;
-  readonly description: string;
+  readonly detail: Shown;
+  readonly description: Shown;
   readonly profile?: ColumnProfile;
 }
 
@@ -27,21 +28,22 @@ export type View =
   | { readonly form: 'columns'; readonly columns: readonly ColumnInfo[]; readonly shape: Shape; readonly records?: Records }
   | { readonly form: 'nothing' };
 
-export type Role = { readonly name: string; readonly kind: 'categorical' | 'measurement' };
+/** A column to choose: its name in words ("the rows", from the procedure's table) and the kind of column it takes. */
+export type Role = { readonly name: Shown; readonly kind: 'categorical' | 'measurement' };
 
 export function columnInfo(p: ColumnProfile, weight: string | undefined): ColumnInfo {
   return {
     name: p.name,
     categorical: isCategorical(p) && p.name !== weight,
     measurement: isMeasurement(p),
-    description: p.stray ? 'numbers, with stray cells' : p.numeric ? 'numbers' : 'categories',
-    detail: p.name === weight ? `frequency weight: ${describeColumn(p)}` : describeColumn(p),
+    description: p.stray ? text('numbers, with stray cells') : p.numeric ? text('numbers') : text('categories'),
+    detail: p.name === weight ? text('frequency weight: {0}', describeColumn(p)) : describeColumn(p),
     profile: p,
   };
 }
 
 /** The offer read into a view: its shape inferred, with notes saying what was inferred and why. */
-export function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): View {
+export function viewOf(offer: Offer, settings: PlanSettings, notes: Shown[]): View {
   switch (offer.kind) {
     case 'nothing':
       return { form: 'nothing' };
@@ -56,7 +58,7 @@ export function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): V
       return {
         form: 'columns',
         shape: { kind: 'raw' },
-        columns: offer.columns.map((c) => ({ name: c.name, categorical: true, measurement: c.numeric, description: c.type, detail: c.numeric ? 'numbers (server type)' : 'categories (server type)' })),
+        columns: offer.columns.map((c) => ({ name: c.name, categorical: true, measurement: c.numeric, description: verbatim(c.type), detail: c.numeric ? text('numbers (server type)') : text('categories (server type)') })),
       };
     case 'records': {
       const records = offer.records;
@@ -79,18 +81,18 @@ export function viewOf(offer: Offer, settings: PlanSettings, notes: string[]): V
 
 export const sum = (xs: readonly number[]): number => xs.reduce((a, b) => a + b, 0);
 
-export function describeView(view: View): string {
+export function describeView(view: View): Shown {
   switch (view.form) {
     case 'table':
-      return `a ${view.table.rowLabels.length}×${view.table.columnLabels.length} table of counts, N = ${sum(view.table.counts.map((r) => sum(r))).toLocaleString('en-US')}`;
+      return text('a {0}×{1} table of counts, N = {2}', view.table.rowLabels.length, view.table.columnLabels.length, sum(view.table.counts.map((r) => sum(r))).toLocaleString('en-US'));
     case 'categories':
-      return `${view.counts.labels.length} category counts, N = ${sum(view.counts.counts).toLocaleString('en-US')}`;
+      return text('{0} category counts, N = {1}', view.counts.labels.length, sum(view.counts.counts).toLocaleString('en-US'));
     case 'values':
-      return `${view.values.length} values`;
+      return text('{0} values', view.values.length);
     case 'columns':
-      return `${view.columns.length} columns${view.shape.kind === 'long-counts' ? `, weighted by \`${view.shape.weightColumn}\`` : ''}`;
+      return view.shape.kind === 'long-counts' ? text('{0} columns, weighted by `{1}`', view.columns.length, view.shape.weightColumn) : text('{0} columns', view.columns.length);
     case 'nothing':
-      return 'no data';
+      return text('no data');
   }
 }
 

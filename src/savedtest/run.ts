@@ -22,6 +22,7 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   const handler = procedureFor(spec.test)!;
   throwIfAborted(options.signal);
   let provenance: Provenance | undefined;
+  let countsRead: Readonly<Record<string, unknown>> | undefined;
   const ctx: RunContext = {
     signal: options.signal,
     onProgress: options.onProgress,
@@ -31,6 +32,9 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
       const aggregate = await readSource(spec.source, request, levels, options, needs);
       provenance = aggregate.provenance;
       return aggregate;
+    },
+    countsRead(fields) {
+      countsRead = fields;
     },
   };
   // The numbers layer names the argument at fault; the saved test's user needs the field (or the source) it came from.
@@ -46,7 +50,7 @@ export async function runSpec(value: unknown, options: RunOptions): Promise<Spec
   // What the reader noticed (a formula without a stored value, a merged header) goes with the result's notices.
   const withNotices = provenance?.notices?.length ? { ...computed, notices: [...computed.notices, ...provenance.notices] } : computed;
   // Fragility, Bayes factor, equivalence: the sections a count-based test gets beside its p-value.
-  const result = withNotices.kind === 'test' ? await withArgumentsLocated(origin, () => withEvidence(withNotices, spec)) : withNotices;
+  const result = withNotices.kind === 'test' ? await withArgumentsLocated(origin, () => withEvidence(withNotices, countsRead ? { ...spec, ...countsRead } : spec)) : withNotices;
   const data: DataFingerprint = provenance
     ? { sha256: provenance.sha256, rows: provenance.rows, columns: [...provenance.columns], description: provenance.description }
     : inlineFingerprint(spec);

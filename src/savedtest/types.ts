@@ -86,4 +86,9 @@ export interface RunContext {
    * order and full set of levels when the spec names them (a level never seen still counts, with 0).
    */
   aggregate(request: AggregateRequest, levels?: Pick<CategoryOptions, 'levels' | 'rowLevels' | 'columnLevels'>, needs?: SourceNeeds): Promise<Aggregate>;
+  /**
+   * The counts a handler read from its source, as its inline data fields (`{ strata }`), so that the sections
+   * computed beside the result (fragility) see them as if they were written in the saved test.
+   */
+  countsRead?(fields: Readonly<Record<string, unknown>>): void;
 }

@@ -122,6 +122,9 @@ describe('saved tests and living reports', () => {
     const lenses = await vscode.commands.executeCommand<vscode.CodeLens[]>('vscode.executeCodeLensProvider', spec);
     const commands = lenses.map((l) => l.command?.command);
     assert.ok(commands.includes('countercheck.runSavedSpec') && commands.includes('countercheck.rerunAndCompare'), JSON.stringify(commands));
+    // Above them, the procedure and what the test reads and sets, from its field table (src/savedtest/lens.ts).
+    const titles = lenses.map((l) => l.command?.title ?? '');
+    assert.ok(titles.some((t) => t.startsWith('$(beaker) ')) && titles.some((t) => /^(file |data in the test|database |no data)/.test(t)), JSON.stringify(titles));
     const line = doc.getText().split('\n').findIndex((l) => l.includes('"test"'));
     const character = doc.lineAt(line).text.indexOf('"test"') + 2;
     const hovers = await vscode.commands.executeCommand<vscode.Hover[]>('vscode.executeHoverProvider', spec, new vscode.Position(line, character));

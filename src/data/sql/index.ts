@@ -111,6 +111,8 @@ export async function aggregateSql(source: SqlSource, request: AggregateRequest,
       return { kind: 'table', table: decoded.table, provenance };
     case 'categories':
       return { kind: 'categories', counts: decoded.counts, provenance };
+    case 'strata':
+      return { kind: 'strata', strata: decoded.strata, provenance };
     case 'moments':
       return { kind: 'moments', moments: decoded.moments, provenance, ...(decoded.values ? { values: decoded.values } : {}) };
   }

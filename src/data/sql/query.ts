@@ -11,12 +11,14 @@
  *    so it cannot end the statement we build around it; the client also sends every statement
  *    through the extended protocol, which the server accepts only as one single statement, inside
  *    a READ ONLY transaction with a statement timeout.
- *  - the aggregation is ours: GROUP BY with count(*) or sum(weight) for counts; count, avg and
+ *  - the aggregation is ours: GROUP BY with count(*) or sum(weight) for counts (one, two or three
+ *    category columns: a stratified table groups by stratum, row, column); count, avg and
  *    var_samp (plus two-pass third and fourth central moments) for a numeric column. Never Σx, Σx².
  */
 import { InputError, type InputLocation } from '../../errors';
 import { MomentAccumulator } from '../../stats/moments';
-import type { Aggregate, AggregateRequest, Provenance } from '../types';
+import type { Aggregate, AggregateRequest, Provenance, StratifiedCounts } from '../types';
+import { StrataCounter } from '../strata';
 import { CategoryCoder, MISSING, missingTokens } from '../categories';
 import type { CategoryOptions, MissingOptions } from '../options';
 import { describePosition, tokenizeSql, type SqlToken } from './lexer';
@@ -283,7 +285,7 @@ export function planAggregate(source: SqlSource, request: AggregateRequest, opti
           `  FROM (SELECT v.x - (SELECT mean FROM m) AS d FROM (\n${inner}\n) AS v) AS dv) AS c`;
     return { text, values, columns: [request.column], numericColumns: [request.column] };
   }
-  const keys = request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
+  const keys = groupKeys(request);
   const keySql = keys.map((k, i) => `(${quoteIdentifier(k, { column: k })})::text AS k${i}`);
   const groupBy = `GROUP BY ${keys.map((_, i) => String(i + 1)).join(', ')}`;
   if (request.weight === undefined) {
@@ -297,6 +299,14 @@ export function planAggregate(source: SqlSource, request: AggregateRequest, opti
     `  sum(CASE WHEN w >= 0 AND w = trunc(w) THEN 0 WHEN w IS NULL THEN 0 ELSE 1 END) AS invalid_weights\n` +
     `FROM (SELECT ${keySql.join(', ')}, ${w}\n${from}\n) AS g\n${groupBy}`;
   return { text, values, columns: [...keys, request.weight], numericColumns: [request.weight] };
+}
+
+type CountRequest = Extract<AggregateRequest, { kind: 'crosstab' | 'strata' | 'categories' }>;
+
+/** The columns a count groups by, in GROUP BY order: the stratum first for three-way counts. */
+function groupKeys(request: CountRequest): string[] {
+  if (request.kind === 'strata') return [request.stratumColumn, request.rowColumn, request.columnColumn];
+  return request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
 }
 
 /** A row as the pg client returns it: bigint and numeric arrive as strings, double precision as numbers. */
@@ -321,6 +331,7 @@ type Described = Omit<Provenance, 'sha256' | 'description'>;
 export type DecodedAggregate =
   | { readonly kind: 'table'; readonly table: Extract<Aggregate, { kind: 'table' }>['table']; readonly provenance: Described }
   | { readonly kind: 'categories'; readonly counts: Extract<Aggregate, { kind: 'categories' }>['counts']; readonly provenance: Described }
+  | { readonly kind: 'strata'; readonly strata: StratifiedCounts; readonly provenance: Described }
   | { readonly kind: 'moments'; readonly moments: Extract<Aggregate, { kind: 'moments' }>['moments']; readonly provenance: Described; readonly values?: readonly number[] };
 
 /** The rows of a values query: the column's values, NULL for missing; their moments computed here, in double precision as on the server. */
@@ -373,24 +384,25 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
       provenance: { rows: records, dropped: records - n, columns: [request.column] },
     };
   }
-  const keys = request.kind === 'crosstab' ? [request.rowColumn, request.columnColumn] : [request.column];
+  const keys = groupKeys(request);
   const cats = options.categories;
   const settings = {
     missing: { ...options.missing, tokens: [...missingTokens(options.missing), NULL_TOKEN] },
     categories: { ...cats, order: cats?.order === 'given' ? ('given' as const) : ('sorted' as const) },
   };
-  const given = request.kind === 'crosstab' ? [cats?.rowLevels, cats?.columnLevels] : [cats?.levels];
+  const given = request.kind === 'strata' ? [cats?.levels, cats?.rowLevels, cats?.columnLevels] : request.kind === 'crosstab' ? [cats?.rowLevels, cats?.columnLevels] : [cats?.levels];
   const coders = keys.map((k, i) => new CategoryCoder(k, given[i], settings));
   const weighted = request.weight !== undefined;
   const label = (raw: unknown): string => (raw === null || raw === undefined ? NULL_TOKEN : String(raw));
   // Groups in a fixed order, so that labels equal after trimming or case folding show the same way each run.
   const groups = rows
     .map((row) => ({ row, labels: keys.map((_, i) => label(row[`k${i}`])) }))
-    .sort((a, b) => byCodeUnits(a.labels[0], b.labels[0]) || byCodeUnits(a.labels[1] ?? '', b.labels[1] ?? ''));
+    .sort((a, b) => byCodeUnits(a.labels[0], b.labels[0]) || byCodeUnits(a.labels[1] ?? '', b.labels[1] ?? '') || byCodeUnits(a.labels[2] ?? '', b.labels[2] ?? ''));
   let records = 0;
   let dropped = 0;
   let invalidWeights = 0;
   const cells: number[][] = [];
+  const strata = request.kind === 'strata' ? new StrataCounter() : undefined;
   // Levels shown, as the file readers show them: given ones, and those of a record that was kept.
   const usedRows = new Set<number>();
   const usedColumns = new Set<number>();
@@ -415,6 +427,10 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
     }
     dropped += n - withWeight;
     if (withWeight === 0) continue;
+    if (strata) {
+      strata.add(ids[0], ids[1], ids[2], count);
+      continue;
+    }
     const r = ids[0];
     const c = ids[1] ?? 0;
     const cellRow = (cells[r] ??= []);
@@ -430,6 +446,7 @@ export function decodeAggregate(request: AggregateRequest, rows: readonly Aggreg
     );
   }
   const provenance: Described = { rows: records, dropped, columns: weighted ? [...keys, request.weight as string] : keys };
+  if (strata) return { kind: 'strata', strata: strata.result(coders[0], coders[1], coders[2]), provenance };
   const rowOrder = coders[0].order().filter((i) => coders[0].isGiven(i) || usedRows.has(i));
   const rowLabels = rowOrder.map((i) => coders[0].labels[i]);
   if (request.kind === 'categories') {
@@ -454,6 +471,7 @@ export function canonicalAggregate(decoded: DecodedAggregate): string {
   const head = { rows: p.rows, dropped: p.dropped, columns: p.columns };
   if (decoded.kind === 'table') return JSON.stringify({ kind: 'table', ...head, ...decoded.table });
   if (decoded.kind === 'categories') return JSON.stringify({ kind: 'categories', ...head, ...decoded.counts });
+  if (decoded.kind === 'strata') return JSON.stringify({ kind: 'strata', ...head, ...decoded.strata });
   const m = decoded.moments;
   const r = (x: number): string => (Number.isFinite(x) ? x.toPrecision(12) : String(x));
   return JSON.stringify({ kind: 'moments', ...head, n: m.n, mean: r(m.mean), m2: r(m.m2), min: r(m.min), max: r(m.max), ...(decoded.values ? { values: decoded.values } : {}) });

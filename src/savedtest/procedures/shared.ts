@@ -171,6 +171,7 @@ function isEmptyAggregate(aggregate: Aggregate): boolean {
   const total = (counts: readonly number[]): number => counts.reduce((a, b) => a + b, 0);
   if (aggregate.kind === 'table') return total(aggregate.table.counts.flat()) === 0;
   if (aggregate.kind === 'categories') return total(aggregate.counts.counts) === 0;
+  if (aggregate.kind === 'strata') return total(aggregate.strata.counts.flat(2)) === 0;
   return aggregate.moments.n === 0;
 }
 

@@ -1,10 +1,13 @@
 // Translatable strings. Runtime: every user-visible string in src/host goes through vscode.l10n.t, and
 // l10n/bundle.l10n.json lists exactly the messages the code passes to it (UPDATE_L10N=1 rewrites the bundle).
+// The planner's words (src/planner, shown by the wizard through vscode.l10n.t) are in the bundle too: the literal
+// templates of its `text('…')` calls and the strings of the procedures' field tables it shows (`tableText`).
 // Contributions: every %key% in package.json has its English text in package.nls.json, and every entry is used.
 import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import * as ts from 'typescript';
+import { PROCEDURES } from '../../../src/savedtest/procedures/index';
 
 const root = join(__dirname, '..', '..', '..');
 
@@ -16,7 +19,53 @@ function tsFiles(dir: string): string[] {
   });
 }
 
-const sources = tsFiles(join(root, 'src', 'host')).map((file) => ts.createSourceFile(file, readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true));
+const parse = (file: string) => ts.createSourceFile(file, readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true);
+const sources = tsFiles(join(root, 'src', 'host')).map(parse);
+const plannerSources = tsFiles(join(root, 'src', 'planner')).map(parse);
+
+/** The one translation call whose message is not a literal: the wizard's rendering of the planner's templates. */
+function isPlannerRendering(node: ts.CallExpression): boolean {
+  let f: ts.Node | undefined = node;
+  while (f && !ts.isFunctionDeclaration(f)) f = f.parent;
+  return relative(root, node.getSourceFile().fileName) === join('src', 'host', 'wizard.ts') && f?.name?.text === 'shown' && node.arguments[0]?.getText() === 's.message';
+}
+
+/** The planner's templates: `text('…')` calls in src/planner (a message that is not a literal is listed as dynamic). */
+function plannerMessages(): { messages: Set<string>; dynamic: string[]; verbatimWords: string[] } {
+  const messages = new Set<string>();
+  const dynamic: string[] = [];
+  const verbatimWords: string[] = [];
+  for (const source of plannerSources) {
+    walk(source, (node) => {
+      if (!ts.isCallExpression(node) || !ts.isIdentifier(node.expression)) return;
+      const first = node.arguments[0];
+      const where = `${relative(root, source.fileName)}:${source.getLineAndCharacterOfPosition(node.getStart()).line + 1}: ${node.getText().slice(0, 70)}`;
+      if (node.expression.text === 'text') {
+        if (first && (ts.isStringLiteral(first) || ts.isNoSubstitutionTemplateLiteral(first))) messages.add(first.text);
+        else dynamic.push(where);
+      }
+      // Verbatim text is for words from the data; English written there would never be translated.
+      if (node.expression.text === 'verbatim' && first && hasWords(first)) verbatimWords.push(where);
+    });
+  }
+  return { messages, dynamic, verbatimWords };
+}
+
+/** The field-table strings the planner shows: planning labels, details, roles, question titles, choice labels, and the prompts (field descriptions) of the questions. */
+function tableMessages(): Set<string> {
+  const messages = new Set<string>();
+  for (const p of PROCEDURES) {
+    const planning = p.planning;
+    if (!planning) continue;
+    for (const s of [planning.label, planning.detail, ...(planning.roles ?? []), ...(planning.variants ?? []).flatMap((v) => [v.label, v.detail])]) messages.add(s);
+    for (const q of planning.questions ?? []) {
+      messages.add(q.title);
+      messages.add(p.fields[q.field].description);
+      for (const label of Object.values(q.choiceLabels ?? {})) messages.add(label);
+    }
+  }
+  return messages;
+}
 
 /** `vscode.l10n.t(…)`, or `t(…)` where the file binds `const t = vscode.l10n.t`. */
 function isL10nCall(node: ts.Node): node is ts.CallExpression {
@@ -66,15 +115,26 @@ describe('translatable strings', () => {
         if (!isL10nCall(node)) return;
         const first = node.arguments[0];
         if (first && (ts.isStringLiteral(first) || ts.isNoSubstitutionTemplateLiteral(first))) messages.add(first.text);
-        else dynamic.push(`${relative(root, source.fileName)}: ${node.getText().slice(0, 60)}`);
+        else if (!isPlannerRendering(node)) dynamic.push(`${relative(root, source.fileName)}: ${node.getText().slice(0, 60)}`);
       });
     }
     assert.deepEqual(dynamic, [], 'a message must be a literal so it can be translated');
+    for (const m of [...plannerMessages().messages, ...tableMessages()]) messages.add(m);
     const bundle = Object.fromEntries([...messages].sort().map((m) => [m, m]));
     const file = join(root, 'l10n', 'bundle.l10n.json');
     if (process.env.UPDATE_L10N) writeFileSync(file, JSON.stringify(bundle, null, 2) + '\n');
     assert.deepEqual(JSON.parse(readFileSync(file, 'utf8')), bundle, 'stale bundle: run UPDATE_L10N=1 npx mocha test/unit/host/l10n.test.ts');
     assert.ok(messages.size > 50, `only ${messages.size} messages found`);
+  });
+
+  it("every word the planner shows is a literal template or a field table's string, and each is in the bundle", () => {
+    const { messages, dynamic, verbatimWords } = plannerMessages();
+    assert.deepEqual(dynamic, [], 'text() needs a literal template (use tableText for a field-table string, listOf for a list)');
+    assert.deepEqual(verbatimWords, [], 'verbatim() is for words from the data; write English with text()');
+    assert.ok(messages.has('Which test?') && messages.size > 30, `only ${messages.size} planner templates found`);
+    const bundle = JSON.parse(readFileSync(join(root, 'l10n', 'bundle.l10n.json'), 'utf8')) as Record<string, string>;
+    const missing = [...messages, ...tableMessages()].filter((m) => !(m in bundle));
+    assert.deepEqual(missing, [], 'planner questions missing from l10n/bundle.l10n.json: run UPDATE_L10N=1 npx mocha test/unit/host/l10n.test.ts');
   });
 
   it('package.json takes its contributed strings from package.nls.json', () => {

@@ -8,6 +8,7 @@ import { parseDelimited } from '../../../src/data/delimited';
 import { isInputError } from '../../../src/errors';
 import { offerFromText } from '../../../src/planner/offer';
 import { plan } from '../../../src/planner/plan';
+import { english } from '../../../src/planner/questions';
 import { inferShape, profileColumns } from '../../../src/planner/profile';
 import { ScriptedQuestions } from './fakeQuestions';
 import { demo, fileOffer, fileOfferAt, planAndRun, settings } from './helpers';
@@ -35,14 +36,14 @@ describe('shape inference on the demo files', () => {
     assert.deepEqual(planned.spec.rowLabels, ['coated', 'uncoated', 'pelleted']);
     assert.equal(result.n, 2950, '1,152 + 65 + 474 + 168 + 972 + 119');
     assert.equal(result.df, 2);
-    assert.match(planned.notes.join(' '), /already counted/);
+    assert.match(planned.notes.map(english).join(' '), /already counted/);
   });
 
   it('bike-share-survey.csv: `riders` is the weight (long counts), N = 1,300 not 20, and the wizard says why', async () => {
     const { planned, result, questions } = await planAndRun(fileOffer('bike-share-survey.csv'), { 'Which test?': 'Goodness of fit of one categorical variable', 'Choose the column': 'purpose', 'Expected distribution': 'Equal proportions' });
     assert.deepEqual(planned.spec.source, { path: 'data/bike-share-survey.csv', columns: ['purpose'], weight: 'riders' });
     assert.equal(result.n, 1300, 'sum of the riders column');
-    assert.match(planned.notes.join(' '), /`riders` is the frequency weight: each combination of `area` × `purpose` appears once .*total 1,300 over 20 rows/);
+    assert.match(planned.notes.map(english).join(' '), /`riders` is the frequency weight: each combination of `area` × `purpose` appears once .*total 1,300 over 20 rows/);
     // The weight column is not offered as a category.
     const columnChoice = questions.asked.find((a) => a.placeholder === 'Choose the column');
     assert.ok(columnChoice && !columnChoice.choices!.includes('riders'), `offered ${columnChoice?.choices}`);

@@ -69,7 +69,7 @@ describe('the planner reaches every procedure', () => {
     }
   }
 
-  it('from a database catalogue: procedures that read a source get a SQL source, trend its level orders from the server; stratified is not offered', async () => {
+  it('from a database catalogue: procedures that read a source get a SQL source, trend its level orders from the server, stratified its three columns', async () => {
     const offer: Offer = {
       kind: 'catalogue',
       sql: { connection: 'bakery', table: 'public.trays' },
@@ -79,8 +79,8 @@ describe('the planner reaches every procedure', () => {
     };
     const listing = new ScriptedQuestions({ 'Which test?': false });
     await assert.rejects(plan({ offer, questions: listing, settings, specFolder: demo }));
-    assert.ok(!listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string), 'stratified keeps its counts inline, which a database cannot');
-    for (const test of ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'post-hoc', 'trend', 'paired']) {
+    assert.ok(listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string), 'stratified is counted on the server');
+    for (const test of ['independence', 'goodness-of-fit', 'variance', 'distribution-fit', 'post-hoc', 'trend', 'paired', 'stratified']) {
       // The catalogue has no before/after pair; planning does not count, so any two columns show the SQL source.
       const script = test === 'paired' ? { ...SCRIPTS[test], 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' } : SCRIPTS[test];
       const planned = await plan({ offer, questions: new ScriptedQuestions({ ...script }), settings, specFolder: demo, given: { where: "shift = 'late'" } });
@@ -89,6 +89,7 @@ describe('the planner reaches every procedure', () => {
       assert.deepEqual(source.sql, offer.sql, test);
       assert.equal(source.where, "shift = 'late'", test);
       if (test === 'trend') assert.deepEqual([planned.spec.rowLabels, planned.spec.columnLabels], [['early', 'late'], ['A', 'B', 'C']]);
+      if (test === 'stratified') assert.deepEqual((planned.spec.source as { columns: unknown }).columns, ['oven', 'shift', 'defect']);
     }
   });
 
@@ -98,6 +99,19 @@ describe('the planner reaches every procedure', () => {
       planAndRun(fileOffer('bakery-defects.csv'), { 'Which test?': 'Paired classifications', 'Choose the first classification': 'shift', 'Choose the second classification': 'oven' }),
       (e: Error & { code?: string }) => e.code === 'paired-no-common-category' && /`shift` \((early|late|night)(, (early|late|night)){2}\) and `oven` \([A-D](, [A-D]){3}\) share no category/.test(e.message) && /test of independence/.test(e.message),
     );
+  });
+
+  it('stratified is not offered for a database table with fewer than three categorical columns', async () => {
+    const offer: Offer = {
+      kind: 'catalogue',
+      sql: { connection: 'bakery', table: 'public.ovens' },
+      columns: [{ name: 'oven', type: 'text', numeric: false }, { name: 'defect', type: 'text', numeric: false }],
+      description: 'bakery: public.ovens',
+    };
+    const listing = new ScriptedQuestions({ 'Which test?': false });
+    await assert.rejects(plan({ offer, questions: listing, settings, specFolder: demo }));
+    assert.ok(listing.asked[0].choices!.includes(SCRIPTS.independence['Which test?'] as string));
+    assert.ok(!listing.asked[0].choices!.includes(SCRIPTS.stratified['Which test?'] as string));
   });
 
   it('power and distribution from the palette (no data)', async () => {

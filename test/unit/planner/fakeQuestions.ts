@@ -1,6 +1,6 @@
 // A scripted stand-in for the editor's QuickPicks and input boxes: each question is answered from a table
 // keyed by its title (or placeholder); a question without an answer fails the test, naming the question.
-import { Cancelled, type Choice, type Questions } from '../../../src/planner/questions';
+import { Cancelled, english, type Choice, type Questions, type Shown } from '../../../src/planner/questions';
 
 export interface Asked {
   readonly title: string;
@@ -27,26 +27,31 @@ export class ScriptedQuestions implements Questions {
     return value as string | boolean;
   }
 
-  async choose<T>(q: { title: string; placeholder: string; choices: readonly Choice<T>[] }): Promise<T> {
-    this.asked.push({ title: q.title, placeholder: q.placeholder, choices: q.choices.map((c) => c.label), details: q.choices.map((c) => c.detail) });
-    const a = this.answer(q.title, q.placeholder);
+  // The planner's words arrive as templates; the fake reads them in English, as the command line would.
+  async choose<T>(q: { title: Shown; placeholder: Shown; choices: readonly Choice<T>[] }): Promise<T> {
+    const [title, placeholder] = [english(q.title), english(q.placeholder)];
+    const labels = q.choices.map((c) => english(c.label));
+    this.asked.push({ title, placeholder, choices: labels, details: q.choices.map((c) => (c.detail ? english(c.detail) : undefined)) });
+    const a = this.answer(title, placeholder);
     if (a === false) throw new Cancelled();
     // "#1" takes the first choice offered (orders of levels, whose labels depend on the data).
-    const hit = a === '#1' ? q.choices[0] : q.choices.find((c) => c.label === a || c.value === a);
-    if (!hit) throw new Error(`"${q.title}" (${q.placeholder}) offers no "${String(a)}"; it offers ${q.choices.map((c) => c.label).join(' | ')}`);
+    const hit = a === '#1' ? q.choices[0] : q.choices.find((c, i) => labels[i] === a || c.value === a);
+    if (!hit) throw new Error(`"${title}" (${placeholder}) offers no "${String(a)}"; it offers ${labels.join(' | ')}`);
     return hit.value;
   }
 
-  async enter(q: { title: string; prompt: string; validate: (text: string) => string | undefined }): Promise<string> {
-    this.asked.push({ title: q.title, placeholder: q.prompt });
-    const a = String(this.answer(q.title, q.prompt));
+  async enter(q: { title: Shown; prompt: Shown; validate: (text: string) => Shown | undefined }): Promise<string> {
+    const [title, prompt] = [english(q.title), english(q.prompt)];
+    this.asked.push({ title, placeholder: prompt });
+    const a = String(this.answer(title, prompt));
     const problem = q.validate(a);
-    if (problem) throw new Error(`"${q.title}" refused "${a}": ${problem}`);
+    if (problem) throw new Error(`"${title}" refused "${a}": ${english(problem)}`);
     return a;
   }
 
-  async confirm(q: { title: string; message: string }): Promise<boolean> {
-    this.asked.push({ title: q.title, placeholder: q.message });
-    return this.answer(q.title, q.message) === true;
+  async confirm(q: { title: Shown; message: Shown }): Promise<boolean> {
+    const [title, message] = [english(q.title), english(q.message)];
+    this.asked.push({ title, placeholder: message });
+    return this.answer(title, message) === true;
   }
 }

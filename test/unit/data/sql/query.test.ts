@@ -185,6 +185,28 @@ describe('generated aggregation', () => {
     );
   });
 
+  it('counts stratum × row × column with one GROUP BY, the stratum first, every name quoted', () => {
+    const plan = planAggregate(table, { kind: 'strata', stratumColumn: 'plant "2"', rowColumn: 'shift', columnColumn: 'defect' });
+    assert.equal(
+      plan.text,
+      'SELECT ("plant ""2""")::text AS k0, ("shift")::text AS k1, ("defect")::text AS k2, count(*) AS records\nFROM "public"."defects"\nGROUP BY 1, 2, 3',
+    );
+    assert.deepEqual(plan.columns, ['plant "2"', 'shift', 'defect']);
+    assert.deepEqual(plan.numericColumns, []);
+  });
+
+  it("weights a three-way count with sum(weight) and binds the where condition's values", () => {
+    const plan = planAggregate({ ...table, where: 'oven = $1', parameters: ['B'] }, { kind: 'strata', stratumColumn: 'plant', rowColumn: 'shift', columnColumn: 'defect', weight: 'n' });
+    assert.equal(
+      plan.text,
+      'SELECT k0, k1, k2, count(*) AS records, count(w) AS weighted, sum(w) AS weight,\n' +
+        '  sum(CASE WHEN w >= 0 AND w = trunc(w) THEN 0 WHEN w IS NULL THEN 0 ELSE 1 END) AS invalid_weights\n' +
+        'FROM (SELECT ("plant")::text AS k0, ("shift")::text AS k1, ("defect")::text AS k2, NULLIF(("n")::numeric, \'NaN\'::numeric) AS w\nFROM "public"."defects"\nWHERE (\noven = $1\n)\n) AS g\nGROUP BY 1, 2, 3',
+    );
+    assert.deepEqual(plan.values, ['B']);
+    assert.deepEqual(plan.numericColumns, ['n']);
+  });
+
   it('refuses an already counted table', () => {
     refuses(() => planAggregate(table, { kind: 'counted-table' }), 'sql-counted-table', /weight/);
   });
@@ -259,6 +281,38 @@ describe('decoding aggregate rows', () => {
       { k0: 'b', records: 1, weighted: 1, weight: '3', invalid_weights: 0 },
     ]);
     assert.deepEqual(zero.kind === 'categories' && zero.counts, { labels: ['a', 'b'], counts: [0, 3] });
+  });
+
+  it('decodes three-way rows into one table per stratum, with the rows and columns of all strata and missing values dropped', () => {
+    const request = { kind: 'strata', stratumColumn: 'plant', rowColumn: 'shift', columnColumn: 'defect' } as const;
+    const d = decodeAggregate(request, [
+      { k0: 'north', k1: 'early', k2: 'crack', records: '3' },
+      { k0: 'north', k1: 'late', k2: 'burn', records: '2' },
+      { k0: 'south', k1: 'early', k2: 'burn', records: '7' },
+      { k0: ' south', k1: 'late', k2: 'crack', records: '1' },
+      { k0: null, k1: 'late', k2: 'crack', records: '4' },
+      { k0: 'west', k1: 'late', k2: null, records: '5' },
+    ]);
+    assert.equal(d.kind, 'strata');
+    if (d.kind !== 'strata') return;
+    assert.deepEqual(
+      d.strata,
+      { stratumLabels: ['north', 'south'], rowLabels: ['early', 'late'], columnLabels: ['burn', 'crack'], counts: [[[0, 3], [2, 0]], [[7, 0], [0, 1]]] },
+      'west is only beside a missing value, so it is left out as from a file',
+    );
+    assert.deepEqual(d.provenance, { rows: 22, dropped: 9, columns: ['plant', 'shift', 'defect'] });
+    const given = decodeAggregate(request, [{ k0: 'north', k1: 'early', k2: 'crack', records: 2 }], {
+      categories: { order: 'given', levels: ['south', 'north'], rowLevels: ['early', 'late'], columnLevels: ['crack', 'burn'] },
+    });
+    assert.deepEqual(given.kind === 'strata' && given.strata, {
+      stratumLabels: ['south', 'north'],
+      rowLabels: ['early', 'late'],
+      columnLabels: ['crack', 'burn'],
+      counts: [[[0, 0], [0, 0]], [[2, 0], [0, 0]]],
+    });
+    const weighted = decodeAggregate({ ...request, weight: 'n' }, [{ k0: 'a', k1: 'x', k2: 'y', records: 2, weighted: 2, weight: '9', invalid_weights: 0 }]);
+    assert.deepEqual(weighted.kind === 'strata' && weighted.strata.counts, [[[9]]]);
+    assert.notEqual(canonicalAggregate(d), canonicalAggregate(given), 'the fingerprint sees the counts');
   });
 
   it('takes m2 from the corrected two-pass sums when the second pass ran', () => {
