@@ -239,9 +239,9 @@ function devianceSeriesRest(a: number, v: number): number {
  * x are within a factor 3 — the series' terms share a sign or shrink by |v|/3 — else by the logarithm).
  * Where the result is below 8 one rounding costs < 2e-15, so plain double arithmetic is kept.
  */
-function devianceParts(a: number, x: number): void {
+function devianceParts(a: number, x: number, difference?: number): void {
   if (Math.abs(a - x) < 0.5 * (a + x)) {
-    const d0 = a - x;
+    const d0 = difference ?? a - x;
     const v0 = d0 / (a + x);
     const plain = d0 * v0 + devianceSeriesRest(a, v0);
     if (plain < 8) {
@@ -255,8 +255,8 @@ function devianceParts(a: number, x: number): void {
   // form in double-double has no cancellation worth the name.
   if (Math.abs(a - x) < 0.1 * (a + x)) {
     twoSum(a, -x);
-    const d = ddHi;
-    const de = ddLo;
+    const d = difference ?? ddHi;
+    const de = difference === undefined ? ddLo : 0;
     twoSum(a, x);
     const s = ddHi;
     const se = ddLo;
@@ -291,9 +291,25 @@ function devianceParts(a: number, x: number): void {
   twoSum(ddHi, e + me + a * (le + lae - lxe) + dxe);
 }
 
+/** The rounding error of the product a·b: a·b − fl(a·b), exactly (Dekker's two-product). */
+export function productError(a: number, b: number): number {
+  twoProduct(a, b);
+  return ddLo;
+}
+
 /** a ln(a/x) + x − a (Loader's bd0), for a, x > 0. */
 export function deviance(a: number, x: number): number {
   devianceParts(a, x);
+  return ddHi + ddLo;
+}
+
+/**
+ * The same with a − x given as `difference`, for callers that know it more precisely than a − x rounds: above 2^52
+ * a double holds no fraction, yet a = base + offset at a fractional offset has a − x = (base − x) + offset exactly
+ * enough. Where a and x differ by 10% or more the rounding of a no longer matters and the difference is not used.
+ */
+export function devianceWithDifference(a: number, x: number, difference: number): number {
+  devianceParts(a, x, difference);
   return ddHi + ddLo;
 }
 

@@ -7,9 +7,13 @@
  * Hypergeometric probabilities are ratios of binomial ones (logBinomialPmf in discrete.ts: Loader's (2000)
  * saddle-point form with Stirling-series errors and the deviance term bd0), which keeps full relative precision for counts up to 1e9 and beyond, where a difference of
  * log-binomial coefficients of size 1e10 would lose five digits. Tails are summed outwards from their start
- * until the terms no longer matter, so a table with margins of 1e9 costs about 10·sqrt(N) terms at most.
+ * until the terms no longer matter, or integrated when that would take more than about 1e5 terms (logTailSum),
+ * so a tail costs the same at margins of 1e9 and 1e15.
  */
-import { logBinomialPmf } from '../distributions/discrete';
+import { logBinomialPmf, logTailSum } from '../distributions/discrete';
+import { devianceWithDifference, stirlingError } from '../distributions/gamma';
+
+const LN_2PI = Math.log(2 * Math.PI);
 import { probabilityFromLog, probabilityFromValue } from '../distributions/probability';
 import type { Probability } from '../result';
 
@@ -38,6 +42,9 @@ class Hypergeometric {
   private readonly p: number;
   private readonly q: number;
   private readonly logDenominator: number;
+  /** The means of the four cells, r1·c1/N, r1·(N − c1)/N, r2·c1/N, r2·(N − c1)/N. */
+  private readonly means: readonly [number, number, number, number];
+  private readonly constant: number;
 
   constructor(
     private readonly row1: number,
@@ -45,21 +52,59 @@ class Hypergeometric {
     private readonly column1: number,
   ) {
     const total = row1 + row2;
+    const column2 = total - column1;
     this.lo = Math.max(0, column1 - row2);
     this.hi = Math.min(row1, column1);
-    this.mode = Math.min(this.hi, Math.max(this.lo, Math.floor(((column1 + 1) * (row1 + 1)) / (total + 2))));
+    // ⌊(c1 + 1)(r1 + 1)/(N + 2)⌋, in whole numbers when the product passes 2^53.
+    const product = (column1 + 1) * (row1 + 1);
+    const mode = product <= Number.MAX_SAFE_INTEGER ? Math.floor(product / (total + 2)) : Number(((BigInt(column1) + 1n) * (BigInt(row1) + 1n)) / (BigInt(total) + 2n));
+    this.mode = Math.min(this.hi, Math.max(this.lo, mode));
     this.p = column1 / total;
-    this.q = (total - column1) / total;
+    this.q = column2 / total;
     this.logDenominator = logBinomialPmf(column1, total, this.p, this.q);
+    this.means = [(row1 * column1) / total, (row1 * column2) / total, (row2 * column1) / total, (row2 * column2) / total];
+    this.constant =
+      stirlingError(row1) + stirlingError(row2) - stirlingError(total) + stirlingError(column1) + stirlingError(column2) +
+      0.5 * (Math.log(row1) + Math.log(row2) + Math.log(column1) + Math.log(column2) - Math.log(total) - LN_2PI);
   }
 
-  /** ln P(X = x) (Loader 2000: the ratio of three binomial probabilities with p = column1 / N). */
+  /** ln P(X = x) at whole x. */
   logProbability(x: number): number {
     if (x < this.lo || x > this.hi) return -Infinity;
+    return this.logSmooth(x, 0);
+  }
+
+  /** x − r1·c1/N for a whole x, from the exact numerator x·N − r1·c1 (in whole numbers past 2^53). */
+  private offsetFromMean(x: number): number {
+    const total = this.row1 + this.row2;
+    const a = x * total;
+    const b = this.row1 * this.column1;
+    if (a <= Number.MAX_SAFE_INTEGER && b <= Number.MAX_SAFE_INTEGER) return (a - b) / total;
+    return Number(BigInt(x) * BigInt(total) - BigInt(this.row1) * BigInt(this.column1)) / total;
+  }
+
+  /**
+   * ln P(X = base + offset) on the smooth curve through the probabilities, for a whole base and any real offset
+   * inside the support: Loader's (2000) saddle-point form of C(r1, x)·C(r2, c1 − x)/C(N, c1), with the four cells
+   * x, r1 − x, c1 − x, r2 − c1 + x measured from their means r1c1/N, … by the one exact offset d = x − r1c1/N (±d
+   * for each cell). With a rounded p = c1/N instead, each of the three binomial factors would carry terms of size
+   * N·ulp(p) ≈ 0.4 at N = 4e15 that cancel only to about 1e-9; this form keeps about 1e-15.
+   */
+  private logSmooth(base: number, offset: number): number {
+    const x = base + offset;
+    const cells = [x, this.row1 - base - offset, this.column1 - base - offset, this.row2 - this.column1 + base + offset];
+    if (cells.some((c) => c <= 0)) {
+      // An edge of the support (whole x only): the ratio of three binomial probabilities with p = c1/N.
+      return logBinomialPmf(x, this.row1, this.p, this.q) + logBinomialPmf(this.column1 - x, this.row2, this.p, this.q) - this.logDenominator;
+    }
+    const d = this.offsetFromMean(base) + offset;
+    const [m1, m2, m3, m4] = this.means;
     return (
-      logBinomialPmf(x, this.row1, this.p, this.q) +
-      logBinomialPmf(this.column1 - x, this.row2, this.p, this.q) -
-      this.logDenominator
+      this.constant -
+      stirlingError(cells[0]) - stirlingError(cells[1]) - stirlingError(cells[2]) - stirlingError(cells[3]) -
+      devianceWithDifference(cells[0], m1, d) - devianceWithDifference(cells[1], m2, -d) -
+      devianceWithDifference(cells[2], m3, -d) - devianceWithDifference(cells[3], m4, d) -
+      0.5 * (Math.log(cells[0]) + Math.log(cells[1]) + Math.log(cells[2]) + Math.log(cells[3]))
     );
   }
 
@@ -69,21 +114,14 @@ class Hypergeometric {
   }
 
   /**
-   * Σ P(X = y) / P(X = reference) over y from `start` outwards (step +1 or −1) to the end of the support,
-   * where the terms are non-increasing. The recurrence is re-anchored on the exact log-probability every
-   * 1024 steps so rounding does not accumulate over long tails (at most about 1e-13 relative).
+   * Σ P(X = y) / P(X = reference) over y from `start` outwards (step +1 or −1) to the end of the support, where
+   * the terms are non-increasing: summed term by term when short, else integrated (logTailSum in discrete.ts), so
+   * the cost does not grow with the margins.
    */
   relativeTail(start: number, step: 1 | -1, logReference: number): number {
-    const end = step === 1 ? this.hi : this.lo;
-    let sum = 0;
-    let w = Math.exp(this.logProbability(start) - logReference);
-    for (let x = start, i = 0; step === 1 ? x <= end : x >= end; x += step, i++) {
-      if ((i & 1023) === 0) w = Math.exp(this.logProbability(x) - logReference);
-      sum += w;
-      if (w <= 1e-17 * sum) break;
-      w *= step === 1 ? this.ratioUp(x) : 1 / this.ratioUp(x - 1);
-    }
-    return sum;
+    const ratio = step === 1 ? (x: number) => this.ratioUp(x) : (x: number) => 1 / this.ratioUp(x - 1);
+    const logSum = logTailSum(start, step === 1 ? this.hi : this.lo, (t) => this.logSmooth(start, step * t), ratio);
+    return Math.exp(logSum - logReference);
   }
 
   /** P(X ≥ x) */
@@ -114,7 +152,7 @@ class Hypergeometric {
     let lo = from;
     let hi = to;
     while (lo < hi) {
-      const mid = Math.floor((lo + hi) / 2);
+      const mid = lo + Math.floor((hi - lo) / 2); // (lo + hi)/2 rounds above 2^53
       if (this.logProbability(mid) <= limit) hi = mid;
       else lo = mid + 1;
     }
@@ -127,7 +165,7 @@ class Hypergeometric {
     let lo = from;
     let hi = to;
     while (lo < hi) {
-      const mid = Math.ceil((lo + hi) / 2);
+      const mid = lo + Math.ceil((hi - lo) / 2);
       if (this.logProbability(mid) <= limit) lo = mid;
       else hi = mid - 1;
     }
