@@ -63,7 +63,8 @@ export function fragilityLines(result: TestResult): string[] {
   const by = BASIS_WORDS[f.basis] ?? f.basis;
   const flip = f.reverse ? 'significant' : 'not significant';
   if (f.index === null && f.searchStopped) {
-    return [`Fragility: at least ${f.lowerBound} changes of single outcomes would be needed to make the result ${flip}; the bounded search stopped at its work limit before finding them (${source}; by ${by}).`];
+    const changes = f.lowerBound === 1 ? '1 change of a single outcome' : `${f.lowerBound} changes of single outcomes`;
+    return [`Fragility: at least ${changes} would be needed to make the result ${flip}; the bounded search stopped at its work limit before finding ${f.lowerBound === 1 ? 'one' : 'them'} (${source}; by ${by}).`];
   }
   if (f.index === null) {
     return [`Fragility: no ${f.method === 'exact' ? '' : 'searched '}change of single outcomes makes the result ${flip} (${source}; by ${by}).`];

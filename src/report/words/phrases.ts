@@ -203,6 +203,12 @@ function postHocConclusion(a: PhraseArgs, t: Translate): string {
   }
   const flagged = strings(a, 'flagged');
   const list = `${flagged.join('; ')}${count > flagged.length ? '; …' : ''}`;
+  if (count === 1) {
+    if (compare === 'cells') return t('After {0} adjustment, 1 cell differs {1}: {2}.', adjustment, level, list);
+    return compare === 'rows'
+      ? t('After {0} adjustment, 1 pair of rows differs {1}: {2}.', adjustment, level, list)
+      : t('After {0} adjustment, 1 pair of columns differs {1}: {2}.', adjustment, level, list);
+  }
   if (compare === 'cells') return t('After {0} adjustment, {1} cells differ {2}: {3}.', adjustment, count, level, list);
   return compare === 'rows'
     ? t('After {0} adjustment, {1} pairs of rows differ {2}: {3}.', adjustment, count, level, list)

@@ -56,4 +56,11 @@ describe('post-hoc comparisons on an r×c table', () => {
   it('refuses an empty row with its label', () => {
     assert.throws(() => wordResult(postHocTest([[1, 2], [0, 0], [3, 4]], { rowLabels: ['a', 'b', 'c'] })), (e: unknown) => isInstance(e, InputError) && /"b"/.test(e.message));
   });
+
+  it('words a single flagged pair in the singular', () => {
+    // Pairs of rows as 2×2 Pearson tests (worked by hand): a vs c X² = 8.33, p = .0039, Holm × 3 = .012 (flagged);
+    // b vs c X² = 4.20, p = .040, Holm × 2 = .081; a vs b X² = 0.72. Exactly one pair differs.
+    const r = wordResult(postHocTest([[50, 50], [56, 44], [70, 30]], { compare: 'rows', adjustment: 'holm', rowLabels: ['a', 'b', 'c'] }));
+    assert.equal(r.conclusion, 'After Holm adjustment, 1 pair of rows differs at the 5% level: a vs c.');
+  });
 });
