@@ -9,6 +9,11 @@ import { InputError } from '../errors';
 import { english, text, type Questions } from './questions';
 import { sum, type ColumnInfo, type Role, type View } from './view';
 
+/** Asks the question; a user who declines stops the plan with `stop`, which says why. */
+async function confirmOrStop(questions: Questions, question: Parameters<Questions['confirm']>[0], stop: InputError): Promise<void> {
+  if (!(await questions.confirm(question))) throw stop;
+}
+
 /** A categorical role given a column of measurements, or a count column, is refused or confirmed in words. */
 export async function checkCategoryColumns(view: Extract<View, { form: 'columns' }>, roles: readonly Role[], columns: readonly string[], weight: string | undefined, questions: Questions): Promise<void> {
   for (const [k, role] of roles.entries()) {
@@ -27,17 +32,20 @@ export async function checkCategoryColumns(view: Extract<View, { form: 'columns'
     // took for the frequency weight is not, and saying so is worth a question.
     const looksLikeCounts = view.shape.kind === 'long-counts' && view.shape.weightColumn === p.name;
     if (looksLikeCounts && weight === undefined) {
-      const go = await questions.confirm({
-        title: text('A numeric column as a category'),
-        message: text(
-          '`{0}` holds whole numbers (total {1} over {2} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?',
-          p.name,
-          p.total.toLocaleString('en-US'),
-          p.present,
-        ),
-        accept: text('Use as a category'),
-      });
-      if (!go) throw new InputError(`stopped: \`${p.name}\` looks like a count column, not a category`, { column: p.name }, 'numeric-as-category');
+      await confirmOrStop(
+        questions,
+        {
+          title: text('A numeric column as a category'),
+          message: text(
+            '`{0}` holds whole numbers (total {1} over {2} rows) that look like counts; as a category each different number becomes a level and every row counts once. Use it as a category anyway?',
+            p.name,
+            p.total.toLocaleString('en-US'),
+            p.present,
+          ),
+          accept: text('Use as a category'),
+        },
+        new InputError(`stopped: \`${p.name}\` looks like a count column, not a category`, { column: p.name }, 'numeric-as-category'),
+      );
     }
   }
 }
@@ -49,18 +57,21 @@ export async function checkMeasurementColumns(view: Extract<View, { form: 'colum
     const p = view.columns.find((c) => c.name === columns[k])?.profile;
     if (!p?.rowNumber) continue;
     const { from, to } = p.rowNumber;
-    const go = await questions.confirm({
-      title: text('A column that numbers the rows'),
-      message: text(
-        '`{0}` holds {1} different whole numbers from {2} to {3} with no gap: it looks like a row or unit number, and its spread and distribution would describe the numbering. Test its values anyway?',
-        p.name,
-        p.present.toLocaleString('en-US'),
-        from.toLocaleString('en-US'),
-        to.toLocaleString('en-US'),
-      ),
-      accept: text('Test the values anyway'),
-    });
-    if (!go) throw new InputError(`stopped: \`${p.name}\` numbers the rows rather than measuring them`, { column: p.name }, 'row-number-as-measurement');
+    await confirmOrStop(
+      questions,
+      {
+        title: text('A column that numbers the rows'),
+        message: text(
+          '`{0}` holds {1} different whole numbers from {2} to {3} with no gap: it looks like a row or unit number, and its spread and distribution would describe the numbering. Test its values anyway?',
+          p.name,
+          p.present.toLocaleString('en-US'),
+          from.toLocaleString('en-US'),
+          to.toLocaleString('en-US'),
+        ),
+        accept: text('Test the values anyway'),
+      },
+      new InputError(`stopped: \`${p.name}\` numbers the rows rather than measuring them`, { column: p.name }, 'row-number-as-measurement'),
+    );
   }
 }
 
