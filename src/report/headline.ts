@@ -7,6 +7,7 @@
  */
 import type { Assumption, Estimate, Notice, TestResult } from '../stats/result';
 import { DEFAULT_FORMAT, formatEstimate, formatEstimateInterval, formatPercent, type FormatOptions } from './format';
+import { english, type Translate } from './words/translate';
 
 /** How the reported p-value was computed. */
 export type PMethod = 'asymptotic' | 'exact' | 'monte-carlo' | 'mid-p';
@@ -88,9 +89,12 @@ export interface Headline {
   readonly assumption?: string;
 }
 
-function estimateSentence(e: Estimate, f: FormatOptions): string {
-  const interval = e.interval ? `, ${formatPercent(e.interval.level)} ${isBound(e.interval.lower, e.interval.upper) ? 'bound' : 'CI'} ${formatEstimateInterval(e.interval.lower, e.interval.upper, f)}` : '';
-  return `${e.name} = ${formatEstimate(e.value, f)}${interval}`;
+function estimateSentence(e: Estimate, f: FormatOptions, t: Translate = english): string {
+  const value = formatEstimate(e.value, f);
+  if (!e.interval) return t('{0} = {1}', e.name, value);
+  const level = formatPercent(e.interval.level);
+  const interval = formatEstimateInterval(e.interval.lower, e.interval.upper, f);
+  return isBound(e.interval.lower, e.interval.upper) ? t('{0} = {1}, {2} bound {3}', e.name, value, level, interval) : t('{0} = {1}, {2} CI {3}', e.name, value, level, interval);
 }
 
 function isBound(lower: number, upper: number): boolean {
@@ -104,40 +108,41 @@ function distinguishingDecimals(a: number, b: number, from: number): number {
 }
 
 /** The variance test's failed normality, read against Bonett's robust interval for σ. */
-function varianceNormalitySentence(result: TestResult, f: FormatOptions): string | undefined {
+function varianceNormalitySentence(result: TestResult, f: FormatOptions, t: Translate): string | undefined {
   const robust = result.estimates.find((e) => e.id === 'sdBonett')?.interval;
   const variance0 = Number(result.details?.variance0);
   if (!robust || !(variance0 > 0)) return undefined;
   const sigma0 = Math.sqrt(variance0);
   const near = Number.isFinite(robust.lower) && Math.abs(robust.lower - sigma0) < Math.abs(robust.upper - sigma0) ? robust.lower : robust.upper;
   const decimals = Number.isFinite(near) ? distinguishingDecimals(near, sigma0, f.decimals) : f.decimals;
-  const shown = `${formatPercent(robust.level)} ${isBound(robust.lower, robust.upper) ? 'bound' : 'interval'} ${formatEstimateInterval(robust.lower, robust.upper, { decimals })}`;
-  const s0 = `σ0 = ${formatEstimate(sigma0, { decimals })}`;
+  const level = formatPercent(robust.level);
+  const bounds = formatEstimateInterval(robust.lower, robust.upper, { decimals });
+  const shown = isBound(robust.lower, robust.upper) ? t('{0} bound {1}', level, bounds) : t('{0} interval {1}', level, bounds);
+  const s0 = formatEstimate(sigma0, { decimals });
   const inside = robust.lower <= sigma0 && sigma0 <= robust.upper;
-  const lead = "Normality is doubtful here, and this test depends on it; Bonett's robust";
   if (result.significant) {
-    if (inside) return `${lead} ${shown} for σ includes ${s0}, so the evidence is weaker than the p-value suggests and the conclusion rests on normality.`;
+    if (inside) return t("Normality is doubtful here, and this test depends on it; Bonett's robust {0} for σ includes σ0 = {1}, so the evidence is weaker than the p-value suggests and the conclusion rests on normality.", shown, s0);
     const margin = Math.abs(near - sigma0) / sigma0;
-    if (margin < 0.02) return `${lead} ${shown} for σ only just excludes ${s0}, so the evidence is weaker than the p-value suggests.`;
-    return `${lead} ${shown} for σ also excludes ${s0}, so the conclusion does not rest on normality.`;
+    if (margin < 0.02) return t("Normality is doubtful here, and this test depends on it; Bonett's robust {0} for σ only just excludes σ0 = {1}, so the evidence is weaker than the p-value suggests.", shown, s0);
+    return t("Normality is doubtful here, and this test depends on it; Bonett's robust {0} for σ also excludes σ0 = {1}, so the conclusion does not rest on normality.", shown, s0);
   }
-  if (!inside) return `${lead} ${shown} for σ excludes ${s0}: the test may have missed a real difference.`;
-  return `${lead} ${shown} for σ also includes ${s0}, so the robust reading agrees.`;
+  if (!inside) return t("Normality is doubtful here, and this test depends on it; Bonett's robust {0} for σ excludes σ0 = {1}: the test may have missed a real difference.", shown, s0);
+  return t("Normality is doubtful here, and this test depends on it; Bonett's robust {0} for σ also includes σ0 = {1}, so the robust reading agrees.", shown, s0);
 }
 
-function assumptionSentence(result: TestResult, f: FormatOptions): string | undefined {
+function assumptionSentence(result: TestResult, f: FormatOptions, t: Translate): string | undefined {
   const failed = result.assumptions.filter((a) => a.status === 'failed');
   if (failed.length === 0) return undefined;
   const method = reportedPMethod(result);
   const sentences = failed.map((a) => {
     if (a.id === 'normality' && result.test === 'variance') {
-      const robust = varianceNormalitySentence(result, f);
+      const robust = varianceNormalitySentence(result, f, t);
       if (robust) return robust;
     }
     if (ADDRESSED_BY_EXACT.has(a.id) && method !== 'asymptotic') {
-      return `Not met: ${lowerFirst(a.title)}; the ${pValueName(method)} reported here does not rely on it.`;
+      return t('Not met: {0}; the {1} reported here does not rely on it.', lowerFirst(a.title), pValueName(method));
     }
-    return `Not met: ${lowerFirst(a.title)}${a.alternative ? `; use ${a.alternative} instead` : ''}.`;
+    return a.alternative ? t('Not met: {0}; use {1} instead.', lowerFirst(a.title), a.alternative) : t('Not met: {0}.', lowerFirst(a.title));
   });
   return sentences.join(' ');
 }
@@ -147,12 +152,12 @@ function lowerFirst(text: string): string {
 }
 
 /** The conclusion block: answer, effect size, failed assumption with its alternative. */
-export function testHeadline(result: TestResult, format: FormatOptions = DEFAULT_FORMAT): Headline {
+export function testHeadline(result: TestResult, format: FormatOptions = DEFAULT_FORMAT, t: Translate = english): Headline {
   const key = result.effectSizes[0];
-  const assumption = assumptionSentence(result, format);
+  const assumption = assumptionSentence(result, format, t);
   return {
     answer: namesAsQuoted(result.conclusion),
-    ...(key && Number.isFinite(key.value) ? { effect: `Size of the effect: ${estimateSentence(key, format)}.` } : {}),
+    ...(key && Number.isFinite(key.value) ? { effect: t('Size of the effect: {0}.', estimateSentence(key, format, t)) } : {}),
     ...(assumption ? { assumption } : {}),
   };
 }

@@ -231,7 +231,7 @@ function payloadFor(result: Result, options: PayloadOptions, t: Translate): Pane
   };
   if (result.kind === 'test') {
     const presented = presentedTest(result);
-    const headline = testHeadline(presented, f);
+    const headline = testHeadline(presented, f, t);
     const key = keyEstimate(presented);
     return {
       ...common,

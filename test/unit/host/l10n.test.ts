@@ -24,8 +24,11 @@ function tsFiles(dir: string): string[] {
 const parse = (file: string) => ts.createSourceFile(file, readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true);
 const sources = tsFiles(join(root, 'src', 'host')).map(parse);
 const plannerSources = tsFiles(join(root, 'src', 'planner')).map(parse);
-/** The report layer's wording: each function takes the translator as `t` (src/report/words/translate.ts). */
-const wordings = tsFiles(join(root, 'src', 'report', 'words')).map(parse);
+/**
+ * The report layer's wording: each function takes the translator as `t` (src/report/words/translate.ts), and so do
+ * the panel's captions and the headline the panel shows.
+ */
+const wordings = [...tsFiles(join(root, 'src', 'report', 'words')), join(root, 'src', 'report', 'panel.ts'), join(root, 'src', 'report', 'headline.ts')].map(parse);
 
 /** The one translation call whose message is not a literal: the wizard's rendering of the planner's templates. */
 function isPlannerRendering(node: ts.CallExpression): boolean {

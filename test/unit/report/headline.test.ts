@@ -3,6 +3,7 @@
 // apply to a result left out. Checked on the demo specs a reader meets first.
 import { strict as assert } from 'node:assert';
 import { testHeadline, presentedTest, namesAsQuoted } from '../../../src/report/headline';
+import { english } from '../../../src/report/words/translate';
 import { codeSpan, resultMarkdown, markdownWithNames } from '../../../src/report/markdown';
 import { buildPanelPayload, type PayloadOptions } from '../../../src/report/panel';
 import { resultText } from '../../../src/report/text';
@@ -12,6 +13,20 @@ import { demoResult } from './demoResults';
 const options: PayloadOptions = { id: 'r1', title: 't', sourceDescription: '', decimals: 2, canSave: true, canRerun: true, computedAt: '2026-12-01T00:00:00.000Z' };
 
 describe('headline', () => {
+  it('every sentence the headline writes goes through the translator, and the English is unchanged', async () => {
+    const marked = (message: string, ...args: (string | number | boolean)[]) => `⟦${english(message, ...args)}⟧`;
+    for (const file of ['bottling-fill-spread.countercheck.json', 'seed-coating-trial.countercheck.json', 'bakery-defect-mix.countercheck.json']) {
+      const test = (await demoResult(file)).result as TestResult;
+      const plain = testHeadline(test);
+      const translated = testHeadline(test, undefined, marked);
+      for (const part of ['effect', 'assumption'] as const) {
+        if (plain[part] === undefined) continue;
+        assert.match(translated[part] ?? '', /^⟦.*⟧$/, `${file}: ${part}`);
+        assert.equal((translated[part] ?? '').replace(/[⟦⟧]/g, ''), plain[part], `${file}: ${part}`);
+      }
+    }
+  });
+
   it('bottling spread: a significant variance test with normality not met says the robust bound is near σ0, in the headline', async () => {
     const { result } = await demoResult('bottling-fill-spread.countercheck.json');
     const test = result as TestResult;
